@@ -1,0 +1,27 @@
+import { useEffect, useState } from 'react';
+
+type Theme = 'light' | 'dark';
+
+/** Switches between light and dark, remembered in this browser. */
+export default function ThemeSwitch() {
+  const [theme, setTheme] = useState<Theme>('light');
+  useEffect(() => {
+    const set = document.documentElement.dataset.theme;
+    setTheme(set === 'dark' || (!set && matchMedia('(prefers-color-scheme: dark)').matches) ? 'dark' : 'light');
+  }, []);
+  const next: Theme = theme === 'dark' ? 'light' : 'dark';
+  return (
+    <button
+      type="button"
+      onClick={() => {
+        document.documentElement.dataset.theme = next;
+        document.cookie = `edgewise-theme=${next}; path=/; max-age=31536000; samesite=lax`;
+        setTheme(next);
+      }}
+      className="rounded border border-rule dark:border-night-rule px-2 py-1 text-sm hover:bg-paper dark:hover:bg-night"
+      aria-label={`Use ${next} theme`}
+    >
+      {theme === 'dark' ? 'Light' : 'Dark'}
+    </button>
+  );
+}

@@ -1,0 +1,28 @@
+import { defineConfig } from 'vitest/config';
+
+// Two projects: `unit` needs nothing running; `integration` (and the browser tests) get a real
+// PostgreSQL database, S3 fake, SMTP fake and a built server from tests/global-setup.ts.
+export default defineConfig({
+  test: {
+    projects: [
+      {
+        test: {
+          name: 'unit',
+          include: ['tests/unit/**/*.test.ts'],
+          environment: 'node',
+        },
+      },
+      {
+        test: {
+          name: 'integration',
+          include: ['tests/integration/**/*.test.ts', 'tests/e2e/**/*.test.ts'],
+          environment: 'node',
+          globalSetup: ['tests/global-setup.ts'],
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+          fileParallelism: false,
+        },
+      },
+    ],
+  },
+});
