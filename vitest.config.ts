@@ -18,9 +18,12 @@ export default defineConfig({
           include: ['tests/integration/**/*.test.ts', 'tests/e2e/**/*.test.ts'],
           environment: 'node',
           globalSetup: ['tests/global-setup.ts'],
+          setupFiles: ['tests/setup-env.ts'],
           testTimeout: 60_000,
           hookTimeout: 120_000,
-          fileParallelism: false,
+          // One server and database for all files: run the files one after another.
+          pool: 'forks',
+          poolOptions: { forks: { singleFork: true } },
         },
       },
     ],

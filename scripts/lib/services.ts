@@ -1,6 +1,7 @@
 // Local services shared by `npm start` and the test setup: the PostgreSQL cluster and a
 // database, the S3 fake, the SMTP fake, and a built server of the app.
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { appendFileSync } from 'node:fs';
 import path from 'node:path';
 import { startS3Fake, type S3Fake } from '../../docker-free-s3-fake/s3-fake.ts';
 import { createDb } from '../../src/lib/server/db/index.ts';
@@ -60,7 +61,7 @@ export function buildApp(outDir: string, quiet = false): void {
   const started = Date.now();
   const r = spawnSync(path.join(projectRoot, 'node_modules', '.bin', 'astro'), ['build'], {
     cwd: projectRoot,
-    env: { ...process.env, EDGEWISE_OUT_DIR: outDir, ASTRO_TELEMETRY_DISABLED: '1' },
+    env: { ...process.env, NODE_ENV: 'production', EDGEWISE_OUT_DIR: outDir, ASTRO_TELEMETRY_DISABLED: '1' },
     stdio: quiet ? 'pipe' : 'inherit',
     encoding: 'utf8',
   });
@@ -70,14 +71,19 @@ export function buildApp(outDir: string, quiet = false): void {
 
 /** Starts the built server and resolves once /api/health answers 200. */
 export async function startApp(outDir: string, env: Record<string, string>, port: number, quiet = false): Promise<ChildProcess> {
-  const child = spawn(process.execPath, [path.join(outDir, 'server', 'entry.mjs')], {
+  const child = spawn(process.execPath, ['--import', 'tsx', path.join(projectRoot, 'scripts', 'app-server.ts'), outDir], {
     cwd: projectRoot,
     env: { ...process.env, ...env, HOST: '127.0.0.1', PORT: String(port), NODE_ENV: 'production', ASTRO_TELEMETRY_DISABLED: '1', AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' },
     stdio: quiet ? ['ignore', 'pipe', 'pipe'] : ['ignore', 'inherit', 'inherit'],
   });
   let output = '';
-  child.stdout?.on('data', (d) => (output += d));
-  child.stderr?.on('data', (d) => (output += d));
+  const logFile = path.join(outDir, '..', 'server.log');
+  const keep = (d: Buffer) => {
+    output = (output + d).slice(-20_000);
+    appendFileSync(logFile, d);
+  };
+  child.stdout?.on('data', keep);
+  child.stderr?.on('data', keep);
   const deadline = Date.now() + 30_000;
   let last = '';
   while (Date.now() < deadline) {

@@ -57,6 +57,22 @@ export interface AuditEventTable {
   details: ColumnType<Record<string, unknown>, string | undefined, never>;
 }
 
+export interface LabTable {
+  id: Generated<string>;
+  slug: string;
+  name: string;
+  created_at: Generated<Date>;
+}
+
+export type LabRole = 'member' | 'manager';
+
+export interface LabMembershipTable {
+  lab_id: string;
+  user_id: string;
+  role: Generated<LabRole>;
+  created_at: Generated<Date>;
+}
+
 export interface AppendOnlyTablesTable {
   table_name: string;
 }
@@ -68,6 +84,8 @@ export interface Database {
   VerificationToken: VerificationTokenTable;
   audit_events: AuditEventTable;
   append_only_tables: AppendOnlyTablesTable;
+  labs: LabTable;
+  lab_memberships: LabMembershipTable;
 }
 
 export type UserRow = Selectable<UserTable>;
@@ -75,3 +93,5 @@ export type NewUser = Insertable<UserTable>;
 export type UserUpdate = Updateable<UserTable>;
 export type AuditEventRow = Selectable<AuditEventTable>;
 export type NewAuditEvent = Insertable<AuditEventTable>;
+export type LabRow = Selectable<LabTable>;
+export type LabMembershipRow = Selectable<LabMembershipTable>;

@@ -1,0 +1,35 @@
+// `npm test`: install what is missing (npm packages, PostgreSQL, Chromium), then run every
+// test once and close with one summary line.
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
+import path from 'node:path';
+import { BROWSER_PACKAGES, SERVER_PACKAGES, ensureDebianPackages, ensureNodeModules, root } from './lib/bootstrap.mjs';
+
+const started = Date.now();
+ensureDebianPackages([...SERVER_PACKAGES, ...BROWSER_PACKAGES]);
+ensureNodeModules();
+
+const results = path.join(root, '.data', `test-results-${process.pid}.json`);
+mkdirSync(path.dirname(results), { recursive: true });
+const r = spawnSync(
+  path.join(root, 'node_modules', '.bin', 'vitest'),
+  ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${results}`, ...process.argv.slice(2)],
+  {
+    cwd: root,
+    stdio: 'inherit',
+    env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1', AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' },
+  },
+);
+
+let code = r.status ?? 1;
+if (existsSync(results)) {
+  const summary = JSON.parse(readFileSync(results, 'utf8'));
+  rmSync(results, { force: true });
+  const passed = summary.numPassedTests ?? 0;
+  const failed = summary.numFailedTests ?? 0;
+  const skipped = (summary.numPendingTests ?? 0) + (summary.numTodoTests ?? 0);
+  if (passed + failed === 0) code = code || 1; // a run that tested nothing is not a pass
+  console.log(`\nTime: ${((Date.now() - started) / 1000).toFixed(1)} s`);
+  console.log(`tests: ${passed} passed, ${failed} failed, ${skipped} skipped`);
+}
+process.exit(code);

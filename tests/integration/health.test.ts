@@ -1,0 +1,56 @@
+import { describe, expect, it } from 'vitest';
+import { api } from '../helpers.ts';
+
+const SECURITY_HEADERS = ['content-security-policy', 'x-content-type-options', 'referrer-policy', 'x-frame-options'];
+
+function expectSecurityHeaders(res: Response) {
+  for (const h of SECURITY_HEADERS) expect(res.headers.get(h), h).toBeTruthy();
+  expect(res.headers.get('content-security-policy')).toContain("frame-ancestors 'none'");
+  expect(res.headers.get('x-content-type-options')).toBe('nosniff');
+}
+
+describe('GET /api/health', () => {
+  it('reports database, storage and mail up with 200', async () => {
+    const res = await api('/api/health');
+    expect(res.status).toBe(200);
+    expect(await res.json()).toEqual({ status: 'up', parts: { database: 'up', storage: 'up', mail: 'up' } });
+    expectSecurityHeaders(res);
+  });
+});
+
+describe('every kind of response carries the security headers', () => {
+  it('a page', async () => {
+    const res = await api('/');
+    expect(res.status).toBe(200);
+    expectSecurityHeaders(res);
+    // Astro's hashes narrow scripts; nothing inline runs unhashed.
+    expect(res.headers.get('content-security-policy')).toMatch(/script-src 'self' 'sha256-/);
+    expect(res.headers.get('content-security-policy')).not.toContain('unsafe-inline');
+  });
+
+  it('a missing page', async () => {
+    const res = await api('/no-such-page');
+    expect(res.status).toBe(404);
+    expectSecurityHeaders(res);
+  });
+
+  it('a static asset', async () => {
+    const res = await api('/favicon.svg');
+    expect(res.status).toBe(200);
+    expectSecurityHeaders(res);
+  });
+
+  it('a refusal', async () => {
+    const res = await api('/api/health', { method: 'POST', headers: { origin: 'http://evil.test' } });
+    expect(res.status).toBe(403);
+    expect(res.headers.get('content-type')).toMatch(/application\/problem\+json/);
+    expect((await res.json()).detail).toBe('cross-origin request from http://evil.test refused');
+    expectSecurityHeaders(res);
+  });
+});
+
+describe('the development mail page', () => {
+  it('is absent outside development', async () => {
+    expect((await api('/dev/mail')).status).toBe(404);
+  });
+});
