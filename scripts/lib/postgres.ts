@@ -2,13 +2,13 @@
 // listening on 127.0.0.1 only, run as the `postgres` system user (the server refuses root).
 import { execFileSync, spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { existsSync, mkdirSync, writeFileSync, readdirSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, writeFileSync, readdirSync } from 'node:fs';
 import path from 'node:path';
 import pg from 'pg';
 import { projectRoot, dataDir } from './paths.ts';
 import { localSecret } from './secrets.ts';
 
-export const PG_PORT = Number(process.env.EDGEWISE_PG_PORT ?? 55432);
+const DEFAULT_PG_PORT = 55432;
 const APP_ROLE = 'edgewise_app';
 
 function pgBinDir(): string {
@@ -63,6 +63,34 @@ function isRunning(dir: string): boolean {
   return pgRun('pg_ctl', ['status', '-D', dir], { allowFail: true }).status === 0;
 }
 
+/** True when something accepts connections on 127.0.0.1:port. */
+function portTaken(port: number): boolean {
+  const probe = `require('net').connect(${port},'127.0.0.1').on('connect',()=>process.exit(0)).on('error',()=>process.exit(1))`;
+  return spawnSync(process.execPath, ['-e', probe]).status === 0;
+}
+
+/**
+ * The cluster's port: EDGEWISE_PG_PORT, else the one this checkout used before, else 55432 or
+ * the next free one (another checkout's cluster may hold 55432). Remembered in .data/pg-port.
+ */
+function clusterPort(dir: string, running: boolean): number {
+  if (running) {
+    // A running server says its port on line 4 of postmaster.pid (readable by root only here).
+    const pid = spawnSync(asRoot ? 'runuser' : 'cat', asRoot ? ['-u', 'postgres', '--', 'cat', path.join(dir, 'postmaster.pid')] : [path.join(dir, 'postmaster.pid')], { encoding: 'utf8' });
+    const port = Number(pid.stdout.split('\n')[3]);
+    if (Number.isInteger(port) && port > 0) return port;
+  }
+  if (process.env.EDGEWISE_PG_PORT) return Number(process.env.EDGEWISE_PG_PORT);
+  const file = path.join(dataDir, 'pg-port');
+  const remembered = existsSync(file) ? Number(readFileSync(file, 'utf8').trim()) : NaN;
+  if (Number.isInteger(remembered) && (running || !portTaken(remembered))) return remembered;
+  let port = DEFAULT_PG_PORT;
+  while (portTaken(port)) port++;
+  mkdirSync(dataDir, { recursive: true });
+  writeFileSync(file, String(port));
+  return port;
+}
+
 /** Creates the cluster on first use and starts it unless it is already running. */
 export function ensureCluster(log: (m: string) => void = () => {}): ClusterInfo {
   const dir = clusterDir();
@@ -80,7 +108,9 @@ export function ensureCluster(log: (m: string) => void = () => {}): ClusterInfo 
       spawnSync('rm', ['-f', pwfile]);
     }
   }
-  if (!isRunning(dir)) {
+  const running = isRunning(dir);
+  const PG_PORT = clusterPort(dir, running);
+  if (!running) {
     log(`starting PostgreSQL on 127.0.0.1:${PG_PORT}`);
     const opts = `-c listen_addresses=127.0.0.1 -p ${PG_PORT} -c unix_socket_directories=${dir} -c max_connections=200 -c fsync=on`;
     pgRun('pg_ctl', ['start', '-w', '-t', '60', '-D', dir, '-l', path.join(dir, 'server.log'), '-o', opts]);
