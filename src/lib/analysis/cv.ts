@@ -1,0 +1,166 @@
+import { AnalysisError } from './errors';
+import type { Segment } from './segment';
+
+/** Direction in which the window is opened: toward positive (anodic) or negative (cathodic) potentials. */
+export type Direction = 'anodic' | 'cathodic';
+
+/** Anodic and cathodic charge (C) of one stretch of samples. */
+export interface ChargePair {
+  qPosC: number;
+  qNegC: number;
+}
+
+/**
+ * Q⁺ = ∫max(I,0)dt and Q⁻ = ∫max(−I,0)dt (C) over samples start…end by trapezoids, each split
+ * exactly where the straight line between two samples crosses zero. dt comes from `time` (s), or
+ * from |ΔE|/`scanRateVPerS` when time is null.
+ */
+export function chargeSplit(
+  time: Float64Array | null,
+  potential: Float64Array,
+  current: Float64Array,
+  start = 0,
+  end = current.length - 1,
+  scanRateVPerS?: number,
+): ChargePair {
+  if (!time && !(scanRateVPerS !== undefined && scanRateVPerS > 0)) {
+    throw new AnalysisError('bad-option', 'without a time column the scan rate is needed (e.g. 5mV/s)');
+  }
+  let qPos = 0;
+  let qNeg = 0;
+  const inv = time ? 0 : 1 / scanRateVPerS!;
+  for (let k = start; k < end; k++) {
+    const dt = time ? time[k + 1]! - time[k]! : Math.abs(potential[k + 1]! - potential[k]!) * inv;
+    const a = current[k]!;
+    const b = current[k + 1]!;
+    if (a >= 0 && b >= 0) {
+      qPos += 0.5 * (a + b) * dt;
+    } else if (a <= 0 && b <= 0) {
+      qNeg -= 0.5 * (a + b) * dt;
+    } else {
+      // Zero crossing at fraction f = a/(a−b) of the interval: two triangles.
+      const f = a / (a - b);
+      if (a > 0) {
+        qPos += 0.5 * a * f * dt;
+        qNeg -= 0.5 * b * (1 - f) * dt;
+      } else {
+        qNeg -= 0.5 * a * f * dt;
+        qPos += 0.5 * b * (1 - f) * dt;
+      }
+    }
+  }
+  return { qPosC: qPos, qNegC: qNeg };
+}
+
+/** S-value (dimensionless): Q⁺/Q⁻ − 1 anodic, Q⁻/Q⁺ − 1 cathodic; Infinity when the denominator is 0. */
+export function sValue(q: ChargePair, direction: Direction): number {
+  const [num, den] = direction === 'anodic' ? [q.qPosC, q.qNegC] : [q.qNegC, q.qPosC];
+  if (den === 0) return num === 0 ? NaN : Infinity;
+  return num / den - 1;
+}
+
+/** Coulombic efficiency (fraction) from an S-value: CE = 1/(1 + S). */
+export function ceFromS(s: number): number {
+  return 1 / (1 + s);
+}
+
+/** S-value equivalent to a coulombic efficiency (fraction): S = 1/CE − 1. */
+export function sFromCe(ce: number): number {
+  return 1 / ce - 1;
+}
+
+/** One cycle's numbers. */
+export interface CycleCharge extends ChargePair {
+  /** 1-based position of the cycle in the file. */
+  index: number;
+  segment: Segment;
+  /** Outermost potential of the cycle in the analysed direction (V). */
+  vertexV: number;
+  sValue: number;
+  ce: number;
+}
+
+/** Highest and lowest potential (V) of a segment. */
+export function extremes(potential: Float64Array, seg: Segment): { maxV: number; minV: number } {
+  let maxV = -Infinity;
+  let minV = Infinity;
+  for (let i = seg.start; i <= seg.end; i++) {
+    const e = potential[i]!;
+    if (e > maxV) maxV = e;
+    if (e < minV) minV = e;
+  }
+  return { maxV, minV };
+}
+
+/**
+ * Direction of window opening from the vertices: the side whose per-cycle extremes spread more
+ * (V) is the one being opened. Null when both spread alike (one cycle, or all vertices equal).
+ */
+export function directionFromVertices(ext: { maxV: number; minV: number }[], toleranceV = 0.005): Direction | null {
+  if (ext.length < 2) return null;
+  let hiMax = -Infinity;
+  let hiMin = Infinity;
+  let loMax = -Infinity;
+  let loMin = Infinity;
+  for (const e of ext) {
+    hiMax = Math.max(hiMax, e.maxV);
+    hiMin = Math.min(hiMin, e.maxV);
+    loMax = Math.max(loMax, e.minV);
+    loMin = Math.min(loMin, e.minV);
+  }
+  const up = hiMax - hiMin;
+  const down = loMax - loMin;
+  if (Math.abs(up - down) <= toleranceV) return null;
+  return up > down ? 'anodic' : 'cathodic';
+}
+
+/** Per-cycle charges, vertex, S and CE for the given direction. */
+export function analyzeCycles(
+  time: Float64Array | null,
+  potential: Float64Array,
+  current: Float64Array,
+  segments: Segment[],
+  direction: Direction,
+  scanRateVPerS?: number,
+): CycleCharge[] {
+  return segments.map((seg, k) => {
+    const q = chargeSplit(time, potential, current, seg.start, seg.end, scanRateVPerS);
+    const ext = extremes(potential, seg);
+    const s = sValue(q, direction);
+    return {
+      index: k + 1,
+      segment: seg,
+      vertexV: direction === 'anodic' ? ext.maxV : ext.minV,
+      qPosC: q.qPosC,
+      qNegC: q.qNegC,
+      sValue: s,
+      ce: ceFromS(s),
+    };
+  });
+}
+
+/**
+ * One cycle per vertex, ordered outward: cycles whose vertices lie within `toleranceV` (V) of the
+ * group's first vertex share it, and the last of them (the electrode in its latest state) is used.
+ * Returns the chosen cycles and a note for each vertex that had several.
+ */
+export function lastCyclePerVertex(cycles: CycleCharge[], direction: Direction, toleranceV = 0.002): { chosen: CycleCharge[]; notes: string[] } {
+  const groups: { vertexV: number; members: CycleCharge[] }[] = [];
+  for (const c of cycles) {
+    const g = groups.find((x) => Math.abs(x.vertexV - c.vertexV) <= toleranceV);
+    if (g) g.members.push(c);
+    else groups.push({ vertexV: c.vertexV, members: [c] });
+  }
+  const sign = direction === 'anodic' ? 1 : -1;
+  groups.sort((a, b) => sign * (a.vertexV - b.vertexV));
+  const notes: string[] = [];
+  for (const g of groups) {
+    if (g.members.length > 1) {
+      const last = g.members[g.members.length - 1]!;
+      notes.push(
+        `vertex ${last.vertexV.toFixed(3)} V has ${g.members.length} cycles (${g.members.map((m) => m.index).join(', ')}); cycle ${last.index} is used`,
+      );
+    }
+  }
+  return { chosen: groups.map((g) => g.members[g.members.length - 1]!), notes };
+}

@@ -1,0 +1,617 @@
+import { AnalysisError } from './errors';
+import { describeUnit } from './units';
+
+/** Quantities a column can hold. */
+export type Quantity = 'time' | 'potential' | 'current' | 'cycle' | 'step';
+
+/** Explicit choice of a column: its header name or 0-based index, and optionally its unit (e.g. "mV"). */
+export interface ColumnChoice {
+  column: string | number;
+  unit?: string;
+}
+
+/** Explicit mapping; overrides recognition of header names for the quantities it names. */
+export type ColumnMap = Partial<Record<Quantity, ColumnChoice>>;
+
+/** Where a quantity was found and in which unit it is written. */
+export interface ColumnInfo {
+  quantity: Quantity;
+  /** 0-based field index. */
+  index: number;
+  /** Header text of the column, or "column N" when the file has no header. */
+  name: string;
+  /** Unit as written (empty for cycle and step, or when the header gives none). */
+  unit: string;
+}
+
+/** Separator and decimal mark of a file. */
+export interface Dialect {
+  separator: ',' | ';' | '\t' | 'whitespace';
+  decimal: '.' | ',';
+}
+
+/** The columns of a file that the engine needs, as written (units not yet applied). */
+export interface RawTable {
+  rows: number;
+  time: Float64Array | null;
+  potential: Float64Array;
+  current: Float64Array;
+  cycle: Float64Array | null;
+  step: Float64Array | null;
+  columns: ColumnInfo[];
+  dialect: Dialect;
+  /** 1-based line of the header, or null when the file has none. */
+  headerLine: number | null;
+  /** 1-based line of the first data row. */
+  firstDataLine: number;
+  warnings: string[];
+}
+
+export interface ReadOptions {
+  columns?: ColumnMap;
+}
+
+const LF = 10;
+const CR = 13;
+const TAB = 9;
+const SPACE = 32;
+
+/** Decode file bytes: UTF-8 when valid, else Windows-1252 (older exports write µ as one byte). */
+export function decodeText(bytes: Uint8Array): string {
+  try {
+    return new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+  } catch {
+    return new TextDecoder('windows-1252').decode(bytes);
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Number parsing over the string, without slicing cells. Results go through `numEnd`.
+
+const POW10 = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
+
+/** Position just after the last number read by `readNumber`. */
+let numEnd = 0;
+
+/**
+ * Read a decimal number starting at `i` (no leading blanks); NaN when there is none.
+ * Up to 15 significant digits and |exponent| ≤ 22 the result is exact by construction
+ * (integer mantissa and power of ten are both exact doubles, one correctly rounded operation);
+ * anything longer goes through Number() on a copy so every value is correctly rounded.
+ */
+function readNumber(s: string, i: number, decimal: number): number {
+  const start = i;
+  let c = s.charCodeAt(i);
+  let neg = false;
+  if (c === 45) {
+    neg = true;
+    c = s.charCodeAt(++i);
+  } else if (c === 43) {
+    c = s.charCodeAt(++i);
+  }
+  let mant = 0;
+  let sig = 0;
+  let digits = 0;
+  let scale = 0;
+  while (c >= 48 && c <= 57) {
+    if (sig > 0 || c !== 48) {
+      mant = mant * 10 + (c - 48);
+      sig++;
+    }
+    digits++;
+    c = s.charCodeAt(++i);
+  }
+  if (c === decimal) {
+    c = s.charCodeAt(++i);
+    while (c >= 48 && c <= 57) {
+      if (sig > 0 || c !== 48) {
+        mant = mant * 10 + (c - 48);
+        sig++;
+      }
+      scale--;
+      digits++;
+      c = s.charCodeAt(++i);
+    }
+  }
+  if (digits === 0) return NaN;
+  let exp = 0;
+  if (c === 101 || c === 69) {
+    c = s.charCodeAt(++i);
+    let eneg = false;
+    if (c === 45) {
+      eneg = true;
+      c = s.charCodeAt(++i);
+    } else if (c === 43) {
+      c = s.charCodeAt(++i);
+    }
+    let edigits = 0;
+    while (c >= 48 && c <= 57) {
+      if (exp < 100000) exp = exp * 10 + (c - 48);
+      edigits++;
+      c = s.charCodeAt(++i);
+    }
+    if (edigits === 0) return NaN;
+    if (eneg) exp = -exp;
+  }
+  numEnd = i;
+  const e10 = exp + scale;
+  let v: number;
+  if (sig <= 15 && e10 >= -22 && e10 <= 22) {
+    v = e10 < 0 ? mant / POW10[-e10]! : mant * POW10[e10]!;
+  } else {
+    let copy = s.slice(start, i);
+    if (decimal !== 46) copy = copy.replace(',', '.');
+    v = Math.abs(Number(copy));
+  }
+  return neg ? -v : v;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Lines
+
+interface LineRef {
+  start: number;
+  end: number; // exclusive, before CR/LF
+  no: number; // 1-based
+}
+
+/** Index just past the line ending that starts at `end` (CR, LF or CRLF). */
+function skipEol(s: string, end: number): number {
+  if (s.charCodeAt(end) === CR && s.charCodeAt(end + 1) === LF) return end + 2;
+  return end + 1;
+}
+
+function lineEnd(s: string, i: number): number {
+  const n = s.length;
+  while (i < n) {
+    const c = s.charCodeAt(i);
+    if (c === LF || c === CR) return i;
+    i++;
+  }
+  return n;
+}
+
+/** First lines of the file, for dialect and header detection. */
+function headLines(s: string, from: number, maxLines: number): LineRef[] {
+  const out: LineRef[] = [];
+  let i = from;
+  let no = 1;
+  while (i < s.length && out.length < maxLines) {
+    const e = lineEnd(s, i);
+    out.push({ start: i, end: e, no });
+    no++;
+    i = skipEol(s, e);
+  }
+  return out;
+}
+
+function isBlank(s: string, a: number, b: number): boolean {
+  for (let i = a; i < b; i++) {
+    const c = s.charCodeAt(i);
+    if (c !== SPACE && c !== TAB) return false;
+  }
+  return true;
+}
+
+/** Cells of one line (for header and detection only; data rows never go through this). */
+function splitCells(line: string, d: Dialect): string[] {
+  let cells: string[];
+  if (d.separator === 'whitespace') {
+    cells = line.trim().split(/[ \t]+/);
+  } else {
+    cells = line.split(d.separator).map((c) => c.trim());
+  }
+  while (cells.length > 0 && cells[cells.length - 1] === '') cells.pop();
+  return cells;
+}
+
+function isNumberCell(cell: string, decimal: number): boolean {
+  if (cell === '') return false;
+  const v = readNumber(cell, 0, decimal);
+  return !Number.isNaN(v) && numEnd === cell.length;
+}
+
+const DIALECTS: Dialect[] = [
+  { separator: '\t', decimal: '.' },
+  { separator: '\t', decimal: ',' },
+  { separator: ';', decimal: '.' },
+  { separator: ';', decimal: ',' },
+  { separator: ',', decimal: '.' },
+  { separator: 'whitespace', decimal: '.' },
+  { separator: 'whitespace', decimal: ',' },
+];
+
+/** Cell count and which cells are numbers (bit k for cell k, first 31 cells). */
+function shape(line: string, d: Dialect): { cells: number; numeric: number; mask: number } {
+  const cells = splitCells(line, d);
+  const dec = d.decimal === '.' ? 46 : 44;
+  let numeric = 0;
+  let mask = 0;
+  cells.forEach((c, k) => {
+    if (isNumberCell(c, dec)) {
+      numeric++;
+      if (k < 31) mask |= 1 << k;
+    }
+  });
+  return { cells: cells.length, numeric, mask };
+}
+
+interface Detected {
+  dialect: Dialect;
+  dataIndex: number; // index into head lines
+  fields: number;
+  allNumeric: boolean;
+  numeric: number;
+}
+
+/**
+ * The data start is the first line with at least two numbers whose next non-empty line has the
+ * same cells, numbers in the same places (or that is the last line, or that sits under a line of
+ * as many names). Among dialects, one where
+ * every cell is a number wins, then the one reading most numbers, then the earliest start,
+ * then the order above. A bad row further down is then reported by the row reader, not here.
+ */
+function detect(s: string, lines: LineRef[]): Detected | null {
+  let best: Detected | null = null;
+  for (const d of DIALECTS) {
+    const shapes = lines.map((l, idx) => ({ idx, ...shape(s.slice(l.start, l.end), d) })).filter((x) => x.cells > 0);
+    for (let k = 0; k < shapes.length; k++) {
+      const here = shapes[k]!;
+      if (here.numeric < 2) continue;
+      const next = shapes[k + 1];
+      const prev = shapes[k - 1];
+      // Confirmed by a like next line, or by a header of names just above (so a bad second row is
+      // reported as such rather than hiding the data).
+      const likeNext = !next || (next.cells === here.cells && next.mask === here.mask);
+      const namesAbove = prev !== undefined && prev.cells === here.cells && prev.numeric === 0;
+      if (!likeNext && !namesAbove) continue;
+      const cand: Detected = { dialect: d, dataIndex: here.idx, fields: here.cells, allNumeric: here.numeric === here.cells, numeric: here.numeric };
+      if (
+        !best ||
+        (cand.allNumeric && !best.allNumeric) ||
+        (cand.allNumeric === best.allNumeric && (cand.numeric > best.numeric || (cand.numeric === best.numeric && cand.dataIndex < best.dataIndex)))
+      ) {
+        best = cand;
+      }
+      break;
+    }
+  }
+  return best;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Header names
+
+/** Split a header cell into a name and a unit: "E/V", "t (min)", "I [mA]", "<I>/uA". */
+export function splitHeaderName(cell: string): { label: string; unit: string } {
+  // A reference named in the header ("E/V vs. SCE") is not part of the unit.
+  const text = cell
+    .trim()
+    .replace(/^["']|["']$/g, '')
+    .replace(/\s+vs\.?\s+[^)\]]*/i, '')
+    .trim();
+  const bracket = /^(.*?)\s*[([]\s*([^()[\]]*?)\s*[)\]]\s*$/.exec(text);
+  if (bracket && bracket[1] !== '') return { label: bracket[1]!.trim(), unit: bracket[2]! };
+  const slash = text.lastIndexOf('/');
+  if (slash > 0) {
+    // "I/mA/cm2" is rare; take the part after the first slash when the whole tail is a unit.
+    const first = text.indexOf('/');
+    const tail = text.slice(first + 1).trim();
+    if (first !== slash && describeUnit(tail)) return { label: text.slice(0, first).trim(), unit: tail };
+    return { label: text.slice(0, slash).trim(), unit: text.slice(slash + 1).trim() };
+  }
+  return { label: text, unit: '' };
+}
+
+const NAME_WORDS: Record<Quantity, (label: string) => number> = {
+  // 2 = a usual name for the quantity, 1 = a name that merely mentions it.
+  time: (l) => (['t', 'time', 'elapsed time', 'test time', 'total time', 'time elapsed'].includes(l) ? 2 : l.includes('time') ? 1 : 0),
+  potential: (l) =>
+    ['e', 'ewe', 'e we', 'e_we', 'we', 'potential', 'voltage', 'u', 'v', 'ecell', 'ucell', 'cell voltage', 'working electrode potential'].includes(l)
+      ? 2
+      : l.includes('potential') || l.includes('voltage')
+        ? 1
+        : 0,
+  current: (l) =>
+    ['i', '<i>', 'im', 'iwe', 'current', 'i_we', 'working electrode current'].includes(l) ? 2 : l.includes('current') ? 1 : 0,
+  cycle: (l) => (['cycle', 'cycle number', 'cycle no', 'cycle no.', 'cycle index', 'cycles'].includes(l) ? 2 : l.includes('cycle') ? 1 : 0),
+  step: (l) => (['step', 'step number', 'step no', 'step no.', 'step index'].includes(l) ? 2 : /^step\b/.test(l) && !l.includes('time') ? 1 : 0),
+};
+
+const UNIT_DIM: Partial<Record<Quantity, 'time' | 'potential' | 'current'>> = {
+  time: 'time',
+  potential: 'potential',
+  current: 'current',
+};
+
+function scoreColumn(q: Quantity, label: string, unit: string): number {
+  const l = label.toLowerCase().replace(/\s+/g, ' ').trim();
+  const name = NAME_WORDS[q](l);
+  const dim = UNIT_DIM[q];
+  if (dim) {
+    const u = unit === '' ? null : describeUnit(unit);
+    if (unit !== '' && (!u || u.dim !== dim)) return 0; // a unit of another kind rules the column out
+    if (u && u.dim === dim) return 2 + name; // unit agrees
+    return name > 0 ? name - 0.5 : 0; // name only, no unit
+  }
+  if (unit !== '') return 0;
+  return name;
+}
+
+const ORDER: Quantity[] = ['cycle', 'step', 'time', 'potential', 'current'];
+
+function resolveColumns(names: string[] | null, fields: number, map: ColumnMap, headerLine: number | null, warnings: string[]): ColumnInfo[] {
+  const used = new Set<number>();
+  const out: ColumnInfo[] = [];
+  const parsed = names ? names.map(splitHeaderName) : null;
+  const display = (i: number) => (names ? names[i]! : `column ${i + 1}`);
+
+  for (const q of ORDER) {
+    const choice = map[q];
+    if (!choice) continue;
+    let index: number;
+    if (typeof choice.column === 'number') {
+      index = choice.column;
+      if (!Number.isInteger(index) || index < 0 || index >= fields) {
+        throw new AnalysisError('missing-column', `mapping for ${q}: column index ${choice.column} is outside 0…${fields - 1}`);
+      }
+    } else {
+      const want = choice.column.trim();
+      index = names ? names.findIndex((n) => n.trim() === want) : -1;
+      if (index < 0 && names) index = names.findIndex((n) => n.trim().toLowerCase() === want.toLowerCase());
+      if (index < 0) {
+        const avail = names ? names.map((n) => `"${n}"`).join(', ') : 'none (the file has no header)';
+        throw new AnalysisError('missing-column', `mapping for ${q}: no column named "${want}"; columns are ${avail}`);
+      }
+    }
+    const unit = choice.unit ?? (parsed ? parsed[index]!.unit : '');
+    used.add(index);
+    out.push({ quantity: q, index, name: display(index), unit });
+  }
+
+  if (parsed) {
+    for (const q of ORDER) {
+      if (map[q]) continue;
+      let best = -1;
+      let bestScore = 0;
+      for (let i = 0; i < parsed.length; i++) {
+        if (used.has(i)) continue;
+        const sc = scoreColumn(q, parsed[i]!.label, parsed[i]!.unit);
+        if (sc > bestScore) {
+          bestScore = sc;
+          best = i;
+        }
+      }
+      if (best >= 0 && (bestScore >= 1 || q === 'time' || q === 'potential' || q === 'current')) {
+        used.add(best);
+        const unit = parsed[best]!.unit;
+        out.push({ quantity: q, index: best, name: display(best), unit });
+        if (unit === '' && UNIT_DIM[q]) {
+          warnings.push(`column "${display(best)}" has no unit; taken as ${q === 'time' ? 's' : q === 'potential' ? 'V' : 'A'}`);
+        }
+      }
+    }
+  }
+
+  for (const q of ['potential', 'current'] as const) {
+    if (!out.some((c) => c.quantity === q)) {
+      if (!names) {
+        throw new AnalysisError('no-header', `no header line names the columns; map them explicitly (at least which columns hold potential and current, with units)`);
+      }
+      throw new AnalysisError(
+        'missing-column',
+        `no ${q} column found among ${names.map((n) => `"${n}"`).join(', ')}; name it (e.g. ${q === 'potential' ? '"E/V"' : '"I/mA"'}) or give a column mapping`,
+        headerLine === null ? {} : { line: headerLine },
+      );
+    }
+  }
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// The reader
+
+/** Read a delimited text export into typed arrays of the needed columns (units as written). */
+export function readTable(text: string, options: ReadOptions = {}): RawTable {
+  if (typeof text !== 'string') throw new AnalysisError('bad-option', 'the file content must be text');
+  let from = 0;
+  if (text.charCodeAt(0) === 0xfeff) from = 1;
+  if (onlyWhitespace(text, from)) throw new AnalysisError('empty-input', 'the file is empty');
+  const warnings: string[] = [];
+  const lines = headLines(text, from, 300);
+  const found = detect(text, lines);
+  if (!found) {
+    throw new AnalysisError(
+      'no-data',
+      `no numeric data found in the first ${lines.length} lines (expected rows of at least two numbers separated by comma, semicolon, tab or spaces)`,
+    );
+  }
+  const { dialect, fields } = found;
+  const dataLine = lines[found.dataIndex]!;
+
+  // Header: the nearest non-blank line above the data with as many names as the data has values.
+  let names: string[] | null = null;
+  let headerLine: number | null = null;
+  for (let k = found.dataIndex - 1; k >= 0; k--) {
+    const l = lines[k]!;
+    if (isBlank(text, l.start, l.end)) continue;
+    const raw = text.slice(l.start, l.end);
+    let cells = splitCells(raw, dialect);
+    if (dialect.separator === 'whitespace' && cells.length !== fields) {
+      // Names with spaces ("t (min)  Potential (mV)"): split on tabs or runs of two or more spaces.
+      const alt = raw.trim().split(/\t+| {2,}/).map((c) => c.trim()).filter((c) => c !== '');
+      if (alt.length === fields) cells = alt;
+    }
+    if (cells.length === fields) {
+      names = cells;
+      headerLine = l.no;
+    } else if (!options.columns || Object.keys(options.columns).length === 0) {
+      throw new AnalysisError(
+        'no-header',
+        `line ${l.no}: the header has ${cells.length} names but the data rows from line ${dataLine.no} have ${fields} values`,
+        { line: l.no },
+      );
+    }
+    break;
+  }
+
+  const columns = resolveColumns(names, fields, options.columns ?? {}, headerLine, warnings);
+
+  // Where each field goes: slot index or -1.
+  const slotOf = new Int32Array(fields).fill(-1);
+  const slotName: Quantity[] = [];
+  for (const c of columns) {
+    slotOf[c.index] = slotName.length;
+    slotName.push(c.quantity);
+  }
+  const nSlots = slotName.length;
+
+  // Capacity from a count of line feeds (fast, native); grown if the file uses bare CR.
+  let capacity = 16;
+  for (let i = text.indexOf('\n', dataLine.start); i >= 0; i = text.indexOf('\n', i + 1)) capacity++;
+  let cols: Float64Array[] = [];
+  for (let k = 0; k < nSlots; k++) cols.push(new Float64Array(capacity));
+
+  const sepCode = dialect.separator === 'whitespace' ? -1 : dialect.separator.charCodeAt(0);
+  const decCode = dialect.decimal === '.' ? 46 : 44;
+  const ws = sepCode < 0;
+  const n = text.length;
+  let pos = dataLine.start;
+  let lineNo = dataLine.no;
+  let rows = 0;
+
+  while (pos < n) {
+    const lineStart = pos;
+    let c = text.charCodeAt(pos);
+    if (c === LF || c === CR) {
+      pos = skipEol(text, pos);
+      lineNo++;
+      continue;
+    }
+    if (rows === capacity) {
+      capacity *= 2;
+      cols = cols.map((a) => {
+        const b = new Float64Array(capacity);
+        b.set(a);
+        return b;
+      });
+    }
+    let field = 0;
+    let bad = false;
+    for (;;) {
+      // Leading blanks of a cell.
+      while (c === SPACE || (c === TAB && sepCode !== TAB)) c = text.charCodeAt(++pos);
+      if (c === LF || c === CR || pos >= n) break; // end of line (after a trailing separator, or blank)
+      if (field >= fields) {
+        bad = true;
+        break;
+      }
+      const slot = slotOf[field]!;
+      if (slot >= 0) {
+        const v = readNumber(text, pos, decCode);
+        if (v !== v) {
+          bad = true;
+          break;
+        }
+        pos = numEnd;
+        cols[slot]![rows] = v;
+        c = text.charCodeAt(pos);
+        if (!ws) while (c === SPACE || (c === TAB && sepCode !== TAB)) c = text.charCodeAt(++pos);
+      } else {
+        // Skip a cell we do not need.
+        if (ws) {
+          while (c === c && c !== SPACE && c !== TAB && c !== LF && c !== CR) c = text.charCodeAt(++pos);
+        } else {
+          while (c === c && c !== sepCode && c !== LF && c !== CR) c = text.charCodeAt(++pos);
+        }
+      }
+      field++;
+      if (c === sepCode) {
+        c = text.charCodeAt(++pos);
+      } else if (c === LF || c === CR || pos >= n) {
+        break;
+      } else if (ws && (c === SPACE || c === TAB)) {
+        // next cell
+      } else {
+        bad = true;
+        break;
+      }
+    }
+    if (!bad && field !== fields) bad = field !== 0 || !lineIsEmpty(text, lineStart, sepCode);
+    if (bad) {
+      const e = lineEnd(text, lineStart);
+      if (lineIsEmpty(text.slice(lineStart, e), 0, sepCode)) {
+        pos = skipEol(text, e);
+        lineNo++;
+        continue;
+      }
+      throw rowError(text.slice(lineStart, e), lineNo, dialect, fields, slotOf, columns);
+    }
+    if (field !== 0) rows++;
+    pos = pos >= n ? n : skipEol(text, pos);
+    lineNo++;
+  }
+
+  if (rows === 0) throw new AnalysisError('no-data', 'the file has a header but no data rows');
+  const get = (q: Quantity): Float64Array | null => {
+    const k = slotName.indexOf(q);
+    return k < 0 ? null : cols[k]!.subarray(0, rows);
+  };
+  return {
+    rows,
+    time: get('time'),
+    potential: get('potential')!,
+    current: get('current')!,
+    cycle: get('cycle'),
+    step: get('step'),
+    columns,
+    dialect,
+    headerLine,
+    firstDataLine: dataLine.no,
+    warnings,
+  };
+}
+
+function onlyWhitespace(s: string, from: number): boolean {
+  for (let i = from; i < s.length; i++) {
+    const c = s.charCodeAt(i);
+    if (c !== SPACE && c !== TAB && c !== LF && c !== CR) return false;
+  }
+  return true;
+}
+
+/** True when a line holds only blanks and separators. */
+function lineIsEmpty(s: string, a: number, sepCode: number): boolean {
+  const e = lineEnd(s, a);
+  for (let i = a; i < e; i++) {
+    const c = s.charCodeAt(i);
+    if (c !== SPACE && c !== TAB && c !== sepCode) return false;
+  }
+  return true;
+}
+
+/** Precise message for a refused row: which cell, and why. */
+function rowError(line: string, lineNo: number, d: Dialect, fields: number, slotOf: Int32Array, columns: ColumnInfo[]): AnalysisError {
+  const cells = splitCells(line, d);
+  if (cells.length !== fields) {
+    return new AnalysisError('bad-row', `line ${lineNo}: expected ${fields} values, found ${cells.length}`, {
+      line: lineNo,
+      column: Math.min(cells.length, fields) + 1,
+    });
+  }
+  const dec = d.decimal === '.' ? 46 : 44;
+  for (let f = 0; f < cells.length; f++) {
+    if (slotOf[f]! < 0) continue;
+    if (!isNumberCell(cells[f]!, dec)) {
+      const col = columns.find((c) => c.index === f)!;
+      const shown = cells[f]!.length > 40 ? `${cells[f]!.slice(0, 40)}…` : cells[f]!;
+      const hint = d.decimal === '.' && /^[+-]?\d+,\d+$/.test(cells[f]!) ? ' (decimal comma in a file read with decimal point?)' : '';
+      return new AnalysisError(
+        'bad-number',
+        `line ${lineNo}, column ${f + 1} (${col.name}): "${shown}" is not a number${hint}`,
+        { line: lineNo, column: f + 1 },
+      );
+    }
+  }
+  return new AnalysisError('bad-row', `line ${lineNo}: cannot read this row`, { line: lineNo });
+}

@@ -1,0 +1,81 @@
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { cvWindowOpeningSamples, formatExport, holdSamples } from '../../../src/lib/analysis/index';
+import { expectToDigits } from './digits';
+
+const root = resolve(__dirname, '../../..');
+const dir = mkdtempSync(join(tmpdir(), 'edgewise-cli-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+function cli(args: string[]) {
+  const r = spawnSync(join(root, 'node_modules', '.bin', 'tsx'), [join(root, 'scripts', 'analyze.ts'), ...args], { encoding: 'utf8', cwd: root });
+  return { status: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+describe('command line', () => {
+  it('prints one JSON object with the stable names for a CV file (METHODS.md §8 A model, vs SCE reported vs SHE)', () => {
+    const file = join(dir, 'cv.txt');
+    // Opposite sign convention, decimal comma, semicolons, µA and mV, no time column.
+    writeFileSync(
+      file,
+      formatExport(cvWindowOpeningSamples({ sampleIntervalS: 0.05 }), {
+        separator: ';',
+        decimalComma: true,
+        sign: 'opposite',
+        columns: ['potential', 'current'],
+        units: { potential: 'mV', current: 'µA' },
+      }),
+    );
+    const r = cli([file, '--method', 'cv', '--criterion', 's:0.1', '--scan-rate', '5mV/s', '--sign', 'opposite', '--from-ref', 'SCE', '--to-ref', 'SHE']);
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(Object.keys(out)).toEqual(['method', 'direction', 'criterion', 'cycles', 'limit', 'reference', 'warnings']);
+    expect(Object.keys(out.cycles[0])).toEqual(['index', 'vertexV', 'qPosC', 'qNegC', 'sValue', 'ce']);
+    expect(Object.keys(out.limit)).toEqual(['lastPassingV', 'interpolatedV', 'status']);
+    expect(out.method).toBe('cv');
+    expect(out.direction).toBe('anodic');
+    expectToDigits(out.cycles[4].sValue, '0.1164');
+    // 1.0898 V vs SCE + 0.2412 V (SCE vs SHE, Bard & Faulkner) = 1.3310 V vs SHE.
+    expectToDigits(out.limit.interpolatedV, '1.3310');
+    expect(out.reference.offsetV).toBe(0.2412);
+  });
+
+  it('prints steps for holds (METHODS.md §8 D model)', () => {
+    const file = join(dir, 'hold.csv');
+    writeFileSync(file, formatExport(holdSamples()));
+    const r = cli([file, '--method', 'hold', '--criterion', 'jm:10mA/g', '--mass', '2mg', '--tail', '0']);
+    expect(r.status).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(Object.keys(out)).toEqual(['method', 'direction', 'criterion', 'steps', 'limit', 'reference', 'warnings']);
+    expect(Object.keys(out.steps[0])).toEqual(['potentialV', 'endCurrentA', 'endCurrentDensity']);
+    expectToDigits(out.limit.interpolatedV, '0.91375');
+    expect(out.reference).toBeNull();
+  });
+
+  it('exits 2 with the message on stderr for a bad file, a missing file and bad options', () => {
+    const bad = join(dir, 'bad.csv');
+    writeFileSync(bad, 'E/V,I/A\n0.1,1\n0.2,x\n');
+    const r = cli([bad, '--method', 'lsv', '--criterion', 'i:1mA']);
+    expect(r.status).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toBe(`${bad}: line 3, column 2 (I/A): "x" is not a number\n`);
+    const missing = cli([join(dir, 'nope.csv'), '--method', 'cv']);
+    expect(missing.status).toBe(2);
+    expect(missing.stderr).toBe(`${join(dir, 'nope.csv')}: cannot read (ENOENT)\n`);
+    const opt = cli([bad, '--method', 'eis']);
+    expect(opt.status).toBe(2);
+    expect(opt.stderr).toBe(`${bad}: method must be one of cv, lsv, hold, not "eis"\n`);
+  });
+
+  it('runs through npm run -s analyze', () => {
+    const file = join(dir, 'one.csv');
+    writeFileSync(file, formatExport(cvWindowOpeningSamples({ verticesV: [0.6] })));
+    const r = spawnSync('npm', ['run', '-s', 'analyze', '--', file, '--method', 'cv'], { encoding: 'utf8', cwd: root });
+    expect(r.status).toBe(0);
+    expect(JSON.parse(r.stdout).limit).toEqual({ lastPassingV: 0.6, interpolatedV: null, status: 'not-reached' });
+  });
+});
