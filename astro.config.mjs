@@ -3,6 +3,32 @@ import { defineConfig } from 'astro/config';
 import node from '@astrojs/node';
 import react from '@astrojs/react';
 import tailwindcss from '@tailwindcss/vite';
+import { build as esbuild } from 'esbuild';
+import { fileURLToPath } from 'node:url';
+
+/** Bundles the analysis worker beside the server build, where src/lib/server/analysis-pool.ts finds it. */
+function analysisWorker() {
+  let serverDir;
+  return {
+    name: 'edgewise-analysis-worker',
+    hooks: {
+      'astro:config:done': ({ config }) => {
+        serverDir = fileURLToPath(config.build.server);
+      },
+      'astro:build:done': async () => {
+        await esbuild({
+          entryPoints: [fileURLToPath(new URL('./src/lib/server/analysis-worker.ts', import.meta.url))],
+          outfile: `${serverDir}/analysis-worker.mjs`,
+          bundle: true,
+          platform: 'node',
+          format: 'esm',
+          target: 'node20',
+          logLevel: 'warning',
+        });
+      },
+    },
+  };
+}
 
 // The Node adapter only trusts the Host header for listed domains (fixed at build time). Ports
 // are left open so the same build serves `npm start` and the tests' servers on free ports.
@@ -13,7 +39,7 @@ export default defineConfig({
   output: 'server',
   adapter: node({ mode: 'standalone' }),
   outDir: process.env.EDGEWISE_OUT_DIR ?? './dist',
-  integrations: [react()],
+  integrations: [react(), analysisWorker()],
   security: {
     // Origins are checked in src/middleware.ts for every state-changing request, so refusals
     // carry the same headers and problem+json bodies as every other response.

@@ -21,6 +21,8 @@ const schema = z.object({
   /** Trust X-Forwarded-For for the client address only behind a known proxy. */
   TRUST_PROXY: z.stringbool().default(false),
   MAX_UPLOAD_BYTES: z.coerce.number().int().positive().default(200 * 1024 * 1024),
+  /** Largest file POST /api/v1/analyses takes in one request (bigger files go through uploads). */
+  MAX_ANALYSIS_BYTES: z.coerce.number().int().positive().default(64 * 1024 * 1024),
 });
 
 export type Config = z.infer<typeof schema>;

@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { cvWindowOpeningSamples, formatExport, holdSamples } from '../../../src/lib/analysis/index';
-import { expectToDigits } from './digits';
+import { expectToDigits } from '../../support/digits';
 
 const root = resolve(__dirname, '../../..');
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-cli-'));

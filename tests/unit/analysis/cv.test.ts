@@ -11,7 +11,7 @@ import {
   sValue,
   type ExportFormat,
 } from '../../../src/lib/analysis/index';
-import { expectToDigits } from './digits';
+import { expectToDigits } from '../../support/digits';
 
 // METHODS.md §8 A model: C = 0.010 F, v = 5 mV/s, start 0 V, vertices 0.7…1.1 V, Tafel current
 // 1.0e-5 A·10^((E − 1.0 V)/0.150 V) on both sweeps. Sampled every 0.05 s (0.25 mV) so trapezoid

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { analyzeText, formatExport, holdSamples, holdStepsFromPotential, tailMean } from '../../../src/lib/analysis/index';
-import { expectToDigits } from './digits';
+import { expectToDigits } from '../../support/digits';
 
 // METHODS.md §8 D: active mass 2.0 mg, 1200 s holds at 0.80…1.00 V in 50 mV steps, current
 // I = 1e-6 A·10^((E − 0.80)/0.100) + 2.0e-4 A·s^½/√t, cutoff 10 mA/g (2.0e-5 A). Leakage at the

@@ -14,7 +14,7 @@ import {
   symmetricCellCapacitanceFPerG,
   waterWindow,
 } from '../../../src/lib/analysis/index';
-import { expectToDigits } from './digits';
+import { expectToDigits } from '../../support/digits';
 
 describe('METHODS.md §8 B: reference conversion', () => {
   // SCE 0.2412 V and Ag/AgCl (sat. KCl) 0.197 V vs SHE: Bard & Faulkner, Electrochemical Methods.

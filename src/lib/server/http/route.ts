@@ -77,9 +77,14 @@ export async function readJson<S extends z.ZodType>(request: Request, schema: S,
   return parsed.data;
 }
 
-/** Reads at most limitBytes of a body; 413 beyond. */
+/** Reads at most limitBytes of a body as text; 413 beyond. */
 export async function readLimitedText(request: Request, limitBytes: number): Promise<string> {
-  if (!request.body) return '';
+  return new TextDecoder().decode(await readLimitedBytes(request, limitBytes));
+}
+
+/** Reads at most limitBytes of a body; 413 beyond, without reading further. */
+export async function readLimitedBytes(request: Request, limitBytes: number): Promise<Uint8Array> {
+  if (!request.body) return new Uint8Array();
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];
   let total = 0;
@@ -93,7 +98,7 @@ export async function readLimitedText(request: Request, limitBytes: number): Pro
     }
     chunks.push(value);
   }
-  return new TextDecoder().decode(Buffer.concat(chunks));
+  return Buffer.concat(chunks);
 }
 
 /** Query string parameters parsed with a schema (repeated keys become arrays where the schema wants them). */
