@@ -7,7 +7,7 @@ import { startS3Fake, type S3Fake } from '../../docker-free-s3-fake/s3-fake.ts';
 import { createDb } from '../../src/lib/server/db/index.ts';
 import { migrateToLatest } from '../../src/lib/server/db/migrate.ts';
 import { startMailFake, type MailFake } from './mail-fake.ts';
-import { projectRoot } from './paths.ts';
+import { dataDir, projectRoot } from './paths.ts';
 import { ensureCluster, ensureDatabase, grantAppRole, type ClusterInfo } from './postgres.ts';
 import { localSecret } from './secrets.ts';
 
@@ -126,4 +126,21 @@ export async function freePort(): Promise<number> {
       srv.close(() => resolve(port));
     });
   });
+}
+
+/**
+ * Points this process's storage settings at the local S3 fake: the one `npm start` runs, or a
+ * temporary one over the same folder. Returns a function that stops what it started.
+ */
+export async function useLocalStorage(defaultPort = 4580): Promise<() => Promise<void>> {
+  process.env.DATABASE_URL ??= 'postgres://unused@127.0.0.1/unused';
+  process.env.AUTH_SECRET ??= 'x'.repeat(32);
+  if (process.env.S3_ENDPOINT) return async () => {};
+  if (await portAnswers(defaultPort)) {
+    process.env.S3_ENDPOINT = `http://127.0.0.1:${defaultPort}`;
+    return async () => {};
+  }
+  const s3 = await startS3Fake({ port: 0, directory: path.join(dataDir, 's3'), bucket: 'edgewise-raw' });
+  process.env.S3_ENDPOINT = s3.endpoint;
+  return () => s3.close();
 }

@@ -4,6 +4,7 @@ import {
   GetObjectCommand,
   HeadBucketCommand,
   HeadObjectCommand,
+  ListObjectsV2Command,
   PutObjectCommand,
   S3Client,
 } from '@aws-sdk/client-s3';
@@ -71,6 +72,20 @@ export async function objectSize(key: string): Promise<number | null> {
 
 export async function deleteObject(key: string): Promise<void> {
   await s3().send(new DeleteObjectCommand({ Bucket: bucket(), Key: key })).catch(unavailable);
+}
+
+/** Every object under a prefix: key and size (backups, cleanup). */
+export async function listObjects(prefix = ''): Promise<{ key: string; size: number }[]> {
+  const out: { key: string; size: number }[] = [];
+  let token: string | undefined;
+  do {
+    const page = await s3()
+      .send(new ListObjectsV2Command({ Bucket: bucket(), Prefix: prefix || undefined, ContinuationToken: token }))
+      .catch(unavailable);
+    for (const o of page.Contents ?? []) if (o.Key) out.push({ key: o.Key, size: o.Size ?? 0 });
+    token = page.IsTruncated ? page.NextContinuationToken : undefined;
+  } while (token);
+  return out;
 }
 
 /** A short-lived URL the browser can PUT the object to; the content type is part of the signature. */
