@@ -7,8 +7,10 @@ import { build as esbuild } from 'esbuild';
 import { fileURLToPath } from 'node:url';
 
 /** Bundles the analysis worker beside the server build, where src/lib/server/analysis-pool.ts finds it. */
+/** @returns {import('astro').AstroIntegration} */
 function analysisWorker() {
-  let serverDir;
+  /** @type {string} */
+  let serverDir = '';
   return {
     name: 'edgewise-analysis-worker',
     hooks: {

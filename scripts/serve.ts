@@ -3,6 +3,9 @@ import path from 'node:path';
 import { parseConfig, ConfigError } from '../src/lib/server/config.ts';
 import { dataDir, projectRoot } from './lib/paths.ts';
 import { appEnv, buildApp, log, portAnswers, prepareDatabase, startApp, startFakes } from './lib/services.ts';
+import { demoAccountLines, seedAccounts } from '../seed/accounts.ts';
+import { loadVocabularySeed } from '../seed/load-vocabulary.ts';
+import { loadDemo } from '../seed/demo.ts';
 
 const APP_PORT = Number(process.env.PORT ?? 4321);
 const S3_PORT = Number(process.env.EDGEWISE_S3_PORT ?? 4580);
@@ -25,6 +28,8 @@ async function main() {
   }
 
   const cluster = await prepareDatabase(DATABASE);
+  await loadVocabularySeed(cluster.appUrl(DATABASE));
+  await seedAccounts(cluster.appUrl(DATABASE));
   const fakes = await startFakes({
     s3Port: S3_PORT,
     smtpPort: SMTP_PORT,
@@ -34,6 +39,9 @@ async function main() {
   });
   const env = { ...appEnv({ cluster, database: DATABASE, fakes, origin, appEnv: 'development' }), ...pick(process.env) };
   parseConfig(env); // fail here, with every bad variable named, rather than on the first request
+  // The demo scenario, once: a database that already holds records is left as it is.
+  const demo = await loadDemo(env, { log });
+  if (!demo.loaded) log(`demo scenario not loaded: ${demo.skipped} (npm run seed -- --reset reloads it)`);
 
   const outDir = path.join(projectRoot, 'dist');
   buildApp(outDir);
@@ -46,6 +54,8 @@ async function main() {
   Captured mail ${origin}/dev/mail   (SMTP fake on 127.0.0.1:${fakes.mail.port}, files in .data/mail/)
   Raw files     S3 fake on ${fakes.s3.endpoint} (objects in .data/s3/)
   PostgreSQL    127.0.0.1:${cluster.port}, database "${DATABASE}" (npm run stop stops it)
+
+${demoAccountLines()}
 
   Ctrl-C stops the app and the fakes.
 `);

@@ -3,6 +3,13 @@ import { config } from './lib/server/config.ts';
 import { applySecurityHeaders } from './lib/server/http/headers.ts';
 import { checkStateChangingRequest } from './lib/server/http/origin.ts';
 import { problem } from './lib/server/http/problem.ts';
+import { toProblem } from './lib/server/http/route.ts';
+import { resolvePrincipal } from './lib/server/auth/principal.ts';
+import { ANONYMOUS } from './lib/shared/principal.ts';
+import { startOutbox } from './lib/server/outbox.ts';
+
+// The server process delivers queued e-mail (retrying while the mail server is down).
+startOutbox();
 
 // Routes that legitimately take form or multipart bodies (same-origin only).
 const FORM_ROUTES = [/^\/api\/auth\//];
@@ -24,9 +31,23 @@ export const onRequest = defineMiddleware(async (context, next) => {
     };
     const verdict = [own, requestOrigin].map((o) => checkStateChangingRequest(context.request, o, opts));
     const accepted = verdict.find((v) => v.ok);
-    response = accepted
-      ? await next()
-      : problem({ title: 'Cross-site request refused', status: 403, detail: verdict[0]?.reason });
+    if (!accepted) {
+      response = problem({ title: 'Cross-site request refused', status: 403, detail: verdict[0]?.reason });
+    } else {
+      // Who is asking: from the database on every request (see src/lib/server/auth/principal.ts).
+      context.locals.principal = ANONYMOUS;
+      let refused: Response | undefined;
+      try {
+        context.locals.principal = await resolvePrincipal(context.request);
+      } catch (err) {
+        refused = toProblem(err, url.pathname);
+      }
+      response = refused ?? (await next());
+    }
+  }
+  // An API path with no route (or a method it does not answer) gets problem+json, not a page.
+  if (isApi && (response.status === 404 || response.status === 405) && !(response.headers.get('content-type') ?? '').includes('json')) {
+    response = problem({ title: response.status === 404 ? 'Not found' : 'Method not allowed', status: response.status, detail: `${context.request.method} ${url.pathname} is not part of the API.` });
   }
   // Some responses (redirects, static) come with immutable headers: copy when needed.
   try {

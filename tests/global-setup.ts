@@ -6,6 +6,7 @@ import path from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { dataDir } from '../scripts/lib/paths.ts';
 import { dropDatabase, dropStaleTestDatabases } from '../scripts/lib/postgres.ts';
+import { loadVocabularySeed } from '../seed/load-vocabulary.ts';
 import { appEnv, buildApp, freePort, prepareDatabase, startApp, startFakes, type Fakes } from '../scripts/lib/services.ts';
 
 declare module 'vitest' {
@@ -15,6 +16,7 @@ declare module 'vitest' {
     adminUrl: string;
     mailDir: string;
     pgPort: number;
+    outDir: string;
   }
 }
 
@@ -28,6 +30,7 @@ export default async function setup(project: TestProject) {
   mkdirSync(workDir, { recursive: true });
 
   const cluster = await prepareDatabase(database, { fresh: true, quiet: true });
+  await loadVocabularySeed(cluster.appUrl(database));
   await dropStaleTestDatabases(cluster);
   fakes = await startFakes({
     s3Port: 0,
@@ -49,6 +52,7 @@ export default async function setup(project: TestProject) {
   project.provide('adminUrl', cluster.adminUrl(database));
   project.provide('mailDir', fakes.mail.directory);
   project.provide('pgPort', cluster.port);
+  project.provide('outDir', outDir);
 
   return async () => {
     app?.kill('SIGTERM');

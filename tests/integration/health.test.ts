@@ -49,6 +49,18 @@ describe('every kind of response carries the security headers', () => {
   });
 });
 
+describe('API paths without a route', () => {
+  it('answer problem+json, not an HTML page', async () => {
+    for (const [method, path] of [['GET', '/api/v1/no-such-thing'], ['DELETE', '/api/health']] as const) {
+      const res = await api(path, { method });
+      expect([404, 405]).toContain(res.status);
+      expect(res.headers.get('content-type')).toMatch(/application\/problem\+json/);
+      expect((await res.json()).detail).toBe(`${method} ${path} is not part of the API.`);
+      expectSecurityHeaders(res);
+    }
+  });
+});
+
 describe('the development mail page', () => {
   it('is absent outside development', async () => {
     expect((await api('/dev/mail')).status).toBe(404);

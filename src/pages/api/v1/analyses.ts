@@ -21,7 +21,7 @@ export const POST: APIRoute = endpoint(async ({ request }) => {
   const body = await readLimitedBytes(request, limit);
   let form: FormData;
   try {
-    form = await new Response(body, { headers: { 'content-type': type } }).formData();
+    form = await new Response(new Blob([body as Uint8Array<ArrayBuffer>]), { headers: { 'content-type': type } }).formData();
   } catch {
     throw new ValidationError([{ path: '(body)', message: 'malformed multipart body' }]);
   }

@@ -1,0 +1,130 @@
+// Benchmark (not a test): GET /api/v1/records with typical filters on 100,000 records, with
+// autocannon on loopback (32 connections), against the same SQL sent straight through pg.
+// Usage: npm run bench:search [-- --records 100000 --seconds 10 --connections 32]
+import autocannon from 'autocannon';
+import { CompiledQuery, Kysely, PostgresDialect, type LogEvent } from 'kysely';
+import pg from 'pg';
+import { parseArgs } from 'node:util';
+import { loadDemo } from '../../seed/demo.ts';
+import { percentile, report, startBenchStack } from './stack.ts';
+import type { Database } from '../../src/lib/server/db/schema.ts';
+
+const { values } = parseArgs({ options: { records: { type: 'string', default: '100000' }, seconds: { type: 'string', default: '10' }, connections: { type: 'string', default: '32' } } });
+const TARGET = { p95: 25, rps: 800 };
+const WANT = Number(values.records);
+
+// What a formulator typically asks: a salt/solvent on an electrode, one method, a scale, a page.
+const QUERIES = [
+  '/api/v1/records?electrode=gc&method=cv-window-opening&scale=SHE&limit=50',
+  '/api/v1/records?component=PC&electrode=pt&electrode=gc&sort=-anodic&limit=50',
+  '/api/v1/records?component=water&scale=RHE&limit=25',
+  '/api/v1/records?evidence=confirmed&evidence=recomputed&scanRateMax=10&limit=50',
+  '/api/v1/records?q=acetonitrile&limit=50',
+];
+
+/** Clones the published demo records until the collection holds `want` records (one transaction). */
+async function grow(adminUrl: string, want: number) {
+  const c = new pg.Client({ connectionString: adminUrl });
+  await c.connect();
+  try {
+    const have = Number((await c.query('SELECT count(*) FROM records')).rows[0].count);
+    if (have >= want) return have;
+    const cols = (
+      await c.query(`SELECT column_name FROM information_schema.columns WHERE table_name = 'record_versions' AND table_schema = 'public'
+                      AND column_name NOT IN ('id', 'record_id', 'raw_file_ids', 'analysis_ids') ORDER BY ordinal_position`)
+    ).rows.map((r) => `"${r.column_name}"`);
+    const published = Number((await c.query(`SELECT count(*) FROM records WHERE status = 'published'`)).rows[0].count);
+    const copies = Math.ceil((want - have) / published);
+    await c.query('BEGIN');
+    await c.query(`SET CONSTRAINTS ALL DEFERRED`);
+    await c.query(`CREATE TEMP TABLE clone ON COMMIT DROP AS
+                     SELECT gen_random_uuid() AS new_id, r.id AS src_id FROM records r CROSS JOIN generate_series(1, ${copies}) g
+                      WHERE r.status = 'published' LIMIT ${want - have}`);
+    await c.query(`INSERT INTO records (id, handle, status, owner_id, lab_id, current_version, created_at, updated_at, published_at)
+                   SELECT c.new_id, 'EW-' || lpad(nextval('record_handle_seq')::text, 6, '0'), r.status, r.owner_id, r.lab_id, 1, r.created_at, r.updated_at, r.published_at
+                     FROM clone c JOIN records r ON r.id = c.src_id`);
+    await c.query(`INSERT INTO record_versions (record_id, version, ${cols.filter((x) => x !== '"version"').join(', ')})
+                   SELECT c.new_id, 1, ${cols.filter((x) => x !== '"version"').map((x) => `v.${x}`).join(', ')}
+                     FROM clone c JOIN records r ON r.id = c.src_id JOIN record_versions v ON v.record_id = r.id AND v.version = r.current_version`);
+    await c.query('COMMIT');
+    await c.query('ANALYZE');
+    return Number((await c.query('SELECT count(*) FROM records')).rows[0].count);
+  } finally {
+    await c.end();
+  }
+}
+
+/** The SQL one API request runs, captured from Kysely's log while the service answers it. */
+async function capturedSql(appUrl: string, path: string): Promise<CompiledQuery[]> {
+  const captured: CompiledQuery[] = [];
+  const pool = new pg.Pool({ connectionString: appUrl, max: 2 });
+  const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool }), log: (e: LogEvent) => void (e.level === 'query' && captured.push(e.query)) });
+  const { searchRecordList, recordQuerySchema } = await import('../../src/lib/server/record-search.ts');
+  const url = new URL(path, 'http://x');
+  const q = recordQuerySchema.parse(Object.fromEntries([...new Set(url.searchParams.keys())].map((k) => [k, url.searchParams.getAll(k).length > 1 ? url.searchParams.getAll(k) : url.searchParams.get(k)])));
+  await searchRecordList(db, { kind: 'anonymous' }, q);
+  await db.destroy();
+  return captured;
+}
+
+/** Runs the captured statements with `connections` concurrent loops for `seconds`. */
+async function replay(appUrl: string, statements: CompiledQuery[][], connections: number, seconds: number) {
+  const pool = new pg.Pool({ connectionString: appUrl, max: connections });
+  const times: number[] = [];
+  const end = Date.now() + seconds * 1000;
+  let n = 0;
+  await Promise.all(
+    Array.from({ length: connections }, async () => {
+      while (Date.now() < end) {
+        const set = statements[n++ % statements.length]!;
+        const t0 = performance.now();
+        for (const s of set) await pool.query(s.sql, s.parameters as unknown[]);
+        times.push(performance.now() - t0);
+      }
+    }),
+  );
+  await pool.end();
+  return { times, rps: times.length / seconds };
+}
+
+async function main() {
+  const stack = await startBenchStack('edgewise_bench');
+  try {
+    const demo = await loadDemo({ ...stack.env });
+    if (demo.loaded) console.log(`demo scenario loaded: ${demo.records} records, ${demo.files} raw files`);
+    const total = await grow(stack.adminUrl, WANT);
+    console.log(`collection: ${total} records`);
+    for (const q of QUERIES) {
+      const r = await fetch(stack.url + q);
+      if (!r.ok) throw new Error(`${q}: ${r.status} ${await r.text()}`);
+      const body = await r.json();
+      console.log(`  ${q} → ${body.total} matches`);
+    }
+    const connections = Number(values.connections);
+    const duration = Number(values.seconds);
+    const result = await autocannon({ url: stack.url, connections, duration, requests: QUERIES.map((path) => ({ method: 'GET', path })) });
+    const non2xx = result.non2xx + result.errors + result.timeouts;
+    console.log(`\nHTTP, autocannon, ${connections} connections, ${duration} s, ${result.requests.total} requests:`);
+    report('search API p50', `${result.latency.p50} ms`, '—', true);
+    report('search API p95 (autocannon p97.5 ≥ p95)', `${result.latency.p97_5} ms`, `≤ ${TARGET.p95} ms`, result.latency.p97_5 <= TARGET.p95);
+    report('search API p99', `${result.latency.p99} ms`, '—', true);
+    report('search API throughput', `${result.requests.average.toFixed(0)} req/s`, `≥ ${TARGET.rps} req/s`, result.requests.average >= TARGET.rps);
+    report('search API non-2xx, errors, timeouts', String(non2xx), '0', non2xx === 0);
+
+    const sets = [];
+    for (const q of QUERIES) sets.push(await capturedSql(stack.env.DATABASE_URL!, q));
+    const direct = await replay(stack.env.DATABASE_URL!, sets, connections, duration);
+    console.log(`\nThe same SQL straight through pg (${sets.reduce((s, x) => s + x.length, 0) / sets.length} statements per request), ${connections} loops, ${duration} s:`);
+    report('pg p50', `${percentile(direct.times, 50).toFixed(1)} ms`, '—', true);
+    report('pg p95', `${percentile(direct.times, 95).toFixed(1)} ms`, '—', true);
+    report('pg throughput', `${direct.rps.toFixed(0)} req/s`, '—', true);
+    console.log(`ratio API/pg: p50 ×${(result.latency.p50 / percentile(direct.times, 50)).toFixed(2)}, throughput ×${(result.requests.average / direct.rps).toFixed(2)}`);
+  } finally {
+    await stack.stop();
+  }
+}
+
+main().catch((err) => {
+  console.error(err);
+  process.exit(1);
+});

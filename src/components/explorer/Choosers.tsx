@@ -1,0 +1,116 @@
+import { useEffect, useId, useState } from 'react';
+import { REFERENCE_ELECTRODES } from '../../lib/analysis/references.ts';
+import { input, muted } from '../ui.tsx';
+
+/** Kinds of common criterion, in the engine's notation, with their threshold unit and a usual default. */
+const KINDS = [
+  { kind: '', label: 'each record’s own', unit: '', prefix: '', fallback: '' },
+  { kind: 's', label: 'S-value ≤', unit: '', prefix: 's:', fallback: '0.1' },
+  { kind: 'ce', label: 'coulombic efficiency ≥', unit: '%', prefix: 'ce:', fallback: '99' },
+  { kind: 'j', label: 'current density ≤', unit: 'µA cm⁻²', prefix: 'j:', fallback: '10' },
+  { kind: 'jm', label: 'current per mass ≤', unit: 'mA g⁻¹', prefix: 'jm:', fallback: '10' },
+  { kind: 'leak-m', label: 'hold leakage ≤', unit: 'mA g⁻¹', prefix: 'leak:', fallback: '10' },
+  { kind: 'leak-a', label: 'hold leakage ≤', unit: 'µA cm⁻²', prefix: 'leak:', fallback: '10' },
+] as const;
+const SUFFIX: Record<string, string> = { ce: '%', j: 'uA/cm2', jm: 'mA/g', 'leak-m': 'mA/g', 'leak-a': 'uA/cm2', s: '' };
+
+/** Splits "ce:99%" into the chooser's kind and threshold. */
+export function parseCommon(text: string | undefined): { kind: string; value: string } {
+  if (!text) return { kind: '', value: '' };
+  const m = /^(s|ce|jm|j|leak):\s*([0-9.eE+-]+)\s*(.*)$/.exec(text.trim());
+  if (!m) return { kind: '', value: '' };
+  const [, k, v, unit] = m;
+  if (k === 'leak') return { kind: /cm/.test(unit!) ? 'leak-a' : 'leak-m', value: v! };
+  return { kind: k!, value: v! };
+}
+
+export function commonText(kind: string, value: string): string {
+  const k = KINDS.find((x) => x.kind === kind);
+  if (!k || !k.kind || !value.trim()) return '';
+  return `${k.prefix}${value.trim()}${SUFFIX[kind] ?? ''}`;
+}
+
+/** The common criterion applied to every raw-backed record. */
+export function CriterionChooser({ value, onChange }: { value: string | undefined; onChange: (text: string) => void }) {
+  const id = useId();
+  const parsed = parseCommon(value);
+  const [kind, setKind] = useState(parsed.kind);
+  const [threshold, setThreshold] = useState(parsed.value);
+  useEffect(() => {
+    setKind(parsed.kind);
+    setThreshold(parsed.value);
+  }, [parsed.kind, parsed.value]);
+  const k = KINDS.find((x) => x.kind === kind) ?? KINDS[0];
+  return (
+    <fieldset className="flex flex-wrap items-end gap-2">
+      <legend className="text-sm font-semibold mb-1">Common criterion</legend>
+      <label htmlFor={`${id}-k`} className="sr-only">
+        Criterion kind
+      </label>
+      <select
+        id={`${id}-k`}
+        value={kind}
+        onChange={(e) => {
+          const next = KINDS.find((x) => x.kind === e.target.value) ?? KINDS[0];
+          setKind(next.kind);
+          setThreshold(next.fallback);
+          onChange(commonText(next.kind, next.fallback));
+        }}
+        className={`${input} text-sm`}
+      >
+        {KINDS.map((x) => (
+          <option key={x.kind} value={x.kind}>
+            {x.label}
+            {x.unit && x.kind.startsWith('leak') ? ` (${x.unit})` : ''}
+          </option>
+        ))}
+      </select>
+      {kind && (
+        <>
+          <label htmlFor={`${id}-v`} className="sr-only">
+            Threshold {k.unit && `(${k.unit})`}
+          </label>
+          <input
+            id={`${id}-v`}
+            inputMode="decimal"
+            value={threshold}
+            onChange={(e) => setThreshold(e.target.value)}
+            onBlur={() => onChange(commonText(kind, threshold))}
+            onKeyDown={(e) => e.key === 'Enter' && onChange(commonText(kind, threshold))}
+            className={`${input} num text-sm w-20`}
+          />
+          {k.unit && <span className={`text-sm ${muted} pb-1.5`}>{k.unit}</span>}
+        </>
+      )}
+    </fieldset>
+  );
+}
+
+export const SCALE_OPTIONS = [
+  ...REFERENCE_ELECTRODES.map((r) => ({ id: r.id, label: r.id === 'SHE' ? 'SHE' : r.name })),
+  { id: 'RHE', label: 'RHE (each record’s pH)' },
+];
+
+/** The reference scale limits are shown on. */
+export function ScaleChooser({ value, onChange }: { value: string | undefined; onChange: (scale: string) => void }) {
+  const id = useId();
+  return (
+    <div className="grid gap-1">
+      <label htmlFor={id} className="text-sm font-semibold">
+        Reference scale
+      </label>
+      <select id={id} value={value ?? 'SHE'} onChange={(e) => onChange(e.target.value === 'SHE' ? '' : e.target.value)} className={`${input} text-sm`}>
+        {SCALE_OPTIONS.map((s) => (
+          <option key={s.id} value={s.id}>
+            {s.label}
+          </option>
+        ))}
+      </select>
+    </div>
+  );
+}
+
+export function scaleLabel(id: string | undefined): string {
+  if (!id || id === 'SHE') return 'SHE';
+  return SCALE_OPTIONS.find((s) => s.id === id)?.label.replace(/ \(.*\)$/, '') ?? id;
+}

@@ -1,0 +1,144 @@
+import { useQuery } from '@tanstack/react-query';
+import { useMemo, useState } from 'react';
+import { analyzeText, type AnalysisOptions, type AnalysisResult } from '../../lib/analysis/analyze.ts';
+import { sFromCe } from '../../lib/analysis/cv.ts';
+import { parseCriterion } from '../../lib/analysis/limits.ts';
+import { normalise } from '../../lib/analysis/normalise.ts';
+import { readTable } from '../../lib/analysis/read.ts';
+import { errorMessage } from '../../lib/client/api.ts';
+import { rawFileQueries, type AnalysisView, type RecordDetail } from '../../lib/client/records.ts';
+import CriterionPlot, { type CriterionPoint } from '../charts/CriterionPlot.tsx';
+import CurveChart, { type Curve } from '../charts/CurveChart.tsx';
+import { CriterionChooser } from '../explorer/Choosers.tsx';
+import { Empty, Failed, Loading, muted, panel } from '../ui.tsx';
+
+/** Points, cutoff and labels of the judged quantity, from an analysis result. */
+export function criterionSeries(res: AnalysisResult): { points: CriterionPoint[]; cutoff: number; label: string; cutoffLabel: string } {
+  const c = res.criterion;
+  if (res.cycles) {
+    const cutoff = c.kind === 'ce' ? sFromCe(c.value) : c.value;
+    return {
+      points: res.cycles.map((x) => ({ potentialV: x.vertexV, value: x.sValue })),
+      cutoff,
+      label: 'S-value',
+      cutoffLabel: c.kind === 'ce' ? `CE ≥ ${+(c.value * 100).toPrecision(4)} % (S ≤ ${cutoff.toPrecision(3)})` : `S ≤ ${c.value}`,
+    };
+  }
+  const unit = c.unit === 'A/g' ? { f: 1e3, u: 'mA g⁻¹' } : c.unit === 'A/cm2' ? { f: 1e6, u: 'µA cm⁻²' } : { f: 1e6, u: 'µA' };
+  const sign = res.direction === 'anodic' ? 1 : -1;
+  return {
+    points: (res.steps ?? []).map((s) => ({ potentialV: s.potentialV, value: sign * s.endCurrentDensity * unit.f })),
+    cutoff: c.value * unit.f,
+    label: `leakage / ${unit.u}`,
+    cutoffLabel: `${+(c.value * unit.f).toPrecision(4)} ${unit.u}`,
+  };
+}
+
+function limitLine(res: AnalysisResult, ref: string): string {
+  const l = res.limit;
+  if (l.status === 'not-reached') return `not reached: stable to at least ${l.lastPassingV?.toFixed(3)} V vs ${ref}`;
+  if (l.status === 'exceeded-at-first') return 'exceeded already at the first point';
+  return `${l.interpolatedV?.toFixed(3)} V vs ${ref} (last passing ${l.lastPassingV?.toFixed(3)} V)`;
+}
+
+function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
+  const file = r.rawFiles.find((f) => f.id === a.rawFileId);
+  const text = useQuery({ ...rawFileQueries.text(a.rawFileId), enabled: Boolean(file) });
+  const stored = a.result as AnalysisResult;
+  const params = a.parameters as AnalysisOptions;
+  const ref = (params.toRef ?? params.fromRef ?? 'the file’s reference').replace(/^ref-/, '');
+  const [criterion, setCriterion] = useState('');
+
+  const curves = useMemo<Curve[] | { error: string } | null>(() => {
+    if (!text.data) return null;
+    try {
+      const s = normalise(readTable(text.data, params.columns ? { columns: params.columns } : {}), params.sign ?? 'iupac');
+      const shift = stored.reference?.offsetV ?? 0;
+      const x = shift ? s.potential.map((v) => v + shift) : s.potential;
+      return [{ label: file?.name ?? 'curve', x, y: s.current }];
+    } catch (e) {
+      return { error: errorMessage(e) };
+    }
+  }, [text.data]);
+
+  // Recomputed whenever the criterion or the file changes: the engine runs here, on the raw text.
+  const recomputed = useMemo<{ result?: AnalysisResult; error?: string } | null>(() => {
+    if (!criterion) return null;
+    if (!text.data) return { error: 'the raw file is still loading' };
+    try {
+      parseCriterion(criterion);
+      return { result: analyzeText(text.data, { ...params, criterion }) };
+    } catch (e) {
+      return { error: errorMessage(e) };
+    }
+  }, [criterion, text.data]);
+  const shown = recomputed?.result ?? stored;
+  const series = criterionSeries(shown);
+
+  const recompute = setCriterion;
+
+  return (
+    <section className={`${panel} p-4 grid gap-4`} aria-label={`Analysis of ${file?.name ?? 'a raw file'} (${a.direction})`}>
+      <div className="flex flex-wrap items-baseline gap-3">
+        <h3 className="font-semibold">
+          {a.direction === 'anodic' ? 'Anodic' : 'Cathodic'} side · <span className="num text-sm">{file?.name}</span>
+        </h3>
+        <span className={`text-xs ${muted}`}>
+          {a.engineVersion}, criterion {stored.criterion.text}
+        </span>
+      </div>
+      <div>
+        <h4 className="text-sm font-semibold mb-1">Raw curve</h4>
+        {text.isError ? (
+          <Failed error={text.error} retry={() => void text.refetch()} what="the raw file" />
+        ) : !curves ? (
+          <Loading what="the raw curve" />
+        ) : 'error' in curves ? (
+          <p className="text-sm">{curves.error}</p>
+        ) : (
+          <CurveChart curves={curves} xLabel={`E / V vs ${ref}`} figureName={`${r.handle}-${a.direction}`} />
+        )}
+      </div>
+      <div className="grid gap-2">
+        <h4 className="text-sm font-semibold">{series.label} against potential</h4>
+        <CriterionPlot
+          points={series.points}
+          valueLabel={series.label}
+          xLabel={`E / V vs ${ref}`}
+          cutoff={series.cutoff}
+          cutoffLabel={series.cutoffLabel}
+          limitV={shown.limit.status === 'reached' ? shown.limit.interpolatedV : null}
+          lastPassingV={shown.limit.lastPassingV}
+        />
+        <p className="text-sm" data-testid={`limit-${a.direction}`}>
+          <span className="font-semibold">{recomputed?.result ? `Recomputed at ${criterion}:` : `At ${stored.criterion.text}:`}</span> {limitLine(shown, ref)}
+        </p>
+      </div>
+      <div className="grid gap-1 border-t border-rule dark:border-night-rule pt-3">
+        <p className={`text-sm ${muted}`}>Recompute this side at another criterion (in your browser, from the raw file):</p>
+        <CriterionChooser value={criterion} onChange={recompute} />
+        {recomputed?.error && (
+          <p role="alert" className="text-sm text-copper dark:text-night-copper">
+            {recomputed.error}
+          </p>
+        )}
+      </div>
+    </section>
+  );
+}
+
+/** The record's raw data: each analysed file's curve, its criterion plot, and recomputing in place. */
+export default function RawData({ r }: { r: RecordDetail }) {
+  return (
+    <section aria-labelledby="raw-title" className="grid gap-4">
+      <h2 id="raw-title" className="text-lg font-semibold">
+        Raw data and analysis
+      </h2>
+      {r.analyses.length === 0 ? (
+        <Empty>No raw data is attached: the limits are as reported, judged by the record’s own criterion.</Empty>
+      ) : (
+        r.analyses.map((a) => <AnalysisBlock key={a.id} a={a} r={r} />)
+      )}
+    </section>
+  );
+}

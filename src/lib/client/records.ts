@@ -1,0 +1,338 @@
+import { keepPreviousData, queryOptions } from '@tanstack/react-query';
+import type { CellType, CriterionKind, EvidenceLevel, MethodKind, RecordContent, RecordStatus } from '../shared/record.ts';
+import type { VocabularyKind, VocabularyTerm } from '../shared/vocabulary.ts';
+import { apiPath, getJson } from './api.ts';
+
+// The records API as the browser sees it: response shapes, query parameters, and one
+// queryOptions factory per request with every input in its key. Types only from src/lib/shared
+// (a value import would pull the zod schemas into every island).
+
+export const METHOD_KINDS = ['cv-window-opening', 'lsv', 'potentiostatic-holds'] as const satisfies readonly MethodKind[];
+export const CRITERION_KINDS = ['s-value', 'ce', 'j-area', 'j-mass', 'hold-leakage'] as const satisfies readonly CriterionKind[];
+export const CELL_TYPES = ['three-electrode', 'two-electrode'] as const satisfies readonly CellType[];
+export const EVIDENCE_LEVELS = ['stated', 'documented', 'recomputed', 'confirmed'] as const satisfies readonly EvidenceLevel[];
+export const CONCENTRATION_BASES = ['mol/L', 'mol/kg', 'mole fraction', 'mass fraction'] as const;
+export const SORT_KEYS = ['handle', 'updated', 'anodic', 'cathodic', 'width', 'scanRate', 'temperature', 'concentration'] as const;
+export type SortKey = (typeof SORT_KEYS)[number];
+
+export const METHOD_NAMES: Record<MethodKind, string> = {
+  'cv-window-opening': 'CV window opening',
+  lsv: 'linear sweep',
+  'potentiostatic-holds': 'potentiostatic holds',
+};
+export const CRITERION_NAMES: Record<CriterionKind, string> = {
+  's-value': 'S-value',
+  ce: 'coulombic efficiency',
+  'j-area': 'current per area',
+  'j-mass': 'current per mass',
+  'hold-leakage': 'hold leakage',
+};
+
+export interface LimitView {
+  valueV: number;
+  reference: string;
+  sheV: number | null;
+  offsetV: number | null;
+  approximate: boolean;
+}
+
+export interface RecordSummary {
+  handle: string;
+  version: number;
+  status: RecordStatus;
+  title: string | null;
+  lab: { slug: string; name: string } | null;
+  evidenceLevel: EvidenceLevel;
+  limitKind: 'electrode-potential' | 'cell-voltage';
+  limits: { cathodic: LimitView | null; anodic: LimitView | null };
+  computed: { cathodicV: number | null; anodicV: number | null; cathodicSheV: number | null; anodicSheV: number | null };
+  content: RecordContent;
+  updatedAt: string;
+}
+
+export interface CommonCriterionResult {
+  criterion: string;
+  applied: boolean;
+  reason?: string;
+  /** On the record's own reference scale. */
+  cathodicV: number | null;
+  anodicV: number | null;
+  status: { cathodic?: string; anodic?: string };
+}
+
+export interface SearchItem extends RecordSummary {
+  onScale: { scale: string; cathodic: number | null; anodic: number | null; note?: string };
+  commonCriterion?: CommonCriterionResult;
+}
+
+export type FacetName = 'electrode' | 'method' | 'criterionKind' | 'cellType' | 'evidence' | 'status' | 'lab' | 'concentrationBasis' | 'salt' | 'solvent' | 'additive';
+
+export interface SearchResult {
+  total: number;
+  limit: number;
+  offset: number;
+  items: SearchItem[];
+  facets?: Record<FacetName, { value: string; count: number }[]>;
+}
+
+export interface RawFileView {
+  id: string;
+  name: string;
+  bytes: number;
+  sha256: string;
+  mediaType: string;
+  uploadedAt: string;
+  downloadUrl: string;
+}
+
+export interface AnalysisView {
+  id: string;
+  rawFileId: string;
+  direction: 'anodic' | 'cathodic';
+  limitV: number | null;
+  limitStatus: string;
+  engineVersion: string;
+  parameters: unknown;
+  result: unknown;
+}
+
+export interface RecordDetail extends RecordSummary {
+  ownerId: string;
+  publishedAt: string | null;
+  changeNote: string | null;
+  rawFiles: RawFileView[];
+  analyses: AnalysisView[];
+  reviews: { version: number; decision: string; reason: string | null; at: string }[];
+  allowedActions: string[];
+}
+
+export interface VersionSummary {
+  version: number;
+  createdAt: string;
+  authorId: string;
+  changeNote: string | null;
+  evidenceLevel: EvidenceLevel;
+  rawFileCount: number;
+}
+
+export interface Change {
+  path: string;
+  before: unknown;
+  after: unknown;
+}
+
+/** Query parameters of GET /api/v1/records (and /api/v1/exports), as the explorer keeps them in its address. */
+export interface RecordQuery {
+  q?: string;
+  component?: string[];
+  electrode?: string[];
+  method?: string[];
+  criterionKind?: string[];
+  cellType?: string[];
+  evidence?: string[];
+  concentrationMin?: string;
+  concentrationMax?: string;
+  concentrationBasis?: string;
+  scanRateMin?: string;
+  scanRateMax?: string;
+  temperatureMin?: string;
+  temperatureMax?: string;
+  scale?: string;
+  criterion?: string;
+  sort?: string;
+  limit?: number;
+  offset?: number;
+}
+
+export const LIST_PARAMS = ['component', 'electrode', 'method', 'criterionKind', 'cellType', 'evidence'] as const;
+export const TEXT_PARAMS = [
+  'q',
+  'concentrationMin',
+  'concentrationMax',
+  'concentrationBasis',
+  'scanRateMin',
+  'scanRateMax',
+  'temperatureMin',
+  'temperatureMax',
+  'scale',
+  'criterion',
+  'sort',
+] as const;
+
+/** The API's query parameters read from an address's search string (unknown keys ignored). */
+export function queryFromSearch(search: string): RecordQuery {
+  const p = new URLSearchParams(search);
+  const q: RecordQuery = {};
+  for (const k of LIST_PARAMS) {
+    const v = p.getAll(k).filter(Boolean);
+    if (v.length) q[k] = [...new Set(v)];
+  }
+  for (const k of TEXT_PARAMS) {
+    const v = p.get(k)?.trim();
+    if (v) q[k] = v.slice(0, 200);
+  }
+  const limit = Number(p.get('limit'));
+  if (Number.isInteger(limit) && limit >= 1 && limit <= 200) q.limit = limit;
+  const offset = Number(p.get('offset'));
+  if (Number.isInteger(offset) && offset > 0) q.offset = offset;
+  return q;
+}
+
+/** A stable object of parameters (sorted lists, no empties): equal queries give equal keys. */
+export function normaliseQuery(q: RecordQuery): Record<string, string | number | string[]> {
+  const out: Record<string, string | number | string[]> = {};
+  for (const k of Object.keys(q).sort() as (keyof RecordQuery)[]) {
+    const v = q[k];
+    if (v === undefined || v === '' || (Array.isArray(v) && v.length === 0)) continue;
+    out[k] = Array.isArray(v) ? [...v].sort() : v;
+  }
+  return out;
+}
+
+export const recordQueries = {
+  /** One page of matching records, with facet counts. */
+  list: (q: RecordQuery) =>
+    queryOptions({
+      queryKey: ['records', 'list', normaliseQuery(q)] as const,
+      queryFn: ({ signal }) => getJson<SearchResult>(apiPath('/api/v1/records', normaliseQuery(q)), signal),
+      placeholderData: keepPreviousData,
+    }),
+  /** Up to 200 matches without facets, for the spread summary. */
+  spread: (q: RecordQuery) => {
+    const { sort: _s, limit: _l, offset: _o, ...filters } = q;
+    const params = { ...normaliseQuery(filters), limit: 200, facets: 'false' };
+    return queryOptions({
+      queryKey: ['records', 'spread', params] as const,
+      queryFn: ({ signal }) => getJson<SearchResult>(apiPath('/api/v1/records', params), signal),
+      placeholderData: keepPreviousData,
+    });
+  },
+  /** The most recently changed published records. */
+  recent: (limit: number) =>
+    queryOptions({
+      queryKey: ['records', 'recent', limit] as const,
+      queryFn: ({ signal }) => getJson<SearchResult>(apiPath('/api/v1/records', { sort: '-updated', limit, status: 'published', facets: 'false' }), signal),
+    }),
+  detail: (handle: string) =>
+    queryOptions({
+      queryKey: ['records', 'detail', handle] as const,
+      queryFn: ({ signal }) => getJson<RecordDetail>(`/api/v1/records/${encodeURIComponent(handle)}`, signal),
+    }),
+  versions: (handle: string) =>
+    queryOptions({
+      queryKey: ['records', 'versions', handle] as const,
+      queryFn: ({ signal }) => getJson<{ versions: VersionSummary[] }>(`/api/v1/records/${encodeURIComponent(handle)}/versions`, signal),
+    }),
+  diff: (handle: string, from: number, to: number) =>
+    queryOptions({
+      queryKey: ['records', 'diff', handle, from, to] as const,
+      queryFn: ({ signal }) => getJson<{ from: number; to: number; changes: Change[] }>(apiPath(`/api/v1/records/${encodeURIComponent(handle)}/diff`, { from, to }), signal),
+    }),
+};
+
+export const rawFileQueries = {
+  /** A raw file's text (exports are text; the engine reads it in the browser). */
+  text: (id: string) =>
+    queryOptions({
+      queryKey: ['raw-files', id, 'text'] as const,
+      queryFn: async ({ signal }) => {
+        const res = await fetch(`/api/v1/raw-files/${encodeURIComponent(id)}`, { credentials: 'same-origin', signal });
+        if (!res.ok) throw new Error(`the raw file could not be read (HTTP ${res.status})`);
+        return res.text();
+      },
+      staleTime: Infinity,
+    }),
+};
+
+/** A vocabulary term as the search index keeps it. */
+export interface IndexTerm {
+  id: string;
+  kind: VocabularyKind;
+  name: string;
+  abbreviations: string[];
+  synonyms: string[];
+}
+
+export const vocabularyQueries = {
+  /** Every term, reduced to what search and labels need. */
+  all: () =>
+    queryOptions({
+      queryKey: ['vocabulary'] as const,
+      queryFn: async ({ signal }) => {
+        const { terms } = await getJson<{ terms: VocabularyTerm[] }>('/api/v1/vocabulary', signal);
+        return terms.filter((t) => !t.mergedInto).map<IndexTerm>((t) => ({ id: t.id, kind: t.kind, name: t.name, abbreviations: t.abbreviations, synonyms: t.synonyms }));
+      },
+      staleTime: 10 * 60_000,
+    }),
+};
+
+/** The short name of a term: its first abbreviation, else its name; the id when unknown. */
+export function shortName(terms: Map<string, IndexTerm> | undefined, id: string): string {
+  const t = terms?.get(id);
+  return t ? (t.abbreviations[0] ?? t.name) : id;
+}
+
+/** The full name of a term; the id when unknown. */
+export function longName(terms: Map<string, IndexTerm> | undefined, id: string): string {
+  return terms?.get(id)?.name ?? id;
+}
+
+/** "1 mol/L LiPF6 in PC" from a record's electrolyte. */
+export function electrolyteText(c: RecordContent, terms: Map<string, IndexTerm> | undefined): string {
+  const e = c.electrolyte;
+  const salts = e.salts.map((s) => `${+s.concentration.value.toPrecision(4)} ${s.concentration.basis} ${shortName(terms, s.term)}`).join(' + ');
+  const solvents = e.solvents.map((s) => (e.solvents.length > 1 ? `${shortName(terms, s.term)} ${Math.round(s.fraction * 100)}%` : shortName(terms, s.term))).join(':');
+  const additives = e.additives.length ? ` + ${e.additives.map((a) => shortName(terms, a.term)).join(', ')}` : '';
+  return [salts, solvents].filter(Boolean).join(' in ') + additives;
+}
+
+/** The record's own criterion in words, e.g. "S ≤ 0.1". */
+export function criterionText(c: RecordContent['criterion']): string {
+  if (!c) return 'not stated';
+  switch (c.kind) {
+    case 's-value':
+      return `S ≤ ${c.threshold}`;
+    case 'ce':
+      return `CE ≥ ${c.threshold} %`;
+    case 'j-area':
+      return `j ≤ ${c.threshold} µA cm⁻²`;
+    case 'j-mass':
+      return `j ≤ ${c.threshold} mA g⁻¹`;
+    case 'hold-leakage':
+      return `leakage ≤ ${c.threshold} ${c.per === 'area' ? 'µA cm⁻²' : 'mA g⁻¹'}`;
+  }
+}
+
+/** The record's own criterion in the engine's notation (for recomputing in the browser). */
+export function engineCriterion(c: RecordContent['criterion']): string | undefined {
+  if (!c) return undefined;
+  switch (c.kind) {
+    case 's-value':
+      return `s:${c.threshold}`;
+    case 'ce':
+      return `ce:${c.threshold}%`;
+    case 'j-area':
+      return `j:${c.threshold}uA/cm2`;
+    case 'j-mass':
+      return `jm:${c.threshold}mA/g`;
+    case 'hold-leakage':
+      return c.per === 'area' ? `leak:${c.threshold}uA/cm2` : `leak:${c.threshold}mA/g`;
+  }
+}
+
+/**
+ * A common-criterion limit moved from the record's own reference to the chosen scale: the
+ * record's own offset to SHE, then the shift the API applied to its reported SHE values.
+ */
+export function commonOnScale(item: SearchItem, side: 'cathodic' | 'anodic'): number | null {
+  const cc = item.commonCriterion;
+  const v = cc?.[side === 'cathodic' ? 'cathodicV' : 'anodicV'];
+  if (!cc?.applied || v === null || v === undefined) return null;
+  if (item.limitKind === 'cell-voltage') return v;
+  for (const s of [side, side === 'cathodic' ? 'anodic' : 'cathodic'] as const) {
+    const lim = item.limits[s];
+    const shown = item.onScale[s];
+    if (lim && lim.offsetV !== null && lim.sheV !== null && shown !== null) return v + lim.offsetV + (shown - lim.sheV);
+  }
+  return null;
+}

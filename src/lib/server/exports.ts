@@ -1,0 +1,217 @@
+import type { Principal } from '../shared/principal.ts';
+import type { Db } from './db/index.ts';
+import { eachRecord, recordQuerySchema, type RecordQuery, type SearchItem } from './record-search.ts';
+import { config } from './config.ts';
+import { z } from 'zod';
+
+// Exports of a search: every row carries the record handle, its version and the source citation.
+// Streamed, so a large selection never sits in memory whole.
+
+export const EXPORT_FORMATS = ['csv', 'json', 'bibtex', 'csljson'] as const;
+export type ExportFormat = (typeof EXPORT_FORMATS)[number];
+
+export const exportQuerySchema = recordQuerySchema.extend({ format: z.enum(EXPORT_FORMATS) });
+
+export const EXPORT_TYPES: Record<ExportFormat, { type: string; ext: string }> = {
+  csv: { type: 'text/csv; charset=utf-8', ext: 'csv' },
+  json: { type: 'application/json; charset=utf-8', ext: 'json' },
+  bibtex: { type: 'application/x-bibtex; charset=utf-8', ext: 'bib' },
+  csljson: { type: 'application/vnd.citationstyles.csl+json; charset=utf-8', ext: 'json' },
+};
+
+const CSV_COLUMNS = [
+  'handle', 'version', 'url', 'status', 'evidence_level', 'limit_kind', 'solvents', 'salts', 'additives', 'salt_concentration', 'salt_basis',
+  'water_ppm', 'ph', 'temperature_c', 'working_electrode', 'electrode_form', 'reference_electrode', 'cell_type', 'method',
+  'scan_rate_mv_s', 'criterion', 'cathodic_reported_v', 'cathodic_reference', 'anodic_reported_v', 'anodic_reference',
+  'scale', 'cathodic_on_scale_v', 'anodic_on_scale_v', 'cathodic_computed_v', 'anodic_computed_v',
+  'common_criterion', 'common_applied', 'common_cathodic_v', 'common_anodic_v', 'licence', 'doi', 'citation',
+] as const;
+
+function csvCell(v: unknown): string {
+  if (v === null || v === undefined) return '';
+  let s = String(v);
+  // A leading formula character would run in a spreadsheet: quote it as text.
+  if (/^[=+\-@\t\r]/.test(s) && !/^-?\d/.test(s)) s = `'${s}`;
+  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+/** A plain-text citation of a record's source (authors, year, title, journal, DOI). */
+export function citationText(c: SearchItem['content']): string {
+  const s = c.source;
+  if (!s) return '';
+  if (s.kind === 'unpublished') return `Unpublished measurement, ${s.measuredBy}${s.measuredOn ? `, ${s.measuredOn}` : ''}`;
+  const authors = s.authors.map((a) => (a.given ? `${a.family}, ${a.given}` : a.family)).join('; ');
+  return [`${authors} (${s.year})`, s.title, [s.containerTitle, s.volume, s.pages].filter(Boolean).join(' '), s.doi ? `doi:${s.doi}` : '']
+    .filter(Boolean)
+    .join('. ');
+}
+
+function criterionText(c: SearchItem['content']['criterion']): string {
+  if (!c) return '';
+  switch (c.kind) {
+    case 's-value':
+      return `S <= ${c.threshold}`;
+    case 'ce':
+      return `CE >= ${c.threshold} %`;
+    case 'j-area':
+      return `j <= ${c.threshold} uA/cm2`;
+    case 'j-mass':
+      return `j <= ${c.threshold} mA/g`;
+    case 'hold-leakage':
+      return `end-of-hold leakage <= ${c.threshold} ${c.per === 'area' ? 'uA/cm2' : 'mA/g'}`;
+  }
+}
+
+function csvRow(r: SearchItem, origin: string): string {
+  const e = r.content.electrolyte;
+  const vals: Record<(typeof CSV_COLUMNS)[number], unknown> = {
+    handle: r.handle,
+    version: r.version,
+    url: `${origin}/windows/${r.handle}`,
+    status: r.status,
+    evidence_level: r.evidenceLevel,
+    limit_kind: r.limitKind,
+    solvents: e.solvents.map((s) => `${s.term}:${s.fraction}`).join(' '),
+    salts: e.salts.map((s) => `${s.term}:${s.concentration.value} ${s.concentration.basis}`).join(' '),
+    additives: e.additives.map((s) => s.term).join(' '),
+    salt_concentration: e.salts[0]?.concentration.value,
+    salt_basis: e.salts[0]?.concentration.basis,
+    water_ppm: e.waterContentPpm,
+    ph: e.pH,
+    temperature_c: r.content.temperatureC,
+    working_electrode: r.content.workingElectrode.material,
+    electrode_form: r.content.workingElectrode.form,
+    reference_electrode: r.content.referenceElectrode,
+    cell_type: r.content.cellType,
+    method: r.content.method.kind,
+    scan_rate_mv_s: 'scanRateMVs' in r.content.method ? r.content.method.scanRateMVs : undefined,
+    criterion: criterionText(r.content.criterion),
+    cathodic_reported_v: r.limits.cathodic?.valueV,
+    cathodic_reference: r.limits.cathodic?.reference,
+    anodic_reported_v: r.limits.anodic?.valueV,
+    anodic_reference: r.limits.anodic?.reference,
+    scale: r.onScale.scale,
+    cathodic_on_scale_v: r.onScale.cathodic,
+    anodic_on_scale_v: r.onScale.anodic,
+    cathodic_computed_v: r.computed.cathodicV,
+    anodic_computed_v: r.computed.anodicV,
+    common_criterion: r.commonCriterion?.criterion,
+    common_applied: r.commonCriterion ? String(r.commonCriterion.applied) : undefined,
+    common_cathodic_v: r.commonCriterion?.cathodicV,
+    common_anodic_v: r.commonCriterion?.anodicV,
+    licence: r.content.licence,
+    doi: r.content.source?.kind === 'published' ? r.content.source.doi : undefined,
+    citation: citationText(r.content),
+  };
+  return CSV_COLUMNS.map((c) => csvCell(vals[c])).join(',') + '\r\n';
+}
+
+/** BibTeX text: braces balanced, specials escaped. */
+function bib(s: string): string {
+  return s
+    .replace(/\\/g, '\\textbackslash{}')
+    .replace(/[{}]/g, (m) => `\\${m}`)
+    .replace(/([&%$#_])/g, '\\$1')
+    .replace(/~/g, '\\textasciitilde{}')
+    .replace(/\^/g, '\\textasciicircum{}');
+}
+
+function bibEntry(r: SearchItem, origin: string): string {
+  const key = `${r.handle.replace('-', '')}v${r.version}`;
+  const s = r.content.source;
+  const note = `Edgewise window record ${r.handle} v${r.version}`;
+  const fields: [string, string][] = [];
+  let type = 'misc';
+  if (s?.kind === 'published') {
+    type = s.containerTitle ? 'article' : 'misc';
+    fields.push(['author', s.authors.map((a) => (a.given ? `${bib(a.family)}, ${bib(a.given)}` : `{${bib(a.family)}}`)).join(' and ')]);
+    fields.push(['title', `{${bib(s.title)}}`]);
+    if (s.containerTitle) fields.push(['journal', bib(s.containerTitle)]);
+    fields.push(['year', String(s.year)]);
+    if (s.volume) fields.push(['volume', bib(s.volume)]);
+    if (s.pages) fields.push(['pages', bib(s.pages)]);
+    // doi and url are verbatim fields in BibTeX: no escaping, only braces removed.
+    if (s.doi) fields.push(['doi', s.doi.replace(/[{}]/g, '')]);
+  } else {
+    fields.push(['title', `{${bib(r.content.title ?? `Stability window ${r.handle}`)}}`]);
+    if (s) fields.push(['author', `{${bib(s.measuredBy)}}`]);
+    if (s?.measuredOn) fields.push(['year', s.measuredOn.slice(0, 4)]);
+    fields.push(['howpublished', 'Unpublished measurement']);
+  }
+  fields.push(['note', bib(note)]);
+  fields.push(['url', `${origin}/windows/${r.handle}`]);
+  return `@${type}{${key},\n${fields.map(([k, v]) => `  ${k} = {${v}}`).join(',\n')}\n}\n\n`;
+}
+
+/** A CSL-JSON item for a record: the source publication, with the record named in the note. */
+export function cslItem(r: SearchItem, origin: string): Record<string, unknown> {
+  const s = r.content.source;
+  const item: Record<string, unknown> = {
+    id: `${r.handle}-v${r.version}`,
+    note: `Edgewise window record ${r.handle} v${r.version}`,
+    URL: `${origin}/windows/${r.handle}`,
+  };
+  if (s?.kind === 'published') {
+    Object.assign(item, {
+      type: s.containerTitle ? 'article-journal' : 'document',
+      title: s.title,
+      author: s.authors.map((a) => (a.given ? { family: a.family, given: a.given } : { family: a.family })),
+      issued: { 'date-parts': [[s.year]] },
+      ...(s.containerTitle ? { 'container-title': s.containerTitle } : {}),
+      ...(s.volume ? { volume: s.volume } : {}),
+      ...(s.pages ? { page: s.pages } : {}),
+      ...(s.doi ? { DOI: s.doi } : {}),
+    });
+  } else {
+    Object.assign(item, {
+      type: 'dataset',
+      title: r.content.title ?? `Stability window ${r.handle}`,
+      ...(s ? { author: [{ literal: s.measuredBy }] } : {}),
+      ...(s?.measuredOn ? { issued: { 'date-parts': [s.measuredOn.split('-').map(Number)] } } : {}),
+      genre: 'Unpublished measurement',
+    });
+  }
+  return item;
+}
+
+/**
+ * The export as a stream of UTF-8 text. The first record is fetched before the stream is
+ * returned, so bad parameters fail as a problem response rather than a cut-off download.
+ */
+export async function exportStream(db: Db, principal: Principal, q: RecordQuery, format: ExportFormat): Promise<ReadableStream<Uint8Array>> {
+  const origin = config().PUBLIC_ORIGIN.replace(/\/$/, '');
+  const enc = new TextEncoder();
+  const it = eachRecord(db, principal, q);
+  let pending: IteratorResult<SearchItem> | null = await it.next();
+  let first = true;
+  const list = format === 'json' || format === 'csljson';
+  return new ReadableStream<Uint8Array>({
+    start(controller) {
+      if (format === 'csv') controller.enqueue(enc.encode(CSV_COLUMNS.join(',') + '\r\n'));
+      if (list) controller.enqueue(enc.encode('['));
+    },
+    async pull(controller) {
+      try {
+        const next = pending ?? (await it.next());
+        pending = null;
+        if (next.done) {
+          if (list) controller.enqueue(enc.encode(']\n'));
+          controller.close();
+          return;
+        }
+        const r = next.value;
+        const sep = first ? '' : ',';
+        first = false;
+        if (format === 'csv') controller.enqueue(enc.encode(csvRow(r, origin)));
+        else if (format === 'json') controller.enqueue(enc.encode(sep + JSON.stringify({ ...r, citation: citationText(r.content) })));
+        else if (format === 'csljson') controller.enqueue(enc.encode(sep + JSON.stringify(cslItem(r, origin))));
+        else controller.enqueue(enc.encode(bibEntry(r, origin)));
+      } catch (err) {
+        controller.error(err);
+      }
+    },
+    async cancel() {
+      await it.return(undefined);
+    },
+  });
+}

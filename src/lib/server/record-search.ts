@@ -1,0 +1,226 @@
+import { z } from 'zod';
+import { lastCyclePerVertex, limitAt, parseCriterion, referenceConversion, sCutoff, AnalysisError, type CycleCharge } from '../analysis/index.ts';
+import { CELL_TYPES, CONCENTRATION_BASES, CRITERION_KINDS, EVIDENCE_LEVELS, METHOD_KINDS, RECORD_STATUSES, type RecordContent } from '../shared/record.ts';
+import type { Principal } from '../shared/principal.ts';
+import type { Db } from './db/index.ts';
+import { ValidationError } from './errors.ts';
+import { LISTED } from './record-status.ts';
+import { scaleContext } from './record-derive.ts';
+import { toSummary, type RecordSummary } from './records.ts';
+import { analysesByIds, facetCounts, searchAfter, searchRecords, type FacetName, type ReadScope, type RecordFilter, type SearchRow, type SortKey } from './repositories/records.ts';
+import { resolveTerms } from './vocabulary.ts';
+
+// Finding records: filters over the denormalised columns of current versions, visibility from the
+// principal, facet counts, a chosen reference scale and a common criterion.
+
+const many = <T extends z.ZodType>(item: T) => z.union([item, z.array(item)]).transform((v) => (Array.isArray(v) ? v : [v]) as z.infer<T>[]);
+const num = z.coerce.number().finite();
+
+export const SORT_KEYS = ['handle', 'updated', 'anodic', 'cathodic', 'width', 'scanRate', 'temperature', 'concentration'] as const;
+
+/** Query parameters of GET /api/v1/records and /api/v1/exports. */
+export const recordQuerySchema = z.strictObject({
+  component: many(z.string().min(1).max(200)).optional(),
+  concentrationMin: num.optional(),
+  concentrationMax: num.optional(),
+  concentrationBasis: z.enum(CONCENTRATION_BASES).optional(),
+  electrode: many(z.string().min(1).max(200)).optional(),
+  method: many(z.enum(METHOD_KINDS)).optional(),
+  criterionKind: many(z.enum(CRITERION_KINDS)).optional(),
+  scanRateMin: num.optional(),
+  scanRateMax: num.optional(),
+  temperatureMin: num.optional(),
+  temperatureMax: num.optional(),
+  cellType: many(z.enum(CELL_TYPES)).optional(),
+  evidence: many(z.enum(EVIDENCE_LEVELS)).optional(),
+  status: many(z.enum(RECORD_STATUSES)).optional(),
+  lab: many(z.string().min(1).max(60)).optional(),
+  q: z.string().trim().min(1).max(200).optional(),
+  /** Scale to show limits on: SHE (default), a reference term or engine scale name (RHE uses each record's pH). */
+  scale: z.string().trim().min(1).max(60).optional(),
+  /** Common criterion, e.g. "s:0.1", "ce:99%", "leak:10mA/g": recomputed for raw-backed records. */
+  criterion: z.string().trim().min(3).max(40).optional(),
+  sort: z.enum([...SORT_KEYS, ...SORT_KEYS.map((k) => `-${k}` as const)] as [string, ...string[]]).default('handle'),
+  limit: z.coerce.number().int().min(1).max(200).default(50),
+  offset: z.coerce.number().int().min(0).max(1_000_000).default(0),
+  facets: z.enum(['true', 'false']).default('true'),
+});
+export type RecordQuery = z.infer<typeof recordQuerySchema>;
+
+/** The policy's record.read rule as data for SQL; held equal to the policy by a test. */
+export function readScope(p: Principal): ReadScope {
+  if (p.kind !== 'user') return { userId: null, labIds: [], staff: false };
+  return { userId: p.id, labIds: p.labs.map((l) => l.labId), staff: p.role === 'curator' || p.role === 'admin' };
+}
+
+async function toFilter(db: Db, q: RecordQuery): Promise<RecordFilter> {
+  const refs = [
+    ...(q.component ?? []).map((name, i) => ({ path: `component.${i}`, name, kinds: ['solvent', 'salt', 'additive'] as const })),
+    ...(q.electrode ?? []).map((name, i) => ({ path: `electrode.${i}`, name, kinds: ['electrode-material'] as const })),
+  ].map((r) => ({ ...r, kinds: [...r.kinds] }));
+  const terms = refs.length ? await resolveTerms(db, refs) : new Map();
+  const f: RecordFilter = { statuses: q.status ?? [...LISTED] };
+  if (q.component) f.componentIds = q.component.map((_, i) => terms.get(`component.${i}`)!.id);
+  if (q.electrode) f.electrodeIds = q.electrode.map((_, i) => terms.get(`electrode.${i}`)!.id);
+  if (q.concentrationMin !== undefined) f.concentrationMin = q.concentrationMin;
+  if (q.concentrationMax !== undefined) f.concentrationMax = q.concentrationMax;
+  if (q.concentrationBasis) f.concentrationBasis = q.concentrationBasis;
+  if (q.method) f.methods = q.method;
+  if (q.criterionKind) f.criterionKinds = q.criterionKind;
+  if (q.scanRateMin !== undefined) f.scanRateMin = q.scanRateMin;
+  if (q.scanRateMax !== undefined) f.scanRateMax = q.scanRateMax;
+  if (q.temperatureMin !== undefined) f.temperatureMin = q.temperatureMin;
+  if (q.temperatureMax !== undefined) f.temperatureMax = q.temperatureMax;
+  if (q.cellType) f.cellTypes = q.cellType;
+  if (q.evidence) f.evidence = q.evidence;
+  if (q.lab) f.labSlugs = q.lab;
+  if (q.q) f.q = q.q;
+  return f;
+}
+
+/** A limit shown on the chosen scale. */
+export interface ScaledLimit {
+  valueV: number | null;
+  scale: string;
+}
+
+export interface CommonCriterionResult {
+  criterion: string;
+  /** True when Edgewise recomputed this record's limits at the common criterion. */
+  applied: boolean;
+  /** Why not, when not applied (the record keeps its own criterion). */
+  reason?: string;
+  cathodicV: number | null;
+  anodicV: number | null;
+  /** 'reached', 'not-reached' or 'exceeded-at-first' per direction recomputed. */
+  status: { cathodic?: string; anodic?: string };
+}
+
+export interface SearchItem extends RecordSummary {
+  onScale: { scale: string; cathodic: number | null; anodic: number | null; note?: string };
+  commonCriterion?: CommonCriterionResult;
+}
+
+export interface SearchResult {
+  total: number;
+  limit: number;
+  offset: number;
+  items: SearchItem[];
+  facets?: Record<FacetName, { value: string; count: number }[]>;
+}
+
+/** Checks the scale and common criterion parameters before any query runs. */
+function checkParams(q: RecordQuery) {
+  if (q.scale) {
+    try {
+      referenceConversion('SHE', q.scale, { pH: 7 });
+    } catch (err) {
+      if (err instanceof AnalysisError) throw new ValidationError([{ path: 'scale', message: err.message }]);
+      throw err;
+    }
+  }
+  if (q.criterion) {
+    try {
+      parseCriterion(q.criterion);
+    } catch (err) {
+      if (err instanceof AnalysisError) throw new ValidationError([{ path: 'criterion', message: err.message }]);
+      throw err;
+    }
+  }
+}
+
+/** Limits of a row on a scale: from their SHE values; cell voltages stay cell voltages. */
+function onScale(row: SearchRow, scale: string | undefined): SearchItem['onScale'] {
+  const target = scale ?? 'SHE';
+  if (row.cell_type === 'two-electrode') return { scale: 'cell', cathodic: row.reported_cathodic_v, anodic: row.reported_anodic_v, note: 'cell voltage' };
+  let offset: number;
+  try {
+    offset = referenceConversion('SHE', target, scaleContext(row.content as unknown as RecordContent)).offsetV;
+  } catch (err) {
+    if (err instanceof AnalysisError) return { scale: target, cathodic: null, anodic: null, note: err.message };
+    throw err;
+  }
+  const move = (v: number | null) => (v === null ? null : v + offset);
+  return { scale: target, cathodic: move(row.cathodic_she_v), anodic: move(row.anodic_she_v) };
+}
+
+type StoredCycle = { index: number; vertexV: number; qPosC: number; qNegC: number; sValue: number | null; ce: number | null };
+type StoredStep = { potentialV: number; endCurrentA: number };
+type StoredResult = { method: 'cv' | 'lsv' | 'hold'; direction: 'anodic' | 'cathodic'; cycles?: StoredCycle[]; steps?: StoredStep[]; reference: { offsetV: number } | null };
+
+/**
+ * Limits of a raw-backed record at another criterion, from its stored analyses (no file is read):
+ * CV from the per-cycle S-values, holds from the end-of-hold currents. Returned on the record's
+ * own reference scale and on SHE.
+ */
+async function recompute(db: Db, row: SearchRow, criterionText: string): Promise<CommonCriterionResult> {
+  const c = parseCriterion(criterionText);
+  const base: CommonCriterionResult = { criterion: criterionText, applied: false, cathodicV: null, anodicV: null, status: {} };
+  if (row.raw_file_ids.length === 0) return { ...base, reason: 'no raw data: the record keeps its own criterion' };
+  const analyses = await analysesByIds(db, row.analysis_ids);
+  const latest = new Map<string, StoredResult>();
+  for (const a of analyses) latest.set(a.direction, a.result as unknown as StoredResult);
+  const out = { ...base, applied: true };
+  for (const [dir, r] of latest) {
+    let limit;
+    if (r.method === 'cv') {
+      if (c.kind !== 's' && c.kind !== 'ce') return { ...base, reason: `criterion ${criterionText} does not apply to window-opening CV` };
+      const cycles: CycleCharge[] = (r.cycles ?? []).map((x) => ({ index: x.index, vertexV: x.vertexV, qPosC: x.qPosC, qNegC: x.qNegC, sValue: x.sValue ?? Number.NaN, ce: x.ce ?? Number.NaN, segment: { start: 0, end: 0 } }));
+      const { chosen } = lastCyclePerVertex(cycles, r.direction);
+      limit = limitAt(chosen.map((x) => x.vertexV), chosen.map((x) => x.sValue), sCutoff(c), 'log').limit;
+    } else if (r.method === 'hold') {
+      const divisor = c.kind === 'j' ? row.area_cm2 : c.kind === 'jm' ? (row.mass_mg === null ? null : row.mass_mg / 1000) : c.kind === 'i' ? 1 : null;
+      if (divisor === null) return { ...base, reason: `criterion ${criterionText} needs ${c.kind === 'j' ? 'the electrode area' : c.kind === 'jm' ? 'the active mass' : 'a current cutoff'} for holds` };
+      const sign = r.direction === 'anodic' ? 1 : -1;
+      const steps = [...(r.steps ?? [])].sort((a, b) => sign * (a.potentialV - b.potentialV));
+      limit = limitAt(steps.map((s) => s.potentialV), steps.map((s) => (sign * s.endCurrentA) / divisor), c.value, 'log').limit;
+    } else {
+      return { ...base, reason: 'a linear sweep is recomputed from its curve, which search does not re-read; the record keeps its own criterion' };
+    }
+    const v = limit.status === 'reached' ? limit.interpolatedV : null;
+    if (dir === 'anodic') out.anodicV = v;
+    else out.cathodicV = v;
+    out.status[dir as 'anodic' | 'cathodic'] = limit.status;
+  }
+  return out;
+}
+
+function parseSort(s: string): { sort: SortKey; desc: boolean } {
+  return s.startsWith('-') ? { sort: s.slice(1) as SortKey, desc: true } : { sort: s as SortKey, desc: false };
+}
+
+async function decorate(db: Db, rows: SearchRow[], q: RecordQuery): Promise<SearchItem[]> {
+  const items: SearchItem[] = [];
+  for (const row of rows) {
+    const item: SearchItem = { ...toSummary(row, row), onScale: onScale(row, q.scale) };
+    if (q.criterion) item.commonCriterion = await recompute(db, row, q.criterion);
+    items.push(item);
+  }
+  return items;
+}
+
+/** One page of records visible to the principal, with facet counts over the whole result. */
+export async function searchRecordList(db: Db, principal: Principal, q: RecordQuery): Promise<SearchResult> {
+  checkParams(q);
+  const filter = await toFilter(db, q);
+  const scope = readScope(principal);
+  const { rows, total } = await searchRecords(db, filter, scope, { ...parseSort(q.sort), limit: q.limit, offset: q.offset });
+  const result: SearchResult = { total, limit: q.limit, offset: q.offset, items: await decorate(db, rows, q) };
+  if (q.facets === 'true') result.facets = await facetCounts(db, filter, scope);
+  return result;
+}
+
+/** Every matching record, a batch at a time (exports stream these). */
+export async function* eachRecord(db: Db, principal: Principal, q: RecordQuery, batch = 200): AsyncGenerator<SearchItem> {
+  checkParams(q);
+  const filter = await toFilter(db, q);
+  const scope = readScope(principal);
+  let after: string | null = null;
+  for (;;) {
+    const rows = await searchAfter(db, filter, scope, after, batch);
+    if (rows.length === 0) return;
+    for (const item of await decorate(db, rows, q)) yield item;
+    after = rows[rows.length - 1]!.handle;
+    if (rows.length < batch) return;
+  }
+}

@@ -1,0 +1,221 @@
+import { createHash, randomUUID } from 'node:crypto';
+import type { CreateUploadBody, RecordContent } from '../shared/record.ts';
+import { AnalysisRefused, analyzeInWorker } from './analysis-pool.ts';
+import { config } from './config.ts';
+import type { Db } from './db/index.ts';
+import { AppError, ConflictError, NotFoundError, PayloadTooLargeError } from './errors.ts';
+import { authorize, canSee, type Principal, type UserPrincipal } from './policy.ts';
+import { analysisLimit, analysisOptions, attachRawFile, policyObject, toRawFileView, type RawFileView } from './records.ts';
+import { termRefs } from './record-derive.ts';
+import { insertAuditEvent } from './repositories/audit.ts';
+import { getRawFile, getRecordHead, getRecordHeadById, getVersion, insertRawFile } from './repositories/records.ts';
+import { getUpload, insertUpload, markUploadComplete, markUploadExpired, markUploadFailed, stalePendingUploads, type UploadRow } from './repositories/uploads.ts';
+import { deleteObject, getObjectBytes, presignPut } from './storage.ts';
+import { resolveTerms } from './vocabulary.ts';
+
+// Raw files in two phases: the client declares a file and gets a short-lived URL to PUT it to;
+// on `complete` the server reads the object back, checks size and SHA-256, analyses it and only
+// then attaches it to the record. A record never points at a file that was not verified.
+
+/** How long a presigned PUT stays valid (s). */
+export const UPLOAD_URL_SECONDS = 300;
+
+export interface UploadTicket {
+  id: string;
+  status: UploadRow['status'];
+  /** PUT the bytes here with the same Content-Type before `expiresAt`. */
+  url: string;
+  method: 'PUT';
+  headers: { 'content-type': string };
+  expiresAt: string;
+}
+
+export interface UploadResult {
+  id: string;
+  status: 'complete';
+  rawFile: RawFileView;
+  analysis: { id: string; direction: 'anodic' | 'cathodic'; limitV: number | null; limitStatus: string; warnings: string[] };
+  record: { handle: string; version: number; evidenceLevel: string };
+}
+
+/** A file name safe for object metadata and Content-Disposition: ASCII letters, digits, dot, dash, underscore. */
+export function safeFileName(name: string): string {
+  const base = name.split(/[\\/]/).pop() ?? '';
+  const cleaned = base
+    .normalize('NFKD')
+    .replace(/[\u0000-\u001f\u007f\u200e\u200f\u202a-\u202e\u2066-\u2069]/g, '')
+    .replace(/[^A-Za-z0-9._-]+/g, '_')
+    .replace(/^[._]+/, '')
+    .replace(/_+/g, '_');
+  const trimmed = cleaned.length > 120 ? cleaned.slice(cleaned.length - 120).replace(/^[._]+/, '') : cleaned;
+  return trimmed || 'raw-file';
+}
+
+/** Declares an upload: checks the size limit and the right to add files to the record, returns a presigned PUT. */
+export async function declareUpload(db: Db, principal: Principal, body: CreateUploadBody): Promise<UploadTicket> {
+  const limit = config().MAX_UPLOAD_BYTES;
+  if (body.size > limit) throw new PayloadTooLargeError(limit);
+  const head = await getRecordHead(db, body.record);
+  if (!head || !canSee(principal, policyObject(head))) throw new NotFoundError('record');
+  authorize(principal, 'rawFile.upload', { type: 'rawFile', record: policyObject(head) }, { what: 'record' });
+  const user = principal as UserPrincipal;
+  const id = randomUUID();
+  const key = `raw/${id}`;
+  const expiresAt = new Date(Date.now() + UPLOAD_URL_SECONDS * 1000);
+  const url = await presignPut(key, body.mediaType, UPLOAD_URL_SECONDS);
+  await db.transaction().execute(async (trx) => {
+    await insertUpload(trx, {
+      id,
+      recordId: head.id,
+      ownerId: user.id,
+      objectKey: key,
+      name: body.name,
+      size: body.size,
+      sha256: body.sha256,
+      mediaType: body.mediaType,
+      mapping: body.mapping,
+      expiresAt,
+    });
+    await insertAuditEvent(trx, { actorId: user.id, action: 'upload.declare', subjectType: 'upload', subjectId: id, details: { record: head.handle, size: body.size, sha256: body.sha256 } });
+  });
+  return { id, status: 'pending', url, method: 'PUT', headers: { 'content-type': body.mediaType }, expiresAt: expiresAt.toISOString() };
+}
+
+/** The upload if it is the principal's own; anyone else's (or a missing one) is the same 404. */
+async function ownUpload(db: Db, principal: Principal, id: string): Promise<UploadRow> {
+  const u = /^[0-9a-f-]{36}$/.test(id) ? await getUpload(db, id) : undefined;
+  if (!u || principal.kind !== 'user' || u.owner_id !== principal.id) throw new NotFoundError('upload');
+  return u;
+}
+
+async function completedResult(db: Db, u: UploadRow): Promise<UploadResult> {
+  const file = (await getRawFile(db, u.raw_file_id!))!;
+  const head = (await getRecordHeadById(db, u.record_id))!;
+  const v = (await getVersion(db, head.id, head.current_version))!;
+  const analysis = await db.selectFrom('analyses').selectAll().where('raw_file_id', '=', file.id).orderBy('created_at', 'desc').executeTakeFirstOrThrow();
+  const result = analysis.result as { warnings?: string[] };
+  return {
+    id: u.id,
+    status: 'complete',
+    rawFile: toRawFileView(file),
+    analysis: { id: analysis.id, direction: analysis.direction, limitV: analysis.limit_v, limitStatus: analysis.limit_status, warnings: result.warnings ?? [] },
+    record: { handle: head.handle, version: head.current_version, evidenceLevel: v.evidence_level },
+  };
+}
+
+class UploadRejected extends AppError {
+  constructor(detail: string, errors: { path: string; message: string }[]) {
+    super(422, 'Upload rejected', detail, { errors });
+  }
+}
+
+/**
+ * Verifies an uploaded object and attaches it. Repeating it after success returns the same
+ * result; an object that has not arrived leaves the upload pending (409); a wrong size or
+ * checksum, or a file the engine cannot read, fails the upload for good (422) and removes the object.
+ */
+export async function completeUpload(db: Db, principal: Principal, id: string): Promise<UploadResult> {
+  const u = await ownUpload(db, principal, id);
+  if (u.status === 'complete') return completedResult(db, u);
+  if (u.status !== 'pending') throw new ConflictError(`this upload is ${u.status}; declare the file again`, { uploadStatus: u.status });
+  const headBefore = (await getRecordHeadById(db, u.record_id))!;
+  authorize(principal, 'rawFile.upload', { type: 'rawFile', record: policyObject(headBefore) }, { what: 'record' });
+
+  const bytes = await getObjectBytes(u.object_key);
+  if (!bytes) throw new ConflictError('the file has not arrived in storage; PUT it to the upload URL first', { code: 'object-missing' });
+  const fail = async (detail: string, errors: { path: string; message: string }[]) => {
+    await markUploadFailed(db, u.id, { detail, errors });
+    await deleteObject(u.object_key).catch(() => {});
+    return new UploadRejected(detail, errors);
+  };
+  if (bytes.byteLength !== Number(u.declared_size)) {
+    throw await fail('The stored file does not have the declared size.', [{ path: 'size', message: `declared ${u.declared_size} bytes, received ${bytes.byteLength}` }]);
+  }
+  const sha = createHash('sha256').update(bytes).digest('hex');
+  if (sha !== u.declared_sha256) {
+    throw await fail('The stored file does not match the declared SHA-256.', [{ path: 'sha256', message: `declared ${u.declared_sha256}, received ${sha}` }]);
+  }
+
+  const version = (await getVersion(db, headBefore.id, headBefore.current_version))!;
+  const content = version.content as unknown as RecordContent;
+  const terms = await resolveTerms(db, termRefs(content));
+  const options = analysisOptions(content, terms, u.mapping as Parameters<typeof analysisOptions>[2]);
+  let result;
+  try {
+    result = await analyzeInWorker(bytes, options);
+  } catch (err) {
+    if (err instanceof AnalysisRefused) {
+      await markUploadFailed(db, u.id, { detail: err.message, ...err.extra });
+      await deleteObject(u.object_key).catch(() => {});
+    }
+    throw err;
+  }
+
+  const outcome = await db.transaction().execute(async (trx) => {
+    const locked = (await getUpload(trx, u.id, { lock: true }))!;
+    if (locked.status !== 'pending') return locked.status === 'complete' ? 'already' : 'gone';
+    const rawFileId = await insertRawFile(trx, {
+      recordId: u.record_id,
+      objectKey: u.object_key,
+      originalName: u.declared_name,
+      safeName: safeFileName(u.declared_name),
+      bytes: bytes.byteLength,
+      sha256: sha,
+      mediaType: u.media_type,
+      mapping: u.mapping,
+      parseSummary: {
+        bytes: bytes.byteLength,
+        method: result.method,
+        direction: result.direction,
+        cycles: result.cycles?.length ?? 0,
+        steps: result.steps?.length ?? 0,
+        limitStatus: result.limit.status,
+        warnings: result.warnings,
+      },
+      uploadedBy: u.owner_id,
+    });
+    await attachRawFile(trx, principal, u.record_id, { rawFileId, options, result, name: safeFileName(u.declared_name) });
+    await markUploadComplete(trx, u.id, rawFileId);
+    await insertAuditEvent(trx, { actorId: u.owner_id, action: 'upload.complete', subjectType: 'upload', subjectId: u.id, details: { rawFileId, sha256: sha, limitV: analysisLimit(result) } });
+    return 'done';
+  });
+  if (outcome === 'gone') throw new ConflictError('this upload was cancelled meanwhile; declare the file again');
+  return completedResult(db, (await getUpload(db, u.id))!);
+}
+
+/** The state of one of the principal's uploads. */
+export async function getUploadStatus(db: Db, principal: Principal, id: string) {
+  const u = await ownUpload(db, principal, id);
+  if (u.status === 'complete') return completedResult(db, u);
+  return { id: u.id, status: u.status, expiresAt: u.expires_at.toISOString(), error: u.error };
+}
+
+/**
+ * The clean-up job: pending uploads whose URL expired more than `graceSeconds` ago are marked
+ * expired and their objects (if any arrived) removed. Returns how many were cleaned.
+ */
+export async function cleanStaleUploads(db: Db, opts: { now?: Date; graceSeconds?: number; batch?: number } = {}): Promise<number> {
+  const before = new Date((opts.now ?? new Date()).getTime() - (opts.graceSeconds ?? 3600) * 1000);
+  let cleaned = 0;
+  for (const u of await stalePendingUploads(db, before, opts.batch ?? 500)) {
+    if (!(await markUploadExpired(db, u.id))) continue;
+    await deleteObject(u.object_key).catch(() => {});
+    await insertAuditEvent(db, { actorId: null, action: 'upload.expire', subjectType: 'upload', subjectId: u.id, details: { record_id: u.record_id } });
+    cleaned++;
+  }
+  return cleaned;
+}
+
+const INLINE_SAFE_TYPES = new Set(['text/csv', 'text/plain', 'text/tab-separated-values']);
+
+/** A raw file's bytes for download, if the principal may read its record. */
+export async function downloadRawFile(db: Db, principal: Principal, id: string): Promise<{ bytes: Uint8Array; fileName: string; mediaType: string; sha256: string }> {
+  const f = /^[0-9a-f-]{36}$/.test(id) ? await getRawFile(db, id) : undefined;
+  const head = f ? await getRecordHeadById(db, f.record_id) : undefined;
+  if (!f || !head) throw new NotFoundError('raw file');
+  authorize(principal, 'rawFile.read', { type: 'rawFile', record: policyObject(head) }, { what: 'raw file' });
+  const bytes = await getObjectBytes(f.object_key);
+  if (!bytes) throw new NotFoundError('raw file');
+  return { bytes, fileName: f.safe_name, mediaType: INLINE_SAFE_TYPES.has(f.media_type) ? f.media_type : 'application/octet-stream', sha256: f.sha256 };
+}
+

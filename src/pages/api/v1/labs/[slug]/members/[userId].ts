@@ -1,0 +1,15 @@
+import { db } from '../../../../../../lib/server/db/index.ts';
+import { endpoint, readJson } from '../../../../../../lib/server/http/route.ts';
+import { json } from '../../../../../../lib/server/http/problem.ts';
+import { changeMember, removeMember } from '../../../../../../lib/server/labs.ts';
+import { memberChangeInput } from '../../../../../../lib/shared/account.ts';
+
+export const PATCH = endpoint(async ({ locals, params, request }) => {
+  const { role } = await readJson(request, memberChangeInput);
+  return json(await changeMember(db(), locals.principal, params.slug ?? '', params.userId ?? '', role));
+});
+
+export const DELETE = endpoint(async ({ locals, params }) => {
+  await removeMember(db(), locals.principal, params.slug ?? '', params.userId ?? '');
+  return new Response(null, { status: 204 });
+});

@@ -1,0 +1,13 @@
+import { db } from '../../../../../../lib/server/db/index.ts';
+import { endpoint, readJson } from '../../../../../../lib/server/http/route.ts';
+import { json } from '../../../../../../lib/server/http/problem.ts';
+import { addMember, getLabMembers } from '../../../../../../lib/server/labs.ts';
+import { memberAddInput } from '../../../../../../lib/shared/account.ts';
+
+export const GET = endpoint(async ({ locals, params }) => json({ members: await getLabMembers(db(), locals.principal, params.slug ?? '') }));
+
+/** Adds a member by e-mail address (or changes the role of an existing one). */
+export const POST = endpoint(async ({ locals, params, request }) => {
+  const input = await readJson(request, memberAddInput);
+  return json(await addMember(db(), locals.principal, params.slug ?? '', input), 201);
+});

@@ -1,0 +1,25 @@
+import { decide } from '../../../../../lib/server/curation.ts';
+import { db } from '../../../../../lib/server/db/index.ts';
+import { json } from '../../../../../lib/server/http/problem.ts';
+import { endpoint, readJson } from '../../../../../lib/server/http/route.ts';
+import { getRecord, transitionRecord } from '../../../../../lib/server/records.ts';
+import { DECISIONS, decisionBody } from '../../../../../lib/shared/curation.ts';
+import { transitionBody } from '../../../../../lib/shared/record.ts';
+
+const isDecision = (action: string): action is (typeof DECISIONS)[number] => (DECISIONS as readonly string[]).includes(action);
+
+/**
+ * Moves a record through its lifecycle. Curators' decisions (publish, request changes, decline)
+ * take the review path, so they are claimed, commented and mailed the same way from here; anyone
+ * else gets the status machine's own answer (404 unseen, 403 not theirs, 409 not now).
+ */
+export const POST = endpoint(async ({ locals, params, request }) => {
+  const body = await readJson(request, transitionBody);
+  const p = locals.principal;
+  if (isDecision(body.action) && p.kind === 'user' && (p.role === 'curator' || p.role === 'admin')) {
+    const decision = decisionBody.parse({ decision: body.action, version: body.version, ...(body.reason ? { reason: body.reason } : {}) });
+    await decide(db(), locals.principal, params.handle!, decision);
+    return json(await getRecord(db(), locals.principal, params.handle!));
+  }
+  return json(await transitionRecord(db(), locals.principal, params.handle!, body));
+});

@@ -1,0 +1,235 @@
+import { createHash } from 'node:crypto';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { appDb, as, asJson, closeAppDb, clearSignInFailures, makeUser, signIn } from '../auth-helpers.ts';
+import { content, tag } from '../support/records.ts';
+import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
+import { cleanStaleUploads, safeFileName } from '../../src/lib/server/uploads.ts';
+import { getObjectBytes, putObject } from '../../src/lib/server/storage.ts';
+
+// Raw files in two phases against the built server and the S3 fake: declare, PUT to the
+// presigned URL, complete (verified, analysed, attached); and everything that can go wrong.
+
+let owner: string;
+let curator: string;
+let other: string;
+const token = tag('upl');
+
+// The synthetic window-opening CV of METHODS.md §8 A (C = 0.010 F, 5 mV/s, vertices 0.7…1.1 V,
+// Tafel current 1e-5 A·10^((E−1)/0.15)), written out by the engine's own export writer.
+const cvFile = formatExport(cvWindowOpeningSamples());
+const sha = (s: string | Uint8Array) => createHash('sha256').update(s).digest('hex');
+const rawContent = () =>
+  content({
+    title: `Raw-backed ${token}`,
+    referenceElectrode: 'SHE',
+    workingElectrode: { material: 'activated carbon', form: 'composite', activeMassMg: 2 },
+    reportedLimits: { anodic: { valueV: 1.09, reference: 'SHE' } },
+  });
+
+beforeAll(async () => {
+  owner = await signIn(await makeUser({ role: 'contributor' }));
+  other = await signIn(await makeUser({ role: 'contributor' }));
+  curator = await signIn(await makeUser({ role: 'curator' }));
+});
+afterAll(async () => {
+  await clearSignInFailures();
+  await closeAppDb();
+});
+
+async function newRecord() {
+  const res = await asJson(owner, '/api/v1/records', 'POST', { content: rawContent() });
+  expect(res.status).toBe(201);
+  return res.json();
+}
+async function declare(handle: string, body: string, over: Record<string, unknown> = {}) {
+  const res = await asJson(owner, '/api/v1/uploads', 'POST', { record: handle, name: 'cv run 1.csv', size: Buffer.byteLength(body), sha256: sha(body), mediaType: 'text/csv', ...over });
+  return { res, json: await res.json() };
+}
+const put = (ticket: { url: string; headers: Record<string, string> }, body: string) => fetch(ticket.url, { method: 'PUT', body, headers: ticket.headers });
+const complete = (id: string, who = owner) => as(who, `/api/v1/uploads/${id}/complete`, { method: 'POST' });
+
+describe('the upload flow', () => {
+  let handle: string;
+  let rawFileId: string;
+
+  it('declares, uploads, verifies, analyses and attaches a file; the record becomes confirmed', async () => {
+    const rec = await newRecord();
+    handle = rec.handle;
+    expect(rec.evidenceLevel).toBe('documented');
+    const { res, json: ticket } = await declare(handle, cvFile);
+    expect(res.status).toBe(201);
+    expect(ticket.status).toBe('pending');
+    expect(ticket.url).toContain('X-Amz-Expires=300');
+    expect(ticket.url).toMatch(/\/raw\/[0-9a-f-]{36}\?/); // a server-generated key, not the file name
+    expect((await put(ticket, cvFile)).status).toBe(200);
+
+    const done = await complete(ticket.id);
+    expect(done.status).toBe(200);
+    const result = await done.json();
+    expect(result.status).toBe('complete');
+    expect(result.rawFile.sha256).toBe(sha(cvFile));
+    expect(result.rawFile.bytes).toBe(Buffer.byteLength(cvFile));
+    expect(result.analysis.direction).toBe('anodic');
+    // Limit at S = 0.1, interpolated in log10 S: 1.0898 V (METHODS.md §8 A check value).
+    expect(result.analysis.limitV).toBeCloseTo(1.0898, 3);
+    // Within 50 mV of the reported 1.09 V at the record's own criterion → confirmed.
+    expect(result.record).toEqual({ handle, version: 2, evidenceLevel: 'confirmed' });
+    rawFileId = result.rawFile.id;
+
+    const r = await (await as(owner, `/api/v1/records/${handle}`)).json();
+    expect(r.rawFiles.map((f: { id: string }) => f.id)).toEqual([rawFileId]);
+    expect(r.computed.anodicV).toBeCloseTo(1.0898, 3);
+    expect(r.computed.anodicSheV).toBeCloseTo(1.0898, 3);
+    expect(r.analyses[0].parameters).toMatchObject({ method: 'cv', criterion: 's:0.1', scanRate: 0.005, fromRef: 'SHE' });
+    expect(r.analyses[0].engineVersion).toBeTruthy();
+  });
+
+  it('answers a repeated complete with the same result and no new version', async () => {
+    const u = await appDb().selectFrom('uploads').select('id').where('raw_file_id', '=', rawFileId).executeTakeFirstOrThrow();
+    const again = await complete(u.id);
+    expect(again.status).toBe(200);
+    const body = await again.json();
+    expect(body.rawFile.id).toBe(rawFileId);
+    expect(body.record.version).toBe(2);
+    const files = await appDb().selectFrom('raw_files').select('id').where('object_key', '=', `raw/${u.id}`).execute();
+    expect(files).toHaveLength(1);
+  });
+
+  it('downloads through the server as an attachment with a safe name; not for those who cannot see the record', async () => {
+    const res = await as(owner, `/api/v1/raw-files/${rawFileId}`);
+    expect(res.status).toBe(200);
+    expect(res.headers.get('content-disposition')).toBe(`attachment; filename="cv_run_1.csv"; filename*=UTF-8''cv_run_1.csv`);
+    expect(res.headers.get('x-content-type-options')).toBe('nosniff');
+    expect(sha(new Uint8Array(await res.arrayBuffer()))).toBe(sha(cvFile));
+    expect((await as(null, `/api/v1/raw-files/${rawFileId}`)).status).toBe(404);
+    expect((await as(other, `/api/v1/raw-files/${rawFileId}`)).status).toBe(404);
+    expect((await as(other, `/api/v1/raw-files/00000000-0000-4000-8000-000000000000`)).status).toBe(404);
+  });
+
+  it('recomputes a published raw-backed record at a common criterion from its stored analysis', async () => {
+    expect((await asJson(owner, `/api/v1/records/${handle}/transitions`, 'POST', { action: 'submit', version: 2 })).status).toBe(200);
+    expect((await asJson(curator, `/api/v1/records/${handle}/transitions`, 'POST', { action: 'publish', version: 2 })).status).toBe(200);
+    // A stated record beside it keeps its own criterion and says so.
+    const stated = await (await asJson(owner, '/api/v1/records', 'POST', { content: content({ title: `Stated ${token}` }) })).json();
+    await asJson(owner, `/api/v1/records/${stated.handle}/transitions`, 'POST', { action: 'submit', version: 1 });
+    await asJson(curator, `/api/v1/records/${stated.handle}/transitions`, 'POST', { action: 'publish', version: 1 });
+
+    const get = async (criterion: string) => {
+      const res = await as(null, `/api/v1/records?q=${token}&criterion=${encodeURIComponent(criterion)}&sort=handle`);
+      expect(res.status).toBe(200);
+      return (await res.json()).items as { handle: string; commonCriterion: { applied: boolean; anodicV: number | null; reason?: string } }[];
+    };
+    const s01 = await get('s:0.1');
+    expect(s01).toHaveLength(2);
+    const raw = s01.find((x) => x.handle === handle)!;
+    // METHODS.md §8 A: log-interpolated limit at S = 0.1 is 1.0898 V.
+    expect(raw.commonCriterion.applied).toBe(true);
+    expect(raw.commonCriterion.anodicV).toBeCloseTo(1.0898, 3);
+    const own = s01.find((x) => x.handle === stated.handle)!;
+    expect(own.commonCriterion.applied).toBe(false);
+    expect(own.commonCriterion.reason).toMatch(/own criterion/);
+
+    // At S = 0.01 the crossing lies between the 0.9 V and 1.0 V vertices: log10-interpolating the
+    // METHODS.md §8 A S-values 6.257e-3 and 0.02640 gives 0.9 + 0.1·(−2 − log10 6.257e-3)/(log10 0.0264 − log10 6.257e-3) = 0.93257 V.
+    const s001 = (await get('s:0.01')).find((x) => x.handle === handle)!;
+    expect(s001.commonCriterion.anodicV).toBeCloseTo(0.93257, 3);
+    // CE ≥ 90.91 % is S ≤ 0.1 (CE = 1/(1+S), METHODS.md §1).
+    const ce = (await get('ce:90.909%')).find((x) => x.handle === handle)!;
+    expect(ce.commonCriterion.anodicV).toBeCloseTo(1.0898, 3);
+    // A current cutoff does not apply to window-opening CV: the record keeps its own criterion.
+    const j = (await get('j:10uA/cm2')).find((x) => x.handle === handle)!;
+    expect(j.commonCriterion.applied).toBe(false);
+    expect((await as(null, `/api/v1/records?criterion=bogus`)).status).toBe(400);
+  });
+});
+
+describe('uploads that go wrong', () => {
+  it('refuses a declared size above the limit before anything is stored', async () => {
+    const rec = await newRecord();
+    const { res, json } = await declare(rec.handle, 'x', { size: 200 * 1024 * 1024 + 1 });
+    expect(res.status).toBe(413);
+    expect(json.title).toBe('Payload too large');
+  });
+
+  it('leaves an upload pending while its object has not arrived (409), and completes once it has', async () => {
+    const rec = await newRecord();
+    const { json: ticket } = await declare(rec.handle, cvFile);
+    const early = await complete(ticket.id);
+    expect(early.status).toBe(409);
+    expect((await early.json()).code).toBe('object-missing');
+    expect((await appDb().selectFrom('uploads').select('status').where('id', '=', ticket.id).executeTakeFirstOrThrow()).status).toBe('pending');
+    const r = await (await as(owner, `/api/v1/records/${rec.handle}`)).json();
+    expect(r.rawFiles).toEqual([]);
+    await put(ticket, cvFile);
+    expect((await complete(ticket.id)).status).toBe(200);
+  });
+
+  it('fails an upload whose bytes do not match the declared SHA-256; the record never points at it', async () => {
+    const rec = await newRecord();
+    const { json: ticket } = await declare(rec.handle, cvFile);
+    const tampered = cvFile.replace('0.7', '0.8');
+    expect(tampered.length).toBe(cvFile.length);
+    await put(ticket, tampered);
+    const res = await complete(ticket.id);
+    expect(res.status).toBe(422);
+    const body = await res.json();
+    expect(body.errors[0].path).toBe('sha256');
+    const row = await appDb().selectFrom('uploads').selectAll().where('id', '=', ticket.id).executeTakeFirstOrThrow();
+    expect(row.status).toBe('failed');
+    expect(row.raw_file_id).toBeNull();
+    expect(await getObjectBytes(`raw/${ticket.id}`)).toBeNull();
+    const r = await (await as(owner, `/api/v1/records/${rec.handle}`)).json();
+    expect(r.rawFiles).toEqual([]);
+    expect(r.version).toBe(1);
+    expect((await complete(ticket.id)).status).toBe(409);
+  });
+
+  it('fails an upload of the wrong size, and one the engine cannot read (422 naming the line)', async () => {
+    const rec = await newRecord();
+    const { json: t1 } = await declare(rec.handle, cvFile, { size: Buffer.byteLength(cvFile) + 1 });
+    await put(t1, cvFile);
+    const r1 = await complete(t1.id);
+    expect(r1.status).toBe(422);
+    expect((await r1.json()).errors[0].path).toBe('size');
+
+    const junk = 'time/s,E/V,I/A\n0,0.1,1e-3\n1,oops,2e-3\n';
+    const { json: t2 } = await declare(rec.handle, junk);
+    await put(t2, junk);
+    const r2 = await complete(t2.id);
+    expect(r2.status).toBe(422);
+    expect((await r2.json()).errors[0].path).toMatch(/^line 3/);
+  });
+
+  it('keeps uploads to their owner: anyone else gets the same 404 as for a missing id', async () => {
+    const rec = await newRecord();
+    const { json: ticket } = await declare(rec.handle, cvFile);
+    expect((await complete(ticket.id, other)).status).toBe(404);
+    expect((await complete('00000000-0000-4000-8000-000000000000')).status).toBe(404);
+    expect((await asJson(other, '/api/v1/uploads', 'POST', { record: rec.handle, name: 'a.csv', size: 3, sha256: sha('abc'), mediaType: 'text/csv' })).status).toBe(404);
+    expect((await asJson(null, '/api/v1/uploads', 'POST', { record: rec.handle, name: 'a.csv', size: 3, sha256: sha('abc'), mediaType: 'text/csv' })).status).toBe(404);
+    expect((await asJson(owner, '/api/v1/uploads', 'POST', { record: rec.handle, name: 'a.csv', size: 3, sha256: sha('abc'), mediaType: 'text/csv', key: 'raw/mine' })).status).toBe(400);
+  });
+
+  it('cleans pending uploads whose URL expired long ago, and their objects', async () => {
+    const rec = await newRecord();
+    const { json: stale } = await declare(rec.handle, cvFile);
+    await putObject(`raw/${stale.id}`, cvFile, 'text/csv');
+    const { json: fresh } = await declare(rec.handle, cvFile);
+    await appDb().updateTable('uploads').set({ expires_at: new Date(Date.now() - 2 * 3600_000) }).where('id', '=', stale.id).execute();
+    const cleaned = await cleanStaleUploads(appDb(), { graceSeconds: 3600 });
+    expect(cleaned).toBeGreaterThanOrEqual(1);
+    const rows = await appDb().selectFrom('uploads').select(['id', 'status']).where('id', 'in', [stale.id, fresh.id]).execute();
+    expect(Object.fromEntries(rows.map((r) => [r.id, r.status]))).toEqual({ [stale.id]: 'expired', [fresh.id]: 'pending' });
+    expect(await getObjectBytes(`raw/${stale.id}`)).toBeNull();
+    expect((await complete(stale.id)).status).toBe(409);
+  });
+
+  it('turns odd names into harmless ones', () => {
+    expect(safeFileName('../../etc/passwd')).toBe('passwd');
+    expect(safeFileName('a\u0000b.csv')).toBe('ab.csv');
+    expect(safeFileName('report\u202Evsc.exe')).toBe('reportvsc.exe');
+    expect(safeFileName('x'.repeat(300) + '.csv')).toHaveLength(120);
+    expect(safeFileName('...')).toBe('raw-file');
+    expect(safeFileName('Messung µA 1,5.csv')).toBe('Messung_A_1_5.csv');
+  });
+});
