@@ -6,10 +6,11 @@ import { problem } from './lib/server/http/problem.ts';
 import { toProblem } from './lib/server/http/route.ts';
 import { resolvePrincipal } from './lib/server/auth/principal.ts';
 import { ANONYMOUS } from './lib/shared/principal.ts';
-import { startOutbox } from './lib/server/outbox.ts';
+import { startJobs } from './lib/server/jobs.ts';
 
-// The server process delivers queued e-mail (retrying while the mail server is down).
-startOutbox();
+// The server process delivers queued e-mail (retrying while the mail server is down) and clears
+// uploads that were never completed.
+startJobs();
 
 // Routes that legitimately take form or multipart bodies (same-origin only).
 const FORM_ROUTES = [/^\/api\/auth\//];
