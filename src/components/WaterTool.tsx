@@ -1,7 +1,11 @@
-import { useEffect, useId, useState, type ReactNode } from 'react';
+import { QueryClientProvider, useQuery } from '@tanstack/react-query';
+import { useEffect, useId, useMemo, useState, type ReactNode } from 'react';
 import { waterWindow } from '../lib/analysis/water.ts';
+import { queryClient } from '../lib/client/query.ts';
+import { longName, recordQueries, vocabularyQueries, type SearchItem } from '../lib/client/records.ts';
 import WaterChart, { type WaterPoint } from './charts/WaterChart.tsx';
-import { input, muted, panel } from './ui.tsx';
+import { seriesColour } from './charts/plot.tsx';
+import { Failed, input, muted, panel } from './ui.tsx';
 
 function clamp(v: number, lo: number, hi: number) {
   return Math.min(hi, Math.max(lo, v));
@@ -32,7 +36,7 @@ export function WaterToolView({ initialSearch = '', points, below }: { initialSe
   const f = (v: number, d = 3) => v.toFixed(d).replace(/^-/, '−');
 
   return (
-    <div className="grid gap-6 lg:grid-cols-[minmax(0,18rem)_minmax(0,1fr)]">
+    <div className="grid grid-cols-[minmax(0,1fr)] gap-6 lg:grid-cols-[minmax(0,18rem)_minmax(0,1fr)]">
       <div className={`${panel} p-5 grid gap-5 content-start`}>
         <div className="grid gap-1">
           <label htmlFor={`${id}-t`} className="text-sm font-semibold">
@@ -66,7 +70,7 @@ export function WaterToolView({ initialSearch = '', points, below }: { initialSe
         </dl>
         <p className={`text-xs ${muted}`}>Potentials vs SHE at 1 bar. E°(T) ≈ 1.229 − 0.000846·(T − 298.15 K) V; slope ln10·RT/F.</p>
       </div>
-      <div className={`${panel} p-3 sm:p-5`}>
+      <div className={`${panel} p-3 sm:p-5 min-w-0`}>
         <WaterChart temperatureK={tempC + 273.15} pH={pH} onPickPh={setPh} {...(points ? { points } : {})} />
         <p className={`mt-2 text-sm ${muted}`}>
           Shaded: where water is thermodynamically stable. {tempC !== 25 && 'Dashed: the same lines at 25 °C. '}Concentrated (“water-in-salt”) and
@@ -78,4 +82,56 @@ export function WaterToolView({ initialSearch = '', points, below }: { initialSe
   );
 }
 
-export default WaterToolView;
+/** Published records in water alone, with a pH and at least one limit on SHE (cell voltages left out). */
+export function waterPoints(items: SearchItem[], electrodeName: (id: string) => string): WaterPoint[] {
+  return items
+    .filter((i) => i.limitKind === 'electrode-potential' && i.content.electrolyte.solvents.length > 0 && i.content.electrolyte.solvents.every((s) => s.term === 'water'))
+    .filter((i) => i.content.electrolyte.pH !== undefined && (i.onScale.cathodic !== null || i.onScale.anodic !== null))
+    .map((i) => ({ handle: i.handle, pH: i.content.electrolyte.pH!, cathodicSheV: i.onScale.cathodic, anodicSheV: i.onScale.anodic, group: electrodeName(i.content.workingElectrode.material) }));
+}
+
+function WaterWithRecords({ initialSearch }: { initialSearch: string }) {
+  const records = useQuery(recordQueries.aqueous());
+  const vocab = useQuery(vocabularyQueries.all());
+  const terms = useMemo(() => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined), [vocab.data]);
+  const points = useMemo(() => (records.data ? waterPoints(records.data.items, (id) => longName(terms, id)) : undefined), [records.data, terms]);
+  const groups = [...new Set((points ?? []).map((p) => p.group))];
+  const below = records.isError ? (
+    <Failed error={records.error} retry={() => void records.refetch()} what="the published aqueous records" />
+  ) : (
+    <div className="mt-3 text-sm" data-testid="water-records">
+      {!points ? (
+        <p className={muted}>Placing the published aqueous records…</p>
+      ) : points.length === 0 ? (
+        <p className={muted}>No published record in water with a stated pH yet.</p>
+      ) : (
+        <>
+          <p>
+            Bars: <span className="num">{points.length}</span> published record{points.length === 1 ? '' : 's'} in water at {points.length === 1 ? 'its' : 'their'} stated pH, cathodic to anodic limit on SHE
+            {records.data && records.data.total > records.data.items.length ? ` (the first ${records.data.items.length} of ${records.data.total} records in water)` : ''}. Hover a bar for its handle.
+          </p>
+          <ul className="mt-1 flex flex-wrap gap-x-4 gap-y-1">
+            {groups.map((g, i) => (
+              <li key={g} className="flex min-w-0 items-center gap-1.5 break-words">
+                <svg width="6" height="12" aria-hidden="true">
+                  <rect width="6" height="12" rx="2" fill={seriesColour(i)} />
+                </svg>
+                {g}
+              </li>
+            ))}
+          </ul>
+        </>
+      )}
+    </div>
+  );
+  return <WaterToolView initialSearch={initialSearch} below={below} {...(points ? { points } : {})} />;
+}
+
+/** /tools/water with the published aqueous records placed on the chart. */
+export default function WaterTool({ initialSearch = '' }: { initialSearch?: string }) {
+  return (
+    <QueryClientProvider client={queryClient}>
+      <WaterWithRecords initialSearch={initialSearch} />
+    </QueryClientProvider>
+  );
+}

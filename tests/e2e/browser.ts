@@ -73,3 +73,28 @@ export async function seriousViolations(page: Page): Promise<AxeViolation[]> {
   });
   return result.filter((v) => v.impact === 'serious' || v.impact === 'critical');
 }
+
+/** Elements that reach past the viewport's right edge (tag, classes and right edge), for a failure message. */
+export async function wideElements(page: Page): Promise<string> {
+  return page.evaluate(() => {
+    const w = document.documentElement.clientWidth;
+    const out: string[] = [];
+    // Clipped by a scrolling ancestor only when that ancestor is also its containing block (an
+    // absolutely positioned element escapes scrollers that are not positioned).
+    const clipped = (el: Element) => {
+      let absolute = getComputedStyle(el).position === 'absolute';
+      for (let a = el.parentElement; a && a !== document.body; a = a.parentElement) {
+        const cs = getComputedStyle(a);
+        if (cs.overflowX !== 'visible' && (!absolute || cs.position !== 'static')) return true;
+        if (absolute && cs.position !== 'static') absolute = false;
+      }
+      return false;
+    };
+    for (const el of document.querySelectorAll('body *')) {
+      if (clipped(el)) continue;
+      const r = el.getBoundingClientRect();
+      if (r.right > w + 1 && out.length < 8) out.push(`${el.tagName.toLowerCase()}.${String(el.getAttribute('class') ?? '').split(' ').slice(0, 4).join('.')} → ${Math.round(r.right)}px`);
+    }
+    return `wider than ${w}px: ${out.join('; ') || 'nothing found'}`;
+  });
+}

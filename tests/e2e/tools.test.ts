@@ -1,15 +1,35 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
-import { openBrowser, screenshot, seriousViolations, watchedPage, type Browser } from './browser.ts';
+import { openBrowser, screenshot, seriousViolations, watchedPage, wideElements, type Browser } from './browser.ts';
+import { publishThroughApi } from './publish.ts';
 
 let browser: Browser;
+let aqueous: string;
 
 beforeAll(async () => {
+  const contributor = await signIn(await makeUser({ role: 'contributor' }));
+  const curator = await signIn(await makeUser({ role: 'curator' }));
+  // A published aqueous record at pH 4 for the water chart: limits −0.60 and 0.95 V vs Ag/AgCl (sat. KCl).
+  aqueous = await publishThroughApi(contributor, curator, {
+    title: 'Li2SO4 in water on gold',
+    electrolyte: { solvents: [{ term: 'water', fraction: 1 }], salts: [{ term: 'Li2SO4', concentration: { value: 0.5, basis: 'mol/L' } }], pH: 4 },
+    temperatureC: 25,
+    workingElectrode: { material: 'gold', form: 'disk', geometricAreaCm2: 0.07 },
+    referenceElectrode: 'Ag/AgCl, sat. KCl',
+    cellType: 'three-electrode',
+    method: { kind: 'lsv', scanRateMVs: 1 },
+    criterion: { kind: 'j-area', threshold: 50 },
+    reportedLimits: { cathodic: { valueV: -0.6, reference: 'Ag/AgCl, sat. KCl' }, anodic: { valueV: 0.95, reference: 'Ag/AgCl, sat. KCl' } },
+    source: { kind: 'published', doi: '10.5555/ew.tools.1', title: 'An invented aqueous window on gold', authors: [{ family: 'Noor', given: 'Tamsin' }], containerTitle: 'Journal of Made-up Electrochemistry', year: 2025 },
+  });
   browser = await openBrowser();
-});
+}, 120_000);
 
 afterAll(async () => {
   await browser?.close();
+  await clearSignInFailures();
+  await closeAppDb();
 });
 
 const text = async (page: import('playwright-core').Page, testId: string) => (await page.getByTestId(testId).innerText()).replace(/\s+/g, ' ').trim();
@@ -85,12 +105,30 @@ describe('water window tool', () => {
     await page.close();
   });
 
+  it('places the published aqueous records at their pH, on SHE', async () => {
+    const { page, problems } = await watchedPage(browser.context);
+    await page.goto(new URL('/tools/water', appUrl()).href);
+    const bar = page.locator(`g[data-handle="${aqueous}"]`);
+    await bar.waitFor({ state: 'attached' });
+    // Ag/AgCl (sat. KCl) is 0.197 V vs SHE (Bard & Faulkner): −0.60 → −0.403 V, 0.95 → 1.147 V.
+    expect(await bar.locator('title').textContent()).toBe(`${aqueous} (gold) at pH 4: -0.403 to 1.147 V vs SHE`);
+    // As many bars as the API has published records in water alone with a pH.
+    const res = await (await fetch(new URL('/api/v1/records?component=water&status=published&limit=200&facets=false', appUrl()))).json();
+    const expected = res.items.filter((i: { limitKind: string; content: { electrolyte: { pH?: number; solvents: { term: string }[] } } }) => i.limitKind === 'electrode-potential' && i.content.electrolyte.pH !== undefined && i.content.electrolyte.solvents.every((s) => s.term === 'water')).length;
+    await expect.poll(async () => page.locator('g[data-handle]').count()).toBe(expected);
+    expect(await text(page, 'water-records')).toContain(`${expected} published record`);
+    expect(await seriousViolations(page)).toEqual([]);
+    expect(problems).toEqual([]);
+    await page.close();
+  });
+
   it('reads well in dark mode and at phone width', async () => {
     const dark = await openBrowser({ colorScheme: 'dark', viewport: { width: 390, height: 844 } });
     try {
       for (const [path, name] of [
         ['/tools/water?T=40&pH=3', 'tools-water-dark-phone'],
         ['/tools/scales?v=0.2&from=SCE&to=Li%2B%2FLi', 'tools-scales-dark-phone'],
+        ['/tools/plan?direction=anodic', 'tools-plan-dark-phone'],
       ] as const) {
         const { page, problems } = await watchedPage(dark.context);
         await page.goto(new URL(path, appUrl()).href);
@@ -98,7 +136,7 @@ describe('water window tool', () => {
         await screenshot(page, name);
         expect(await page.evaluate(() => getComputedStyle(document.documentElement).colorScheme)).toBe('dark');
         // Nothing spills sideways on a phone.
-        expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+        expect(await page.evaluate(() => document.documentElement.scrollWidth), await wideElements(page)).toBeLessThanOrEqual(390);
         expect(await seriousViolations(page)).toEqual([]);
         expect(problems).toEqual([]);
         await page.close();
@@ -106,5 +144,55 @@ describe('water window tool', () => {
     } finally {
       await dark.close();
     }
+  });
+});
+
+describe('window-opening planner', () => {
+  it('schedules the vertices, times the run, states the criteria, the energy gain and the cautions', async () => {
+    const { page, problems } = await watchedPage(browser.context);
+    await page.goto(new URL('/tools/plan', appUrl()).href);
+    await page.getByLabel('anodic', { exact: true }).check();
+    await page.getByLabel('Start, near open circuit').fill('0');
+    await page.getByLabel('Expected anodic limit').fill('0.3');
+    await page.getByLabel('Go past the guess by').fill('200');
+    await page.getByLabel('Scan rate').fill('5');
+    await page.getByLabel('Vertex step').fill('100');
+    await page.getByLabel('Cycles per vertex').fill('3');
+    // By hand: vertices 0.1, 0.2, 0.3, 0.4, 0.5 V (guess 0.3 V + 200 mV); one cycle out and back
+    // takes 2·ΔE/v = 40, 80, 120, 160, 200 s at 5 mV/s; three cycles each: 3 × 600 s = 1800 s = 30 min.
+    await expect.poll(() => text(page, 'total-anodic')).toContain('30 min 00 s (1800 s)');
+    const rows = await page.getByTestId('plan-anodic').locator('tbody tr').allInnerTexts();
+    expect(rows.map((r) => r.split(/\s+/)[1])).toEqual(['0.100', '0.200', '0.300', '0.400', '0.500']);
+    expect(await page.getByTestId('plan-cathodic').count()).toBe(0);
+
+    // METHODS.md §8 E (Kötz & Carlen, Electrochim. Acta 45 (2000) 2483): 100 F/g per electrode → 25 F/g
+    // per cell; 2.7 V → 25.31 Wh/kg, 3.0 V → 31.25 Wh/kg, +23.46 %.
+    expect(await text(page, 'energy-gain')).toBe('+23.46 %');
+    expect(await text(page, 'energy')).toContain('25.31 Wh/kg');
+    expect(await text(page, 'energy')).toContain('31.25 Wh/kg');
+    expect(await page.getByRole('region', { name: 'How to judge each vertex' }).innerText()).toMatch(/S ≤ 0\.1[\s\S]*CE ≥ 99 %/);
+
+    // LiPF6 in EC:DMC against lithium: HF, flammable carbonates, alkali metal; local rules govern.
+    const cautions = await text(page, 'plan-cautions');
+    expect(cautions).toContain('hydrogen fluoride');
+    expect(cautions).toContain('carbonate solvents are flammable');
+    expect(cautions).toContain('Alkali metals');
+    expect(cautions).toContain('safety officer');
+    expect(cautions).toContain('safety data sheet');
+    await page.getByLabel('Reference electrode').selectOption('ref-sce');
+    await expect.poll(() => text(page, 'plan-cautions')).toContain('Mercury-based');
+
+    // The plan lives in the address: a reload gives the same schedule.
+    await expect.poll(() => page.url()).toContain('anodic=0.3');
+    await page.reload();
+    await expect.poll(() => text(page, 'total-anodic')).toContain('(1800 s)');
+    // A guess on the wrong side of the start is refused in words.
+    await page.getByLabel('Expected anodic limit').fill('-0.2');
+    await expect.poll(() => page.getByRole('alert').first().innerText()).toContain('must lie above the start potential');
+    await page.getByLabel('Expected anodic limit').fill('0.3');
+    expect(await seriousViolations(page)).toEqual([]);
+    await screenshot(page, 'tools-plan-light');
+    expect(problems).toEqual([]);
+    await page.close();
   });
 });

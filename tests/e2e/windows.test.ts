@@ -1,10 +1,10 @@
-import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
-import { asJson, clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
+import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
 import { openBrowser, screenshot, seriousViolations, watchedPage, type Browser } from './browser.ts';
+import { publishThroughApi } from './publish.ts';
 
 // The formulator's path through the reader's pages, on records made through the API in this test:
 // search by abbreviation, filter to two electrodes, common criterion and scale, open a record,
@@ -14,12 +14,6 @@ let browser: Browser;
 let contributor: string;
 let curator: string;
 const handles: Record<string, string> = {};
-
-async function ok(res: Response, what: string) {
-  const body = await res.json();
-  if (!res.ok) throw new Error(`${what}: ${res.status} ${JSON.stringify(body)}`);
-  return body;
-}
 
 const base = (electrode: string, over: Record<string, unknown> = {}) => ({
   title: `LiTFSI in water on ${electrode}`,
@@ -35,31 +29,7 @@ const base = (electrode: string, over: Record<string, unknown> = {}) => ({
   ...over,
 });
 
-async function publish(content: unknown, raw?: string): Promise<string> {
-  const rec = await ok(await asJson(contributor, '/api/v1/records', 'POST', { content }), 'create');
-  let version = rec.version;
-  if (raw) {
-    const bytes = Buffer.from(raw);
-    const up = await ok(
-      await asJson(contributor, '/api/v1/uploads', 'POST', {
-        record: rec.handle,
-        name: 'window-opening.csv',
-        size: bytes.length,
-        sha256: createHash('sha256').update(bytes).digest('hex'),
-        mediaType: 'text/csv',
-        mapping: { sign: 'iupac', direction: 'anodic' },
-      }),
-      'declare upload',
-    );
-    const put = await fetch(up.url, { method: 'PUT', body: bytes, headers: up.headers });
-    expect(put.ok).toBe(true);
-    const done = await ok(await asJson(contributor, `/api/v1/uploads/${up.id}/complete`, 'POST', {}), 'complete upload');
-    version = done.version ?? (await ok(await asJson(contributor, `/api/v1/records/${rec.handle}`, 'GET', undefined), 'reload')).version;
-  }
-  const sub = await ok(await asJson(contributor, `/api/v1/records/${rec.handle}/transitions`, 'POST', { action: 'submit', version }), 'submit');
-  await ok(await asJson(curator, `/api/v1/records/${rec.handle}/transitions`, 'POST', { action: 'publish', version: sub.version }), 'publish');
-  return rec.handle;
-}
+const publish = (content: unknown, raw?: string) => publishThroughApi(contributor, curator, content, raw);
 
 beforeAll(async () => {
   contributor = await signIn(await makeUser({ role: 'contributor' }));

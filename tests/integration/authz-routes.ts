@@ -80,6 +80,9 @@ export const ROWS: Row[] = [
   row('GET', '/tools/scales', '200'),
   row('GET', '/tools/water', '200'),
   row('GET', '/windows', '200'),
+  row('GET', '/windows/overlay', '200', { path: '/windows/overlay?records={pub}', prepare: async () => ({ pub: await publishedRecord() }) }),
+  row('GET', '/coverage', '200'),
+  row('GET', '/tools/plan', '200'),
   row('GET', '/windows/[handle]', '404 404 200 200 404 404 404', { path: '/windows/{draft}', prepare: async (_h, v) => ({ draft: await labDraft(v.labA!) }) }),
   row('GET', '/labs/[slug]', '200', { path: '/labs/{labA}' }),
   row('POST', '/labs/[slug]', '302 403 403 200 403 200 403', { path: '/labs/{labA}', form: (v) => ({ intent: 'remove', id: v.member! }), prepare: async (h) => ({ member: await h.newMemberOfLabA() }) }),
@@ -149,6 +152,7 @@ export const ROWS: Row[] = [
   // The matrix sends JSON: past the role gate the import refuses it as not CSV (imports.test.ts imports real files).
   row('POST', '/api/v1/imports', '401 403 400 400 400 400 400', { json: 'title\nnot a template' }),
   row('GET', '/api/v1/exports', '200', { path: '/api/v1/exports?format=csv&limit=5' }),
+  row('GET', '/api/v1/coverage', '200'),
   row('GET', '/api/v1/openapi.json', '200'),
 
   // curation (the queue and decisions are for curators and admins; records follow record.read)

@@ -9,6 +9,8 @@ export interface Curve {
   label: string;
   x: Float64Array;
   y: Float64Array;
+  /** Stroke colour; by default the curve's place in the list picks one. */
+  colour?: string;
 }
 
 interface Props {
@@ -143,13 +145,13 @@ export default function CurveChart({ curves, xLabel, figureName, height = 360 }:
               </clipPath>
               <g clipPath={`url(#${clipId})`}>
                 {runs.map((rs, i) => (
-                  <path key={curves[i]!.label} d={path(rs, x, y)} fill="none" stroke={seriesColour(i)} strokeWidth={1.4} strokeLinejoin="round" />
+                  <path key={curves[i]!.label} d={path(rs, x, y)} fill="none" stroke={curves[i]!.colour ?? seriesColour(i)} strokeWidth={1.4} strokeLinejoin="round" />
                 ))}
               </g>
               {curves.length > 1 &&
                 curves.map((c, i) => (
                   <g key={c.label} transform={`translate(${M.left + 10},${M.top + 10 + i * 16})`}>
-                    <rect width={14} height={3} y={-2} fill={seriesColour(i)} />
+                    <rect width={14} height={3} y={-2} fill={c.colour ?? seriesColour(i)} />
                     <text x={20} dy="0.32em" fontSize={11} className="fill-ink dark:fill-night-ink">
                       {c.label}
                     </text>

@@ -21,6 +21,7 @@ import {
   type SearchItem,
   type SortKey,
 } from '../../lib/client/records.ts';
+import { MAX_OVERLAY, pickedHandles } from '../../lib/client/overlay.ts';
 import { useSearchState } from '../../lib/client/url-state.ts';
 import WindowLadder, { type LadderRow } from '../charts/WindowLadder.tsx';
 import { buttonPrimary, buttonQuiet, Empty, EvidenceBadge, Failed, Loading, muted, panel } from '../ui.tsx';
@@ -179,7 +180,41 @@ function ExplorerView({ initialSearch }: { initialSearch: string }) {
   const sortParam = query.sort ?? 'handle';
   const sorting: SortingState = [{ id: sortParam.replace(/^-/, ''), desc: sortParam.startsWith('-') }];
   const visibility: VisibilityState = Object.fromEntries(HIDEABLE.map((c) => [c, !hidden.has(c)]));
-  const cols = useMemo(() => columns(scale, terms), [scale, terms]);
+  // Records ticked for the overlay, kept in the address (`pick`) across filter and page changes.
+  const picked = useMemo(() => pickedHandles(new URLSearchParams(search).get('pick')), [search]);
+  const [refusal, setRefusal] = useState<string | null>(null);
+  const setPicked = (next: string[]) => {
+    const p = new URLSearchParams(search);
+    if (next.length) p.set('pick', next.join(','));
+    else p.delete('pick');
+    navigate(p, { replace: true });
+  };
+  const togglePick = (h: string) => {
+    if (picked.includes(h)) {
+      setRefusal(null);
+      setPicked(picked.filter((x) => x !== h));
+    } else if (picked.length >= MAX_OVERLAY) {
+      setRefusal(`${h} was not added: an overlay holds at most ${MAX_OVERLAY} records. Untick one first.`);
+    } else {
+      setRefusal(null);
+      setPicked([...picked, h]);
+    }
+  };
+  const pickColumn: ColumnDef<Row> = {
+    id: 'pick',
+    header: () => <span className="sr-only">Select for the overlay</span>,
+    enableHiding: false,
+    cell: ({ row }) => (
+      <input
+        type="checkbox"
+        className="size-4 accent-cobalt align-middle"
+        checked={picked.includes(row.original.item.handle)}
+        onChange={() => togglePick(row.original.item.handle)}
+        aria-label={`Select ${row.original.item.handle} for the overlay`}
+      />
+    ),
+  };
+  const cols = useMemo(() => [pickColumn, ...columns(scale, terms)], [scale, terms, search]);
   const table = useReactTable({
     data: rows,
     columns: cols,
@@ -226,6 +261,7 @@ function ExplorerView({ initialSearch }: { initialSearch: string }) {
             </p>
             <ColumnChooser hidden={hidden} onChange={(h) => set((p) => (h.size ? p.set('hide', [...h].join(',')) : p.delete('hide')), { keepOffset: true })} />
           </div>
+          <OverlayBar picked={picked} refusal={refusal} onClear={() => (setRefusal(null), setPicked([]))} />
           {common && rows.some((r) => r.own) && (
             <p className={`text-sm ${muted} mb-2`}>◇ marks a record without raw data (or of another method): it keeps its own criterion.</p>
           )}
@@ -353,6 +389,33 @@ function waterFor(rows: Row[], scale: string | undefined): { herV: number; oerV:
   } catch {
     return undefined;
   }
+}
+
+function OverlayBar({ picked, refusal, onClear }: { picked: string[]; refusal: string | null; onClear: () => void }) {
+  return (
+    <div className="mb-2 grid gap-1" data-testid="overlay-bar">
+      <div className="flex flex-wrap items-center gap-3 text-sm">
+        <span className={muted} aria-live="polite">
+          {picked.length === 0 ? `Tick up to ${MAX_OVERLAY} records to overlay their raw curves.` : `${picked.length} of ${MAX_OVERLAY} selected for the overlay: ${picked.join(', ')}`}
+        </span>
+        {picked.length > 0 && (
+          <>
+            <a href={`/windows/overlay?records=${picked.join(',')}`} className={`${buttonPrimary} text-sm`}>
+              Overlay curves
+            </a>
+            <button type="button" className={buttonQuiet} onClick={onClear}>
+              Clear selection
+            </button>
+          </>
+        )}
+      </div>
+      {refusal && (
+        <p role="alert" className="text-sm text-copper dark:text-night-copper" data-testid="overlay-refusal">
+          {refusal}
+        </p>
+      )}
+    </div>
+  );
 }
 
 function ColumnChooser({ hidden, onChange }: { hidden: Set<string>; onChange: (h: Set<string>) => void }) {

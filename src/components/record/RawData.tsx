@@ -34,6 +34,12 @@ export function criterionSeries(res: AnalysisResult): { points: CriterionPoint[]
   };
 }
 
+/** A raw file's samples as the engine reads them for its analysis: volts and amperes, IUPAC sign, on the file's own scale. */
+export function rawSamples(text: string, params: AnalysisOptions): { potential: Float64Array; current: Float64Array } {
+  const s = normalise(readTable(text, params.columns ? { columns: params.columns } : {}), params.sign ?? 'iupac');
+  return { potential: s.potential, current: s.current };
+}
+
 function limitLine(res: AnalysisResult, ref: string): string {
   const l = res.limit;
   if (l.status === 'not-reached') return `not reached: stable to at least ${l.lastPassingV?.toFixed(3)} V vs ${ref}`;
@@ -52,7 +58,7 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
   const curves = useMemo<Curve[] | { error: string } | null>(() => {
     if (!text.data) return null;
     try {
-      const s = normalise(readTable(text.data, params.columns ? { columns: params.columns } : {}), params.sign ?? 'iupac');
+      const s = rawSamples(text.data, params);
       const shift = stored.reference?.offsetV ?? 0;
       const x = shift ? s.potential.map((v) => v + shift) : s.potential;
       return [{ label: file?.name ?? 'curve', x, y: s.current }];

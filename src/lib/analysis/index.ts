@@ -15,3 +15,4 @@ export * from './decimate';
 export * from './aggregate';
 export * from './analyze';
 export * from './synthetic';
+export * from './plan';

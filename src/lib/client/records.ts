@@ -213,6 +213,12 @@ export const recordQueries = {
       queryKey: ['records', 'recent', limit] as const,
       queryFn: ({ signal }) => getJson<SearchResult>(apiPath('/api/v1/records', { sort: '-updated', limit, status: 'published', facets: 'false' }), signal),
     }),
+  /** Published records in water (up to 200), limits on SHE: the water tool places them at their pH. */
+  aqueous: () =>
+    queryOptions({
+      queryKey: ['records', 'aqueous'] as const,
+      queryFn: ({ signal }) => getJson<SearchResult>(apiPath('/api/v1/records', { component: 'water', status: 'published', scale: 'SHE', limit: 200, facets: 'false' }), signal),
+    }),
   detail: (handle: string) =>
     queryOptions({
       queryKey: ['records', 'detail', handle] as const,

@@ -3,6 +3,7 @@ import { createRecordBody, createUploadBody, editRecordBody, recordContentSchema
 import { vocabularyTermSchema } from '../shared/vocabulary.ts';
 import { exportQuerySchema } from './exports.ts';
 import { recordQuerySchema } from './record-search.ts';
+import { coverageQuerySchema } from './coverage.ts';
 
 // The OpenAPI 3.1 document of /api/v1, generated from the same zod schemas the routes parse with.
 
@@ -169,6 +170,14 @@ export function openApiDocument(serverUrl: string): Json {
             { name: 'q', in: 'query', required: false, schema: { type: 'string' } },
           ],
           responses: { '200': ok('Terms', { type: 'object', properties: { terms: { type: 'array', items: { $ref: '#/components/schemas/VocabularyTerm' } } } }), ...errors(400) },
+        },
+      },
+      '/coverage': {
+        get: {
+          operationId: 'coverageMatrix',
+          summary: 'Listed records counted per salt, solvent, working electrode and evidence level (what you may read)',
+          parameters: queryParameters(coverageQuerySchema),
+          responses: { '200': ok('Electrodes and rows of counts'), ...errors(400) },
         },
       },
       '/imports': {

@@ -7,7 +7,21 @@ import { ValidationError } from './errors.ts';
 import { LISTED } from './record-status.ts';
 import { scaleContext } from './record-derive.ts';
 import { toSummary, type RecordSummary } from './records.ts';
-import { analysesByIds, facetCounts, searchAfter, searchRecords, type FacetName, type ReadScope, type RecordFilter, type SearchRow, type SortKey } from './repositories/records.ts';
+import {
+  analysesByIds,
+  countRecords,
+  facetCounts,
+  searchAfter,
+  searchGeneration,
+  searchRecords,
+  type AnalysisRow,
+  type FacetName,
+  type Facets,
+  type ReadScope,
+  type RecordFilter,
+  type SearchRow,
+  type SortKey,
+} from './repositories/records.ts';
 import { resolveTerms } from './vocabulary.ts';
 
 // Finding records: filters over the denormalised columns of current versions, visibility from the
@@ -153,11 +167,11 @@ type StoredResult = { method: 'cv' | 'lsv' | 'hold'; direction: 'anodic' | 'cath
  * CV from the per-cycle S-values, holds from the end-of-hold currents. Returned on the record's
  * own reference scale and on SHE.
  */
-async function recompute(db: Db, row: SearchRow, criterionText: string): Promise<CommonCriterionResult> {
+function recompute(row: SearchRow, analysisById: Map<string, AnalysisRow>, criterionText: string): CommonCriterionResult {
   const c = parseCriterion(criterionText);
   const base: CommonCriterionResult = { criterion: criterionText, applied: false, cathodicV: null, anodicV: null, status: {} };
   if (row.raw_file_ids.length === 0) return { ...base, reason: 'no raw data: the record keeps its own criterion' };
-  const analyses = await analysesByIds(db, row.analysis_ids);
+  const analyses = row.analysis_ids.map((id) => analysisById.get(id)).filter((a): a is AnalysisRow => a !== undefined);
   const latest = new Map<string, StoredResult>();
   for (const a of analyses) latest.set(a.direction, a.result as unknown as StoredResult);
   const out = { ...base, applied: true };
@@ -189,25 +203,91 @@ function parseSort(s: string): { sort: SortKey; desc: boolean } {
   return s.startsWith('-') ? { sort: s.slice(1) as SortKey, desc: true } : { sort: s as SortKey, desc: false };
 }
 
+/** Summaries of a page; with a common criterion, the analyses of all its raw-backed rows in one query. */
 async function decorate(db: Db, rows: SearchRow[], q: RecordQuery): Promise<SearchItem[]> {
-  const items: SearchItem[] = [];
-  for (const row of rows) {
-    const item: SearchItem = { ...toSummary(row, row), onScale: onScale(row, q.scale) };
-    if (q.criterion) item.commonCriterion = await recompute(db, row, q.criterion);
-    items.push(item);
+  const analysisById = new Map<string, AnalysisRow>();
+  if (q.criterion) {
+    const ids = rows.filter((r) => r.raw_file_ids.length > 0).flatMap((r) => r.analysis_ids);
+    for (const a of await analysesByIds(db, [...new Set(ids)])) analysisById.set(a.id, a);
   }
-  return items;
+  return rows.map((row) => {
+    const item: SearchItem = { ...toSummary(row, row), onScale: onScale(row, q.scale) };
+    if (q.criterion) item.commonCriterion = recompute(row, analysisById, q.criterion);
+    return item;
+  });
 }
 
-/** One page of records visible to the principal, with facet counts over the whole result. */
+/**
+ * Answers kept for one generation of the collection (see `searchGeneration`): a request that reads
+ * a generation other than the one held drops everything held and starts over with its own, so an
+ * answer is never served for data or a day it was not computed on. Least recently used entries go
+ * first; concurrent misses on one key share one query.
+ */
+class GenerationCache<T> {
+  private generation: string | null = null;
+  private readonly entries = new Map<string, Promise<T>>();
+  constructor(private readonly size: number) {}
+
+  get(generation: string, key: string, compute: () => Promise<T>): Promise<T> {
+    if (generation !== this.generation) {
+      this.entries.clear();
+      this.generation = generation;
+    }
+    let entry = this.entries.get(key);
+    if (entry) {
+      this.entries.delete(key); // re-inserted below: the Map's order is least recently used first
+    } else {
+      const fresh = compute();
+      fresh.catch(() => this.entries.get(key) === fresh && this.entries.delete(key));
+      if (this.entries.size >= this.size) this.entries.delete(this.entries.keys().next().value!);
+      entry = fresh;
+    }
+    this.entries.set(key, entry);
+    return entry;
+  }
+}
+
+// Totals and facet counts cost a pass over every matching row and a page sorted on anything but
+// a selective index a scan of many, so both are kept per generation. The scope is part of every
+// key: one principal's private records never reach another's pages or counts.
+const pages = new GenerationCache<SearchRow[]>(200);
+const summaries = new GenerationCache<{ total: number; facets?: Facets }>(500);
+
+function cacheKey(filter: RecordFilter, scope: ReadScope, ...rest: unknown[]): string {
+  const f = Object.entries(filter).sort(([a], [b]) => (a < b ? -1 : 1));
+  return JSON.stringify([scope.userId, [...scope.labIds].sort(), scope.staff, f, ...rest]);
+}
+
+/** One page of records visible to the principal, with the total and facet counts over the whole result. */
 export async function searchRecordList(db: Db, principal: Principal, q: RecordQuery): Promise<SearchResult> {
   checkParams(q);
   const filter = await toFilter(db, q);
   const scope = readScope(principal);
-  const { rows, total } = await searchRecords(db, filter, scope, { ...parseSort(q.sort), limit: q.limit, offset: q.offset });
-  const result: SearchResult = { total, limit: q.limit, offset: q.offset, items: await decorate(db, rows, q) };
-  if (q.facets === 'true') result.facets = await facetCounts(db, filter, scope);
+  const generation = await searchGeneration(db);
+  const withFacets = q.facets === 'true';
+  const page = { ...parseSort(q.sort), limit: q.limit, offset: q.offset };
+  const [rows, counted] = await Promise.all([
+    pages.get(generation, cacheKey(filter, scope, page), async () => (await searchRecords(db, filter, scope, page)).rows),
+    summaries.get(generation, cacheKey(filter, scope, withFacets), () =>
+      withFacets ? facetCounts(db, filter, scope) : countRecords(db, filter, scope).then((total) => ({ total })),
+    ),
+  ]);
+  const result: SearchResult = { total: counted.total, limit: q.limit, offset: q.offset, items: await decorate(db, rows, q) };
+  if (counted.facets) result.facets = counted.facets;
   return result;
+}
+
+// Whole answers, serialised, for the same query from the same scope in the same generation: a
+// repeated search costs one small query (the generation) and no decoration or serialisation.
+const answers = new GenerationCache<string>(200);
+
+/** searchRecordList as JSON text, served from the answer cache when nothing changed since. */
+export async function searchRecordListJson(db: Db, principal: Principal, q: RecordQuery): Promise<string> {
+  checkParams(q);
+  const scope = readScope(principal);
+  const generation = await searchGeneration(db);
+  const key = JSON.stringify([scope.userId, [...scope.labIds].sort(), scope.staff, Object.entries(q).sort(([a], [b]) => (a < b ? -1 : 1))]);
+  return answers.get(generation, key, async () => JSON.stringify(await searchRecordList(db, principal, q)));
 }
 
 /** Every matching record, a batch at a time (exports stream these). */

@@ -151,6 +151,44 @@ export interface RecordTable {
   published_at: Date | null;
 }
 
+/** One row per record: its head and the filter and sort columns of its current version (kept by triggers). */
+export interface RecordSearchTable {
+  record_id: string;
+  handle: string;
+  status: string;
+  owner_id: string;
+  lab_id: string | null;
+  updated_at: Date;
+  version: number;
+  visibility: string;
+  embargo_until: string | null;
+  component_ids: string[];
+  solvent_ids: string[];
+  salt_ids: string[];
+  additive_ids: string[];
+  salt_concentration: number | null;
+  salt_basis: string | null;
+  we_material_id: string;
+  method: string;
+  criterion_kind: string | null;
+  scan_rate_mv_s: number | null;
+  temperature_c: number | null;
+  cell_type: string;
+  evidence_level: string;
+  raw_backed: boolean;
+  search: unknown;
+  anodic_key: number | null;
+  cathodic_key: number | null;
+  width_key: number | null;
+}
+
+/** Moves on every committed change to record_search or labs (bigint: text out). */
+export interface SearchGenerationTable {
+  id: Generated<boolean>;
+  n: ColumnType<string, number, number>;
+  xact: ColumnType<string, number, number>;
+}
+
 export interface RecordVersionTable {
   id: Generated<string>;
   record_id: string;
@@ -357,6 +395,8 @@ export interface Database {
   vocabulary_terms: VocabularyTermTable;
   records: RecordTable;
   record_versions: RecordVersionTable;
+  record_search: RecordSearchTable;
+  search_generation: SearchGenerationTable;
   raw_files: RawFileTable;
   analyses: AnalysisTable;
   uploads: UploadTable;

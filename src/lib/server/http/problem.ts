@@ -20,7 +20,12 @@ export function problem(p: Problem, init: { headers?: Record<string, string> } =
 
 /** A JSON response. */
 export function json(body: unknown, status = 200, headers: Record<string, string> = {}): Response {
-  return new Response(JSON.stringify(body), {
+  return jsonText(JSON.stringify(body), status, headers);
+}
+
+/** A JSON response from text that is already serialised. */
+export function jsonText(text: string, status = 200, headers: Record<string, string> = {}): Response {
+  return new Response(text, {
     status,
     headers: { 'content-type': 'application/json; charset=utf-8', 'cache-control': 'no-store', ...headers },
   });

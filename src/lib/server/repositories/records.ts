@@ -1,4 +1,4 @@
-import { sql, type Expression, type Insertable, type Selectable, type SqlBool } from 'kysely';
+import { sql, type Expression, type Insertable, type RawBuilder, type Selectable, type SqlBool } from 'kysely';
 import type { AnalysisTable, RawFileTable, RecordVersionTable, ReviewTable } from '../db/schema.ts';
 import type { DbOrTrx } from './audit.ts';
 
@@ -275,17 +275,20 @@ export interface RecordFilter {
 
 export type SortKey = 'handle' | 'updated' | 'anodic' | 'cathodic' | 'width' | 'scanRate' | 'temperature' | 'concentration';
 
-/** The SQL condition "this principal may read this record" over r (records) and v (its current version). */
+/**
+ * The SQL condition "this principal may read this record" over s (record_search: the record's
+ * status, owner and lab with its current version's visibility and embargo).
+ */
 export function readable(scope: ReadScope): Expression<SqlBool> {
-  const embargoed = sql`(v.visibility = 'lab' AND v.embargo_until IS NOT NULL AND (v.embargo_until::timestamp AT TIME ZONE 'UTC') > now())`;
+  const embargoed = sql`(s.visibility = 'lab' AND s.embargo_until IS NOT NULL AND (s.embargo_until::timestamp AT TIME ZONE 'UTC') > now())`;
   const insider = scope.userId
-    ? sql`(r.owner_id = ${scope.userId} OR r.lab_id = ANY(${sql.val(scope.labIds)}::uuid[]))`
+    ? sql`(s.owner_id = ${scope.userId} OR s.lab_id = ANY(${sql.val(scope.labIds)}::uuid[]))`
     : sql`false`;
   const staff = scope.staff ? sql`true` : sql`false`;
   return sql<SqlBool>`(
-    (r.status IN ('published', 'flagged', 'withdrawn') AND (NOT ${embargoed} OR ${insider} OR ${staff}))
-    OR (r.status = 'draft' AND ${insider})
-    OR (r.status IN ('submitted', 'changes_requested', 'declined') AND (${insider} OR ${staff}))
+    (s.status IN ('published', 'flagged', 'withdrawn') AND (NOT ${embargoed} OR ${insider} OR ${staff}))
+    OR (s.status = 'draft' AND ${insider})
+    OR (s.status IN ('submitted', 'changes_requested', 'declined') AND (${insider} OR ${staff}))
   )`;
 }
 
@@ -294,96 +297,141 @@ function conditions(f: RecordFilter, scope: ReadScope) {
   const anyOf = (col: string, vals: string[] | undefined) => {
     if (vals && vals.length) c.push(sql<SqlBool>`${sql.ref(col)} = ANY(${sql.val(vals)}::text[])`);
   };
-  if (f.componentIds?.length) c.push(sql<SqlBool>`v.component_ids @> ${sql.val(f.componentIds)}::text[]`);
-  if (f.concentrationMin !== undefined) c.push(sql<SqlBool>`v.salt_concentration >= ${f.concentrationMin}`);
-  if (f.concentrationMax !== undefined) c.push(sql<SqlBool>`v.salt_concentration <= ${f.concentrationMax}`);
-  if (f.concentrationBasis) c.push(sql<SqlBool>`v.salt_basis = ${f.concentrationBasis}`);
-  anyOf('v.we_material_id', f.electrodeIds);
-  anyOf('v.method', f.methods);
-  anyOf('v.criterion_kind', f.criterionKinds);
-  if (f.scanRateMin !== undefined) c.push(sql<SqlBool>`v.scan_rate_mv_s >= ${f.scanRateMin}`);
-  if (f.scanRateMax !== undefined) c.push(sql<SqlBool>`v.scan_rate_mv_s <= ${f.scanRateMax}`);
-  if (f.temperatureMin !== undefined) c.push(sql<SqlBool>`v.temperature_c >= ${f.temperatureMin}`);
-  if (f.temperatureMax !== undefined) c.push(sql<SqlBool>`v.temperature_c <= ${f.temperatureMax}`);
-  anyOf('v.cell_type', f.cellTypes);
-  anyOf('v.evidence_level', f.evidence);
-  anyOf('r.status', f.statuses);
-  anyOf('l.slug', f.labSlugs);
-  if (f.q) c.push(sql<SqlBool>`v.search @@ websearch_to_tsquery('simple', ${f.q})`);
-  if (f.rawBacked) c.push(sql<SqlBool>`cardinality(v.raw_file_ids) > 0`);
+  if (f.componentIds?.length) c.push(sql<SqlBool>`s.component_ids @> ${sql.val(f.componentIds)}::text[]`);
+  if (f.concentrationMin !== undefined) c.push(sql<SqlBool>`s.salt_concentration >= ${f.concentrationMin}`);
+  if (f.concentrationMax !== undefined) c.push(sql<SqlBool>`s.salt_concentration <= ${f.concentrationMax}`);
+  if (f.concentrationBasis) c.push(sql<SqlBool>`s.salt_basis = ${f.concentrationBasis}`);
+  anyOf('s.we_material_id', f.electrodeIds);
+  anyOf('s.method', f.methods);
+  anyOf('s.criterion_kind', f.criterionKinds);
+  if (f.scanRateMin !== undefined) c.push(sql<SqlBool>`s.scan_rate_mv_s >= ${f.scanRateMin}`);
+  if (f.scanRateMax !== undefined) c.push(sql<SqlBool>`s.scan_rate_mv_s <= ${f.scanRateMax}`);
+  if (f.temperatureMin !== undefined) c.push(sql<SqlBool>`s.temperature_c >= ${f.temperatureMin}`);
+  if (f.temperatureMax !== undefined) c.push(sql<SqlBool>`s.temperature_c <= ${f.temperatureMax}`);
+  anyOf('s.cell_type', f.cellTypes);
+  anyOf('s.evidence_level', f.evidence);
+  anyOf('s.status', f.statuses);
+  // Labs by slug, looked up once per statement rather than joined per row.
+  if (f.labSlugs?.length) c.push(sql<SqlBool>`s.lab_id = ANY(ARRAY(SELECT id FROM labs WHERE slug = ANY(${sql.val(f.labSlugs)}::text[])))`);
+  if (f.q) c.push(sql<SqlBool>`s.search @@ websearch_to_tsquery('simple', ${f.q})`);
+  if (f.rawBacked) c.push(sql<SqlBool>`s.raw_backed`);
   return sql.join(c, sql` AND `);
 }
 
-const FROM = sql`records r
-  JOIN record_versions v ON v.record_id = r.id AND v.version = r.current_version
-  LEFT JOIN labs l ON l.id = r.lab_id`;
-
+// Each key has an index per direction on record_search (NULLs last both ways, then the handle).
 const ORDER: Record<SortKey, string> = {
-  handle: 'r.handle',
-  updated: 'r.updated_at',
-  anodic: 'coalesce(v.anodic_she_v, v.reported_anodic_v)',
-  cathodic: 'coalesce(v.cathodic_she_v, v.reported_cathodic_v)',
-  width: 'coalesce(v.anodic_she_v - v.cathodic_she_v, v.reported_anodic_v - v.reported_cathodic_v)',
-  scanRate: 'v.scan_rate_mv_s',
-  temperature: 'v.temperature_c',
-  concentration: 'v.salt_concentration',
+  handle: 's.handle',
+  updated: 's.updated_at',
+  anodic: 's.anodic_key',
+  cathodic: 's.cathodic_key',
+  width: 's.width_key',
+  scanRate: 's.scan_rate_mv_s',
+  temperature: 's.temperature_c',
+  concentration: 's.salt_concentration',
 };
 
 export type SearchRow = VersionRow & { handle: string; status: string; owner_id: string; lab_id: string | null; lab_slug: string | null; lab_name: string | null; updated_at: Date; published_at: Date | null };
 
-/** One page of matching records (current versions) and the total count. */
+/**
+ * What everything a search returns depends on besides its parameters and scope: the collection's
+ * generation (moved by every committed change to record_search or labs) and the UTC day
+ * (embargoes end at midnight UTC, by the database's clock).
+ */
+export async function searchGeneration(db: DbOrTrx): Promise<string> {
+  const r = await sql<{ g: string }>`SELECT n || ':' || xact || ':' || (now() AT TIME ZONE 'UTC')::date AS g FROM search_generation`.execute(db);
+  return r.rows[0]!.g;
+}
+
+type PageRow = SearchRow & { search?: unknown; k?: unknown };
+
+function toSearchRow(row: PageRow): SearchRow {
+  const { search: _search, k: _k, ...rest } = row;
+  return rest;
+}
+
+/** The full rows of the records `picked` (record_id, version, k, handle), in `order`. */
+function pageOf(picked: RawBuilder<unknown>, order: RawBuilder<unknown>) {
+  return sql<PageRow>`
+    SELECT ${versionColumns}, r.handle, r.status, r.owner_id, r.lab_id, l.slug AS lab_slug, l.name AS lab_name, r.updated_at, r.published_at, p.k
+      FROM (${picked}) p
+      JOIN records r ON r.id = p.record_id
+      JOIN record_versions v ON v.record_id = p.record_id AND v.version = p.version
+      LEFT JOIN labs l ON l.id = r.lab_id
+     ORDER BY ${order}`;
+}
+
+/** One page of matching records (current versions). */
 export async function searchRecords(
   db: DbOrTrx,
   f: RecordFilter,
   scope: ReadScope,
   page: { sort: SortKey; desc: boolean; limit: number; offset: number },
-): Promise<{ rows: SearchRow[]; total: number }> {
-  const where = conditions(f, scope);
-  const dir = page.desc ? sql`DESC NULLS LAST` : sql`ASC NULLS LAST`;
-  const rows = await sql<SearchRow & { search?: unknown }>`
-    SELECT ${versionColumns}, r.handle, r.status, r.owner_id, r.lab_id, l.slug AS lab_slug, l.name AS lab_name, r.updated_at, r.published_at
-    FROM ${FROM} WHERE ${where}
-    ORDER BY ${sql.raw(ORDER[page.sort])} ${dir}, r.handle ${page.desc ? sql`DESC` : sql`ASC`}
-    LIMIT ${page.limit} OFFSET ${page.offset}`.execute(db);
-  const total = await sql<{ n: string }>`SELECT count(*) AS n FROM ${FROM} WHERE ${where}`.execute(db);
-  return { rows: rows.rows.map((r) => strip(r)!), total: Number(total.rows[0]?.n ?? 0) };
+): Promise<{ rows: SearchRow[] }> {
+  const key = sql.raw(ORDER[page.sort]);
+  const dir = page.desc ? sql`DESC` : sql`ASC`;
+  const order = (k: RawBuilder<unknown>, handle: RawBuilder<unknown>) => (page.sort === 'handle' ? sql`${handle} ${dir}` : sql`${k} ${dir} NULLS LAST, ${handle} ${dir}`);
+  const picked = sql`SELECT s.record_id, s.version, s.handle, ${key} AS k FROM record_search s
+    WHERE ${conditions(f, scope)} ORDER BY ${order(key, sql`s.handle`)} LIMIT ${page.limit} OFFSET ${page.offset}`;
+  const r = await pageOf(picked, order(sql`p.k`, sql`r.handle`)).execute(db);
+  return { rows: r.rows.map(toSearchRow) };
 }
 
 /** Rows after a handle, in handle order (exports walk the whole result this way). */
 export async function searchAfter(db: DbOrTrx, f: RecordFilter, scope: ReadScope, afterHandle: string | null, limit: number): Promise<SearchRow[]> {
-  const where = conditions(f, scope);
-  const after = afterHandle ? sql`AND r.handle > ${afterHandle}` : sql``;
-  const rows = await sql<SearchRow & { search?: unknown }>`
-    SELECT ${versionColumns}, r.handle, r.status, r.owner_id, r.lab_id, l.slug AS lab_slug, l.name AS lab_name, r.updated_at, r.published_at
-    FROM ${FROM} WHERE ${where} ${after}
-    ORDER BY r.handle LIMIT ${limit}`.execute(db);
-  return rows.rows.map((r) => strip(r)!);
+  const after = afterHandle ? sql`AND s.handle > ${afterHandle}` : sql``;
+  const picked = sql`SELECT s.record_id, s.version, s.handle, NULL AS k FROM record_search s
+    WHERE ${conditions(f, scope)} ${after} ORDER BY s.handle LIMIT ${limit}`;
+  const r = await pageOf(picked, sql`r.handle`).execute(db);
+  return r.rows.map(toSearchRow);
 }
 
 export const FACETS = {
-  electrode: 'v.we_material_id',
-  method: 'v.method',
-  criterionKind: 'v.criterion_kind',
-  cellType: 'v.cell_type',
-  evidence: 'v.evidence_level',
-  status: 'r.status',
-  lab: 'l.slug',
-  concentrationBasis: 'v.salt_basis',
-  salt: 'unnest(v.salt_ids)',
-  solvent: 'unnest(v.solvent_ids)',
-  additive: 'unnest(v.additive_ids)',
+  electrode: 'm.we_material_id',
+  method: 'm.method',
+  criterionKind: 'm.criterion_kind',
+  cellType: 'm.cell_type',
+  evidence: 'm.evidence_level',
+  status: 'm.status',
+  lab: 'm.lab_id::text',
+  concentrationBasis: 'm.salt_basis',
+  salt: 'unnest(m.salt_ids)',
+  solvent: 'unnest(m.solvent_ids)',
+  additive: 'unnest(m.additive_ids)',
 } as const;
 export type FacetName = keyof typeof FACETS;
+export type Facets = Record<FacetName, { value: string; count: number }[]>;
 
-/** Counts per value of each facet over the same (visibility-limited) result. */
-export async function facetCounts(db: DbOrTrx, f: RecordFilter, scope: ReadScope): Promise<Record<FacetName, { value: string; count: number }[]>> {
-  const where = conditions(f, scope);
-  const out = {} as Record<FacetName, { value: string; count: number }[]>;
-  for (const [name, expr] of Object.entries(FACETS) as [FacetName, string][]) {
-    const r = await sql<{ value: string | null; n: string }>`
-      SELECT value, count(*) AS n FROM (SELECT ${sql.raw(expr)} AS value FROM ${FROM} WHERE ${where}) t
-      WHERE value IS NOT NULL GROUP BY value ORDER BY count(*) DESC, value`.execute(db);
-    out[name] = r.rows.map((x) => ({ value: x.value!, count: Number(x.n) }));
+/** Number of matching records. */
+export async function countRecords(db: DbOrTrx, f: RecordFilter, scope: ReadScope): Promise<number> {
+  const r = await sql<{ n: string }>`SELECT count(*) AS n FROM record_search s WHERE ${conditions(f, scope)}`.execute(db);
+  return Number(r.rows[0]?.n ?? 0);
+}
+
+/**
+ * The number of matching records and the counts per value of each facet over the same
+ * (visibility-limited) result, in one pass: every matching row yields one (facet, value) pair per
+ * scalar facet and one per element of each array facet, plus one for the total.
+ */
+export async function facetCounts(db: DbOrTrx, f: RecordFilter, scope: ReadScope): Promise<{ total: number; facets: Facets }> {
+  const pairs = sql.join(
+    (Object.entries(FACETS) as [FacetName, string][]).map(([name, expr]) => sql`SELECT ${name}::text AS name, ${sql.raw(expr)} AS value`),
+    sql` UNION ALL `,
+  );
+  const r = await sql<{ name: string; value: string; n: string }>`
+    WITH counted AS (
+      SELECT f.name, f.value, count(*) AS n
+        FROM (SELECT s.* FROM record_search s WHERE ${conditions(f, scope)}) m
+        CROSS JOIN LATERAL (SELECT '' AS name, '' AS value UNION ALL ${pairs}) f
+       WHERE f.value IS NOT NULL
+       GROUP BY f.name, f.value)
+    SELECT c.name, CASE WHEN c.name = 'lab' THEN l.slug ELSE c.value END AS value, c.n
+      FROM counted c LEFT JOIN labs l ON c.name = 'lab' AND l.id::text = c.value
+     ORDER BY c.name, c.n DESC, 2`.execute(db);
+  const facets = Object.fromEntries(Object.keys(FACETS).map((k) => [k, []])) as unknown as Facets;
+  let total = 0;
+  for (const x of r.rows) {
+    if (x.name === '') total = Number(x.n);
+    else facets[x.name as FacetName].push({ value: x.value, count: Number(x.n) });
   }
-  return out;
+  return { total, facets };
 }
