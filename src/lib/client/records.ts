@@ -2,6 +2,10 @@ import { keepPreviousData, queryOptions } from '@tanstack/react-query';
 import type { CellType, CriterionKind, EvidenceLevel, MethodKind, RecordContent, RecordStatus } from '../shared/record.ts';
 import type { VocabularyKind, VocabularyTerm } from '../shared/vocabulary.ts';
 import { apiPath, getJson } from './api.ts';
+import { engineCriterion } from '../shared/criteria.ts';
+import type { AnalysisView, RawFileView } from '../shared/record-views.ts';
+
+export { engineCriterion };
 
 // The records API as the browser sees it: response shapes, query parameters, and one
 // queryOptions factory per request with every input in its key. Types only from src/lib/shared
@@ -75,26 +79,7 @@ export interface SearchResult {
   facets?: Record<FacetName, { value: string; count: number }[]>;
 }
 
-export interface RawFileView {
-  id: string;
-  name: string;
-  bytes: number;
-  sha256: string;
-  mediaType: string;
-  uploadedAt: string;
-  downloadUrl: string;
-}
-
-export interface AnalysisView {
-  id: string;
-  rawFileId: string;
-  direction: 'anodic' | 'cathodic';
-  limitV: number | null;
-  limitStatus: string;
-  engineVersion: string;
-  parameters: unknown;
-  result: unknown;
-}
+export type { AnalysisView, RawFileView } from '../shared/record-views.ts';
 
 export interface RecordDetail extends RecordSummary {
   ownerId: string;
@@ -309,22 +294,6 @@ export function criterionText(c: RecordContent['criterion']): string {
   }
 }
 
-/** The record's own criterion in the engine's notation (for recomputing in the browser). */
-export function engineCriterion(c: RecordContent['criterion']): string | undefined {
-  if (!c) return undefined;
-  switch (c.kind) {
-    case 's-value':
-      return `s:${c.threshold}`;
-    case 'ce':
-      return `ce:${c.threshold}%`;
-    case 'j-area':
-      return `j:${c.threshold}uA/cm2`;
-    case 'j-mass':
-      return `jm:${c.threshold}mA/g`;
-    case 'hold-leakage':
-      return c.per === 'area' ? `leak:${c.threshold}uA/cm2` : `leak:${c.threshold}mA/g`;
-  }
-}
 
 /**
  * A common-criterion limit moved from the record's own reference to the chosen scale: the

@@ -3,6 +3,9 @@ import { CELL_VOLTAGE, type EvidenceLevel, type RecordContent } from '../shared/
 import type { VocabularyKind } from '../shared/vocabulary.ts';
 import type { TermRef } from './vocabulary.ts';
 import type { VocabularyTermRow } from './repositories/vocabulary.ts';
+import { engineCriterion } from '../shared/criteria.ts';
+
+export { engineCriterion };
 
 // What a version's content implies: canonical term ids, limits on SHE with the offset used,
 // the engine options for its raw files, and its evidence level. No I/O here.
@@ -83,22 +86,6 @@ export function termOffsetToShe(term: VocabularyTermRow | undefined, ctx: ScaleC
   return { offsetV: Number(term.potential_vs_she_v), approximate: off.approximate };
 }
 
-/** Engine criterion text for a record's criterion (thresholds in the record's fixed units). */
-export function engineCriterion(c: RecordContent['criterion']): string | undefined {
-  if (!c) return undefined;
-  switch (c.kind) {
-    case 's-value':
-      return `s:${c.threshold}`;
-    case 'ce':
-      return `ce:${c.threshold}%`;
-    case 'j-area':
-      return `j:${c.threshold}uA/cm2`;
-    case 'j-mass':
-      return `jm:${c.threshold}mA/g`;
-    case 'hold-leakage':
-      return c.per === 'area' ? `j:${c.threshold}uA/cm2` : `jm:${c.threshold}mA/g`;
-  }
-}
 
 export const ENGINE_METHOD = { 'cv-window-opening': 'cv', lsv: 'lsv', 'potentiostatic-holds': 'hold' } as const;
 

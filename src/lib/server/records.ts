@@ -45,6 +45,7 @@ import { config } from './config.ts';
 import { queueMail, wakeOutbox, type OutgoingMail } from './outbox.ts';
 import { getObjectBytes } from './storage.ts';
 import { resolveTerms } from './vocabulary.ts';
+import type { AnalysisView, RawFileView } from '../shared/record-views.ts';
 
 // Window records: drafts, edits as new versions, the status machine, and the record views the
 // API returns. Every change writes its audit event in the same transaction.
@@ -63,26 +64,7 @@ export interface LimitView {
   approximate: boolean;
 }
 
-export interface RawFileView {
-  id: string;
-  name: string;
-  bytes: number;
-  sha256: string;
-  mediaType: string;
-  uploadedAt: string;
-  downloadUrl: string;
-}
-
-export interface AnalysisView {
-  id: string;
-  rawFileId: string;
-  direction: 'anodic' | 'cathodic';
-  limitV: number | null;
-  limitStatus: string;
-  engineVersion: string;
-  parameters: unknown;
-  result: unknown;
-}
+export type { AnalysisView, RawFileView } from '../shared/record-views.ts';
 
 export interface RecordSummary {
   handle: string;
