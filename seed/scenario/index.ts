@@ -9,6 +9,7 @@ import { bibliography, type Paper } from './literature.ts';
 import { LABS, PEOPLE, type LabSlug, type PersonKey, type ScenarioLab, type ScenarioPerson } from './people.ts';
 import { modelLimit, runSamples, type Cell, type ModelCriterion, type Side } from './physics.ts';
 import { SYSTEMS } from './systems.ts';
+import { engineCriterion } from '../../src/lib/shared/criteria.ts';
 
 export { CATALOGUE, LABS, PEOPLE, REFERENCES, SHAPES, SYSTEMS };
 export type { RecordSpec, ScenarioLab, ScenarioPerson };
@@ -100,28 +101,13 @@ export function modelCriterion(spec: RecordSpec, c: Criterion = spec.criterion):
   }
 }
 
-/** Engine criterion text for a record criterion (the units the record schema fixes). */
-export function engineCriterionText(c: Criterion): string {
-  switch (c.kind) {
-    case 's-value':
-      return `s:${c.threshold}`;
-    case 'ce':
-      return `ce:${c.threshold}%`;
-    case 'j-area':
-      return `j:${c.threshold}uA/cm2`;
-    case 'j-mass':
-      return `jm:${c.threshold}mA/g`;
-    case 'hold-leakage':
-      return c.per === 'area' ? `j:${c.threshold}uA/cm2` : `jm:${c.threshold}mA/g`;
-  }
-}
 
 /** Engine options for a scenario file of a record: what a server analysing the upload should use. */
 export function engineOptions(rec: ScenarioRecord, file: ScenarioFile): AnalysisOptions {
   const c = rec.content;
   const m = c.method;
   const o: AnalysisOptions = { method: m.kind === 'cv-window-opening' ? 'cv' : m.kind === 'lsv' ? 'lsv' : 'hold' };
-  if (c.criterion) o.criterion = engineCriterionText(c.criterion as Criterion);
+  if (c.criterion) o.criterion = engineCriterion(c.criterion as Criterion);
   if (m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined) o.scanRate = m.scanRateMVs / 1000;
   if (c.workingElectrode.geometricAreaCm2 !== undefined) o.area = c.workingElectrode.geometricAreaCm2;
   if (c.workingElectrode.activeMassMg !== undefined) o.mass = c.workingElectrode.activeMassMg / 1000;

@@ -1,32 +1,20 @@
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
-import { chromium, type BrowserContext } from 'playwright-core';
+import { openBrowser, watchedPage, type Browser } from './browser.ts';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { appUrl } from '../helpers.ts';
 
-// Debian's Chromium, without the network chatter this machine cannot answer.
-const ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
-
-let context: BrowserContext;
-let profile: string;
+let browser: Browser;
 
 beforeAll(async () => {
-  profile = mkdtempSync(path.join(tmpdir(), 'edgewise-chromium-'));
-  context = await chromium.launchPersistentContext(profile, { executablePath: '/usr/bin/chromium', args: ARGS, headless: true });
+  browser = await openBrowser();
 });
 
 afterAll(async () => {
-  await context?.close();
-  rmSync(profile, { recursive: true, force: true });
+  await browser?.close();
 });
 
 describe('home page in a real browser', () => {
   it('hydrates the search island, which suggests vocabulary terms as the reader types', async () => {
-    const page = await context.newPage();
-    const problems: string[] = [];
-    page.on('console', (m) => m.type() === 'error' && problems.push(m.text()));
-    page.on('pageerror', (e) => problems.push(e.message));
+    const { page, problems } = await watchedPage(browser.context);
     await page.goto(appUrl());
     await expect(page.title()).resolves.toBe('Edgewise');
     const box = page.getByRole('combobox', { name: 'Salt, solvent or electrode' });
@@ -42,7 +30,7 @@ describe('home page in a real browser', () => {
   });
 
   it('switches to dark mode and remembers it on the next page load', async () => {
-    const page = await context.newPage();
+    const page = await browser.context.newPage();
     await page.goto(appUrl());
     await page.getByRole('button', { name: /Use (dark|light) theme/ }).waitFor();
     const before = await page.evaluate(() => document.documentElement.dataset.theme ?? 'system');

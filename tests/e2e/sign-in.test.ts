@@ -1,32 +1,21 @@
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
-import { chromium, type BrowserContext } from 'playwright-core';
+import { openBrowser, watchedPage, type Browser } from './browser.ts';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { appUrl, waitForMail } from '../helpers.ts';
 import { uniqueEmail } from '../auth-helpers.ts';
 
-const ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
-
-let context: BrowserContext;
-let profile: string;
+let browser: Browser;
 
 beforeAll(async () => {
-  profile = mkdtempSync(path.join(tmpdir(), 'edgewise-chromium-'));
-  context = await chromium.launchPersistentContext(profile, { executablePath: '/usr/bin/chromium', args: ARGS, headless: true });
+  browser = await openBrowser();
 });
 
 afterAll(async () => {
-  await context?.close();
-  rmSync(profile, { recursive: true, force: true });
+  await browser?.close();
 });
 
 describe('an account in a real browser', () => {
   it('signs up, confirms by the e-mailed link, signs in and signs out', async () => {
-    const page = await context.newPage();
-    const problems: string[] = [];
-    page.on('console', (m) => m.type() === 'error' && problems.push(m.text()));
-    page.on('pageerror', (e) => problems.push(e.message));
+    const { page, problems } = await watchedPage(browser.context);
     const email = uniqueEmail('browser');
     const password = 'stable until four point two volts';
 
@@ -52,13 +41,13 @@ describe('an account in a real browser', () => {
     await page.waitForURL(/\/account$/);
     await expect(page.getByRole('heading', { name: 'Your account' }).isVisible()).resolves.toBe(true);
     await expect(page.getByTestId('account-link').textContent()).resolves.toBe('Bea Browser');
-    const cookie = (await context.cookies()).find((c) => c.name === 'authjs.session-token')!;
+    const cookie = (await browser.context.cookies()).find((c) => c.name === 'authjs.session-token')!;
     expect(cookie).toMatchObject({ httpOnly: true, sameSite: 'Lax' });
 
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.waitForURL(/\/signin\?signedout=1$/);
     await page.getByText('You are signed out').waitFor();
-    expect((await context.cookies()).some((c) => c.name === 'authjs.session-token')).toBe(false);
+    expect((await browser.context.cookies()).some((c) => c.name === 'authjs.session-token')).toBe(false);
     await page.goto(`${appUrl()}/account`);
     await page.waitForURL(/\/signin\?next=%2Faccount$/);
     expect(problems).toEqual([]);
