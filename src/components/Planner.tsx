@@ -301,7 +301,7 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
               {p}
             </p>
           ))}
-          <div className="grid grid-cols-[minmax(0,1fr)] gap-4 xl:grid-cols-2">
+          <div className="grid grid-cols-[minmax(0,1fr)] gap-4 2xl:grid-cols-2">
             {result.plans.map((p) => (
               <DirectionTable key={p.direction} plan={p} scale={scale} cycles={cycles} />
             ))}
