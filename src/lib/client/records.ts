@@ -4,6 +4,8 @@ import type { VocabularyKind, VocabularyTerm } from '../shared/vocabulary.ts';
 import { apiPath, getJson } from './api.ts';
 import { engineCriterion } from '../shared/criteria.ts';
 import type { AnalysisView, RawFileView } from '../shared/record-views.ts';
+import type { CommonCriterionResult, LimitView, RecordSummary, SearchItem } from '../shared/record-views.ts';
+export type { CommonCriterionResult, LimitView, RecordSummary, SearchItem };
 
 export { engineCriterion };
 
@@ -32,42 +34,9 @@ export const CRITERION_NAMES: Record<CriterionKind, string> = {
   'hold-leakage': 'hold leakage',
 };
 
-export interface LimitView {
-  valueV: number;
-  reference: string;
-  sheV: number | null;
-  offsetV: number | null;
-  approximate: boolean;
-}
 
-export interface RecordSummary {
-  handle: string;
-  version: number;
-  status: RecordStatus;
-  title: string | null;
-  lab: { slug: string; name: string } | null;
-  evidenceLevel: EvidenceLevel;
-  limitKind: 'electrode-potential' | 'cell-voltage';
-  limits: { cathodic: LimitView | null; anodic: LimitView | null };
-  computed: { cathodicV: number | null; anodicV: number | null; cathodicSheV: number | null; anodicSheV: number | null };
-  content: RecordContent;
-  updatedAt: string;
-}
 
-export interface CommonCriterionResult {
-  criterion: string;
-  applied: boolean;
-  reason?: string;
-  /** On the record's own reference scale. */
-  cathodicV: number | null;
-  anodicV: number | null;
-  status: { cathodic?: string; anodic?: string };
-}
 
-export interface SearchItem extends RecordSummary {
-  onScale: { scale: string; cathodic: number | null; anodic: number | null; note?: string };
-  commonCriterion?: CommonCriterionResult;
-}
 
 export type FacetName = 'electrode' | 'method' | 'criterionKind' | 'cellType' | 'evidence' | 'status' | 'lab' | 'concentrationBasis' | 'salt' | 'solvent' | 'additive';
 

@@ -23,6 +23,8 @@ import {
   type SortKey,
 } from './repositories/records.ts';
 import { resolveTerms } from './vocabulary.ts';
+import type { CommonCriterionResult, SearchItem } from '../shared/record-views.ts';
+export type { CommonCriterionResult, SearchItem };
 
 // Finding records: filters over the denormalised columns of current versions, visibility from the
 // principal, facet counts, a chosen reference scale and a common criterion.
@@ -98,22 +100,7 @@ export interface ScaledLimit {
   scale: string;
 }
 
-export interface CommonCriterionResult {
-  criterion: string;
-  /** True when Edgewise recomputed this record's limits at the common criterion. */
-  applied: boolean;
-  /** Why not, when not applied (the record keeps its own criterion). */
-  reason?: string;
-  cathodicV: number | null;
-  anodicV: number | null;
-  /** 'reached', 'not-reached' or 'exceeded-at-first' per direction recomputed. */
-  status: { cathodic?: string; anodic?: string };
-}
 
-export interface SearchItem extends RecordSummary {
-  onScale: { scale: string; cathodic: number | null; anodic: number | null; note?: string };
-  commonCriterion?: CommonCriterionResult;
-}
 
 export interface SearchResult {
   total: number;

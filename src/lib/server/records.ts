@@ -46,6 +46,8 @@ import { queueMail, wakeOutbox, type OutgoingMail } from './outbox.ts';
 import { getObjectBytes } from './storage.ts';
 import { resolveTerms } from './vocabulary.ts';
 import type { AnalysisView, RawFileView } from '../shared/record-views.ts';
+import type { LimitView, RecordSummary } from '../shared/record-views.ts';
+export type { LimitView, RecordSummary };
 
 // Window records: drafts, edits as new versions, the status machine, and the record views the
 // API returns. Every change writes its audit event in the same transaction.
@@ -53,33 +55,9 @@ import type { AnalysisView, RawFileView } from '../shared/record-views.ts';
 /** Version of the analysis as stored with each result (bump when the engine's numbers change). */
 export const ENGINE_VERSION = 'edgewise-analysis/1';
 
-export interface LimitView {
-  valueV: number;
-  /** Reference term id, or "cell" for a cell voltage. */
-  reference: string;
-  /** The same limit vs SHE (null where no conversion exists: cell voltages, ferrocene, RHE without pH). */
-  sheV: number | null;
-  /** E(SHE) = E(reference) + offsetV, from the engine's reference table. */
-  offsetV: number | null;
-  approximate: boolean;
-}
 
 export type { AnalysisView, RawFileView } from '../shared/record-views.ts';
 
-export interface RecordSummary {
-  handle: string;
-  version: number;
-  status: RecordStatus;
-  title: string | null;
-  lab: { slug: string; name: string } | null;
-  evidenceLevel: EvidenceLevel;
-  /** 'cell-voltage' for two-electrode cells: never mix these with electrode potentials. */
-  limitKind: 'electrode-potential' | 'cell-voltage';
-  limits: { cathodic: LimitView | null; anodic: LimitView | null };
-  computed: { cathodicV: number | null; anodicV: number | null; cathodicSheV: number | null; anodicSheV: number | null };
-  content: RecordContent;
-  updatedAt: string;
-}
 
 export interface RecordDetail extends RecordSummary {
   ownerId: string;

@@ -1,4 +1,6 @@
-// What the API answers about a record's files and analyses: one definition for server and islands.
+// What the API answers about records, their limits, files and analyses: one definition for the
+// server and the islands (types only).
+import type { EvidenceLevel, RecordContent, RecordStatus } from './record.ts';
 
 /** A verified raw file as the API shows it. */
 export interface RawFileView {
@@ -21,4 +23,47 @@ export interface AnalysisView {
   engineVersion: string;
   parameters: unknown;
   result: unknown;
+}
+
+export interface LimitView {
+  valueV: number;
+  /** Reference term id, or "cell" for a cell voltage. */
+  reference: string;
+  /** The same limit vs SHE (null where no conversion exists: cell voltages, ferrocene, RHE without pH). */
+  sheV: number | null;
+  /** E(SHE) = E(reference) + offsetV, from the engine's reference table. */
+  offsetV: number | null;
+  approximate: boolean;
+}
+
+export interface RecordSummary {
+  handle: string;
+  version: number;
+  status: RecordStatus;
+  title: string | null;
+  lab: { slug: string; name: string } | null;
+  evidenceLevel: EvidenceLevel;
+  /** 'cell-voltage' for two-electrode cells: never mix these with electrode potentials. */
+  limitKind: 'electrode-potential' | 'cell-voltage';
+  limits: { cathodic: LimitView | null; anodic: LimitView | null };
+  computed: { cathodicV: number | null; anodicV: number | null; cathodicSheV: number | null; anodicSheV: number | null };
+  content: RecordContent;
+  updatedAt: string;
+}
+
+export interface CommonCriterionResult {
+  criterion: string;
+  /** True when Edgewise recomputed this record's limits at the common criterion. */
+  applied: boolean;
+  /** Why not, when not applied (the record keeps its own criterion). */
+  reason?: string;
+  cathodicV: number | null;
+  anodicV: number | null;
+  /** 'reached', 'not-reached' or 'exceeded-at-first' per direction recomputed. */
+  status: { cathodic?: string; anodic?: string };
+}
+
+export interface SearchItem extends RecordSummary {
+  onScale: { scale: string; cathodic: number | null; anodic: number | null; note?: string };
+  commonCriterion?: CommonCriterionResult;
 }
