@@ -98,3 +98,6 @@ export async function wideElements(page: Page): Promise<string> {
     return `wider than ${w}px: ${out.join('; ') || 'nothing found'}`;
   });
 }
+
+/** The text of the element with a test id, whitespace collapsed. */
+export const text = async (page: Page, testId: string) => (await page.getByTestId(testId).innerText()).replace(/\s+/g, ' ').trim();

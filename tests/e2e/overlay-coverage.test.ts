@@ -3,8 +3,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
 import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
-import { openBrowser, screenshot, seriousViolations, watchedPage, wideElements, type Browser } from './browser.ts';
-import { publishThroughApi } from './publish.ts';
+import { openBrowser, screenshot, seriousViolations, watchedPage, wideElements, type Browser, text } from './browser.ts';
+import { publishThroughApi, publishedTotal } from './publish.ts';
 
 // The overlay of raw curves from the table selection, and the coverage matrix, on records
 // published through the API in this test (other files publish records too, so expected counts
@@ -43,20 +43,14 @@ afterAll(async () => {
   await closeAppDb();
 });
 
-async function total(query: string): Promise<number> {
-  const res = await fetch(new URL(`/api/v1/records?${query}&limit=1&facets=false`, appUrl()));
-  expect(res.status).toBe(200);
-  return (await res.json()).total;
-}
 
-const text = async (page: import('playwright-core').Page, testId: string) => (await page.getByTestId(testId).innerText()).replace(/\s+/g, ' ').trim();
 const FILTER = 'component=naclo4&component=water';
 
 describe('overlay of raw curves', () => {
   it('selects records in the table, keeps the selection in the address and draws their raw curves', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL(`/windows?${FILTER}`, appUrl()).href);
-    await expect.poll(() => text(page, 'result-count')).toMatch(new RegExp(`^${await total(FILTER)} matching`));
+    await expect.poll(() => text(page, 'result-count')).toMatch(new RegExp(`^${await publishedTotal(FILTER)} matching`));
     for (const k of ['gc', 'pt', 'ac'] as const) await page.getByRole('checkbox', { name: `Select ${h[k]} for the overlay` }).check();
     await expect.poll(() => new URL(page.url()).searchParams.get('pick')).toBe(`${h.gc},${h.pt},${h.ac}`);
     expect(await text(page, 'overlay-bar')).toContain('3 of 6 selected');
@@ -122,7 +116,7 @@ describe('coverage matrix', () => {
     const electrodes: string[] = cov.electrodes.map((e: { id: string }) => e.id);
     expect(electrodes).toEqual(expect.arrayContaining(['glassy-carbon', 'platinum', 'activated-carbon']));
     for (const e of electrodes) {
-      const n = await total(`${FILTER}&electrode=${e}`);
+      const n = await publishedTotal(`${FILTER}&electrode=${e}`);
       const cell = page.locator(`a[data-cell="naclo4|water|${e}"]`);
       if (n === 0) {
         // A gap: no link, nothing to count.
@@ -133,7 +127,7 @@ describe('coverage matrix', () => {
       // The evidence split, level by level, as the API counts it.
       const words: string[] = [];
       for (const level of ['confirmed', 'recomputed', 'documented', 'stated']) {
-        const k = await total(`${FILTER}&electrode=${e}&evidence=${level}`);
+        const k = await publishedTotal(`${FILTER}&electrode=${e}&evidence=${level}`);
         if (k) words.push(`${k} ${level}`);
       }
       expect(await cell.getAttribute('aria-label')).toContain(`: ${words.join(', ')}`);
@@ -143,7 +137,7 @@ describe('coverage matrix', () => {
 
     expect(await seriousViolations(page)).toEqual([]);
     await screenshot(page, 'coverage-light');
-    const expected = await total(`${FILTER}&electrode=glassy-carbon`);
+    const expected = await publishedTotal(`${FILTER}&electrode=glassy-carbon`);
     await page.locator('a[data-cell="naclo4|water|glassy-carbon"]').click();
     await page.waitForURL(/\/windows\?/);
     const q = new URL(page.url()).searchParams;

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
-import { openBrowser, screenshot, seriousViolations, watchedPage, wideElements, type Browser } from './browser.ts';
+import { openBrowser, screenshot, seriousViolations, watchedPage, wideElements, type Browser, text } from './browser.ts';
 import { publishThroughApi } from './publish.ts';
 
 let browser: Browser;
@@ -32,7 +32,6 @@ afterAll(async () => {
   await closeAppDb();
 });
 
-const text = async (page: import('playwright-core').Page, testId: string) => (await page.getByTestId(testId).innerText()).replace(/\s+/g, ' ').trim();
 
 describe('reference scale converter', () => {
   it('converts with the table values and names their sources (METHODS.md §8 B)', async () => {

@@ -3,8 +3,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
 import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
-import { openBrowser, screenshot, seriousViolations, watchedPage, type Browser } from './browser.ts';
-import { publishThroughApi } from './publish.ts';
+import { openBrowser, screenshot, seriousViolations, watchedPage, type Browser, text } from './browser.ts';
+import { publishThroughApi, publishedTotal } from './publish.ts';
 
 // The formulator's path through the reader's pages, on records made through the API in this test:
 // search by abbreviation, filter to two electrodes, common criterion and scale, open a record,
@@ -48,14 +48,8 @@ afterAll(async () => {
   await closeAppDb();
 });
 
-/** How many published records the API finds for a query: other test files publish records too. */
-async function total(query: string): Promise<number> {
-  const res = await fetch(new URL(`/api/v1/records?${query}&limit=1&facets=false`, appUrl()));
-  return (await res.json()).total;
-}
 const matching = (n: number) => new RegExp(`^${n} matching`);
 
-const text = async (page: import('playwright-core').Page, testId: string) => (await page.getByTestId(testId).innerText()).replace(/\s+/g, ' ').trim();
 
 describe("the formulator's path", () => {
   it('searches by abbreviation, filters to two electrodes, switches criterion and scale, and keeps it all in the address', async () => {
@@ -70,13 +64,13 @@ describe("the formulator's path", () => {
     await page.getByRole('button', { name: 'Search', exact: true }).click();
     await page.waitForURL(/\/windows\?/);
     expect(new URL(page.url()).searchParams.getAll('component').sort()).toEqual(['litfsi', 'water']);
-    const all = await total('component=litfsi&component=water');
+    const all = await publishedTotal('component=litfsi&component=water');
     expect(all).toBeGreaterThanOrEqual(3); // this file's three records at least
     await expect.poll(() => text(page, 'result-count')).toMatch(matching(all));
 
     // Two electrodes.
-    const gcOnly = await total('component=litfsi&component=water&electrode=glassy-carbon');
-    const gcAndAc = await total('component=litfsi&component=water&electrode=glassy-carbon&electrode=activated-carbon');
+    const gcOnly = await publishedTotal('component=litfsi&component=water&electrode=glassy-carbon');
+    const gcAndAc = await publishedTotal('component=litfsi&component=water&electrode=glassy-carbon&electrode=activated-carbon');
     expect(gcOnly).toBeGreaterThanOrEqual(1);
     expect(gcAndAc).toBeGreaterThanOrEqual(gcOnly + 1);
     expect(gcAndAc).toBeLessThan(all);
@@ -123,7 +117,7 @@ describe("the formulator's path", () => {
   it('exports the selection as BibTeX', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL(`/windows?component=litfsi&electrode=glassy-carbon`, appUrl()).href);
-    await expect.poll(() => text(page, 'result-count')).toMatch(matching(await total('component=litfsi&electrode=glassy-carbon')));
+    await expect.poll(() => text(page, 'result-count')).toMatch(matching(await publishedTotal('component=litfsi&electrode=glassy-carbon')));
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'BibTeX' }).click()]);
     const bib = readFileSync((await download.path())!, 'utf8');
     expect(bib).toMatch(/^@/m);

@@ -5,6 +5,7 @@ import type { Db } from './db/index.ts';
 import { readScope } from './record-search.ts';
 import { LISTED } from './record-status.ts';
 import { coverageCounts } from './repositories/coverage.ts';
+import type { Coverage, CoverageCell, CoverageRow } from '../shared/coverage-views.ts';
 
 // Which electrolyte × electrode combinations have published windows, and how well backed: the
 // counts behind /coverage, limited to what the principal may read (private lab records stay out
@@ -19,26 +20,7 @@ export const coverageQuerySchema = z.strictObject({
 });
 export type CoverageQuery = z.infer<typeof coverageQuerySchema>;
 
-export interface CoverageCell {
-  electrode: string;
-  total: number;
-  byEvidence: Partial<Record<EvidenceLevel, number>>;
-}
-
-export interface CoverageRow {
-  /** Vocabulary ids; null when the records have no salt (or no solvent). */
-  salt: string | null;
-  solvent: string | null;
-  total: number;
-  cells: CoverageCell[];
-}
-
-export interface Coverage {
-  /** Electrode-material ids that have at least one record, most records first. */
-  electrodes: { id: string; total: number }[];
-  rows: CoverageRow[];
-  evidenceLevels: readonly EvidenceLevel[];
-}
+export type { Coverage, CoverageCell, CoverageRow };
 
 /** The coverage matrix over listed (published or flagged) records the principal may read. */
 export async function coverageMatrix(db: Db, principal: Principal, q: CoverageQuery): Promise<Coverage> {
