@@ -101,3 +101,8 @@ export async function wideElements(page: Page): Promise<string> {
 
 /** The text of the element with a test id, whitespace collapsed. */
 export const text = async (page: Page, testId: string) => (await page.getByTestId(testId).innerText()).replace(/\s+/g, ' ').trim();
+
+/** Waits until every island on the page has hydrated (Astro drops the `ssr` mark then): input typed before that can be reset. */
+export async function hydrated(page: Page): Promise<void> {
+  await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0);
+}

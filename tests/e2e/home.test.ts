@@ -1,4 +1,4 @@
-import { openBrowser, watchedPage, type Browser } from './browser.ts';
+import { hydrated, openBrowser, watchedPage, type Browser } from './browser.ts';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { appUrl } from '../helpers.ts';
 
@@ -16,6 +16,7 @@ describe('home page in a real browser', () => {
   it('hydrates the search island, which suggests vocabulary terms as the reader types', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(appUrl());
+    await hydrated(page);
     await expect(page.title()).resolves.toBe('Edgewise');
     const box = page.getByRole('combobox', { name: 'Salt, solvent or electrode' });
     await box.fill('glassy');

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
-import { openBrowser, screenshot, seriousViolations, watchedPage, wideElements, type Browser, text } from './browser.ts';
+import { hydrated, openBrowser, screenshot, seriousViolations, watchedPage, wideElements, type Browser, text } from './browser.ts';
 import { publishThroughApi } from './publish.ts';
 
 let browser: Browser;
@@ -37,6 +37,7 @@ describe('reference scale converter', () => {
   it('converts with the table values and names their sources (METHODS.md §8 B)', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL('/tools/scales', appUrl()).href);
+    await hydrated(page);
     await page.getByLabel('Potential (V)').fill('0.100');
     await page.getByLabel('Measured against').selectOption('SCE');
     await page.getByLabel('Express on').selectOption('SHE');
@@ -67,6 +68,7 @@ describe('reference scale converter', () => {
   it('refuses ferrocene without a measured offset and flags metal/ion conversions as approximate', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL('/tools/scales?v=1&from=SHE&to=Fc%2B%2FFc', appUrl()).href);
+    await hydrated(page);
     await expect.poll(() => text(page, 'scale-refusal')).toContain('never converts it from a table');
     await page.getByLabel('E½ of Fc⁺/Fc (V)').fill('0.40');
     await page.getByLabel('measured against', { exact: true }).selectOption('SCE');
@@ -150,6 +152,7 @@ describe('window-opening planner', () => {
   it('schedules the vertices, times the run, states the criteria, the energy gain and the cautions', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL('/tools/plan', appUrl()).href);
+    await hydrated(page);
     await page.getByLabel('anodic', { exact: true }).check();
     await page.getByLabel('Start, near open circuit').fill('0');
     await page.getByLabel('Expected anodic limit').fill('0.3');

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
 import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
-import { openBrowser, screenshot, seriousViolations, watchedPage, type Browser, text } from './browser.ts';
+import { hydrated, openBrowser, screenshot, seriousViolations, watchedPage, type Browser, text } from './browser.ts';
 import { publishThroughApi, publishedTotal } from './publish.ts';
 
 // The formulator's path through the reader's pages, on records made through the API in this test:
@@ -55,6 +55,7 @@ describe("the formulator's path", () => {
   it('searches by abbreviation, filters to two electrodes, switches criterion and scale, and keeps it all in the address', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(appUrl());
+    await hydrated(page);
     const box = page.getByRole('combobox', { name: 'Salt, solvent or electrode' });
     await box.fill('litfsi in watr');
     // Misspelt "water" and a lower-case abbreviation are both understood.
