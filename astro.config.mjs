@@ -6,27 +6,32 @@ import tailwindcss from '@tailwindcss/vite';
 import { build as esbuild } from 'esbuild';
 import { fileURLToPath } from 'node:url';
 
-/** Bundles the analysis worker beside the server build, where src/lib/server/analysis-pool.ts finds it. */
-/** @returns {import('astro').AstroIntegration} */
-function analysisWorker() {
+/**
+ * Bundles the two plain-Node entry points beside the server build: the analysis worker, where
+ * src/lib/server/analysis-pool.ts finds it, and the HTTP front (scripts/app-server.ts) as
+ * `app-server.mjs` in the output folder, so the built server runs on `node` alone.
+ * @returns {import('astro').AstroIntegration}
+ */
+function serverEntries() {
   /** @type {string} */
   let serverDir = '';
+  /** @type {string} */
+  let outDir = '';
+  /** @param {string} entry @param {string} outfile @param {import('esbuild').BuildOptions} [more] */
+  const bundle = (entry, outfile, more = {}) =>
+    esbuild({ entryPoints: [fileURLToPath(new URL(entry, import.meta.url))], outfile, bundle: true, platform: 'node', format: 'esm', target: 'node20', logLevel: 'warning', ...more });
   return {
-    name: 'edgewise-analysis-worker',
+    name: 'edgewise-server-entries',
     hooks: {
       'astro:config:done': ({ config }) => {
         serverDir = fileURLToPath(config.build.server);
+        outDir = fileURLToPath(config.outDir);
       },
       'astro:build:done': async () => {
-        await esbuild({
-          entryPoints: [fileURLToPath(new URL('./src/lib/server/analysis-worker.ts', import.meta.url))],
-          outfile: `${serverDir}/analysis-worker.mjs`,
-          bundle: true,
-          platform: 'node',
-          format: 'esm',
-          target: 'node20',
-          logLevel: 'warning',
-        });
+        await bundle('./src/lib/server/analysis-worker.ts', `${serverDir}/analysis-worker.mjs`);
+        // Packages stay imports (CommonJS ones cannot be inlined into an ES module); the
+        // server runs where node_modules is, as the Astro build itself does.
+        await bundle('./scripts/app-server.ts', `${outDir}/app-server.mjs`, { packages: 'external' });
       },
     },
   };
@@ -39,9 +44,10 @@ const hosts = [...new Set(['localhost', '127.0.0.1', publicHost])];
 
 export default defineConfig({
   output: 'server',
-  adapter: node({ mode: 'standalone' }),
+  // Middleware mode: scripts/app-server.ts is the HTTP server and serves the built static files.
+  adapter: node({ mode: 'middleware' }),
   outDir: process.env.EDGEWISE_OUT_DIR ?? './dist',
-  integrations: [react(), analysisWorker()],
+  integrations: [react(), serverEntries()],
   security: {
     // Origins are checked in src/middleware.ts for every state-changing request, so refusals
     // carry the same headers and problem+json bodies as every other response.

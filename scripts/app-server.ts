@@ -1,16 +1,39 @@
-// Serves a built Edgewise: Astro's standalone handler (static files, then pages and API) behind
-// a plain Node HTTP server that puts the security headers on every response, static files
-// included. Usage: node --import tsx scripts/app-server.ts DIST_DIR  (HOST and PORT from env)
+// Serves a built Edgewise: Astro's handler (pages and API) and the built static files behind a
+// plain Node HTTP server that puts the security headers on every response, static files
+// included. The build bundles it as DIST_DIR/app-server.mjs (astro.config.mjs), so it runs on
+// plain Node: `node DIST_DIR/app-server.mjs` (HOST and PORT from env).
+import { readdirSync } from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
-import { pathToFileURL } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import send from 'send';
 import { applySecurityHeaders } from '../src/lib/server/http/headers.ts';
 
-const outDir = path.resolve(process.argv[2] ?? 'dist');
-process.env.ASTRO_NODE_AUTOSTART = 'disabled';
+const outDir = path.dirname(fileURLToPath(import.meta.url));
+const clientDir = path.join(outDir, 'client');
 const entry = (await import(pathToFileURL(path.join(outDir, 'server', 'entry.mjs')).href)) as {
-  handler: (req: http.IncomingMessage, res: http.ServerResponse) => void;
+  handler: (req: http.IncomingMessage, res: http.ServerResponse) => Promise<void>;
 };
+
+// The built client folder holds hashed bundles under /_astro/ and a few top-level files; every
+// other path is Astro's, so pages and the API cost no file-system lookup.
+const ASSETS = '/_astro/';
+const topLevelFiles = new Set(readdirSync(clientDir, { withFileTypes: true }).filter((d) => d.isFile()).map((d) => `/${d.name}`));
+
+/** A built file, or Astro's own answer (its 404 page) when there is none. */
+function serveStatic(req: http.IncomingMessage, res: http.ServerResponse, pathname: string) {
+  let sent = false;
+  send(req, pathname, { root: clientDir, dotfiles: 'deny', index: false })
+    .on('headers', (r: http.ServerResponse) => {
+      sent = true;
+      if (pathname.startsWith(ASSETS)) r.setHeader('cache-control', 'public, max-age=31536000, immutable');
+    })
+    .on('error', (err: Error & { status?: number }) => {
+      if (sent) return res.destroy(err);
+      void entry.handler(req, res);
+    })
+    .pipe(res);
+}
 
 // Baseline for what Astro's middleware never sees (static files, its own early refusals);
 // the middleware sets the same headers, with the page policy where a page is rendered, and
@@ -23,7 +46,15 @@ const server = http.createServer((req, res) => {
   // The socket's peer address, for the sign-in limits (Astro's clientAddress believes any
   // X-Forwarded-For); whatever a client sent under this name is overwritten.
   req.headers['x-edgewise-peer'] = req.socket.remoteAddress ?? '';
-  entry.handler(req, res);
+  const pathname = (req.url ?? '/').split(/[?#]/, 1)[0]!;
+  try {
+    decodeURI(pathname);
+  } catch {
+    res.writeHead(400, { 'content-type': 'text/plain; charset=utf-8' }).end('Bad request: the path is not valid percent-encoding.');
+    return;
+  }
+  if (pathname.startsWith(ASSETS) || topLevelFiles.has(pathname)) serveStatic(req, res, pathname);
+  else void entry.handler(req, res);
 });
 server.keepAliveTimeout = 5_000;
 const host = process.env.HOST ?? '127.0.0.1';

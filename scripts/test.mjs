@@ -26,7 +26,10 @@ if (existsSync(results)) {
   const summary = JSON.parse(readFileSync(results, 'utf8'));
   rmSync(results, { force: true });
   const passed = summary.numPassedTests ?? 0;
-  const failed = summary.numFailedTests ?? 0;
+  // A file that failed to load or whose hooks threw ran no test of its own: it counts as one failure.
+  const brokenFiles = (summary.testResults ?? []).filter((f) => f.status === 'failed' && !(f.assertionResults ?? []).some((a) => a.status === 'failed')).length;
+  const failed = (summary.numFailedTests ?? 0) + brokenFiles;
+  if (failed > 0) code = code || 1;
   const skipped = (summary.numPendingTests ?? 0) + (summary.numTodoTests ?? 0);
   if (passed + failed === 0) code = code || 1; // a run that tested nothing is not a pass
   console.log(`\nTime: ${((Date.now() - started) / 1000).toFixed(1)} s`);

@@ -71,7 +71,7 @@ export function buildApp(outDir: string, quiet = false): void {
 
 /** Starts the built server and resolves once /api/health answers 200. */
 export async function startApp(outDir: string, env: Record<string, string>, port: number, quiet = false): Promise<ChildProcess> {
-  const child = spawn(process.execPath, ['--import', 'tsx', path.join(projectRoot, 'scripts', 'app-server.ts'), outDir], {
+  const child = spawn(process.execPath, [path.join(outDir, 'app-server.mjs')], {
     cwd: projectRoot,
     env: { ...process.env, ...env, HOST: '127.0.0.1', PORT: String(port), NODE_ENV: 'production', ASTRO_TELEMETRY_DISABLED: '1', AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' },
     stdio: quiet ? ['ignore', 'pipe', 'pipe'] : ['ignore', 'inherit', 'inherit'],

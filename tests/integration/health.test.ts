@@ -37,7 +37,24 @@ describe('every kind of response carries the security headers', () => {
   it('a static asset', async () => {
     const res = await api('/favicon.svg');
     expect(res.status).toBe(200);
+    expect(res.headers.get('content-type')).toMatch(/image\/svg\+xml/);
     expectSecurityHeaders(res);
+  });
+
+  it('a hashed bundle, kept for a year; paths out of the client folder find nothing', async () => {
+    const home = await (await api('/')).text();
+    const bundle = /\/_astro\/[\w.-]+\.(?:js|css)/.exec(home)?.[0];
+    expect(bundle).toBeDefined();
+    const res = await api(bundle!);
+    expect(res.status).toBe(200);
+    expect(res.headers.get('cache-control')).toBe('public, max-age=31536000, immutable');
+    expectSecurityHeaders(res);
+    for (const path of ['/_astro/../server/entry.mjs', '/_astro/%2e%2e/server/entry.mjs', '/_astro/no-such-bundle.js', '/_astro/%E0%A4%A']) {
+      const miss = await api(path);
+      expect([400, 404], path).toContain(miss.status);
+      expect(await miss.text(), path).not.toContain('pageMap');
+      expectSecurityHeaders(miss);
+    }
   });
 
   it('a refusal', async () => {

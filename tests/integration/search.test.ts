@@ -4,7 +4,7 @@ import { Cite } from '@citation-js/core';
 import '@citation-js/plugin-csl';
 import { Validator } from '@seriousme/openapi-schema-validator';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { appDb, as, closeAppDb } from '../auth-helpers.ts';
+import { appDb, as, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { api } from '../helpers.ts';
 import { curator, makeRecord, principal, tag } from '../support/records.ts';
 import { can } from '../../src/lib/server/policy.ts';
@@ -141,6 +141,50 @@ describe('filters', () => {
     expect(f('cellType')).toEqual({ 'three-electrode': 3, 'two-electrode': 1 });
     expect(f('status')).toEqual({ published: 4 });
     expect(f('salt')).toEqual({ lipf6: 2, teabf4: 1, litfsi: 1 });
+  });
+});
+
+describe('answers held between changes', () => {
+  it('revalidates by entity tag, compresses on request, and sees a change committed before the next search', async () => {
+    const late = tag('late');
+    const path = `/api/v1/records?q=${late}&sort=handle`;
+    const identity = { 'accept-encoding': 'identity' };
+    const first = await as(null, path, { headers: identity });
+    expect(first.status).toBe(200);
+    expect(first.headers.get('content-encoding')).toBeNull();
+    expect(first.headers.get('cache-control')).toBe('private, no-cache');
+    const etag = first.headers.get('etag')!;
+    expect(etag).toMatch(/^"[\w-]+"$/);
+    const text = await first.text();
+    expect(Number(first.headers.get('content-length'))).toBe(Buffer.byteLength(text));
+    expect((JSON.parse(text) as { total: number }).total).toBe(0);
+
+    // The same answer again: 304 without a body for the tag held, gzip under a tag of its own.
+    const again = await as(null, path, { headers: { ...identity, 'if-none-match': etag } });
+    expect(again.status).toBe(304);
+    expect(await again.text()).toBe('');
+    const zipped = await as(null, path, { headers: { 'accept-encoding': 'gzip' } });
+    expect(zipped.headers.get('content-encoding')).toBe('gzip');
+    expect(zipped.headers.get('etag')).not.toBe(etag);
+    expect(await zipped.text()).toBe(text); // fetch decompresses
+
+    // A record published in between is in the very next answer; the old tag no longer matches.
+    const { record } = await makeRecord({ status: 'published', over: { title: `late arrival ${late}` } });
+    const after = await as(null, path, { headers: { ...identity, 'if-none-match': etag } });
+    expect(after.status).toBe(200);
+    expect(after.headers.get('etag')).not.toBe(etag);
+    const body = (await after.json()) as { total: number; items: { handle: string }[] };
+    expect(body.items.map((i) => i.handle)).toEqual([record.handle]);
+    expect(body.total).toBe(1);
+  });
+
+  it("never serves one principal's held answer to another", async () => {
+    const path = `/api/v1/records?q=${token}&status=draft&status=published`;
+    const member = await signIn(await makeUser({ labs: [[labA, 'member']], tag: 'srch-held' }));
+    const seen = async (who: string | null) => ((await (await as(who, path)).json()) as { items: { handle: string }[] }).items.map((i) => i.handle);
+    expect(await seen(null)).not.toContain(handles.draftA);
+    expect(await seen(member)).toContain(handles.draftA);
+    expect(await seen(null)).not.toContain(handles.draftA);
   });
 });
 

@@ -1,3 +1,5 @@
+import { createHash } from 'node:crypto';
+import { gzipSync } from 'node:zlib';
 import { z } from 'zod';
 import { lastCyclePerVertex, limitAt, parseCriterion, referenceConversion, sCutoff, AnalysisError, type CycleCharge } from '../analysis/index.ts';
 import { CELL_TYPES, CONCENTRATION_BASES, CRITERION_KINDS, EVIDENCE_LEVELS, METHOD_KINDS, RECORD_STATUSES, type RecordContent } from '../shared/record.ts';
@@ -23,6 +25,7 @@ import {
   type SortKey,
 } from './repositories/records.ts';
 import { resolveTerms } from './vocabulary.ts';
+import { sharedReads } from './shared-reads.ts';
 import type { CommonCriterionResult, SearchItem } from '../shared/record-views.ts';
 export type { CommonCriterionResult, SearchItem };
 
@@ -234,6 +237,15 @@ class GenerationCache<T> {
   }
 }
 
+const generationReaders = new WeakMap<Db, () => Promise<string>>();
+
+/** The current search generation of this database, read as `sharedReads` describes. */
+function currentGeneration(db: Db): Promise<string> {
+  let reader = generationReaders.get(db);
+  if (!reader) generationReaders.set(db, (reader = sharedReads(() => searchGeneration(db))));
+  return reader();
+}
+
 // Totals and facet counts cost a pass over every matching row and a page sorted on anything but
 // a selective index a scan of many, so both are kept per generation. The scope is part of every
 // key: one principal's private records never reach another's pages or counts.
@@ -250,7 +262,7 @@ export async function searchRecordList(db: Db, principal: Principal, q: RecordQu
   checkParams(q);
   const filter = await toFilter(db, q);
   const scope = readScope(principal);
-  const generation = await searchGeneration(db);
+  const generation = await currentGeneration(db);
   const withFacets = q.facets === 'true';
   const page = { ...parseSort(q.sort), limit: q.limit, offset: q.offset };
   const [rows, counted] = await Promise.all([
@@ -264,17 +276,28 @@ export async function searchRecordList(db: Db, principal: Principal, q: RecordQu
   return result;
 }
 
-// Whole answers, serialised, for the same query from the same scope in the same generation: a
-// repeated search costs one small query (the generation) and no decoration or serialisation.
-const answers = new GenerationCache<string>(200);
+/** An answer serialised once: its JSON bytes, the same gzipped, and an entity tag naming them. */
+export interface SerialisedAnswer {
+  body: Uint8Array<ArrayBuffer>;
+  gzip: Uint8Array<ArrayBuffer>;
+  etag: string;
+}
 
-/** searchRecordList as JSON text, served from the answer cache when nothing changed since. */
-export async function searchRecordListJson(db: Db, principal: Principal, q: RecordQuery): Promise<string> {
+// Whole answers, serialised and compressed, for the same query from the same scope in the same
+// generation: a repeated search costs one small query (the generation) and no decoration,
+// serialisation or compression.
+const answers = new GenerationCache<SerialisedAnswer>(200);
+
+/** searchRecordList serialised, from the answer cache when nothing changed since. */
+export async function searchRecordAnswer(db: Db, principal: Principal, q: RecordQuery): Promise<SerialisedAnswer> {
   checkParams(q);
   const scope = readScope(principal);
-  const generation = await searchGeneration(db);
+  const generation = await currentGeneration(db);
   const key = JSON.stringify([scope.userId, [...scope.labIds].sort(), scope.staff, Object.entries(q).sort(([a], [b]) => (a < b ? -1 : 1))]);
-  return answers.get(generation, key, async () => JSON.stringify(await searchRecordList(db, principal, q)));
+  return answers.get(generation, key, async () => {
+    const body = new TextEncoder().encode(JSON.stringify(await searchRecordList(db, principal, q)));
+    return { body, gzip: new Uint8Array(gzipSync(body)), etag: `"${createHash('sha256').update(body).digest('base64url').slice(0, 32)}"` };
+  });
 }
 
 /** Every matching record, a batch at a time (exports stream these). */

@@ -30,3 +30,28 @@ export function jsonText(text: string, status = 200, headers: Record<string, str
     headers: { 'content-type': 'application/json; charset=utf-8', 'cache-control': 'no-store', ...headers },
   });
 }
+
+/**
+ * A serialised JSON answer that may be revalidated: 304 when the client holds the same entity
+ * tag, gzip when the client takes it. Stored by the client only privately and always
+ * revalidated, since what a search shows depends on who asks.
+ */
+export function cachedJson(request: Request, answer: { body: Uint8Array<ArrayBuffer>; gzip: Uint8Array<ArrayBuffer>; etag: string }): Response {
+  const gzip = /\bgzip\b/i.test(request.headers.get('accept-encoding') ?? '');
+  const etag = gzip ? `${answer.etag.slice(0, -1)}-gz"` : answer.etag;
+  const headers: Record<string, string> = { etag, 'cache-control': 'private, no-cache', vary: 'Accept-Encoding, Cookie' };
+  const held = (request.headers.get('if-none-match') ?? '').split(',').map((t) => t.trim().replace(/^W\//, ''));
+  if (held.includes(etag) || held.includes('*')) return new Response(null, { status: 304, headers });
+  const bytes = gzip ? answer.gzip : answer.body;
+  // A stream over the held bytes: a byte-array body would be copied for every response.
+  const body = new ReadableStream<Uint8Array>({
+    start(controller) {
+      controller.enqueue(bytes);
+      controller.close();
+    },
+  });
+  return new Response(body, {
+    status: 200,
+    headers: { ...headers, 'content-type': 'application/json; charset=utf-8', 'content-length': String(bytes.byteLength), ...(gzip ? { 'content-encoding': 'gzip' } : {}) },
+  });
+}

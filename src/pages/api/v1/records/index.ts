@@ -1,11 +1,11 @@
 import { db } from '../../../../lib/server/db/index.ts';
-import { json, jsonText } from '../../../../lib/server/http/problem.ts';
+import { cachedJson, json } from '../../../../lib/server/http/problem.ts';
 import { endpoint, readJson, readQuery } from '../../../../lib/server/http/route.ts';
-import { recordQuerySchema, searchRecordListJson } from '../../../../lib/server/record-search.ts';
+import { recordQuerySchema, searchRecordAnswer } from '../../../../lib/server/record-search.ts';
 import { createRecord } from '../../../../lib/server/records.ts';
 import { createRecordBody } from '../../../../lib/shared/record.ts';
 
-export const GET = endpoint(async ({ locals, url }) => jsonText(await searchRecordListJson(db(), locals.principal, readQuery(url, recordQuerySchema))));
+export const GET = endpoint(async ({ locals, request, url }) => cachedJson(request, await searchRecordAnswer(db(), locals.principal, readQuery(url, recordQuerySchema))));
 
 export const POST = endpoint(async ({ locals, request }) => {
   const record = await createRecord(db(), locals.principal, await readJson(request, createRecordBody));
