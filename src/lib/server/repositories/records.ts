@@ -385,18 +385,19 @@ export async function searchAfter(db: DbOrTrx, f: RecordFilter, scope: ReadScope
   return r.rows.map(toSearchRow);
 }
 
+/** Facet name → record_search column; the three *_ids columns are arrays, counted per element. */
 export const FACETS = {
-  electrode: 'm.we_material_id',
-  method: 'm.method',
-  criterionKind: 'm.criterion_kind',
-  cellType: 'm.cell_type',
-  evidence: 'm.evidence_level',
-  status: 'm.status',
-  lab: 'm.lab_id::text',
-  concentrationBasis: 'm.salt_basis',
-  salt: 'unnest(m.salt_ids)',
-  solvent: 'unnest(m.solvent_ids)',
-  additive: 'unnest(m.additive_ids)',
+  electrode: 'we_material_id',
+  method: 'method',
+  criterionKind: 'criterion_kind',
+  cellType: 'cell_type',
+  evidence: 'evidence_level',
+  status: 'status',
+  lab: 'lab_id',
+  concentrationBasis: 'salt_basis',
+  salt: 'salt_ids',
+  solvent: 'solvent_ids',
+  additive: 'additive_ids',
 } as const;
 export type FacetName = keyof typeof FACETS;
 export type Facets = Record<FacetName, { value: string; count: number }[]>;
@@ -409,29 +410,38 @@ export async function countRecords(db: DbOrTrx, f: RecordFilter, scope: ReadScop
 
 /**
  * The number of matching records and the counts per value of each facet over the same
- * (visibility-limited) result, in one pass: every matching row yields one (facet, value) pair per
- * scalar facet and one per element of each array facet, plus one for the total.
+ * (visibility-limited) result, in one pass: a grouping set per facet column and one for the
+ * total, hashed side by side. Array columns are grouped as whole arrays (few distinct ones) and
+ * counted per element here.
  */
 export async function facetCounts(db: DbOrTrx, f: RecordFilter, scope: ReadScope): Promise<{ total: number; facets: Facets }> {
-  const pairs = sql.join(
-    (Object.entries(FACETS) as [FacetName, string][]).map(([name, expr]) => sql`SELECT ${name}::text AS name, ${sql.raw(expr)} AS value`),
-    sql` UNION ALL `,
-  );
-  const r = await sql<{ name: string; value: string; n: string }>`
-    WITH counted AS (
-      SELECT f.name, f.value, count(*) AS n
-        FROM (SELECT s.* FROM record_search s WHERE ${conditions(f, scope)}) m
-        CROSS JOIN LATERAL (SELECT '' AS name, '' AS value UNION ALL ${pairs}) f
-       WHERE f.value IS NOT NULL
-       GROUP BY f.name, f.value)
-    SELECT c.name, CASE WHEN c.name = 'lab' THEN l.slug ELSE c.value END AS value, c.n
-      FROM counted c LEFT JOIN labs l ON c.name = 'lab' AND l.id::text = c.value
-     ORDER BY c.name, c.n DESC, 2`.execute(db);
-  const facets = Object.fromEntries(Object.keys(FACETS).map((k) => [k, []])) as unknown as Facets;
+  const names = Object.keys(FACETS) as FacetName[];
+  const cols = names.map((n) => sql.ref(`s.${FACETS[n]}`));
+  const r = await sql<Record<string, unknown> & { g: number; n: string; lab_slug: string | null }>`
+    SELECT c.*, l.slug AS lab_slug
+      FROM (SELECT GROUPING(${sql.join(cols)}) AS g, ${sql.join(cols)}, count(*) AS n
+              FROM record_search s WHERE ${conditions(f, scope)}
+             GROUP BY GROUPING SETS (${sql.join(cols.map((c) => sql`(${c})`))}, ())) c
+      LEFT JOIN labs l ON l.id = c.lab_id`.execute(db);
+  const counts = new Map<FacetName, Map<string, number>>(names.map((n) => [n, new Map()]));
+  const all = (1 << names.length) - 1;
   let total = 0;
-  for (const x of r.rows) {
-    if (x.name === '') total = Number(x.n);
-    else facets[x.name as FacetName].push({ value: x.value, count: Number(x.n) });
+  for (const row of r.rows) {
+    const n = Number(row.n);
+    if (row.g === all) {
+      total = n;
+      continue;
+    }
+    // GROUPING() has a 0 bit for the grouped column, the first column being the highest bit.
+    const name = names.find((_, i) => ((row.g >> (names.length - 1 - i)) & 1) === 0)!;
+    const raw = name === 'lab' ? row.lab_slug : row[FACETS[name]];
+    const tally = counts.get(name)!;
+    for (const value of Array.isArray(raw) ? (raw as string[]) : [raw as string | null]) {
+      if (value !== null) tally.set(value, (tally.get(value) ?? 0) + n);
+    }
   }
+  const facets = Object.fromEntries(
+    names.map((name) => [name, [...counts.get(name)!].map(([value, count]) => ({ value, count })).sort((a, b) => b.count - a.count || (a.value < b.value ? -1 : a.value > b.value ? 1 : 0))]),
+  ) as Facets;
   return { total, facets };
 }
