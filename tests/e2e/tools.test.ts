@@ -198,3 +198,22 @@ describe('window-opening planner', () => {
     await page.close();
   });
 });
+
+describe('API reference', () => {
+  it('shows every operation of the OpenAPI document, with fields of the record body, and reads well', async () => {
+    const doc = (await (await fetch(new URL('/api/v1/openapi.json', appUrl()))).json()) as { paths: Record<string, Record<string, unknown>> };
+    const operations = Object.values(doc.paths).reduce((n, item) => n + ['get', 'post', 'put', 'patch', 'delete'].filter((m) => item[m]).length, 0);
+    const { page, problems } = await watchedPage(browser.context);
+    await page.goto(new URL('/docs/api', appUrl()).href);
+    await expect.poll(() => page.getByTestId('api-operation').count()).toBe(operations);
+    const create = page.locator('#op-createRecord');
+    expect(await create.innerText()).not.toContain('content.electrolyte.salts[]'); // long bodies start folded
+    await create.getByText(/^Request body/).click();
+    expect(await create.innerText()).toContain('content.electrolyte.salts[].concentration.value');
+    await page.getByRole('link', { name: /POST\s+\/records$/ }).first().click();
+    expect(page.url()).toMatch(/#op-createRecord$/);
+    expect(await seriousViolations(page)).toEqual([]);
+    await screenshot(page, 'docs-api-light');
+    expect(problems).toEqual([]);
+  });
+});

@@ -83,6 +83,7 @@ export const ROWS: Row[] = [
   row('GET', '/windows/overlay', '200', { path: '/windows/overlay?records={pub}', prepare: async () => ({ pub: await publishedRecord() }) }),
   row('GET', '/coverage', '200'),
   row('GET', '/tools/plan', '200'),
+  row('GET', '/docs/api', '200'),
   row('GET', '/windows/[handle]', '404 404 200 200 404 404 404', { path: '/windows/{draft}', prepare: async (_h, v) => ({ draft: await labDraft(v.labA!) }) }),
   row('GET', '/labs/[slug]', '200', { path: '/labs/{labA}' }),
   row('POST', '/labs/[slug]', '302 403 403 200 403 200 403', { path: '/labs/{labA}', form: (v) => ({ intent: 'remove', id: v.member! }), prepare: async (h) => ({ member: await h.newMemberOfLabA() }) }),

@@ -1,3 +1,4 @@
+import { z } from 'zod';
 import type { Db } from './db/index.ts';
 import { NotFoundError } from './errors.ts';
 import { authorize, requireUser } from './policy.ts';
@@ -13,6 +14,13 @@ import type { Principal, Role } from '../shared/principal.ts';
 export interface AdminUserView extends Profile {
   disabled: boolean;
 }
+
+/** Query parameters of GET /api/v1/admin/users. */
+export const accountsQuerySchema = z.strictObject({
+  q: z.string().trim().max(200).optional(),
+  limit: z.coerce.number().int().min(1).max(200).default(50),
+  offset: z.coerce.number().int().min(0).default(0),
+});
 
 export async function listAccounts(db: Db, principal: Principal, opts: { q?: string | undefined; limit: number; offset: number }): Promise<{ users: AdminUserView[]; total: number }> {
   authorize(principal, 'user.list', null);

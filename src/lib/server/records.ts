@@ -10,7 +10,7 @@ import {
   type editRecordBody,
   type transitionBody,
 } from '../shared/record.ts';
-import type { z } from 'zod';
+import { z } from 'zod';
 import { analyzeInWorker } from './analysis-pool.ts';
 import type { Db } from './db/index.ts';
 import { ConflictError, NotFoundError, ValidationError } from './errors.ts';
@@ -607,6 +607,9 @@ export interface Change {
 }
 
 /** Field-by-field differences between two versions of a record. */
+/** Query parameters of GET /api/v1/records/{handle}/diff. */
+export const diffQuerySchema = z.strictObject({ from: z.coerce.number().int().min(1), to: z.coerce.number().int().min(1) });
+
 export async function diffRecordVersions(db: Db, principal: Principal, handle: string, from: number, to: number): Promise<{ from: number; to: number; changes: Change[] }> {
   const head = await visibleHead(db, principal, handle);
   authorize(principal, 'recordVersion.read', { type: 'recordVersion', record: policyObject(head) }, { what: 'record' });

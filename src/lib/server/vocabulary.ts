@@ -1,9 +1,10 @@
+import { z } from 'zod';
 import { authorize, type Principal } from './policy.ts';
 import { ValidationError, type FieldError } from './errors.ts';
 import type { Db } from './db/index.ts';
 import type { DbOrTrx } from './repositories/audit.ts';
 import { findTermsByKeys, insertMissingTerms, listTerms, toTerm, type VocabularyTermRow } from './repositories/vocabulary.ts';
-import { lookupKey, termKeys, vocabularyTermSchema, type VocabularyKind, type VocabularyTerm, type VocabularyTermInput } from '../shared/vocabulary.ts';
+import { VOCABULARY_KINDS, lookupKey, termKeys, vocabularyTermSchema, type VocabularyKind, type VocabularyTerm, type VocabularyTermInput } from '../shared/vocabulary.ts';
 
 /** Adds the terms that are missing (by id); safe to run on every start. Returns how many were added. */
 export async function loadVocabulary(db: Db, terms: readonly VocabularyTermInput[]): Promise<number> {
@@ -33,6 +34,9 @@ export async function loadVocabulary(db: Db, terms: readonly VocabularyTermInput
 }
 
 /** The vocabulary, for pickers and search boxes. */
+/** Query parameters of GET /api/v1/vocabulary. */
+export const vocabularyQuerySchema = z.strictObject({ kind: z.enum(VOCABULARY_KINDS).optional(), q: z.string().trim().min(1).max(200).optional() });
+
 export async function listVocabulary(db: Db, principal: Principal, opts: { kind?: VocabularyKind; q?: string } = {}): Promise<VocabularyTerm[]> {
   authorize(principal, 'vocabulary.read', null);
   const rows = await listTerms(db, opts.kind ? { kind: opts.kind } : {});
