@@ -58,12 +58,20 @@ export function typeText(schema: Json, doc: Json): string {
   if (Array.isArray(s.enum)) return `one of ${s.enum.map((v) => JSON.stringify(v)).join(', ')}`;
   if (s.const !== undefined) return JSON.stringify(s.const);
   const alts = variants(s);
-  if (alts.length) return [...new Set(alts.map((a) => typeText(a, doc)))].join(' or ');
+  if (alts.length) {
+    const texts = [...new Set(alts.map((a) => typeText(a, doc)))];
+    // A query parameter that may be given once or repeated: `x` or `array of x`.
+    if (texts.length === 2 && texts[1] === `array of ${texts[0]}`) return `${texts[0]}, repeatable`;
+    return texts.join(' or ');
+  }
   const t = Array.isArray(s.type) ? (s.type as string[]).join(' or ') : (s.type as string | undefined);
   if (t === 'array') return `array of ${s.items ? typeText(s.items as Json, doc) : 'anything'}`;
-  const bounds = [
+  const range = [
     s.minimum !== undefined ? `≥ ${s.minimum}` : s.exclusiveMinimum !== undefined ? `> ${s.exclusiveMinimum}` : '',
     s.maximum !== undefined ? `≤ ${s.maximum}` : s.exclusiveMaximum !== undefined ? `< ${s.exclusiveMaximum}` : '',
+  ].filter(Boolean);
+  const bounds = [
+    range.join(' and '),
     s.format ? `(${s.format})` : '',
     s.maxLength !== undefined ? `(≤ ${s.maxLength} chars)` : '',
   ].filter(Boolean);
@@ -128,4 +136,9 @@ export function apiReference(doc: Json): TagView[] {
     }
   }
   return [...tags.values()].filter((t) => t.operations.length > 0);
+}
+
+/** Text with `code` spans (as the document writes them) split into plain and code pieces. */
+export function inlineCode(text: string): { code: boolean; text: string }[] {
+  return text.split('`').map((piece, i) => ({ code: i % 2 === 1, text: piece })).filter((p) => p.text !== '');
 }

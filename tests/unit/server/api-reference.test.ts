@@ -45,6 +45,8 @@ describe('api reference', () => {
     expect(typeText({ anyOf: [{ type: 'number', minimum: 0 }, { type: 'null' }] }, doc)).toBe('number ≥ 0 or null');
     expect(typeText({ type: 'string', format: 'uuid' }, doc)).toBe('string (uuid)');
     expect(typeText({ type: 'array', items: { type: 'string' } }, doc)).toBe('array of string');
+    expect(typeText({ type: 'integer', minimum: 1, maximum: 200 }, doc)).toBe('integer ≥ 1 and ≤ 200');
+    expect(typeText({ anyOf: [{ type: 'string' }, { type: 'array', items: { type: 'string' } }] }, doc)).toBe('string, repeatable');
   });
 
   it('flattens a body into one row per field, through references and arrays of objects', () => {
