@@ -84,6 +84,14 @@ describe('overlay of raw curves', () => {
 
     expect(await seriousViolations(page)).toEqual([]);
     await screenshot(page, 'overlay-light');
+
+    // Back to the comparison it was opened from: the same filters and the same selection.
+    await page.getByTestId('overlay-back').click();
+    await page.waitForURL(/\/windows\?/);
+    const back = new URL(page.url()).searchParams;
+    for (const [k, v] of new URLSearchParams(FILTER)) expect(back.getAll(k)).toContain(v);
+    expect(back.get('pick')).toBe(`${h.gc},${h.pt},${h.ac}`);
+    await expect.poll(() => text(page, 'result-count')).toMatch(new RegExp(`^${await publishedTotal(FILTER)} matching`));
     expect(problems).toEqual([]);
     await page.close();
   });

@@ -167,6 +167,18 @@ describe("the formulator's path", () => {
         await page.waitForLoadState('networkidle');
         await screenshot(page, name);
         expect(await seriousViolations(page)).toEqual([]);
+        if (name === 'windows-dark-phone') {
+          // The filters fold away on a phone, saying how many are set, and open on demand.
+          await hydrated(page);
+          const toggle = page.getByTestId('filters-toggle');
+          expect(await toggle.innerText()).toBe('Filters (1 set)');
+          expect(await toggle.getAttribute('aria-expanded')).toBe('false');
+          expect(await page.locator('#explorer-filters').isVisible()).toBe(false);
+          await toggle.click();
+          expect(await page.locator('#explorer-filters').isVisible()).toBe(true);
+          expect(await toggle.getAttribute('aria-expanded')).toBe('true');
+          await screenshot(page, 'windows-dark-phone-filters');
+        }
         expect(problems).toEqual([]);
         await page.close();
       }

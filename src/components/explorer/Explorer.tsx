@@ -21,7 +21,7 @@ import {
   type SearchItem,
   type SortKey,
 } from '../../lib/client/records.ts';
-import { MAX_OVERLAY, pickedHandles } from '../../lib/client/overlay.ts';
+import { MAX_OVERLAY, overlayHref, pickedHandles } from '../../lib/client/overlay.ts';
 import { useSearchState } from '../../lib/client/url-state.ts';
 import WindowLadder, { type LadderRow } from '../charts/WindowLadder.tsx';
 import { buttonPrimary, buttonQuiet, Empty, EvidenceBadge, Failed, Loading, muted, panel } from '../ui.tsx';
@@ -147,6 +147,11 @@ function columns(scale: string, terms: Map<string, IndexTerm> | undefined): Colu
 
 const HIDEABLE = ['electrolyte', 'electrode', 'width', 'criterion', 'method', 'scanRate', 'temperature', 'evidence', 'source'];
 
+/** Address keys that choose how results look, not which records match (kept by "clear filters"). */
+const VIEW_KEYS = ['scale', 'criterion', 'hide', 'sort', 'pick'];
+/** Address keys of paging. */
+const PAGE_KEYS = ['offset', 'limit'];
+
 function ExplorerView({ initialSearch }: { initialSearch: string }) {
   const [search, navigate] = useSearchState(initialSearch);
   const query = useMemo(() => queryFromSearch(search), [search]);
@@ -183,6 +188,8 @@ function ExplorerView({ initialSearch }: { initialSearch: string }) {
   // Records ticked for the overlay, kept in the address (`pick`) across filter and page changes.
   const picked = useMemo(() => pickedHandles(new URLSearchParams(search).get('pick')), [search]);
   const [refusal, setRefusal] = useState<string | null>(null);
+  const [filtersOpen, setFiltersOpen] = useState(false);
+  const activeFilters = useMemo(() => new Set([...new URLSearchParams(search).keys()].filter((k) => !VIEW_KEYS.includes(k) && !PAGE_KEYS.includes(k))).size, [search]);
   const setPicked = (next: string[]) => {
     const p = new URLSearchParams(search);
     if (next.length) p.set('pick', next.join(','));
@@ -234,14 +241,27 @@ function ExplorerView({ initialSearch }: { initialSearch: string }) {
     <div className="grid gap-6 lg:grid-cols-[16rem_minmax(0,1fr)]">
       <aside className={`${panel} p-4 h-fit`} aria-label="Filters">
         <h2 className="sr-only">Filters</h2>
+        {/* On narrow screens the filters fold away so the results come first. */}
+        <button
+          type="button"
+          className={`${buttonQuiet} w-full lg:hidden`}
+          aria-expanded={filtersOpen}
+          aria-controls="explorer-filters"
+          onClick={() => setFiltersOpen((o) => !o)}
+          data-testid="filters-toggle"
+        >
+          {filtersOpen ? 'Hide filters' : `Filters${activeFilters ? ` (${activeFilters} set)` : ''}`}
+        </button>
+        <div id="explorer-filters" className={filtersOpen ? 'mt-3 lg:mt-0' : 'hidden lg:block'}>
         <FilterPanel
           query={query}
           facets={facets}
           terms={terms}
           onList={setList}
           onText={setText}
-          onClear={() => set((p) => [...p.keys()].filter((k) => !['scale', 'criterion', 'hide', 'sort'].includes(k)).forEach((k) => p.delete(k)))}
+          onClear={() => set((p) => [...p.keys()].filter((k) => !VIEW_KEYS.includes(k)).forEach((k) => p.delete(k)))}
         />
+        </div>
       </aside>
 
       <div className="grid gap-6 min-w-0">
@@ -261,7 +281,7 @@ function ExplorerView({ initialSearch }: { initialSearch: string }) {
             </p>
             <ColumnChooser hidden={hidden} onChange={(h) => set((p) => (h.size ? p.set('hide', [...h].join(',')) : p.delete('hide')), { keepOffset: true })} />
           </div>
-          <OverlayBar picked={picked} refusal={refusal} onClear={() => (setRefusal(null), setPicked([]))} />
+          <OverlayBar picked={picked} search={search} refusal={refusal} onClear={() => (setRefusal(null), setPicked([]))} />
           {common && rows.some((r) => r.own) && (
             <p className={`text-sm ${muted} mb-2`}>◇ marks a record without raw data (or of another method): it keeps its own criterion.</p>
           )}
@@ -391,7 +411,7 @@ function waterFor(rows: Row[], scale: string | undefined): { herV: number; oerV:
   }
 }
 
-function OverlayBar({ picked, refusal, onClear }: { picked: string[]; refusal: string | null; onClear: () => void }) {
+function OverlayBar({ picked, search, refusal, onClear }: { picked: string[]; search: string; refusal: string | null; onClear: () => void }) {
   return (
     <div className="mb-2 grid gap-1" data-testid="overlay-bar">
       <div className="flex flex-wrap items-center gap-3 text-sm">
@@ -400,7 +420,7 @@ function OverlayBar({ picked, refusal, onClear }: { picked: string[]; refusal: s
         </span>
         {picked.length > 0 && (
           <>
-            <a href={`/windows/overlay?records=${picked.join(',')}`} className={`${buttonPrimary} text-sm`}>
+            <a href={overlayHref(picked, search)} className={`${buttonPrimary} text-sm`}>
               Overlay curves
             </a>
             <button type="button" className={buttonQuiet} onClick={onClear}>
