@@ -43,7 +43,7 @@ applySecurityHeaders(baseline, { https: false });
 
 const server = http.createServer((req, res) => {
   for (const [name, value] of baseline) res.setHeader(name, value);
-  // The socket's peer address, for the sign-in limits (Astro's clientAddress believes any
+  // The socket's peer address, for the sign-in and mail limits (Astro's clientAddress believes any
   // X-Forwarded-For); whatever a client sent under this name is overwritten.
   req.headers['x-edgewise-peer'] = req.socket.remoteAddress ?? '';
   const pathname = (req.url ?? '/').split(/[?#]/, 1)[0]!;

@@ -47,6 +47,15 @@ describe('failed sign-in limits', () => {
     expect(Number(res.headers.get('retry-after'))).toBeGreaterThan(0);
   });
 
+  it('a path Auth.js reads as the same action (extra slashes) is limited the same', async () => {
+    const u = await makeUser();
+    for (let i = 0; i < 10; i++) await postSignIn(u.email, 'a wrong password again');
+    const { api, appUrl } = await import('../helpers.ts');
+    const res = await api('/api/auth//callback/credentials/', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams({ email: u.email, password: u.password, callbackUrl: `${appUrl()}/account` }).toString() });
+    expect(res.status).toBe(429);
+    expect(sessionCookieFrom(res)).toBeNull();
+  });
+
   it('failures older than 15 minutes no longer count', async () => {
     const u = await makeUser();
     await appDb()

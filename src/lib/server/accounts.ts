@@ -5,12 +5,16 @@ import { insertAuditEvent } from './repositories/audit.ts';
 import { consumeAccountToken, expireAccountTokens, insertAccountToken, accountTokenIsUsable } from './repositories/auth-tokens.ts';
 import { bumpSessionVersion, findPasswordHash, findUserByEmail, findUserById, insertUser, markEmailVerified, setPasswordHash, updateUserProfile, type UserRecord } from './repositories/users.ts';
 import { deliver, mailAlreadyRegistered, mailConfirmAddress, mailPasswordChanged, mailPasswordReset } from './auth/mails.ts';
+import { assertMailRequestAllowed, mayMail } from './auth/mail-limits.ts';
 import { hashPassword, passwordProblem, verifyPassword } from './auth/passwords.ts';
 import { hashSecret, randomSecret } from './auth/secrets.ts';
 import type { Principal } from '../shared/principal.ts';
 
 // Accounts: sign-up with address confirmation, password reset, profile. Answers never reveal
 // whether an address has an account; the mail that follows tells the owner of the address.
+// Sign-up and reset requests count against the mail limits (auth/mail-limits.ts): a client over
+// its limit gets 429, while an address over its own limit is silently sent nothing, because a
+// refusal there would say that the address has an account.
 
 const CONFIRM_SECONDS = 24 * 60 * 60;
 const RESET_SECONDS = 60 * 60;
@@ -43,13 +47,14 @@ export const toProfile = (u: UserRecord): Profile => ({
 });
 
 /** Creates an unconfirmed reader account and mails a confirmation link (or a notice, if taken). */
-export async function signUp(db: Db, input: { email: string; password: string; name?: string | undefined }): Promise<void> {
+export async function signUp(db: Db, input: { email: string; password: string; name?: string | undefined }, clientAddress: string): Promise<void> {
   checkPassword(input.password, input.email);
+  await assertMailRequestAllowed(db, clientAddress);
   // Hashed before the lookup so a taken address answers no faster than a new one.
   const hash = await hashPassword(input.password);
   const existing = await findUserByEmail(db, input.email);
   if (existing) {
-    await deliver(() => mailAlreadyRegistered(existing.email));
+    if (await mayMail(db, 'signup', existing.email)) await deliver(() => mailAlreadyRegistered(existing.email));
     return;
   }
   const token = randomSecret();
@@ -65,7 +70,7 @@ export async function signUp(db: Db, input: { email: string; password: string; n
     await insertAuditEvent(trx, { actorId: user.id, action: 'account.signup', subjectType: 'user', subjectId: user.id });
     return user;
   });
-  if (created) await deliver(() => mailConfirmAddress(created.email, token));
+  if (created && (await mayMail(db, 'signup', created.email))) await deliver(() => mailConfirmAddress(created.email, token));
 }
 
 /** Confirms the address the link was sent to; false when the link is unknown, used or expired. */
@@ -79,9 +84,12 @@ export async function confirmEmail(db: Db, token: string): Promise<boolean> {
   });
 }
 
-export async function requestPasswordReset(db: Db, email: string): Promise<void> {
+export async function requestPasswordReset(db: Db, email: string, clientAddress: string): Promise<void> {
+  await assertMailRequestAllowed(db, clientAddress);
   const user = await findUserByEmail(db, email);
   if (!user || user.disabledAt) return;
+  // Checked before the earlier link is expired: over the limit, the last link sent keeps working.
+  if (!(await mayMail(db, 'password-reset', user.email))) return;
   const token = randomSecret();
   await db.transaction().execute(async (trx) => {
     await expireAccountTokens(trx, user.id, 'reset_password');

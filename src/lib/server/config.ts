@@ -20,6 +20,8 @@ const schema = z.object({
   MAIL_CAPTURE_DIR: z.string().optional(),
   /** Trust X-Forwarded-For for the client address only behind a known proxy. */
   TRUST_PROXY: z.stringbool().default(false),
+  /** Requests that send e-mail (sign-up, password reset, sign-in link) per client address per hour. */
+  MAIL_LIMIT_PER_CLIENT: z.coerce.number().int().positive().default(20),
   MAX_UPLOAD_BYTES: z.coerce.number().int().positive().default(200 * 1024 * 1024),
   /** Largest file POST /api/v1/analyses takes in one request (bigger files go through uploads). */
   MAX_ANALYSIS_BYTES: z.coerce.number().int().positive().default(64 * 1024 * 1024),

@@ -29,6 +29,7 @@ import {
 } from '../shared/curation.ts';
 import { createRecordBody, createUploadBody, editRecordBody, recordContentSchema, transitionBody } from '../shared/record.ts';
 import { vocabularyTermSchema } from '../shared/vocabulary.ts';
+import { MESSAGES_PER_ADDRESS } from './auth/mail-limits.ts';
 import { exportQuerySchema } from './exports.ts';
 import { recordQuerySchema } from './record-search.ts';
 import { coverageQuerySchema } from './coverage.ts';
@@ -93,6 +94,7 @@ const ERROR_TEXT: Record<number, string> = {
   409: 'In conflict with the current state; `detail` says how',
   413: 'The JSON body is over 1 MiB',
   422: 'The content was refused; `errors` says where',
+  429: 'Too many requests from your network address; retry after the Retry-After delay',
   503: 'Storage or database unavailable; retry after the Retry-After delay',
 };
 /** Problem responses: a status alone takes the usual text; `[status, text]` says what it means here. */
@@ -619,9 +621,12 @@ export function openApiDocument(serverUrl: string): Json {
           operationId: 'signUp',
           tags: ['Account'],
           summary: 'Make a reader account; a link to confirm the address is mailed',
-          description: 'Answers 202 whether or not the address already has an account; the e-mail tells its owner which.',
+          description:
+            'Answers 202 whether or not the address already has an account; the e-mail tells its owner which. ' +
+            `At most ${MESSAGES_PER_ADDRESS} sign-up messages go to one address per hour (further requests answer 202 and send nothing); ` +
+            'a network address that makes too many requests that send e-mail within an hour gets 429.',
           requestBody: body('SignUp'),
-          responses: { '202': ok('Check your e-mail'), ...errors([400, 'Invalid request, or a password that is too weak (`errors` says why)'], 413) },
+          responses: { '202': ok('Check your e-mail'), ...errors([400, 'Invalid request, or a password that is too weak (`errors` says why)'], 413, 429) },
         },
       },
       '/account/confirm': {
@@ -648,9 +653,12 @@ export function openApiDocument(serverUrl: string): Json {
           operationId: 'requestPasswordReset',
           tags: ['Account'],
           summary: 'Mail a password reset link',
-          description: 'Answers 202 whether or not the address has an account.',
+          description:
+            'Answers 202 whether or not the address has an account. ' +
+            `At most ${MESSAGES_PER_ADDRESS} reset links go to one address per hour (further requests answer 202 and send nothing); ` +
+            'a network address that makes too many requests that send e-mail within an hour gets 429.',
           requestBody: body('EmailAddress'),
-          responses: { '202': ok('Check your e-mail'), ...errors(400, 413) },
+          responses: { '202': ok('Check your e-mail'), ...errors(400, 413, 429) },
         },
       },
       '/account/password/reset': {

@@ -9,6 +9,7 @@ import { config } from '../config.ts';
 import { db } from '../db/index.ts';
 import { insertAuditEvent } from '../repositories/audit.ts';
 import { bumpSessionVersion, findPasswordHash, findUserByEmail, findUserById } from '../repositories/users.ts';
+import { assertMailRequestAllowed, mayMail } from './mail-limits.ts';
 import { mailSignInLink } from './mails.ts';
 import { burnPasswordCheck, verifyPassword } from './passwords.ts';
 import { assertSignInAllowed, recordSignInFailure } from './throttle.ts';
@@ -80,8 +81,11 @@ export function authConfig(): AuthConfig {
         from: c.MAIL_FROM,
         maxAge: 15 * 60,
         // The mailed link opens our page, whose button signs in (a GET changes nothing, so mail
-        // scanners that follow links cannot use up the one-time token).
-        sendVerificationRequest: async ({ identifier, url }) => mailSignInLink(identifier, signInLinkPage(url)),
+        // scanners that follow links cannot use up the one-time token). Over the address's mail
+        // limit nothing is sent and the answer stays the same (see mail-limits.ts).
+        sendVerificationRequest: async ({ identifier, url }) => {
+          if (await mayMail(db(), 'sign-in-link', identifier)) await mailSignInLink(identifier, signInLinkPage(url));
+        },
       }),
     ],
     callbacks: {
@@ -127,14 +131,20 @@ export async function readSessionToken(cookieHeader: string | null): Promise<{ s
 
 /**
  * Every request to /api/auth/*: a password sign-in is refused with 429 while its account or
- * client address has too many recent failures, and a failure is counted when Auth.js refuses it.
+ * client address has too many recent failures, and a failure is counted when Auth.js refuses it;
+ * a request for a sign-in link counts against the client's mail limit (429 when it is full).
  */
 export async function handleAuthRequest(request: Request, clientAddress: string): Promise<Response> {
   const url = new URL(request.url);
-  if (request.method === 'GET' && url.pathname === `${AUTH_BASE}/callback/email`) {
+  const action = authAction(url.pathname);
+  if (request.method === 'GET' && action === 'callback/email') {
     return new Response(null, { status: 302, headers: { location: signInLinkPage(url.toString()) } });
   }
-  if (request.method === 'POST' && url.pathname === `${AUTH_BASE}/callback/credentials`) {
+  if (request.method === 'POST' && action === 'signin/email') {
+    await assertMailRequestAllowed(db(), clientAddress);
+    return Auth(request, authConfig());
+  }
+  if (request.method === 'POST' && action === 'callback/credentials') {
     const form = await request.clone().formData().catch(() => null);
     const email = String(form?.get('email') ?? '').slice(0, 320);
     await assertSignInAllowed(db(), email, clientAddress);
@@ -143,6 +153,15 @@ export async function handleAuthRequest(request: Request, clientAddress: string)
     return response;
   }
   return Auth(request, authConfig());
+}
+
+/**
+ * `action/provider` as Auth.js reads the path: it drops empty segments, so `/api/auth//signin/email/`
+ * means the same as `/api/auth/signin/email`, and our checks must not tell them apart either.
+ */
+function authAction(pathname: string): string {
+  if (!pathname.startsWith(AUTH_BASE)) return '';
+  return pathname.slice(AUTH_BASE.length).split('/').filter(Boolean).join('/');
 }
 
 /** Our confirmation page for an e-mail sign-in link, carrying the link's parameters. */

@@ -100,6 +100,13 @@ export interface SignInFailureTable {
   at: Generated<Date>;
 }
 
+/** Mail-sending requests per client address and messages per recipient, for the mail limits. */
+export interface MailRequestTable {
+  id: Generated<string>;
+  key: string;
+  at: Generated<Date>;
+}
+
 export interface ApiTokenTable {
   id: Generated<string>;
   user_id: string;
@@ -391,6 +398,7 @@ export interface Database {
   password_credentials: PasswordCredentialTable;
   account_tokens: AccountTokenTable;
   sign_in_failures: SignInFailureTable;
+  mail_requests: MailRequestTable;
   api_tokens: ApiTokenTable;
   vocabulary_terms: VocabularyTermTable;
   records: RecordTable;

@@ -1,4 +1,5 @@
 import { signUp } from '../../../../lib/server/accounts.ts';
+import { requestClientAddress } from '../../../../lib/server/auth/throttle.ts';
 import { db } from '../../../../lib/server/db/index.ts';
 import { endpoint, readJson } from '../../../../lib/server/http/route.ts';
 import { json } from '../../../../lib/server/http/problem.ts';
@@ -6,6 +7,6 @@ import { signUpInput } from '../../../../lib/shared/account.ts';
 
 /** 202 whether or not the address had an account; the e-mail tells its owner which. */
 export const POST = endpoint(async ({ request }) => {
-  await signUp(db(), await readJson(request, signUpInput));
+  await signUp(db(), await readJson(request, signUpInput), requestClientAddress(request));
   return json({ status: 'check your e-mail' }, 202);
 });

@@ -1,4 +1,5 @@
 import { requestPasswordReset } from '../../../../../lib/server/accounts.ts';
+import { requestClientAddress } from '../../../../../lib/server/auth/throttle.ts';
 import { db } from '../../../../../lib/server/db/index.ts';
 import { endpoint, readJson } from '../../../../../lib/server/http/route.ts';
 import { json } from '../../../../../lib/server/http/problem.ts';
@@ -7,6 +8,6 @@ import { emailInput } from '../../../../../lib/shared/account.ts';
 /** 202 whether or not the address has an account. */
 export const POST = endpoint(async ({ request }) => {
   const { email } = await readJson(request, emailInput);
-  await requestPasswordReset(db(), email);
+  await requestPasswordReset(db(), email, requestClientAddress(request));
   return json({ status: 'check your e-mail' }, 202);
 });
