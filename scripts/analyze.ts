@@ -108,7 +108,9 @@ function main(): void {
   }
   try {
     const result = analyzeText(decodeText(bytes), options);
-    process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
+    // Arrays of numbers (an LSV envelope's rows) one to a line, not one number to a line.
+    const text = JSON.stringify(result, null, 2).replace(/\[\n\s*(-?\d[\d.eE+-]*(?:,\n\s*-?\d[\d.eE+-]*)*)\n\s*\]/g, (_, inner: string) => `[${inner.split(/,\n\s*/).join(', ')}]`);
+    process.stdout.write(`${text}\n`);
   } catch (e) {
     if (e instanceof AnalysisError) fail(`${file}: ${e.message}`);
     throw e;

@@ -1,8 +1,10 @@
-import { createHash } from 'node:crypto';
+import { createHash, randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { appDb, as, asJson, closeAppDb, clearSignInFailures, makeUser, signIn } from '../auth-helpers.ts';
 import { content, tag } from '../support/records.ts';
-import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
+import { analyzeText, cvWindowOpeningSamples, formatExport, lsvSamples, type AnalysisOptions } from '../../src/lib/analysis/index.ts';
+import { attachRawFile } from '../../src/lib/server/records.ts';
+import { insertRawFile } from '../../src/lib/server/repositories/records.ts';
 import { cleanStaleUploads, safeFileName } from '../../src/lib/server/uploads.ts';
 import { getObjectBytes, putObject } from '../../src/lib/server/storage.ts';
 
@@ -140,6 +142,117 @@ describe('the upload flow', () => {
     const j = (await get('j:10uA/cm2')).find((x) => x.handle === handle)!;
     expect(j.commonCriterion.applied).toBe(false);
     expect((await as(null, `/api/v1/records?criterion=bogus`)).status).toBe(400);
+  });
+});
+
+describe('a linear sweep at a common criterion', () => {
+  // The generated linear sweep of the engine (0 → 1.5 V at 5 mV/s, 1 mV a sample; 0.5 µA capacitive
+  // background plus 1 µA·10^((E − 1.0 V)/0.12 V)) on a 0.5 cm² disk, judged at 10 µA/cm².
+  const lsvFile = formatExport(lsvSamples());
+  const lsvContent = (title: string) =>
+    content({
+      title,
+      referenceElectrode: 'SHE',
+      workingElectrode: { material: 'GC', form: 'disk', geometricAreaCm2: 0.5 },
+      method: { kind: 'lsv', scanRateMVs: 5 },
+      criterion: { kind: 'j-area', threshold: 10 },
+      reportedLimits: { anodic: { valueV: 1.08, reference: 'SHE' } },
+    });
+  type Item = { handle: string; commonCriterion: { applied: boolean; anodicV: number | null; status: { anodic?: string }; reason?: string } };
+  const find = async (who: string | null, handle: string, criterion: string, extra = '') => {
+    const res = await as(who, `/api/v1/records?q=${token}&criterion=${encodeURIComponent(criterion)}${extra}`);
+    expect(res.status).toBe(200);
+    return ((await res.json()).items as Item[]).find((x) => x.handle === handle)!.commonCriterion;
+  };
+  async function uploadLsv(handle: string) {
+    const { json: ticket } = await declare(handle, lsvFile, { name: 'lsv run 1.csv' });
+    expect((await put(ticket, lsvFile)).status).toBe(200);
+    const done = await complete(ticket.id);
+    expect(done.status).toBe(200);
+    return done.json();
+  }
+  /** The engine run directly on the file, with the options the server stored but another criterion. */
+  const engineAt = (params: AnalysisOptions, criterion: string) => analyzeText(lsvFile, { ...params, criterion }).limit;
+
+  it('recomputes its limit at another current-density cutoff from the stored analysis, as the engine does on the file', async () => {
+    const rec = await (await asJson(owner, '/api/v1/records', 'POST', { content: lsvContent(`LSV ${token}`) })).json();
+    const up = await uploadLsv(rec.handle);
+    expect(up.analysis.direction).toBe('anodic');
+    expect(up.record.evidenceLevel).toBe('confirmed');
+    expect((await asJson(owner, `/api/v1/records/${rec.handle}/transitions`, 'POST', { action: 'submit', version: 2 })).status).toBe(200);
+    expect((await asJson(curator, `/api/v1/records/${rec.handle}/transitions`, 'POST', { action: 'publish', version: 2 })).status).toBe(200);
+    const r = await (await as(null, `/api/v1/records/${rec.handle}`)).json();
+    const params = r.analyses[0].parameters as AnalysisOptions;
+    expect(params).toMatchObject({ method: 'lsv', criterion: 'j:10uA/cm2', area: 0.5 });
+    expect(r.analyses[0].result.envelope.rows.length).toBeGreaterThan(0);
+
+    // At the record's own cutoff: the stored limit itself.
+    const own = await find(null, rec.handle, 'j:10uA/cm2');
+    expect(own).toMatchObject({ applied: true, status: { anodic: 'reached' } });
+    expect(own.anodicV).toBe(r.computed.anodicV);
+    // At 50 µA/cm² the crossing lies on the steep part of the sweep, where every sample is kept:
+    // the engine's own interpolation between the same two samples.
+    const j50 = await find(null, rec.handle, 'j:50uA/cm2');
+    const want = engineAt(params, 'j:50uA/cm2');
+    expect(j50).toMatchObject({ applied: true, status: { anodic: 'reached' } });
+    expect(Math.abs(j50.anodicV! - want.interpolatedV!)).toBeLessThan(1e-9);
+    expect(j50.anodicV! - own.anodicV!).toBeGreaterThan(0.05); // a higher cutoff, a wider window
+    // In the flat part, where new maxima are thinned: within 1 mV of the engine.
+    const j1 = await find(null, rec.handle, 'j:1.02uA/cm2');
+    expect(Math.abs(j1.anodicV! - engineAt(params, 'j:1.02uA/cm2').interpolatedV!)).toBeLessThan(1e-3);
+    // Beyond the largest current: not reached (the engine agrees); below the first sample: exceeded at first.
+    expect(await find(null, rec.handle, 'j:1A/cm2')).toMatchObject({ applied: true, anodicV: null, status: { anodic: 'not-reached' } });
+    expect(engineAt(params, 'j:1A/cm2').status).toBe('not-reached');
+    expect(await find(null, rec.handle, 'i:0.1uA')).toMatchObject({ applied: true, anodicV: null, status: { anodic: 'exceeded-at-first' } });
+    // Per mass needs a mass the record does not give; S and CE judge window-opening CV only.
+    const jm = await find(null, rec.handle, 'jm:10mA/g');
+    expect(jm.applied).toBe(false);
+    expect(jm.reason).toMatch(/needs the active mass/);
+    const s = await find(null, rec.handle, 's:0.1');
+    expect(s.applied).toBe(false);
+    expect(s.reason).toMatch(/applies to window-opening CV; a linear sweep needs a current cutoff/);
+  });
+
+  it('asks for a re-run where the analysis was stored without its envelope, and an edit brings it up to date', async () => {
+    const body = lsvContent(`Old LSV ${token}`);
+    const rec = await (await asJson(owner, '/api/v1/records', 'POST', { content: body })).json();
+    await uploadLsv(rec.handle);
+    const r = await (await as(owner, `/api/v1/records/${rec.handle}`)).json();
+    const params = r.analyses[0].parameters as AnalysisOptions;
+    // A second copy of the file, analysed as Edgewise did before it kept the envelope.
+    const me = await (await as(owner, '/api/v1/me')).json();
+    const { envelope: _, ...old } = analyzeText(lsvFile, params);
+    const key = `raw/${randomUUID()}`;
+    await putObject(key, lsvFile, 'text/csv');
+    const recordId = (await appDb().selectFrom('records').select('id').where('handle', '=', rec.handle).executeTakeFirstOrThrow()).id;
+    await appDb().transaction().execute(async (trx) => {
+      const rawFileId = await insertRawFile(trx, {
+        recordId,
+        objectKey: key,
+        originalName: 'lsv run 2.csv',
+        safeName: 'lsv_run_2.csv',
+        bytes: Buffer.byteLength(lsvFile),
+        sha256: sha(lsvFile),
+        mediaType: 'text/csv',
+        mapping: {},
+        parseSummary: {},
+        uploadedBy: me.id,
+      });
+      await attachRawFile(trx, me, recordId, { rawFileId, options: params, result: old, name: 'lsv_run_2.csv' });
+    });
+    const before = await find(owner, rec.handle, 'j:50uA/cm2', '&status=draft');
+    expect(before.applied).toBe(false);
+    expect(before.reason).toMatch(/analysed before .*; re-run the analysis/);
+
+    const edited = await asJson(owner, `/api/v1/records/${rec.handle}`, 'PUT', { version: 3, content: body, changeNote: 'no change; analyses brought up to date' });
+    expect(edited.status).toBe(200);
+    const after = await edited.json();
+    expect(after.version).toBe(4);
+    expect(after.analyses).toHaveLength(2);
+    expect(after.analyses.every((a: { result: { envelope?: unknown } }) => a.result.envelope)).toBe(true);
+    const now = await find(owner, rec.handle, 'j:50uA/cm2', '&status=draft');
+    expect(now.applied).toBe(true);
+    expect(Math.abs(now.anodicV! - engineAt(params, 'j:50uA/cm2').interpolatedV!)).toBeLessThan(1e-9);
   });
 });
 

@@ -2,7 +2,7 @@ import { analyzeCycles, directionFromVertices, extremes, lastCyclePerVertex, typ
 import { AnalysisError } from './errors';
 import { holdDirection, holdLimit, holdSteps } from './hold';
 import { limitAt, parseCriterion, sCutoff, type Criterion, type Limit } from './limits';
-import { lsvLimit } from './lsv';
+import { lsvLimit, type LsvEnvelope } from './lsv';
 import { normalise, type Samples, type SignConvention } from './normalise';
 import { readTable, type ColumnMap } from './read';
 import { referenceConversion, referenceWarnings, type ReferenceInfo, type ScaleContext } from './references';
@@ -84,6 +84,8 @@ export interface AnalysisResult {
   limit: Limit;
   reference: ReferenceInfo | null;
   warnings: string[];
+  /** LSV: the table from which the limit at any other current cutoff is found (`lsvLimitFromEnvelope`); null when the sweep holds a non-finite value. */
+  envelope?: LsvEnvelope | null;
 }
 
 /** Default criteria: S ≤ 0.1 for CV; for LSV and holds a current cutoff per mass when a mass is given, else per area. */
@@ -162,6 +164,7 @@ export function analyzeSamples(samples: Samples, options: AnalysisOptions): Anal
     limit: { lastPassingV: moved(out.limit.lastPassingV), interpolatedV: moved(out.limit.interpolatedV), status: out.limit.status },
     reference,
     warnings,
+    ...(out.envelope !== undefined ? { envelope: out.envelope && { ...out.envelope, offsetV: out.envelope.offsetV + shift } } : {}),
   };
   return result;
 }
@@ -251,7 +254,7 @@ function runCurrentMethod(s: Samples, o: AnalysisOptions, area: number | undefin
       ...(o.baselineV ? { baselineV: o.baselineV } : {}),
     });
     warnings.push(...r.warnings);
-    return { direction: r.direction, criterion: criterionResult(criterion), limit: r.limit };
+    return { direction: r.direction, criterion: criterionResult(criterion), limit: r.limit, envelope: r.envelope };
   }
   const segments = s.step ? stepsFromColumn(s.step) : holdStepsFromPotential(s.potential, o.plateauToleranceV ?? 0.005);
   if (segments.length === 0) throw new AnalysisError('no-steps', 'no potential holds found');

@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import { gzipSync } from 'node:zlib';
 import { z } from 'zod';
-import { lastCyclePerVertex, limitAt, parseCriterion, referenceConversion, sCutoff, AnalysisError, type CycleCharge } from '../analysis/index.ts';
+import { lastCyclePerVertex, limitAt, lsvLimitFromEnvelope, parseCriterion, referenceConversion, sCutoff, AnalysisError, type CycleCharge, type LsvEnvelope } from '../analysis/index.ts';
 import { CELL_TYPES, CONCENTRATION_BASES, CRITERION_KINDS, EVIDENCE_LEVELS, METHOD_KINDS, RECORD_STATUSES, type RecordContent } from '../shared/record.ts';
 import type { Principal } from '../shared/principal.ts';
 import type { Db } from './db/index.ts';
@@ -56,7 +56,7 @@ export const recordQuerySchema = z.strictObject({
   lab: many(z.string().min(1).max(60)).optional().describe('Lab by its slug; repeated: any of them'),
   q: z.string().trim().min(1).max(200).optional().describe('Words to find in titles, components, electrodes, notes and sources; "quoted phrases" and -excluded words work'),
   scale: z.string().trim().min(1).max(60).optional().describe('Reference scale to show limits on: SHE (default), a reference electrode, or RHE (uses each record\'s pH)'),
-  criterion: z.string().trim().min(3).max(40).optional().describe('A common criterion (`s:0.1`, `ce:99%`, `leak:10mA/g`): limits recomputed from the raw data of records that have it'),
+  criterion: z.string().trim().min(3).max(40).optional().describe('A common criterion (`s:0.1`, `ce:99%` for window-opening CV; `j:10uA/cm2`, `jm:10mA/g`, `leak:10mA/g` for linear sweeps and holds): limits recomputed from the stored analyses of records with raw data'),
   sort: z.enum([...SORT_KEYS, ...SORT_KEYS.map((k) => `-${k}` as const)] as [string, ...string[]]).default('handle').describe('Sort key; a leading `-` sorts descending'),
   limit: z.coerce.number().int().min(1).max(200).default(50).describe('Records per page'),
   offset: z.coerce.number().int().min(0).max(1_000_000).default(0).describe('Records to skip'),
@@ -148,12 +148,13 @@ function onScale(row: SearchRow, scale: string | undefined): SearchItem['onScale
 
 type StoredCycle = { index: number; vertexV: number; qPosC: number; qNegC: number; sValue: number | null; ce: number | null };
 type StoredStep = { potentialV: number; endCurrentA: number };
-type StoredResult = { method: 'cv' | 'lsv' | 'hold'; direction: 'anodic' | 'cathodic'; cycles?: StoredCycle[]; steps?: StoredStep[]; reference: { offsetV: number } | null };
+// `envelope`: LSV analyses stored since the engine kept it; absent in older ones, null for a sweep with a non-finite value.
+type StoredResult = { method: 'cv' | 'lsv' | 'hold'; direction: 'anodic' | 'cathodic'; cycles?: StoredCycle[]; steps?: StoredStep[]; envelope?: LsvEnvelope | null; reference: { offsetV: number } | null };
 
 /**
  * Limits of a raw-backed record at another criterion, from its stored analyses (no file is read):
- * CV from the per-cycle S-values, holds from the end-of-hold currents. Returned on the record's
- * own reference scale and on SHE.
+ * CV from the per-cycle S-values, holds from the end-of-hold currents, linear sweeps from the
+ * envelope of the sweep's current. Returned on the record's own reference scale and on SHE.
  */
 function recompute(row: SearchRow, analysisById: Map<string, AnalysisRow>, criterionText: string): CommonCriterionResult {
   const c = parseCriterion(criterionText);
@@ -170,14 +171,22 @@ function recompute(row: SearchRow, analysisById: Map<string, AnalysisRow>, crite
       const cycles: CycleCharge[] = (r.cycles ?? []).map((x) => ({ index: x.index, vertexV: x.vertexV, qPosC: x.qPosC, qNegC: x.qNegC, sValue: x.sValue ?? Number.NaN, ce: x.ce ?? Number.NaN, segment: { start: 0, end: 0 } }));
       const { chosen } = lastCyclePerVertex(cycles, r.direction);
       limit = limitAt(chosen.map((x) => x.vertexV), chosen.map((x) => x.sValue), sCutoff(c), 'log').limit;
-    } else if (r.method === 'hold') {
-      const divisor = c.kind === 'j' ? row.area_cm2 : c.kind === 'jm' ? (row.mass_mg === null ? null : row.mass_mg / 1000) : c.kind === 'i' ? 1 : null;
-      if (divisor === null) return { ...base, reason: `criterion ${criterionText} needs ${c.kind === 'j' ? 'the electrode area' : c.kind === 'jm' ? 'the active mass' : 'a current cutoff'} for holds` };
-      const sign = r.direction === 'anodic' ? 1 : -1;
-      const steps = [...(r.steps ?? [])].sort((a, b) => sign * (a.potentialV - b.potentialV));
-      limit = limitAt(steps.map((s) => s.potentialV), steps.map((s) => (sign * s.endCurrentA) / divisor), c.value, 'log').limit;
     } else {
-      return { ...base, reason: 'a linear sweep is recomputed from its curve, which search does not re-read; the record keeps its own criterion' };
+      const needs = r.method === 'hold' ? 'holds need' : 'a linear sweep needs';
+      if (c.kind === 's' || c.kind === 'ce') return { ...base, reason: `criterion ${criterionText} applies to window-opening CV; ${needs} a current cutoff (e.g. j:10uA/cm2 or jm:10mA/g)` };
+      const divisor = c.kind === 'j' ? row.area_cm2 : c.kind === 'jm' ? (row.mass_mg === null ? null : row.mass_mg / 1000) : 1;
+      if (divisor === null || !(divisor > 0)) return { ...base, reason: `criterion ${criterionText} needs ${c.kind === 'j' ? 'the electrode area' : 'the active mass'}, which the record does not give` };
+      if (r.method === 'hold') {
+        const sign = r.direction === 'anodic' ? 1 : -1;
+        const steps = [...(r.steps ?? [])].sort((a, b) => sign * (a.potentialV - b.potentialV));
+        limit = limitAt(steps.map((s) => s.potentialV), steps.map((s) => (sign * s.endCurrentA) / divisor), c.value, 'log').limit;
+      } else if (r.envelope) {
+        limit = lsvLimitFromEnvelope(r.envelope, c.value, divisor);
+      } else if (r.envelope === null) {
+        return { ...base, reason: 'the linear sweep holds a non-finite value, so its limit cannot be found at another cutoff; the record keeps its own criterion' };
+      } else {
+        return { ...base, reason: 'the linear sweep was analysed before Edgewise kept what another cutoff needs, so the record keeps its own criterion; re-run the analysis (edit the record, or upload the file again) to apply a common criterion' };
+      }
     }
     const v = limit.status === 'reached' ? limit.interpolatedV : null;
     if (dir === 'anodic') out.anodicV = v;

@@ -11,9 +11,9 @@ import {
   type transitionBody,
 } from '../shared/record.ts';
 import { z } from 'zod';
-import { analyzeInWorker } from './analysis-pool.ts';
+import { AnalysisRefused, analyzeInWorker } from './analysis-pool.ts';
 import type { Db } from './db/index.ts';
-import { ConflictError, NotFoundError, ValidationError } from './errors.ts';
+import { ConflictError, NotFoundError, UnavailableError, ValidationError } from './errors.ts';
 import { authorize, can, canSee, type Principal, type RecordObject, type UserPrincipal } from './policy.ts';
 import { ENGINE_METHOD, canonicalContent, deriveLimits, engineCriterion, evidenceLevel, scaleContext, termRefs, type AttachedAnalysis } from './record-derive.ts';
 import { TRANSITIONS, actionsFrom, nextStatus } from './record-status.ts';
@@ -317,7 +317,13 @@ async function visibleHead(db: DbOrTrx, principal: Principal, handle: string, op
   return head;
 }
 
-/** Re-runs the analyses of attached files whose engine options the new content changes. */
+/** A linear-sweep analysis stored before the engine kept the envelope a common criterion needs. */
+function lacksEnvelope(a: AnalysisRow): boolean {
+  const r = a.result as { method?: string; envelope?: unknown };
+  return r.method === 'lsv' && r.envelope === undefined;
+}
+
+/** Re-runs the analyses of attached files whose engine options the new content changes, and linear sweeps stored without an envelope. */
 async function reanalyse(
   db: DbOrTrx,
   content: RecordContent,
@@ -331,11 +337,25 @@ async function reanalyse(
   for (const f of files) {
     const options = analysisOptions(content, terms, f.mapping as Parameters<typeof analysisOptions>[2]);
     const last = [...previous].reverse().find((a) => a.raw_file_id === f.id);
-    if (last && JSON.stringify(last.parameters) === JSON.stringify(options)) {
+    const same = last !== undefined && JSON.stringify(last.parameters) === JSON.stringify(options);
+    if (same && !lacksEnvelope(last)) {
       keep.push(last);
       continue;
     }
     const bytes = await getObjectBytes(f.object_key);
+    if (same) {
+      // Only brought up to date (a linear sweep analysed before the envelope was kept): the old
+      // analysis stays when the file or the engine cannot give a new one.
+      const result = bytes
+        ? await analyzeInWorker(bytes, options).catch((err: unknown) => {
+            if (err instanceof AnalysisRefused || err instanceof UnavailableError) return null;
+            throw err;
+          })
+        : null;
+      if (result) fresh.push({ rawFileId: f.id, options, result });
+      else keep.push(last);
+      continue;
+    }
     if (!bytes) throw new ConflictError(`raw file ${f.original_name} is missing from storage; it cannot be re-analysed`);
     fresh.push({ rawFileId: f.id, options, result: await analyzeInWorker(bytes, options) });
   }

@@ -3,7 +3,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { cvWindowOpeningSamples, formatExport, holdSamples } from '../../../src/lib/analysis/index';
+import { cvWindowOpeningSamples, formatExport, holdSamples, lsvSamples } from '../../../src/lib/analysis/index';
 import { expectToDigits } from '../../support/digits';
 
 const root = resolve(__dirname, '../../..');
@@ -54,6 +54,19 @@ describe('command line', () => {
     expect(Object.keys(out.steps[0])).toEqual(['potentialV', 'endCurrentA', 'endCurrentDensity']);
     expectToDigits(out.limit.interpolatedV, '0.91375');
     expect(out.reference).toBeNull();
+  });
+
+  it('prints the envelope of a linear sweep last, one row to a line', () => {
+    const file = join(dir, 'lsv.csv');
+    writeFileSync(file, formatExport(lsvSamples()));
+    const r = cli([file, '--method', 'lsv', '--criterion', 'j:10uA/cm2', '--area', '0.5cm2']);
+    expect(r.status).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(Object.keys(out)).toEqual(['method', 'direction', 'criterion', 'limit', 'reference', 'warnings', 'envelope']);
+    expect(Object.keys(out.envelope)).toEqual(['offsetV', 'factor', 'stepV', 'first', 'endV', 'rows']);
+    const rowLines = r.stdout.split('\n').filter((l) => /^ {6}\[-?\d/.test(l));
+    expect(rowLines).toHaveLength(out.envelope.rows.length);
+    expect(r.stdout).toContain(`"first": [${out.envelope.first.join(', ')}]`);
   });
 
   it('exits 2 with the message on stderr for a bad file, a missing file and bad options', () => {
