@@ -250,7 +250,8 @@ describe('stored analyses', () => {
         const res = await fetch(new URL(file.downloadUrl, base), { headers: { cookie } });
         expect(res.status, `${r.key} ${file.downloadUrl}: ${res.status === 200 ? '' : await res.text()}`).toBe(200);
         const fresh = analyzeText(decodeText(new Uint8Array(await res.arrayBuffer())), a.parameters);
-        expect(JSON.parse(JSON.stringify(fresh)), r.key).toEqual(a.result);
+        const { envelope: _kept, ...shown } = fresh as typeof fresh & { envelope?: unknown }; // kept for search, not shown
+        expect(JSON.parse(JSON.stringify(shown)), r.key).toEqual(a.result);
         expect(a.limitStatus).toBe('reached');
         expect(a.limitV).toBe(fresh.limit.interpolatedV);
         checked++;

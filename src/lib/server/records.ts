@@ -122,7 +122,12 @@ export function toRawFileView(f: RawFileRow): RawFileView {
   };
 }
 
+/**
+ * An analysis as the API shows it. A linear sweep's crossing table (`envelope`) stays out: it is
+ * what search reads to apply another cutoff, tens of kB that no reader of a record needs.
+ */
 export function toAnalysisView(a: AnalysisRow): AnalysisView {
+  const { envelope: _kept, ...result } = a.result as Record<string, unknown>;
   return {
     id: a.id,
     rawFileId: a.raw_file_id,
@@ -131,7 +136,7 @@ export function toAnalysisView(a: AnalysisRow): AnalysisView {
     limitStatus: a.limit_status,
     engineVersion: a.engine_version,
     parameters: a.parameters,
-    result: a.result,
+    result,
   };
 }
 
