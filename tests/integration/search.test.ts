@@ -153,6 +153,7 @@ describe('answers held between changes', () => {
     expect(first.status).toBe(200);
     expect(first.headers.get('content-encoding')).toBeNull();
     expect(first.headers.get('cache-control')).toBe('private, no-cache');
+    expect(first.headers.get('vary')).toBe('Accept-Encoding, Cookie, Authorization');
     const etag = first.headers.get('etag')!;
     expect(etag).toMatch(/^"[\w-]+"$/);
     const text = await first.text();

@@ -39,7 +39,7 @@ export function jsonText(text: string, status = 200, headers: Record<string, str
 export function cachedJson(request: Request, answer: { body: Uint8Array<ArrayBuffer>; gzip: Uint8Array<ArrayBuffer>; etag: string }): Response {
   const gzip = /\bgzip\b/i.test(request.headers.get('accept-encoding') ?? '');
   const etag = gzip ? `${answer.etag.slice(0, -1)}-gz"` : answer.etag;
-  const headers: Record<string, string> = { etag, 'cache-control': 'private, no-cache', vary: 'Accept-Encoding, Cookie' };
+  const headers: Record<string, string> = { etag, 'cache-control': 'private, no-cache', vary: 'Accept-Encoding, Cookie, Authorization' };
   const held = (request.headers.get('if-none-match') ?? '').split(',').map((t) => t.trim().replace(/^W\//, ''));
   if (held.includes(etag) || held.includes('*')) return new Response(null, { status: 304, headers });
   const bytes = gzip ? answer.gzip : answer.body;
