@@ -216,4 +216,19 @@ describe('API reference', () => {
     await screenshot(page, 'docs-api-light');
     expect(problems).toEqual([]);
   });
+
+  it('reads well in dark mode and at phone width', async () => {
+    const dark = await openBrowser({ colorScheme: 'dark', viewport: { width: 390, height: 844 } });
+    try {
+      const { page, problems } = await watchedPage(dark.context);
+      await page.goto(new URL('/docs/api#op-searchRecords', appUrl()).href);
+      await page.locator('#op-searchRecords').waitFor();
+      await screenshot(page, 'docs-api-dark-phone');
+      expect(await page.evaluate(() => document.documentElement.scrollWidth), await wideElements(page)).toBeLessThanOrEqual(390);
+      expect(await seriousViolations(page)).toEqual([]);
+      expect(problems).toEqual([]);
+    } finally {
+      await dark.close();
+    }
+  });
 });
