@@ -3,9 +3,8 @@ import type { CellType, CriterionKind, EvidenceLevel, MethodKind, RecordContent,
 import type { VocabularyKind, VocabularyTerm } from '../shared/vocabulary.ts';
 import { apiPath, getJson } from './api.ts';
 import { engineCriterion } from '../shared/criteria.ts';
-import type { AnalysisView, RawFileView } from '../shared/record-views.ts';
-import type { CommonCriterionResult, LimitView, RecordSummary, SearchItem } from '../shared/record-views.ts';
-export type { CommonCriterionResult, LimitView, RecordSummary, SearchItem };
+import type { CommonCriterionResult, FacetName, LimitView, RecordDetail, RecordSummary, SearchItem, SearchResult } from '../shared/record-views.ts';
+export type { CommonCriterionResult, FacetName, LimitView, RecordDetail, RecordSummary, SearchItem, SearchResult };
 
 export { engineCriterion };
 
@@ -38,27 +37,7 @@ export const CRITERION_NAMES: Record<CriterionKind, string> = {
 
 
 
-export type FacetName = 'electrode' | 'method' | 'criterionKind' | 'cellType' | 'evidence' | 'status' | 'lab' | 'concentrationBasis' | 'salt' | 'solvent' | 'additive';
-
-export interface SearchResult {
-  total: number;
-  limit: number;
-  offset: number;
-  items: SearchItem[];
-  facets?: Record<FacetName, { value: string; count: number }[]>;
-}
-
 export type { AnalysisView, RawFileView } from '../shared/record-views.ts';
-
-export interface RecordDetail extends RecordSummary {
-  ownerId: string;
-  publishedAt: string | null;
-  changeNote: string | null;
-  rawFiles: RawFileView[];
-  analyses: AnalysisView[];
-  reviews: { version: number; decision: string; reason: string | null; at: string }[];
-  allowedActions: string[];
-}
 
 export interface VersionSummary {
   version: number;

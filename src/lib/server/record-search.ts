@@ -17,7 +17,6 @@ import {
   searchGeneration,
   searchRecords,
   type AnalysisRow,
-  type FacetName,
   type Facets,
   type ReadScope,
   type RecordFilter,
@@ -26,8 +25,8 @@ import {
 } from './repositories/records.ts';
 import { resolveTerms } from './vocabulary.ts';
 import { sharedReads } from './shared-reads.ts';
-import type { CommonCriterionResult, SearchItem } from '../shared/record-views.ts';
-export type { CommonCriterionResult, SearchItem };
+import type { CommonCriterionResult, SearchItem, SearchResult } from '../shared/record-views.ts';
+export type { CommonCriterionResult, SearchItem, SearchResult };
 
 // Finding records: filters over the denormalised columns of current versions, visibility from the
 // principal, facet counts, a chosen reference scale and a common criterion.
@@ -102,14 +101,6 @@ export interface ScaledLimit {
 }
 
 
-
-export interface SearchResult {
-  total: number;
-  limit: number;
-  offset: number;
-  items: SearchItem[];
-  facets?: Record<FacetName, { value: string; count: number }[]>;
-}
 
 /** Checks the scale and common criterion parameters before any query runs. */
 function checkParams(q: RecordQuery) {
@@ -259,22 +250,26 @@ function currentGeneration(db: Db): Promise<string> {
 const pages = new GenerationCache<SearchRow[]>(200);
 const summaries = new GenerationCache<{ total: number; facets?: Facets }>(500);
 
-function cacheKey(filter: RecordFilter, scope: ReadScope, ...rest: unknown[]): string {
-  const f = Object.entries(filter).sort(([a], [b]) => (a < b ? -1 : 1));
-  return JSON.stringify([scope.userId, [...scope.labIds].sort(), scope.staff, f, ...rest]);
+/** A key naming the reader's scope and an object's entries in a fixed order, with any further parts. */
+function cacheKey(scope: ReadScope, entries: object, ...rest: unknown[]): string {
+  const sorted = Object.entries(entries).sort(([a], [b]) => (a < b ? -1 : 1));
+  return JSON.stringify([scope.userId, [...scope.labIds].sort(), scope.staff, sorted, ...rest]);
 }
 
 /** One page of records visible to the principal, with the total and facet counts over the whole result. */
 export async function searchRecordList(db: Db, principal: Principal, q: RecordQuery): Promise<SearchResult> {
   checkParams(q);
+  return listAt(db, readScope(principal), q, await currentGeneration(db));
+}
+
+/** searchRecordList for a checked query, at a generation already read. */
+async function listAt(db: Db, scope: ReadScope, q: RecordQuery, generation: string): Promise<SearchResult> {
   const filter = await toFilter(db, q);
-  const scope = readScope(principal);
-  const generation = await currentGeneration(db);
   const withFacets = q.facets === 'true';
   const page = { ...parseSort(q.sort), limit: q.limit, offset: q.offset };
   const [rows, counted] = await Promise.all([
-    pages.get(generation, cacheKey(filter, scope, page), async () => (await searchRecords(db, filter, scope, page)).rows),
-    summaries.get(generation, cacheKey(filter, scope, withFacets), () =>
+    pages.get(generation, cacheKey(scope, filter, page), async () => (await searchRecords(db, filter, scope, page)).rows),
+    summaries.get(generation, cacheKey(scope, filter, withFacets), () =>
       withFacets ? facetCounts(db, filter, scope) : countRecords(db, filter, scope).then((total) => ({ total })),
     ),
   ]);
@@ -300,9 +295,8 @@ export async function searchRecordAnswer(db: Db, principal: Principal, q: Record
   checkParams(q);
   const scope = readScope(principal);
   const generation = await currentGeneration(db);
-  const key = JSON.stringify([scope.userId, [...scope.labIds].sort(), scope.staff, Object.entries(q).sort(([a], [b]) => (a < b ? -1 : 1))]);
-  return answers.get(generation, key, async () => {
-    const body = new TextEncoder().encode(JSON.stringify(await searchRecordList(db, principal, q)));
+  return answers.get(generation, cacheKey(scope, q), async () => {
+    const body = new TextEncoder().encode(JSON.stringify(await listAt(db, scope, q, generation)));
     return { body, gzip: new Uint8Array(gzipSync(body)), etag: `"${createHash('sha256').update(body).digest('base64url').slice(0, 32)}"` };
   });
 }

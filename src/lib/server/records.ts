@@ -5,7 +5,6 @@ import {
   type EvidenceLevel,
   type RecordContent,
   type RecordStatus,
-  type TransitionAction,
   type createRecordBody,
   type editRecordBody,
   type transitionBody,
@@ -45,8 +44,7 @@ import { config } from './config.ts';
 import { queueMail, wakeOutbox, type OutgoingMail } from './outbox.ts';
 import { getObjectBytes } from './storage.ts';
 import { resolveTerms } from './vocabulary.ts';
-import type { AnalysisView, RawFileView } from '../shared/record-views.ts';
-import type { LimitView, RecordSummary } from '../shared/record-views.ts';
+import type { AnalysisView, LimitView, RawFileView, RecordDetail, RecordSummary } from '../shared/record-views.ts';
 export type { LimitView, RecordSummary };
 
 // Window records: drafts, edits as new versions, the status machine, and the record views the
@@ -56,19 +54,9 @@ export type { LimitView, RecordSummary };
 export const ENGINE_VERSION = 'edgewise-analysis/1';
 
 
-export type { AnalysisView, RawFileView } from '../shared/record-views.ts';
+export type { AnalysisView, RawFileView, RecordDetail } from '../shared/record-views.ts';
 
 
-export interface RecordDetail extends RecordSummary {
-  ownerId: string;
-  publishedAt: string | null;
-  changeNote: string | null;
-  rawFiles: RawFileView[];
-  analyses: AnalysisView[];
-  reviews: { version: number; decision: string; reason: string | null; at: string }[];
-  /** Status moves this principal may make now. */
-  allowedActions: TransitionAction[];
-}
 
 // ---- mapping (rows → domain objects, in one place) ----
 

@@ -1,6 +1,6 @@
 // What the API answers about records, their limits, files and analyses: one definition for the
 // server and the islands (types only).
-import type { EvidenceLevel, RecordContent, RecordStatus } from './record.ts';
+import type { EvidenceLevel, RecordContent, RecordStatus, TransitionAction } from './record.ts';
 
 /** A verified raw file as the API shows it. */
 export interface RawFileView {
@@ -66,4 +66,28 @@ export interface CommonCriterionResult {
 export interface SearchItem extends RecordSummary {
   onScale: { scale: string; cathodic: number | null; anodic: number | null; note?: string };
   commonCriterion?: CommonCriterionResult;
+}
+
+/** The facets a search counts over its whole result. */
+export type FacetName = 'electrode' | 'method' | 'criterionKind' | 'cellType' | 'evidence' | 'status' | 'lab' | 'concentrationBasis' | 'salt' | 'solvent' | 'additive';
+
+/** GET /api/v1/records. */
+export interface SearchResult {
+  total: number;
+  limit: number;
+  offset: number;
+  items: SearchItem[];
+  facets?: Record<FacetName, { value: string; count: number }[]>;
+}
+
+/** GET /api/v1/records/{handle}. */
+export interface RecordDetail extends RecordSummary {
+  ownerId: string;
+  publishedAt: string | null;
+  changeNote: string | null;
+  rawFiles: RawFileView[];
+  analyses: AnalysisView[];
+  reviews: { version: number; decision: string; reason: string | null; at: string }[];
+  /** Status moves this principal may make now. */
+  allowedActions: TransitionAction[];
 }

@@ -1,6 +1,7 @@
 import { sql, type Expression, type Insertable, type RawBuilder, type Selectable, type SqlBool } from 'kysely';
 import type { AnalysisTable, RawFileTable, RecordVersionTable, ReviewTable } from '../db/schema.ts';
 import type { DbOrTrx } from './audit.ts';
+import type { FacetName } from '../../shared/record-views.ts';
 
 // All SQL about window records, their versions, raw files, analyses, reviews and flags.
 
@@ -398,8 +399,8 @@ export const FACETS = {
   salt: 'salt_ids',
   solvent: 'solvent_ids',
   additive: 'additive_ids',
-} as const;
-export type FacetName = keyof typeof FACETS;
+} as const satisfies Record<FacetName, string>;
+export type { FacetName };
 export type Facets = Record<FacetName, { value: string; count: number }[]>;
 
 /** Number of matching records. */
