@@ -103,35 +103,13 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
           </label>
           <input id={`${id}-v`} inputMode="decimal" autoComplete="off" value={s.value} onChange={set('value')} className={`${input} num`} />
         </div>
-        <div className="grid gap-1">
-          <label htmlFor={`${id}-from`} className="text-sm font-semibold">
-            Measured against
-          </label>
-          <select id={`${id}-from`} value={s.from} onChange={set('from')} className={input}>
-            {SCALE_CHOICES.map((c) => (
-              <option key={c.id} value={c.id}>
-                {c.label}
-              </option>
-            ))}
-          </select>
-        </div>
+        <ScaleSelect id={`${id}-from`} label="Measured against" value={s.from} onChange={set('from')} />
         <div>
           <button type="button" className={buttonQuiet} onClick={() => setS((p) => ({ ...p, from: p.to, to: p.from, value: outcome.ok ? outcome.result.toFixed(4) : p.value }))}>
             ⇅ Swap scales
           </button>
         </div>
-        <div className="grid gap-1">
-          <label htmlFor={`${id}-to`} className="text-sm font-semibold">
-            Express on
-          </label>
-          <select id={`${id}-to`} value={s.to} onChange={set('to')} className={input}>
-            {SCALE_CHOICES.map((c) => (
-              <option key={c.id} value={c.id}>
-                {c.label}
-              </option>
-            ))}
-          </select>
-        </div>
+        <ScaleSelect id={`${id}-to`} label="Express on" value={s.to} onChange={set('to')} />
         {needsPh && (
           <fieldset className="grid grid-cols-2 gap-3 border-t border-rule dark:border-night-rule pt-3">
             <legend className="sr-only">RHE conditions</legend>
@@ -234,6 +212,24 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
           </p>
         )}
       </section>
+    </div>
+  );
+}
+
+/** A labelled choice among the conversion table's scales. */
+function ScaleSelect({ id, label, value, onChange }: { id: string; label: string; value: string; onChange: (e: { target: { value: string } }) => void }) {
+  return (
+    <div className="grid gap-1">
+      <label htmlFor={id} className="text-sm font-semibold">
+        {label}
+      </label>
+      <select id={id} value={value} onChange={onChange} className={input}>
+        {SCALE_CHOICES.map((c) => (
+          <option key={c.id} value={c.id}>
+            {c.label}
+          </option>
+        ))}
+      </select>
     </div>
   );
 }
