@@ -3,6 +3,7 @@ import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { expect } from 'vitest';
 import { dataDir } from '../../scripts/lib/paths.ts';
 
 // Debian's Chromium for the reader's pages, axe-core checks and screenshots kept as artifacts.
@@ -105,4 +106,21 @@ export const text = async (page: Page, testId: string) => (await page.getByTestI
 /** Waits until every island on the page has hydrated (Astro drops the `ssr` mark then): input typed before that can be reset. */
 export async function hydrated(page: Page): Promise<void> {
   await page.waitForFunction(() => document.querySelectorAll('astro-island[ssr]').length === 0);
+}
+
+/** A phone's viewport (CSS pixels). */
+export const PHONE = { width: 390, height: 844 };
+
+/** A browser at phone size whose system preference is dark. */
+export const openDarkPhone = (): Promise<Browser> => openBrowser({ colorScheme: 'dark', viewport: PHONE });
+
+/**
+ * What every page shows on a dark phone: a screenshot kept as `name`, the dark scheme in force,
+ * nothing spilling sideways, and no serious accessibility violation.
+ */
+export async function expectReadsWellOnPhone(page: Page, name: string): Promise<void> {
+  await screenshot(page, name);
+  expect(await page.evaluate(() => getComputedStyle(document.documentElement).colorScheme)).toBe('dark');
+  expect(await page.evaluate(() => document.documentElement.scrollWidth), await wideElements(page)).toBeLessThanOrEqual(PHONE.width);
+  expect(await seriousViolations(page)).toEqual([]);
 }

@@ -6,7 +6,7 @@ import { curator } from '../support/records.ts';
 import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/synthetic.ts';
 import { decide } from '../../src/lib/server/curation.ts';
 import { decisionBody } from '../../src/lib/shared/curation.ts';
-import { openBrowser, screenshot, seriousViolations, watchedPage, type Browser } from './browser.ts';
+import { openBrowser, openDarkPhone, screenshot, seriousViolations, watchedPage, type Browser } from './browser.ts';
 
 // A contributor records a window in a real browser: the steps, two generated raw files sent to
 // storage (one with a wrong unit corrected in the preview, one cancelled, one failing once and
@@ -232,7 +232,7 @@ describe('contributing a record in a browser', () => {
       comments: [{ path: 'reportedLimits.anodic.valueV', message: 'Your own files give 1.090 V here.' }],
     }));
 
-    const phone = await openBrowser({ colorScheme: 'dark', viewport: { width: 390, height: 844 } });
+    const phone = await openDarkPhone();
     try {
       const { page, problems } = await watchedPage(phone.context);
       lastPage = page;

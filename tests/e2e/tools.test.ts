@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
-import { hydrated, openBrowser, screenshot, seriousViolations, watchedPage, wideElements, type Browser, text } from './browser.ts';
+import { expectReadsWellOnPhone, hydrated, openBrowser, openDarkPhone, screenshot, seriousViolations, text, watchedPage, type Browser } from './browser.ts';
 import { publishThroughApi } from './publish.ts';
 
 let browser: Browser;
@@ -124,7 +124,7 @@ describe('water window tool', () => {
   });
 
   it('reads well in dark mode and at phone width', async () => {
-    const dark = await openBrowser({ colorScheme: 'dark', viewport: { width: 390, height: 844 } });
+    const dark = await openDarkPhone();
     try {
       for (const [path, name] of [
         ['/tools/water?T=40&pH=3', 'tools-water-dark-phone'],
@@ -134,11 +134,7 @@ describe('water window tool', () => {
         const { page, problems } = await watchedPage(dark.context);
         await page.goto(new URL(path, appUrl()).href);
         await page.locator('astro-island:not([ssr])').first().waitFor({ state: 'attached' });
-        await screenshot(page, name);
-        expect(await page.evaluate(() => getComputedStyle(document.documentElement).colorScheme)).toBe('dark');
-        // Nothing spills sideways on a phone.
-        expect(await page.evaluate(() => document.documentElement.scrollWidth), await wideElements(page)).toBeLessThanOrEqual(390);
-        expect(await seriousViolations(page)).toEqual([]);
+        await expectReadsWellOnPhone(page, name);
         expect(problems).toEqual([]);
         await page.close();
       }
@@ -218,14 +214,12 @@ describe('API reference', () => {
   });
 
   it('reads well in dark mode and at phone width', async () => {
-    const dark = await openBrowser({ colorScheme: 'dark', viewport: { width: 390, height: 844 } });
+    const dark = await openDarkPhone();
     try {
       const { page, problems } = await watchedPage(dark.context);
       await page.goto(new URL('/docs/api#op-searchRecords', appUrl()).href);
       await page.locator('#op-searchRecords').waitFor();
-      await screenshot(page, 'docs-api-dark-phone');
-      expect(await page.evaluate(() => document.documentElement.scrollWidth), await wideElements(page)).toBeLessThanOrEqual(390);
-      expect(await seriousViolations(page)).toEqual([]);
+      await expectReadsWellOnPhone(page, 'docs-api-dark-phone');
       expect(problems).toEqual([]);
     } finally {
       await dark.close();
