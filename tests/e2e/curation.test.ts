@@ -1,9 +1,10 @@
-import { createHash, randomBytes } from 'node:crypto';
+import { randomBytes } from 'node:crypto';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
 import { appDb, asJson, clearSignInFailures, closeAppDb, makeUser, signIn, type TestUser } from '../auth-helpers.ts';
 import { appUrl, waitForMail } from '../helpers.ts';
+import { attachRawThroughApi, ok } from '../support/api.ts';
 import { openBrowser, screenshot, seriousViolations, watchedPage, type Browser } from './browser.ts';
 
 // The curator's path in the browser, on records made through the API in this test: open the
@@ -22,12 +23,6 @@ let contributor: TestUser;
 let contributorCookie: string;
 let handle = '';
 let duplicate = '';
-
-async function ok(res: Response, what: string) {
-  const body = res.status === 204 ? null : await res.json();
-  if (!res.ok) throw new Error(`${what}: ${res.status} ${JSON.stringify(body)}`);
-  return body;
-}
 
 const aqueous = (title: string, anodic: number) => ({
   title,
@@ -60,29 +55,16 @@ beforeAll(async () => {
   // An earlier record of the same paper, already published: the duplicate the curator should see.
   const other = await makeUser({ role: 'contributor' });
   const otherCookie = await signIn(other);
-  const earlier = await ok(await asJson(otherCookie, '/api/v1/records', 'POST', { content: aqueous('The same paper, entered earlier', 1.1) }), 'create duplicate');
+  const earlier = await ok(await asJson(otherCookie, '/api/v1/records', 'POST', { content: aqueous('The same paper, entered earlier', 1.1) }), 'create duplicate', 201);
   await ok(await asJson(otherCookie, `/api/v1/records/${earlier.handle}/transitions`, 'POST', { action: 'submit', version: 1 }), 'submit duplicate');
   const publisher = await signIn(await makeUser({ role: 'curator' }));
   await ok(await asJson(publisher, `/api/v1/records/${earlier.handle}/transitions`, 'POST', { action: 'publish', version: 1 }), 'publish duplicate');
   duplicate = earlier.handle;
 
   // The record under review: raw data computes ≈ 1.09 V, the reported anodic limit says 1.40 V.
-  const rec = await ok(await asJson(contributorCookie, '/api/v1/records', 'POST', { content: aqueous('Water-in-salt window on glassy carbon', 1.4), lab }), 'create');
+  const rec = await ok(await asJson(contributorCookie, '/api/v1/records', 'POST', { content: aqueous('Water-in-salt window on glassy carbon', 1.4), lab }), 'create', 201);
   handle = rec.handle;
-  const bytes = Buffer.from(formatExport(cvWindowOpeningSamples(), { columns: ['time', 'potential', 'current', 'cycle'] }));
-  const up = await ok(
-    await asJson(contributorCookie, '/api/v1/uploads', 'POST', {
-      record: handle,
-      name: 'window-opening.csv',
-      size: bytes.length,
-      sha256: createHash('sha256').update(bytes).digest('hex'),
-      mediaType: 'text/csv',
-      mapping: { sign: 'iupac', direction: 'anodic' },
-    }),
-    'declare upload',
-  );
-  expect((await fetch(up.url, { method: 'PUT', body: bytes, headers: up.headers })).ok).toBe(true);
-  const done = await ok(await asJson(contributorCookie, `/api/v1/uploads/${up.id}/complete`, 'POST', {}), 'complete upload');
+  const done = await attachRawThroughApi(contributorCookie, handle, formatExport(cvWindowOpeningSamples(), { columns: ['time', 'potential', 'current', 'cycle'] }));
   await ok(await asJson(contributorCookie, `/api/v1/records/${handle}/transitions`, 'POST', { action: 'submit', version: done.record.version }), 'submit');
 
   curatorBrowser = await openBrowser();

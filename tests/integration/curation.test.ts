@@ -1,8 +1,9 @@
-import { createHash, randomBytes } from 'node:crypto';
+import { randomBytes } from 'node:crypto';
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { appDb, as, asJson, clearSignInFailures, closeAppDb, makeUser, signIn, type TestUser } from '../auth-helpers.ts';
 import { waitForMail } from '../helpers.ts';
+import { attachRawThroughApi, ok } from '../support/api.ts';
 import { content } from '../support/records.ts';
 import { freshTerm } from '../support/curation.ts';
 import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
@@ -53,39 +54,13 @@ afterAll(async () => {
   await closeAppDb();
 });
 
-async function ok<T = any>(res: Response, what: string, status = 200): Promise<T> {
-  const body = res.status === 204 ? null : await res.json();
-  if (res.status !== status) throw new Error(`${what}: ${res.status} ${JSON.stringify(body)}`);
-  return body as T;
-}
-
 /** A record through the API, brought to `submitted` unless told otherwise. */
 async function record(who: Person, over: Partial<RecordContentInput> = {}, opts: { lab?: string; submit?: boolean; raw?: string } = {}) {
   const r = await ok(await asJson(who.cookie, '/api/v1/records', 'POST', { content: content(over), ...(opts.lab ? { lab: opts.lab } : {}) }), 'create', 201);
   let version = r.version;
-  if (opts.raw) version = await attachRaw(who, r.handle, opts.raw);
+  if (opts.raw) version = (await attachRawThroughApi(who.cookie, r.handle, opts.raw)).record.version;
   if (opts.submit !== false) await ok(await asJson(who.cookie, `/api/v1/records/${r.handle}/transitions`, 'POST', { action: 'submit', version }), 'submit');
   return { handle: r.handle as string, version: version as number };
-}
-
-async function attachRaw(who: Person, handle: string, text: string): Promise<number> {
-  const bytes = Buffer.from(text);
-  const up = await ok(
-    await asJson(who.cookie, '/api/v1/uploads', 'POST', {
-      record: handle,
-      name: 'window-opening.csv',
-      size: bytes.length,
-      sha256: createHash('sha256').update(bytes).digest('hex'),
-      mediaType: 'text/csv',
-      mapping: { sign: 'iupac', direction: 'anodic' },
-    }),
-    'declare upload',
-    201,
-  );
-  const put = await fetch(up.url, { method: 'PUT', body: bytes, headers: up.headers });
-  expect(put.ok).toBe(true);
-  await ok(await asJson(who.cookie, `/api/v1/uploads/${up.id}/complete`, 'POST', {}), 'complete upload');
-  return (await ok(await as(who.cookie, `/api/v1/records/${handle}`), 'reload')).version;
 }
 
 const decide = (who: Person, handle: string, body: Record<string, unknown>) => asJson(who.cookie, `/api/v1/review/records/${handle}/decision`, 'POST', body);
