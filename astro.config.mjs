@@ -19,7 +19,16 @@ function serverEntries() {
   let outDir = '';
   /** @param {string} entry @param {string} outfile @param {import('esbuild').BuildOptions} [more] */
   const bundle = (entry, outfile, more = {}) =>
-    esbuild({ entryPoints: [fileURLToPath(new URL(entry, import.meta.url))], outfile, bundle: true, platform: 'node', format: 'esm', target: 'node20', logLevel: 'warning', ...more });
+    esbuild({
+      entryPoints: [fileURLToPath(new URL(entry, import.meta.url))],
+      outfile,
+      bundle: true,
+      platform: 'node',
+      format: 'esm',
+      target: 'node20',
+      logLevel: 'warning',
+      ...more,
+    });
   return {
     name: 'edgewise-server-entries',
     hooks: {
@@ -31,7 +40,9 @@ function serverEntries() {
         await bundle('./src/lib/server/analysis-worker.ts', `${serverDir}/analysis-worker.mjs`);
         // Packages stay imports (CommonJS ones cannot be inlined into an ES module); the
         // server runs where node_modules is, as the Astro build itself does.
-        await bundle('./scripts/app-server.ts', `${outDir}/app-server.mjs`, { packages: 'external' });
+        await bundle('./scripts/app-server.ts', `${outDir}/app-server.mjs`, {
+          packages: 'external',
+        });
       },
     },
   };

@@ -23,7 +23,11 @@ const cors = `<CORSConfiguration>
 </CORSConfiguration>`;
 
 /** Starts the fake on 127.0.0.1 (port 0 picks a free one) with the bucket created. */
-export async function startS3Fake(opts: { port: number; directory: string; bucket: string }): Promise<S3Fake> {
+export async function startS3Fake(opts: {
+  port: number;
+  directory: string;
+  bucket: string;
+}): Promise<S3Fake> {
   mkdirSync(opts.directory, { recursive: true });
   const server = new S3rver({
     port: opts.port,

@@ -24,10 +24,15 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('emailVerified', 'timestamptz')
     .addColumn('image', 'text')
     .addColumn('role', 'text', (c) =>
-      c.notNull().defaultTo('reader').check(sql`role IN ('reader', 'contributor', 'curator', 'admin')`),
+      c
+        .notNull()
+        .defaultTo('reader')
+        .check(sql`role IN ('reader', 'contributor', 'curator', 'admin')`),
     )
     .addColumn('affiliation', 'text')
-    .addColumn('orcid', 'text', (c) => c.check(sql`orcid ~ '^[0-9]{4}-[0-9]{4}-[0-9]{4}-[0-9]{3}[0-9X]$'`))
+    .addColumn('orcid', 'text', (c) =>
+      c.check(sql`orcid ~ '^[0-9]{4}-[0-9]{4}-[0-9]{4}-[0-9]{3}[0-9X]$'`),
+    )
     .addColumn('session_version', 'integer', (c) => c.notNull().defaultTo(1))
     .addColumn('disabled_at', 'timestamptz')
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
@@ -78,8 +83,16 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('subject_id', 'text', (c) => c.notNull())
     .addColumn('details', 'jsonb', (c) => c.notNull().defaultTo(sql`'{}'::jsonb`))
     .execute();
-  await db.schema.createIndex('audit_events_subject').on('audit_events').columns(['subject_type', 'subject_id', 'at']).execute();
-  await db.schema.createIndex('audit_events_actor').on('audit_events').columns(['actor_id', 'at']).execute();
+  await db.schema
+    .createIndex('audit_events_subject')
+    .on('audit_events')
+    .columns(['subject_type', 'subject_id', 'at'])
+    .execute();
+  await db.schema
+    .createIndex('audit_events_actor')
+    .on('audit_events')
+    .columns(['actor_id', 'at'])
+    .execute();
   await sql`CREATE TRIGGER audit_events_append_only BEFORE UPDATE OR DELETE ON audit_events
             FOR EACH ROW EXECUTE FUNCTION refuse_change()`.execute(db);
   await sql`CREATE TRIGGER audit_events_no_truncate BEFORE TRUNCATE ON audit_events

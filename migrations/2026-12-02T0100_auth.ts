@@ -16,12 +16,18 @@ export async function up(db: Kysely<any>): Promise<void> {
     .createTable('account_tokens')
     .addColumn('token_hash', 'text', (c) => c.primaryKey())
     .addColumn('user_id', 'uuid', (c) => c.notNull().references('User.id').onDelete('cascade'))
-    .addColumn('purpose', 'text', (c) => c.notNull().check(sql`purpose IN ('confirm_email', 'reset_password')`))
+    .addColumn('purpose', 'text', (c) =>
+      c.notNull().check(sql`purpose IN ('confirm_email', 'reset_password')`),
+    )
     .addColumn('expires_at', 'timestamptz', (c) => c.notNull())
     .addColumn('used_at', 'timestamptz')
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
-  await db.schema.createIndex('account_tokens_user').on('account_tokens').columns(['user_id', 'purpose']).execute();
+  await db.schema
+    .createIndex('account_tokens_user')
+    .on('account_tokens')
+    .columns(['user_id', 'purpose'])
+    .execute();
 
   // One row per failed sign-in, keyed by account and by client address; counted over a window.
   await db.schema
@@ -30,7 +36,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('key', 'text', (c) => c.notNull())
     .addColumn('at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
-  await db.schema.createIndex('sign_in_failures_key_at').on('sign_in_failures').columns(['key', 'at']).execute();
+  await db.schema
+    .createIndex('sign_in_failures_key_at')
+    .on('sign_in_failures')
+    .columns(['key', 'at'])
+    .execute();
 
   await db.schema
     .createTable('api_tokens')
@@ -39,7 +49,9 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('name', 'text', (c) => c.notNull().check(sql`length(name) BETWEEN 1 AND 100`))
     .addColumn('token_hash', 'text', (c) => c.notNull().unique())
     .addColumn('prefix', 'text', (c) => c.notNull())
-    .addColumn('scopes', sql`text[]`, (c) => c.notNull().check(sql`scopes <@ ARRAY['read', 'write']::text[] AND cardinality(scopes) > 0`))
+    .addColumn('scopes', sql`text[]`, (c) =>
+      c.notNull().check(sql`scopes <@ ARRAY['read', 'write']::text[] AND cardinality(scopes) > 0`),
+    )
     .addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .addColumn('expires_at', 'timestamptz', (c) => c.notNull())
     .addColumn('last_used_at', 'timestamptz')

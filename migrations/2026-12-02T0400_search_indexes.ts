@@ -7,12 +7,22 @@ import { sql, type Kysely } from 'kysely';
 // to it (or to labs) moves lets the app cache counts over a result. Frozen in time: Kysely<any>,
 // nothing imported from src/.
 
-const KEYS = ['anodic_key', 'cathodic_key', 'width_key', 'scan_rate_mv_s', 'temperature_c', 'salt_concentration', 'updated_at'];
+const KEYS = [
+  'anodic_key',
+  'cathodic_key',
+  'width_key',
+  'scan_rate_mv_s',
+  'temperature_c',
+  'salt_concentration',
+  'updated_at',
+];
 
 export async function up(db: Kysely<any>): Promise<void> {
   await db.schema
     .createTable('record_search')
-    .addColumn('record_id', 'uuid', (c) => c.primaryKey().references('records.id').onDelete('cascade'))
+    .addColumn('record_id', 'uuid', (c) =>
+      c.primaryKey().references('records.id').onDelete('cascade'),
+    )
     .addColumn('handle', 'text', (c) => c.notNull())
     .addColumn('status', 'text', (c) => c.notNull())
     .addColumn('owner_id', 'uuid', (c) => c.notNull())
@@ -96,15 +106,23 @@ export async function up(db: Kysely<any>): Promise<void> {
               cardinality(v.raw_file_ids) > 0, v.search,
               coalesce(v.anodic_she_v, v.reported_anodic_v), coalesce(v.cathodic_she_v, v.reported_cathodic_v),
               coalesce(v.anodic_she_v - v.cathodic_she_v, v.reported_anodic_v - v.reported_cathodic_v)
-              FROM records r JOIN record_versions v ON v.record_id = r.id AND v.version = r.current_version`.execute(db);
+              FROM records r JOIN record_versions v ON v.record_id = r.id AND v.version = r.current_version`.execute(
+    db,
+  );
 
   await sql`CREATE UNIQUE INDEX record_search_handle ON record_search (handle)`.execute(db);
   // Both directions keep NULLs last, so each key needs an index per direction.
   for (const k of KEYS) {
-    await sql`CREATE INDEX ${sql.raw(`record_search_${k}_asc`)} ON record_search (${sql.ref(k)} ASC NULLS LAST, handle ASC)`.execute(db);
-    await sql`CREATE INDEX ${sql.raw(`record_search_${k}_desc`)} ON record_search (${sql.ref(k)} DESC NULLS LAST, handle DESC)`.execute(db);
+    await sql`CREATE INDEX ${sql.raw(`record_search_${k}_asc`)} ON record_search (${sql.ref(k)} ASC NULLS LAST, handle ASC)`.execute(
+      db,
+    );
+    await sql`CREATE INDEX ${sql.raw(`record_search_${k}_desc`)} ON record_search (${sql.ref(k)} DESC NULLS LAST, handle DESC)`.execute(
+      db,
+    );
   }
-  await sql`CREATE INDEX record_search_components ON record_search USING gin (component_ids)`.execute(db);
+  await sql`CREATE INDEX record_search_components ON record_search USING gin (component_ids)`.execute(
+    db,
+  );
   await sql`CREATE INDEX record_search_text ON record_search USING gin (search)`.execute(db);
   await sql`CREATE INDEX record_search_we ON record_search (we_material_id, handle)`.execute(db);
   await sql`CREATE INDEX record_search_lab ON record_search (lab_id)`.execute(db);
@@ -115,12 +133,19 @@ export async function up(db: Kysely<any>): Promise<void> {
   // never sees a new generation before the data that made it.
   await db.schema
     .createTable('search_generation')
-    .addColumn('id', 'boolean', (c) => c.primaryKey().defaultTo(true).check(sql`id`))
+    .addColumn('id', 'boolean', (c) =>
+      c
+        .primaryKey()
+        .defaultTo(true)
+        .check(sql`id`),
+    )
     .addColumn('n', 'bigint', (c) => c.notNull())
     // The transaction that moved it: with n, unique even after a restore of an older n.
     .addColumn('xact', 'bigint', (c) => c.notNull())
     .execute();
-  await sql`INSERT INTO search_generation (id, n, xact) VALUES (true, 1, txid_current())`.execute(db);
+  await sql`INSERT INTO search_generation (id, n, xact) VALUES (true, 1, txid_current())`.execute(
+    db,
+  );
   await sql`
     CREATE FUNCTION bump_search_generation() RETURNS trigger LANGUAGE plpgsql AS $$
     BEGIN
@@ -132,7 +157,9 @@ export async function up(db: Kysely<any>): Promise<void> {
     END $$`.execute(db);
   for (const t of ['record_search', 'labs']) {
     await sql`CREATE CONSTRAINT TRIGGER ${sql.raw(`${t}_generation`)} AFTER INSERT OR UPDATE OR DELETE ON ${sql.table(t)}
-              DEFERRABLE INITIALLY DEFERRED FOR EACH ROW EXECUTE FUNCTION bump_search_generation()`.execute(db);
+              DEFERRABLE INITIALLY DEFERRED FOR EACH ROW EXECUTE FUNCTION bump_search_generation()`.execute(
+      db,
+    );
     await sql`CREATE TRIGGER ${sql.raw(`${t}_generation_truncate`)} AFTER TRUNCATE ON ${sql.table(t)}
               FOR EACH STATEMENT EXECUTE FUNCTION bump_search_generation()`.execute(db);
   }

@@ -4,7 +4,9 @@ import { sql, type Kysely } from 'kysely';
 // its limits convert, so they move the search generation too and cached answers are dropped.
 export async function up(db: Kysely<any>): Promise<void> {
   await sql`CREATE CONSTRAINT TRIGGER vocabulary_terms_generation AFTER INSERT OR UPDATE OR DELETE ON vocabulary_terms
-            DEFERRABLE INITIALLY DEFERRED FOR EACH ROW EXECUTE FUNCTION bump_search_generation()`.execute(db);
+            DEFERRABLE INITIALLY DEFERRED FOR EACH ROW EXECUTE FUNCTION bump_search_generation()`.execute(
+    db,
+  );
   await sql`CREATE TRIGGER vocabulary_terms_generation_truncate AFTER TRUNCATE ON vocabulary_terms
             FOR EACH STATEMENT EXECUTE FUNCTION bump_search_generation()`.execute(db);
 }

@@ -11,7 +11,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('key', 'text', (c) => c.notNull())
     .addColumn('at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
-  await db.schema.createIndex('mail_requests_key_at').on('mail_requests').columns(['key', 'at']).execute();
+  await db.schema
+    .createIndex('mail_requests_key_at')
+    .on('mail_requests')
+    .columns(['key', 'at'])
+    .execute();
   // The clean-up job deletes by age alone.
   await db.schema.createIndex('mail_requests_at').on('mail_requests').column('at').execute();
 }

@@ -2,7 +2,15 @@
 // Usage: npm run -s analyze -- FILE --method cv|lsv|hold [options]   (--help for the list)
 import { readFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { AnalysisError, analyzeText, decodeText, type AnalysisOptions, type ColumnMap, type Method, type Quantity } from '../src/lib/analysis/index';
+import {
+  AnalysisError,
+  analyzeText,
+  decodeText,
+  type AnalysisOptions,
+  type ColumnMap,
+  type Method,
+  type Quantity,
+} from '../src/lib/analysis/index';
 
 const USAGE = `usage: npm run -s analyze -- FILE --method cv|lsv|hold [options]
   --direction anodic|cathodic   window direction (detected when absent)
@@ -68,7 +76,8 @@ function main(): void {
   const file = positionals[0]!;
 
   const options: AnalysisOptions = { method: v.method as Method };
-  if (v.direction !== undefined) options.direction = v.direction as AnalysisOptions['direction'] & string;
+  if (v.direction !== undefined)
+    options.direction = v.direction as AnalysisOptions['direction'] & string;
   if (v.criterion !== undefined) options.criterion = v.criterion;
   if (v['scan-rate'] !== undefined) options.scanRate = v['scan-rate'];
   if (v.area !== undefined) options.area = v.area;
@@ -81,7 +90,11 @@ function main(): void {
   const temperature = num(v.temperature, '--temperature');
   if (temperature !== undefined) options.temperatureK = temperature;
   const fc = num(v['fc-potential'], '--fc-potential');
-  if (fc !== undefined) options.ferrocene = { potentialV: fc, versus: v['fc-versus'] ?? fail('--fc-potential needs --fc-versus') };
+  if (fc !== undefined)
+    options.ferrocene = {
+      potentialV: fc,
+      versus: v['fc-versus'] ?? fail('--fc-potential needs --fc-versus'),
+    };
   const tail = num(v.tail, '--tail');
   if (tail !== undefined) options.holdTailFraction = tail;
   if (v.baseline !== undefined) {
@@ -109,7 +122,10 @@ function main(): void {
   try {
     const result = analyzeText(decodeText(bytes), options);
     // Arrays of numbers (an LSV envelope's rows) one to a line, not one number to a line.
-    const text = JSON.stringify(result, null, 2).replace(/\[\n\s*(-?\d[\d.eE+-]*(?:,\n\s*-?\d[\d.eE+-]*)*)\n\s*\]/g, (_, inner: string) => `[${inner.split(/,\n\s*/).join(', ')}]`);
+    const text = JSON.stringify(result, null, 2).replace(
+      /\[\n\s*(-?\d[\d.eE+-]*(?:,\n\s*-?\d[\d.eE+-]*)*)\n\s*\]/g,
+      (_, inner: string) => `[${inner.split(/,\n\s*/).join(', ')}]`,
+    );
     process.stdout.write(`${text}\n`);
   } catch (e) {
     if (e instanceof AnalysisError) fail(`${file}: ${e.message}`);

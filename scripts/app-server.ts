@@ -18,7 +18,11 @@ const entry = (await import(pathToFileURL(path.join(outDir, 'server', 'entry.mjs
 // The built client folder holds hashed bundles under /_astro/ and a few top-level files; every
 // other path is Astro's, so pages and the API cost no file-system lookup.
 const ASSETS = '/_astro/';
-const topLevelFiles = new Set(readdirSync(clientDir, { withFileTypes: true }).filter((d) => d.isFile()).map((d) => `/${d.name}`));
+const topLevelFiles = new Set(
+  readdirSync(clientDir, { withFileTypes: true })
+    .filter((d) => d.isFile())
+    .map((d) => `/${d.name}`),
+);
 
 /** A built file, or Astro's own answer (its 404 page) when there is none. */
 function serveStatic(req: http.IncomingMessage, res: http.ServerResponse, pathname: string) {
@@ -26,7 +30,8 @@ function serveStatic(req: http.IncomingMessage, res: http.ServerResponse, pathna
   send(req, pathname, { root: clientDir, dotfiles: 'deny', index: false })
     .on('headers', (r: http.ServerResponse) => {
       sent = true;
-      if (pathname.startsWith(ASSETS)) r.setHeader('cache-control', 'public, max-age=31536000, immutable');
+      if (pathname.startsWith(ASSETS))
+        r.setHeader('cache-control', 'public, max-age=31536000, immutable');
     })
     .on('error', (err: Error & { status?: number }) => {
       if (sent) return res.destroy(err);
@@ -50,7 +55,9 @@ const server = http.createServer((req, res) => {
   try {
     decodeURI(pathname);
   } catch {
-    res.writeHead(400, { 'content-type': 'text/plain; charset=utf-8' }).end('Bad request: the path is not valid percent-encoding.');
+    res
+      .writeHead(400, { 'content-type': 'text/plain; charset=utf-8' })
+      .end('Bad request: the path is not valid percent-encoding.');
     return;
   }
   if (pathname.startsWith(ASSETS) || topLevelFiles.has(pathname)) serveStatic(req, res, pathname);

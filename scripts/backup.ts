@@ -8,7 +8,9 @@ import { dataDir } from './lib/paths.ts';
 import { ensureCluster } from './lib/postgres.ts';
 import { log, useLocalStorage } from './lib/services.ts';
 
-const { values } = parseArgs({ options: { database: { type: 'string', default: 'edgewise' }, out: { type: 'string' } } });
+const { values } = parseArgs({
+  options: { database: { type: 'string', default: 'edgewise' }, out: { type: 'string' } },
+});
 const database = values.database!;
 const stamp = new Date().toISOString().replace(/[:.]/g, '-');
 const file = path.resolve(values.out ?? path.join(dataDir, 'backups', `${database}-${stamp}.dump`));

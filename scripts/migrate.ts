@@ -11,7 +11,8 @@ async function main() {
   }
   const db = createDb(url, 1);
   try {
-    for (const r of (await migrateToLatest(db, migrationsDir)) ?? []) log(`migration ${r.migrationName}: ${r.status}`);
+    for (const r of (await migrateToLatest(db, migrationsDir)) ?? [])
+      log(`migration ${r.migrationName}: ${r.status}`);
   } finally {
     await db.destroy();
   }

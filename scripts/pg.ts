@@ -18,7 +18,9 @@ switch (command) {
     break;
   case 'urls': {
     const c = ensureCluster();
-    console.log(JSON.stringify({ adminUrl: c.adminUrl(database), appUrl: c.appUrl(database), port: c.port }));
+    console.log(
+      JSON.stringify({ adminUrl: c.adminUrl(database), appUrl: c.appUrl(database), port: c.port }),
+    );
     break;
   }
   default:

@@ -22,11 +22,23 @@ async function main() {
   await seedAccounts(url);
   let fakes: Fakes | undefined;
   if (!(await portAnswers(S3_PORT))) {
-    fakes = await startFakes({ s3Port: S3_PORT, smtpPort: SMTP_PORT, s3Dir: path.join(dataDir, 's3'), mailDir: path.join(dataDir, 'mail'), bucket: 'edgewise-raw' });
+    fakes = await startFakes({
+      s3Port: S3_PORT,
+      smtpPort: SMTP_PORT,
+      s3Dir: path.join(dataDir, 's3'),
+      mailDir: path.join(dataDir, 'mail'),
+      bucket: 'edgewise-raw',
+    });
   }
   try {
     const demo = await loadDemo(
-      { APP_ENV: 'development', DATABASE_URL: url, AUTH_SECRET: localSecret('auth-secret'), S3_ENDPOINT: `http://127.0.0.1:${S3_PORT}`, S3_BUCKET: 'edgewise-raw' },
+      {
+        APP_ENV: 'development',
+        DATABASE_URL: url,
+        AUTH_SECRET: localSecret('auth-secret'),
+        S3_ENDPOINT: `http://127.0.0.1:${S3_PORT}`,
+        S3_BUCKET: 'edgewise-raw',
+      },
       { log },
     );
     if (!demo.loaded) log(`demo scenario not loaded: ${demo.skipped}; use --reset to start over`);

@@ -2,7 +2,15 @@
 import path from 'node:path';
 import { parseConfig, ConfigError } from '../src/lib/server/config.ts';
 import { dataDir, projectRoot } from './lib/paths.ts';
-import { appEnv, buildApp, log, portAnswers, prepareDatabase, startApp, startFakes } from './lib/services.ts';
+import {
+  appEnv,
+  buildApp,
+  log,
+  portAnswers,
+  prepareDatabase,
+  startApp,
+  startFakes,
+} from './lib/services.ts';
 import { demoAccountLines, seedAccounts } from '../seed/accounts.ts';
 import { loadVocabularySeed } from '../seed/load-vocabulary.ts';
 import { loadDemo } from '../seed/demo.ts';
@@ -23,8 +31,14 @@ async function main() {
     }
     throw new Error(`port ${APP_PORT} is taken by another program; set PORT to use another`);
   }
-  for (const [name, port] of [['S3 fake', S3_PORT], ['mail fake', SMTP_PORT]] as const) {
-    if (await portAnswers(port)) throw new Error(`${name} port ${port} is taken; stop what uses it or set EDGEWISE_${name === 'S3 fake' ? 'S3' : 'SMTP'}_PORT`);
+  for (const [name, port] of [
+    ['S3 fake', S3_PORT],
+    ['mail fake', SMTP_PORT],
+  ] as const) {
+    if (await portAnswers(port))
+      throw new Error(
+        `${name} port ${port} is taken; stop what uses it or set EDGEWISE_${name === 'S3 fake' ? 'S3' : 'SMTP'}_PORT`,
+      );
   }
 
   const cluster = await prepareDatabase(DATABASE);
@@ -37,11 +51,15 @@ async function main() {
     mailDir: path.join(dataDir, 'mail'),
     bucket: 'edgewise-raw',
   });
-  const env = { ...appEnv({ cluster, database: DATABASE, fakes, origin, appEnv: 'development' }), ...pick(process.env) };
+  const env = {
+    ...appEnv({ cluster, database: DATABASE, fakes, origin, appEnv: 'development' }),
+    ...pick(process.env),
+  };
   parseConfig(env); // fail here, with every bad variable named, rather than on the first request
   // The demo scenario, once: a database that already holds records is left as it is.
   const demo = await loadDemo(env, { log });
-  if (!demo.loaded) log(`demo scenario not loaded: ${demo.skipped} (npm run seed -- --reset reloads it)`);
+  if (!demo.loaded)
+    log(`demo scenario not loaded: ${demo.skipped} (npm run seed -- --reset reloads it)`);
 
   const outDir = path.join(projectRoot, 'dist');
   buildApp(outDir);
@@ -76,11 +94,26 @@ ${demoAccountLines()}
 
 /** Settings a person may override from their environment (a real bucket, another mail server). */
 function pick(env: NodeJS.ProcessEnv): Record<string, string> {
-  const keys = ['S3_ENDPOINT', 'S3_REGION', 'S3_BUCKET', 'S3_ACCESS_KEY_ID', 'S3_SECRET_ACCESS_KEY', 'SMTP_HOST', 'SMTP_PORT', 'MAIL_FROM', 'TRUST_PROXY', 'MAX_UPLOAD_BYTES'];
+  const keys = [
+    'S3_ENDPOINT',
+    'S3_REGION',
+    'S3_BUCKET',
+    'S3_ACCESS_KEY_ID',
+    'S3_SECRET_ACCESS_KEY',
+    'SMTP_HOST',
+    'SMTP_PORT',
+    'MAIL_FROM',
+    'TRUST_PROXY',
+    'MAX_UPLOAD_BYTES',
+  ];
   return Object.fromEntries(keys.filter((k) => env[k] !== undefined).map((k) => [k, env[k]!]));
 }
 
 main().catch((err) => {
-  console.error(err instanceof ConfigError ? err.message : `[edgewise] start failed: ${err instanceof Error ? err.message : err}`);
+  console.error(
+    err instanceof ConfigError
+      ? err.message
+      : `[edgewise] start failed: ${err instanceof Error ? err.message : err}`,
+  );
   process.exit(1);
 });

@@ -3,7 +3,13 @@
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import path from 'node:path';
-import { BROWSER_PACKAGES, SERVER_PACKAGES, ensureDebianPackages, ensureNodeModules, root } from './lib/bootstrap.mjs';
+import {
+  BROWSER_PACKAGES,
+  SERVER_PACKAGES,
+  ensureDebianPackages,
+  ensureNodeModules,
+  root,
+} from './lib/bootstrap.mjs';
 
 const started = Date.now();
 ensureDebianPackages([...SERVER_PACKAGES, ...BROWSER_PACKAGES]);
@@ -13,11 +19,21 @@ const results = path.join(root, '.data', `test-results-${process.pid}.json`);
 mkdirSync(path.dirname(results), { recursive: true });
 const r = spawnSync(
   path.join(root, 'node_modules', '.bin', 'vitest'),
-  ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${results}`, ...process.argv.slice(2)],
+  [
+    'run',
+    '--reporter=default',
+    '--reporter=json',
+    `--outputFile.json=${results}`,
+    ...process.argv.slice(2),
+  ],
   {
     cwd: root,
     stdio: 'inherit',
-    env: { ...process.env, ASTRO_TELEMETRY_DISABLED: '1', AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' },
+    env: {
+      ...process.env,
+      ASTRO_TELEMETRY_DISABLED: '1',
+      AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true',
+    },
   },
 );
 
@@ -27,7 +43,9 @@ if (existsSync(results)) {
   rmSync(results, { force: true });
   const passed = summary.numPassedTests ?? 0;
   // A file that failed to load or whose hooks threw ran no test of its own: it counts as one failure.
-  const brokenFiles = (summary.testResults ?? []).filter((f) => f.status === 'failed' && !(f.assertionResults ?? []).some((a) => a.status === 'failed')).length;
+  const brokenFiles = (summary.testResults ?? []).filter(
+    (f) => f.status === 'failed' && !(f.assertionResults ?? []).some((a) => a.status === 'failed'),
+  ).length;
   const failed = (summary.numFailedTests ?? 0) + brokenFiles;
   if (failed > 0) code = code || 1;
   const skipped = (summary.numPendingTests ?? 0) + (summary.numTodoTests ?? 0);

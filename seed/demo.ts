@@ -10,7 +10,13 @@ import { createRecord, editRecord, transitionRecord } from '../src/lib/server/re
 import { completeUpload, declareUpload } from '../src/lib/server/uploads.ts';
 import { ensureBucket } from '../src/lib/server/storage.ts';
 import { findLabBySlug, upsertMembership } from '../src/lib/server/repositories/labs.ts';
-import { findPasswordHash, findSessionUser, findUserByEmail, insertUser, setPasswordHash } from '../src/lib/server/repositories/users.ts';
+import {
+  findPasswordHash,
+  findSessionUser,
+  findUserByEmail,
+  insertUser,
+  setPasswordHash,
+} from '../src/lib/server/repositories/users.ts';
 import type { UserPrincipal } from '../src/lib/shared/principal.ts';
 import { recordContentSchema } from '../src/lib/shared/record.ts';
 import { DEMO_PASSWORD, seedAccounts } from './accounts.ts';
@@ -42,7 +48,14 @@ async function ensurePeople(db: Db, scenario: Scenario): Promise<Map<string, Use
   const principals = new Map<string, UserPrincipal>();
   for (const p of scenario.people) {
     let user = await findUserByEmail(db, p.email);
-    if (!user) user = await insertUser(db, { email: p.email, name: p.name, role: p.role, emailVerified: new Date(), affiliation: p.affiliation });
+    if (!user)
+      user = await insertUser(db, {
+        email: p.email,
+        name: p.name,
+        role: p.role,
+        emailVerified: new Date(),
+        affiliation: p.affiliation,
+      });
     if (!(await findPasswordHash(db, user.id))) await setPasswordHash(db, user.id, hash);
     for (const [slug, role] of p.labs) {
       const lab = await findLabBySlug(db, slug);
@@ -50,37 +63,77 @@ async function ensurePeople(db: Db, scenario: Scenario): Promise<Map<string, Use
       await upsertMembership(db, lab.id, user.id, role);
     }
     const s = (await findSessionUser(db, user.id))!;
-    principals.set(p.key, { kind: 'user', id: s.id, email: s.email, name: s.name, role: s.role, labs: s.labs, via: 'session', scopes: ['read', 'write'] });
+    principals.set(p.key, {
+      kind: 'user',
+      id: s.id,
+      email: s.email,
+      name: s.name,
+      role: s.role,
+      labs: s.labs,
+      via: 'session',
+      scopes: ['read', 'write'],
+    });
   }
   return principals;
 }
 
 /** Declare, PUT, complete: the browser's upload path. */
-async function upload(db: Db, who: UserPrincipal, handle: string, file: ScenarioRecord['files'][number]): Promise<void> {
+async function upload(
+  db: Db,
+  who: UserPrincipal,
+  handle: string,
+  file: ScenarioRecord['files'][number],
+): Promise<void> {
   const bytes = new TextEncoder().encode(file.text);
   const sha256 = createHash('sha256').update(bytes).digest('hex');
-  const ticket = await declareUpload(db, who, { record: handle, name: file.name, size: bytes.byteLength, sha256, mediaType: file.mediaType, mapping: file.mapping });
+  const ticket = await declareUpload(db, who, {
+    record: handle,
+    name: file.name,
+    size: bytes.byteLength,
+    sha256,
+    mediaType: file.mediaType,
+    mapping: file.mapping,
+  });
   const put = await fetch(ticket.url, { method: 'PUT', headers: ticket.headers, body: bytes });
-  if (!put.ok) throw new Error(`PUT of ${file.name} to storage failed: ${put.status} ${await put.text()}`);
+  if (!put.ok)
+    throw new Error(`PUT of ${file.name} to storage failed: ${put.status} ${await put.text()}`);
   await completeUpload(db, who, ticket.id);
 }
 
 /** Creates version 1 of a record (the first event of its story); returns its handle. */
-async function create(db: Db, people: Map<string, UserPrincipal>, rec: ScenarioRecord): Promise<string> {
+async function create(
+  db: Db,
+  people: Map<string, UserPrincipal>,
+  rec: ScenarioRecord,
+): Promise<string> {
   const first = rec.events[0];
-  if (first?.kind !== 'create') throw new Error(`${rec.key}: a story starts by creating the record`);
-  const r = await createRecord(db, person(people, rec, first.by), { content: recordContentSchema.parse(first.content), changeNote: first.changeNote, ...(rec.lab ? { lab: rec.lab } : {}) });
+  if (first?.kind !== 'create')
+    throw new Error(`${rec.key}: a story starts by creating the record`);
+  const r = await createRecord(db, person(people, rec, first.by), {
+    content: recordContentSchema.parse(first.content),
+    changeNote: first.changeNote,
+    ...(rec.lab ? { lab: rec.lab } : {}),
+  });
   return r.handle;
 }
 
-function person(people: Map<string, UserPrincipal>, rec: ScenarioRecord, key: string): UserPrincipal {
+function person(
+  people: Map<string, UserPrincipal>,
+  rec: ScenarioRecord,
+  key: string,
+): UserPrincipal {
   const p = people.get(key);
   if (!p) throw new Error(`${rec.key}: no person ${key}`);
   return p;
 }
 
 /** The rest of a record's story: files, edits and review, in order. */
-async function replay(db: Db, people: Map<string, UserPrincipal>, rec: ScenarioRecord, handle: string): Promise<void> {
+async function replay(
+  db: Db,
+  people: Map<string, UserPrincipal>,
+  rec: ScenarioRecord,
+  handle: string,
+): Promise<void> {
   let version = 1;
   for (const e of rec.events.slice(1)) {
     switch (e.kind) {
@@ -91,17 +144,31 @@ async function replay(db: Db, people: Map<string, UserPrincipal>, rec: ScenarioR
         version++;
         break;
       case 'edit':
-        version = (await editRecord(db, person(people, rec, e.by), handle, { version, content: recordContentSchema.parse(e.content), changeNote: e.changeNote })).version;
+        version = (
+          await editRecord(db, person(people, rec, e.by), handle, {
+            version,
+            content: recordContentSchema.parse(e.content),
+            changeNote: e.changeNote,
+          })
+        ).version;
         break;
       case 'transition':
-        await transitionRecord(db, person(people, rec, e.by), handle, { action: e.action, version, ...(e.reason ? { reason: e.reason } : {}) });
+        await transitionRecord(db, person(people, rec, e.by), handle, {
+          action: e.action,
+          version,
+          ...(e.reason ? { reason: e.reason } : {}),
+        });
         break;
     }
   }
 }
 
 /** Runs tasks with at most `limit` at a time; the first failure rejects. */
-async function inParallel<T>(items: readonly T[], limit: number, task: (item: T) => Promise<void>): Promise<void> {
+async function inParallel<T>(
+  items: readonly T[],
+  limit: number,
+  task: (item: T) => Promise<void>,
+): Promise<void> {
   let next = 0;
   const worker = async () => {
     while (next < items.length) await task(items[next++]!);
@@ -113,14 +180,25 @@ async function inParallel<T>(items: readonly T[], limit: number, task: (item: T)
  * Loads the scenario into the database at env.DATABASE_URL (app role) and the object store of
  * env; the vocabulary must be loaded. Idempotent: a database that holds records is left alone.
  */
-export async function loadDemo(env: DemoEnv, opts: { seed?: number; log?: (m: string) => void } = {}): Promise<DemoLoad> {
+export async function loadDemo(
+  env: DemoEnv,
+  opts: { seed?: number; log?: (m: string) => void } = {},
+): Promise<DemoLoad> {
   const started = Date.now();
   // The storage and upload services read their settings from the process environment; what is
   // set there already (a test's own configuration) wins.
   for (const [k, v] of Object.entries(env)) process.env[k] ??= v;
   const db = createDb(env.DATABASE_URL!, 8);
   try {
-    if (await hasRecords(db)) return { loaded: false, skipped: 'the database already holds records', records: 0, files: 0, ms: Date.now() - started, handles: {} };
+    if (await hasRecords(db))
+      return {
+        loaded: false,
+        skipped: 'the database already holds records',
+        records: 0,
+        files: 0,
+        ms: Date.now() - started,
+        handles: {},
+      };
     await seedAccounts(env.DATABASE_URL!);
     await ensureBucket();
     const scenario = generateScenario(opts.seed);
@@ -135,7 +213,9 @@ export async function loadDemo(env: DemoEnv, opts: { seed?: number; log?: (m: st
     }
     await inParallel(scenario.records, 6, (rec) => replay(db, people, rec, handles[rec.key]!));
     const ms = Date.now() - started;
-    opts.log?.(`demo scenario: ${scenario.records.length} records, ${files} raw files in ${(ms / 1000).toFixed(1)} s`);
+    opts.log?.(
+      `demo scenario: ${scenario.records.length} records, ${files} raw files in ${(ms / 1000).toFixed(1)} s`,
+    );
     return { loaded: true, records: scenario.records.length, files, ms, handles };
   } finally {
     await db.destroy();

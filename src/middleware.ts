@@ -30,10 +30,16 @@ export const onRequest = defineMiddleware(async (context, next) => {
       allowForm: !isApi || FORM_ROUTES.some((r) => r.test(url.pathname)),
       allowMultipart: MULTIPART_ROUTES.some((r) => r.test(url.pathname)),
     };
-    const verdict = [own, requestOrigin].map((o) => checkStateChangingRequest(context.request, o, opts));
+    const verdict = [own, requestOrigin].map((o) =>
+      checkStateChangingRequest(context.request, o, opts),
+    );
     const accepted = verdict.find((v) => v.ok);
     if (!accepted) {
-      response = problem({ title: 'Cross-site request refused', status: 403, detail: verdict[0]?.reason });
+      response = problem({
+        title: 'Cross-site request refused',
+        status: 403,
+        detail: verdict[0]?.reason,
+      });
     } else {
       // Who is asking: from the database on every request (see src/lib/server/auth/principal.ts).
       context.locals.principal = ANONYMOUS;
@@ -47,8 +53,16 @@ export const onRequest = defineMiddleware(async (context, next) => {
     }
   }
   // An API path with no route (or a method it does not answer) gets problem+json, not a page.
-  if (isApi && (response.status === 404 || response.status === 405) && !(response.headers.get('content-type') ?? '').includes('json')) {
-    response = problem({ title: response.status === 404 ? 'Not found' : 'Method not allowed', status: response.status, detail: `${context.request.method} ${url.pathname} is not part of the API.` });
+  if (
+    isApi &&
+    (response.status === 404 || response.status === 405) &&
+    !(response.headers.get('content-type') ?? '').includes('json')
+  ) {
+    response = problem({
+      title: response.status === 404 ? 'Not found' : 'Method not allowed',
+      status: response.status,
+      detail: `${context.request.method} ${url.pathname} is not part of the API.`,
+    });
   }
   // Some responses (redirects, static) come with immutable headers: copy when needed.
   try {

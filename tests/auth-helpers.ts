@@ -32,31 +32,63 @@ export interface TestUser {
 export const uniqueEmail = (tag: string) => `${tag}-${randomBytes(5).toString('hex')}@example.test`;
 
 /** A confirmed account with the given role and lab memberships (labs by slug, created if new). */
-export async function makeUser(opts: { role?: Role; labs?: [string, LabRole][]; tag?: string; confirmed?: boolean } = {}): Promise<TestUser> {
+export async function makeUser(
+  opts: { role?: Role; labs?: [string, LabRole][]; tag?: string; confirmed?: boolean } = {},
+): Promise<TestUser> {
   hash ??= hashPassword(TEST_PASSWORD);
   const db = appDb();
   const email = uniqueEmail(opts.tag ?? opts.role ?? 'user');
   const user = await db
     .insertInto('User')
-    .values({ email, name: `Test ${opts.role ?? 'user'}`, role: opts.role ?? 'reader', emailVerified: opts.confirmed === false ? null : new Date(), image: null, affiliation: null, orcid: null, disabled_at: null })
+    .values({
+      email,
+      name: `Test ${opts.role ?? 'user'}`,
+      role: opts.role ?? 'reader',
+      emailVerified: opts.confirmed === false ? null : new Date(),
+      image: null,
+      affiliation: null,
+      orcid: null,
+      disabled_at: null,
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
-  await db.insertInto('password_credentials').values({ user_id: user.id, hash: await hash }).execute();
+  await db
+    .insertInto('password_credentials')
+    .values({ user_id: user.id, hash: await hash })
+    .execute();
   for (const [slug, role] of opts.labs ?? []) {
     const lab = await ensureLab(slug);
-    await db.insertInto('lab_memberships').values({ lab_id: lab.id, user_id: user.id, role }).execute();
+    await db
+      .insertInto('lab_memberships')
+      .values({ lab_id: lab.id, user_id: user.id, role })
+      .execute();
   }
   return { id: user.id, email, password: TEST_PASSWORD };
 }
 
-export async function ensureLab(slug: string, name = `Lab ${slug}`): Promise<{ id: string; slug: string }> {
+export async function ensureLab(
+  slug: string,
+  name = `Lab ${slug}`,
+): Promise<{ id: string; slug: string }> {
   const db = appDb();
-  await db.insertInto('labs').values({ slug, name }).onConflict((oc) => oc.column('slug').doNothing()).execute();
-  return db.selectFrom('labs').select(['id', 'slug']).where('slug', '=', slug).executeTakeFirstOrThrow();
+  await db
+    .insertInto('labs')
+    .values({ slug, name })
+    .onConflict((oc) => oc.column('slug').doNothing())
+    .execute();
+  return db
+    .selectFrom('labs')
+    .select(['id', 'slug'])
+    .where('slug', '=', slug)
+    .executeTakeFirstOrThrow();
 }
 
 /** Posts the password form to Auth.js; returns the response (a redirect either way). */
-export function postSignIn(email: string, password: string, headers: Record<string, string> = {}): Promise<Response> {
+export function postSignIn(
+  email: string,
+  password: string,
+  headers: Record<string, string> = {},
+): Promise<Response> {
   return api('/api/auth/callback/credentials', {
     method: 'POST',
     headers: { 'content-type': 'application/x-www-form-urlencoded', ...headers },
@@ -68,7 +100,10 @@ export function postSignIn(email: string, password: string, headers: Record<stri
 export async function signIn(user: { email: string; password: string }): Promise<string> {
   const res = await postSignIn(user.email, user.password);
   const cookie = sessionCookieFrom(res);
-  if (!cookie) throw new Error(`sign-in of ${user.email} failed: ${res.status} ${res.headers.get('location')}`);
+  if (!cookie)
+    throw new Error(
+      `sign-in of ${user.email} failed: ${res.status} ${res.headers.get('location')}`,
+    );
   return cookie;
 }
 
@@ -81,7 +116,11 @@ export function sessionCookieFrom(res: Response): string | null {
 }
 
 /** api() with a cookie (or bearer token) attached. */
-export function as(credential: string | null, path: string, init: RequestInit = {}): Promise<Response> {
+export function as(
+  credential: string | null,
+  path: string,
+  init: RequestInit = {},
+): Promise<Response> {
   const headers = new Headers(init.headers);
   if (credential?.startsWith('ew_')) headers.set('authorization', `Bearer ${credential}`);
   else if (credential) headers.set('cookie', credential);
@@ -89,9 +128,18 @@ export function as(credential: string | null, path: string, init: RequestInit = 
 }
 
 /** JSON request helper: as(), with a JSON body. */
-export function asJson(credential: string | null, path: string, method: string, body: unknown): Promise<Response> {
+export function asJson(
+  credential: string | null,
+  path: string,
+  method: string,
+  body: unknown,
+): Promise<Response> {
   if (body === undefined) return as(credential, path, { method });
-  return as(credential, path, { method, headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+  return as(credential, path, {
+    method,
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify(body),
+  });
 }
 
 /** Clears failed sign-in counters (the limiter counts every failure from this test machine). */

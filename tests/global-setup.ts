@@ -7,7 +7,15 @@ import type { TestProject } from 'vitest/node';
 import { dataDir } from '../scripts/lib/paths.ts';
 import { dropDatabase, dropStaleTestDatabases } from '../scripts/lib/postgres.ts';
 import { loadVocabularySeed } from '../seed/load-vocabulary.ts';
-import { appEnv, buildApp, freePort, prepareDatabase, startApp, startFakes, type Fakes } from '../scripts/lib/services.ts';
+import {
+  appEnv,
+  buildApp,
+  freePort,
+  prepareDatabase,
+  startApp,
+  startFakes,
+  type Fakes,
+} from '../scripts/lib/services.ts';
 
 declare module 'vitest' {
   export interface ProvidedContext {

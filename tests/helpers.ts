@@ -6,7 +6,8 @@ export const appUrl = () => inject('appUrl');
 /** fetch against the server under test; state-changing calls carry its Origin, as a browser would. */
 export function api(pathname: string, init: RequestInit = {}): Promise<Response> {
   const headers = new Headers(init.headers);
-  if (init.method && init.method !== 'GET' && !headers.has('origin')) headers.set('origin', appUrl());
+  if (init.method && init.method !== 'GET' && !headers.has('origin'))
+    headers.set('origin', appUrl());
   return fetch(new URL(pathname, appUrl()), { ...init, headers, redirect: 'manual' });
 }
 
@@ -14,7 +15,9 @@ export function api(pathname: string, init: RequestInit = {}): Promise<Response>
 export async function waitForMail(to: string, subject: RegExp, timeoutMs = 10_000) {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
-    const found = (await readCapturedMail(inject('mailDir'))).find((m) => m.to.includes(to) && subject.test(m.subject));
+    const found = (await readCapturedMail(inject('mailDir'))).find(
+      (m) => m.to.includes(to) && subject.test(m.subject),
+    );
     if (found) return found;
     await new Promise((r) => setTimeout(r, 100));
   }

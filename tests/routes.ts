@@ -33,10 +33,15 @@ export function methodsOf(file: string, source: string): string[] {
     return /Astro\.request\.method\s*===?\s*['"]POST['"]/.test(source) ? ['GET', 'POST'] : ['GET'];
   }
   const found = new Set<string>();
-  for (const m of source.matchAll(/export\s+(?:const|let|async\s+function|function)\s+([A-Z]+)\b/g)) if (METHODS.includes(m[1]!)) found.add(m[1]!);
+  for (const m of source.matchAll(/export\s+(?:const|let|async\s+function|function)\s+([A-Z]+)\b/g))
+    if (METHODS.includes(m[1]!)) found.add(m[1]!);
   for (const m of source.matchAll(/export\s*\{([^}]*)\}/g)) {
     for (const part of m[1]!.split(',')) {
-      const name = part.trim().split(/\s+as\s+/).pop()?.trim();
+      const name = part
+        .trim()
+        .split(/\s+as\s+/)
+        .pop()
+        ?.trim();
       if (name && METHODS.includes(name)) found.add(name);
     }
   }
@@ -45,10 +50,17 @@ export function methodsOf(file: string, source: string): string[] {
 
 export function enumerateRoutes(): EnumeratedRoute[] {
   return walk(pagesDir)
-    .filter((f) => /\.(astro|ts|js|mjs)$/.test(f) && !path.basename(f).startsWith('_') && !f.endsWith('.d.ts'))
+    .filter(
+      (f) =>
+        /\.(astro|ts|js|mjs)$/.test(f) && !path.basename(f).startsWith('_') && !f.endsWith('.d.ts'),
+    )
     .flatMap((file) => {
       const rel = path.relative(pagesDir, file);
-      return methodsOf(file, readFileSync(file, 'utf8')).map((method) => ({ route: routeOf(rel), method, file: rel }));
+      return methodsOf(file, readFileSync(file, 'utf8')).map((method) => ({
+        route: routeOf(rel),
+        method,
+        file: rel,
+      }));
     })
     .sort((a, b) => a.route.localeCompare(b.route) || a.method.localeCompare(b.method));
 }

@@ -58,13 +58,19 @@ function median(xs: number[]): number {
 
 function run(cmd: string, args: string[]): Record<string, number> {
   const r = spawnSync(cmd, args, { encoding: 'utf8', maxBuffer: 1 << 20 });
-  if (r.status !== 0) throw new Error(`${cmd} ${args.join(' ')} failed (${r.status}):\n${r.stderr}`);
+  if (r.status !== 0)
+    throw new Error(`${cmd} ${args.join(' ')} failed (${r.status}):\n${r.stderr}`);
   return JSON.parse(r.stdout) as Record<string, number>;
 }
 
 function main(): void {
   const { values } = parseArgs({
-    options: { child: { type: 'string' }, runs: { type: 'string', default: '7' }, rows: { type: 'string', default: '1000000' }, keep: { type: 'boolean' } },
+    options: {
+      child: { type: 'string' },
+      runs: { type: 'string', default: '7' },
+      rows: { type: 'string', default: '1000000' },
+      keep: { type: 'boolean' },
+    },
   });
   if (values.child) return child(values.child);
 
@@ -85,24 +91,40 @@ function main(): void {
       sampleIntervalS: totalSweepV / rows / v,
       noise: { currentA: 2e-7, seed: 7 },
     });
-    writeFileSync(file, formatExport(samples, { columns: ['time', 'potential', 'current'], significantDigits: 8 }));
+    writeFileSync(
+      file,
+      formatExport(samples, { columns: ['time', 'potential', 'current'], significantDigits: 8 }),
+    );
     const size = statSync(file).size;
-    console.log(`generated ${samples.potential.length.toLocaleString('en')} rows, ${(size / 1e6).toFixed(1)} MB in ${((performance.now() - tg) / 1000).toFixed(1)} s: ${file}`);
+    console.log(
+      `generated ${samples.potential.length.toLocaleString('en')} rows, ${(size / 1e6).toFixed(1)} MB in ${((performance.now() - tg) / 1000).toFixed(1)} s: ${file}`,
+    );
 
     const tsx = join(here, '..', '..', 'node_modules', 'tsx', 'dist', 'loader.mjs');
     const engine: Record<string, number>[] = [];
     const peer: Record<string, number>[] = [];
     for (let k = 0; k < runs; k++) {
-      engine.push(run(process.execPath, ['--import', tsx, fileURLToPath(import.meta.url), '--child', file]));
+      engine.push(
+        run(process.execPath, ['--import', tsx, fileURLToPath(import.meta.url), '--child', file]),
+      );
       peer.push(run('python3', [join(here, 'analysis_peer.py'), file]));
     }
     const em = median(engine.map((r) => r.ms!));
     const pm = median(peer.map((r) => r.ms!));
     const part = (key: string) => median(engine.map((r) => r[key]!)).toFixed(0);
-    console.log(`engine (fresh process, ${runs} runs): median ${em.toFixed(0)} ms  [load ${part('loadMs')}, parse ${part('parseMs')}, segment ${part('segmentMs')}, S-value ${part('sValueMs')}]; ${engine[0]!.cycles} cycles, last S ${engine[0]!.lastS!.toPrecision(6)}`);
-    console.log(`numpy  (fresh process, ${runs} runs): median ${pm.toFixed(0)} ms; ${peer[0]!.cycles} cycles, last S ${peer[0]!.lastS!.toPrecision(6)}`);
-    console.log(`target ≤ ${TARGET_MS} ms: ${em <= TARGET_MS ? 'met' : 'NOT met'}; numpy/engine = ${(pm / em).toFixed(2)} (engine ${pm > em ? 'faster' : 'slower'})`);
-    if (Math.abs(engine[0]!.lastS! - peer[0]!.lastS!) > 1e-9 * Math.abs(peer[0]!.lastS!) + 1e-12 || engine[0]!.cycles !== peer[0]!.cycles) {
+    console.log(
+      `engine (fresh process, ${runs} runs): median ${em.toFixed(0)} ms  [load ${part('loadMs')}, parse ${part('parseMs')}, segment ${part('segmentMs')}, S-value ${part('sValueMs')}]; ${engine[0]!.cycles} cycles, last S ${engine[0]!.lastS!.toPrecision(6)}`,
+    );
+    console.log(
+      `numpy  (fresh process, ${runs} runs): median ${pm.toFixed(0)} ms; ${peer[0]!.cycles} cycles, last S ${peer[0]!.lastS!.toPrecision(6)}`,
+    );
+    console.log(
+      `target ≤ ${TARGET_MS} ms: ${em <= TARGET_MS ? 'met' : 'NOT met'}; numpy/engine = ${(pm / em).toFixed(2)} (engine ${pm > em ? 'faster' : 'slower'})`,
+    );
+    if (
+      Math.abs(engine[0]!.lastS! - peer[0]!.lastS!) > 1e-9 * Math.abs(peer[0]!.lastS!) + 1e-12 ||
+      engine[0]!.cycles !== peer[0]!.cycles
+    ) {
       console.log('WARNING: engine and numpy disagree on the result');
     }
   } finally {

@@ -9,7 +9,13 @@ import { loadDemo } from '../../seed/demo.ts';
 import { percentile, report, startBenchStack } from './stack.ts';
 import type { Database } from '../../src/lib/server/db/schema.ts';
 
-const { values } = parseArgs({ options: { records: { type: 'string', default: '100000' }, seconds: { type: 'string', default: '10' }, connections: { type: 'string', default: '32' } } });
+const { values } = parseArgs({
+  options: {
+    records: { type: 'string', default: '100000' },
+    seconds: { type: 'string', default: '10' },
+    connections: { type: 'string', default: '32' },
+  },
+});
 const TARGET = { p95: 25, rps: 800 };
 const WANT = Number(values.records);
 
@@ -33,7 +39,9 @@ async function grow(adminUrl: string, want: number) {
       await c.query(`SELECT column_name FROM information_schema.columns WHERE table_name = 'record_versions' AND table_schema = 'public'
                       AND column_name NOT IN ('id', 'record_id', 'raw_file_ids', 'analysis_ids') ORDER BY ordinal_position`)
     ).rows.map((r) => `"${r.column_name}"`);
-    const published = Number((await c.query(`SELECT count(*) FROM records WHERE status = 'published'`)).rows[0].count);
+    const published = Number(
+      (await c.query(`SELECT count(*) FROM records WHERE status = 'published'`)).rows[0].count,
+    );
     const copies = Math.ceil((want - have) / published);
     await c.query('BEGIN');
     await c.query(`SET CONSTRAINTS ALL DEFERRED`);
@@ -44,7 +52,10 @@ async function grow(adminUrl: string, want: number) {
                    SELECT c.new_id, 'EW-' || lpad(nextval('record_handle_seq')::text, 6, '0'), r.status, r.owner_id, r.lab_id, 1, r.created_at, r.updated_at, r.published_at
                      FROM clone c JOIN records r ON r.id = c.src_id`);
     await c.query(`INSERT INTO record_versions (record_id, version, ${cols.filter((x) => x !== '"version"').join(', ')})
-                   SELECT c.new_id, 1, ${cols.filter((x) => x !== '"version"').map((x) => `v.${x}`).join(', ')}
+                   SELECT c.new_id, 1, ${cols
+                     .filter((x) => x !== '"version"')
+                     .map((x) => `v.${x}`)
+                     .join(', ')}
                      FROM clone c JOIN records r ON r.id = c.src_id JOIN record_versions v ON v.record_id = r.id AND v.version = r.current_version`);
     await c.query('COMMIT');
     await c.query('ANALYZE');
@@ -58,17 +69,35 @@ async function grow(adminUrl: string, want: number) {
 async function capturedSql(appUrl: string, path: string): Promise<CompiledQuery[]> {
   const captured: CompiledQuery[] = [];
   const pool = new pg.Pool({ connectionString: appUrl, max: 2 });
-  const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool }), log: (e: LogEvent) => void (e.level === 'query' && captured.push(e.query)) });
-  const { searchRecordList, recordQuerySchema } = await import('../../src/lib/server/record-search.ts');
+  const db = new Kysely<Database>({
+    dialect: new PostgresDialect({ pool }),
+    log: (e: LogEvent) => void (e.level === 'query' && captured.push(e.query)),
+  });
+  const { searchRecordList, recordQuerySchema } =
+    await import('../../src/lib/server/record-search.ts');
   const url = new URL(path, 'http://x');
-  const q = recordQuerySchema.parse(Object.fromEntries([...new Set(url.searchParams.keys())].map((k) => [k, url.searchParams.getAll(k).length > 1 ? url.searchParams.getAll(k) : url.searchParams.get(k)])));
+  const q = recordQuerySchema.parse(
+    Object.fromEntries(
+      [...new Set(url.searchParams.keys())].map((k) => [
+        k,
+        url.searchParams.getAll(k).length > 1
+          ? url.searchParams.getAll(k)
+          : url.searchParams.get(k),
+      ]),
+    ),
+  );
   await searchRecordList(db, { kind: 'anonymous' }, q);
   await db.destroy();
   return captured;
 }
 
 /** Runs the captured statements with `connections` concurrent loops for `seconds`. */
-async function replay(appUrl: string, statements: CompiledQuery[][], connections: number, seconds: number) {
+async function replay(
+  appUrl: string,
+  statements: CompiledQuery[][],
+  connections: number,
+  seconds: number,
+) {
   const pool = new pg.Pool({ connectionString: appUrl, max: connections });
   const times: number[] = [];
   const end = Date.now() + seconds * 1000;
@@ -102,7 +131,10 @@ async function load(url: string, o: Load) {
     ? [{ method: 'GET', headers: o.headers, setupRequest: (req) => ({ ...req, path: o.next!() }) }]
     : QUERIES.map((path) => ({ method: 'GET', path, headers: o.headers }));
   const result = await new Promise<autocannon.Result>((resolve, reject) => {
-    const run = autocannon({ url, connections: o.connections, duration: o.seconds, requests }, (err, r) => (err ? reject(err) : resolve(r)));
+    const run = autocannon(
+      { url, connections: o.connections, duration: o.seconds, requests },
+      (err, r) => (err ? reject(err) : resolve(r)),
+    );
     run.on('response', (_client, _status, _bytes, ms) => times.push(ms));
   });
   return {
@@ -119,9 +151,19 @@ async function load(url: string, o: Load) {
 function reportLoad(label: string, r: Awaited<ReturnType<typeof load>>, targets: boolean) {
   console.log(`\n${label}: ${r.total} requests, ${(r.bytes / 1024).toFixed(1)} kB per answer`);
   report('p50', `${r.p50.toFixed(1)} ms`, '—', true);
-  report('p95', `${r.p95.toFixed(1)} ms`, targets ? `≤ ${TARGET.p95} ms` : '—', !targets || r.p95 <= TARGET.p95);
+  report(
+    'p95',
+    `${r.p95.toFixed(1)} ms`,
+    targets ? `≤ ${TARGET.p95} ms` : '—',
+    !targets || r.p95 <= TARGET.p95,
+  );
   report('p99', `${r.p99.toFixed(1)} ms`, '—', true);
-  report('throughput', `${r.rps.toFixed(0)} req/s`, targets ? `≥ ${TARGET.rps} req/s` : '—', !targets || r.rps >= TARGET.rps);
+  report(
+    'throughput',
+    `${r.rps.toFixed(0)} req/s`,
+    targets ? `≥ ${TARGET.rps} req/s` : '—',
+    !targets || r.rps >= TARGET.rps,
+  );
   report('non-2xx, errors, timeouts', String(r.failed), '0', r.failed === 0);
 }
 
@@ -129,7 +171,8 @@ async function main() {
   const stack = await startBenchStack('edgewise_bench');
   try {
     const demo = await loadDemo({ ...stack.env });
-    if (demo.loaded) console.log(`demo scenario loaded: ${demo.records} records, ${demo.files} raw files`);
+    if (demo.loaded)
+      console.log(`demo scenario loaded: ${demo.records} records, ${demo.files} raw files`);
     const total = await grow(stack.adminUrl, WANT);
     console.log(`collection: ${total} records`);
     for (const q of QUERIES) {
@@ -137,32 +180,60 @@ async function main() {
       const r = await fetch(stack.url + q, { headers: { 'accept-encoding': 'identity' } });
       if (!r.ok) throw new Error(`${q}: ${r.status} ${await r.text()}`);
       const body = await r.json();
-      console.log(`  ${q} → ${body.total} matches, first answer ${(performance.now() - t0).toFixed(0)} ms`);
+      console.log(
+        `  ${q} → ${body.total} matches, first answer ${(performance.now() - t0).toFixed(0)} ms`,
+      );
     }
     const connections = Number(values.connections);
     const seconds = Number(values.seconds);
 
     // The typical searches again and again, as many readers browsing the same collection ask them:
     // answered from the per-generation answer cache after the first time.
-    const typical = await load(stack.url, { connections, seconds, headers: { 'accept-encoding': 'identity' } });
-    reportLoad(`Typical searches, ${connections} connections, ${seconds} s, uncompressed (as curl or a script without compression asks)`, typical, true);
-    reportLoad(`The same, gzip accepted (as browsers and most HTTP libraries ask)`, await load(stack.url, { connections, seconds, headers: { 'accept-encoding': 'gzip' } }), true);
+    const typical = await load(stack.url, {
+      connections,
+      seconds,
+      headers: { 'accept-encoding': 'identity' },
+    });
+    reportLoad(
+      `Typical searches, ${connections} connections, ${seconds} s, uncompressed (as curl or a script without compression asks)`,
+      typical,
+      true,
+    );
+    reportLoad(
+      `The same, gzip accepted (as browsers and most HTTP libraries ask)`,
+      await load(stack.url, { connections, seconds, headers: { 'accept-encoding': 'gzip' } }),
+      true,
+    );
 
     // Searches nobody asked before: a different scan-rate bound and page each time, so neither
     // the answer, the page nor the counts are cached. Fewer connections: each costs a pass over
     // the matching rows.
     let n = 0;
-    const distinct = () => `/api/v1/records?electrode=gc&scanRateMax=${1000 - (n++ % 900) / 10}&offset=${(n % 20) * 50}&limit=50`;
-    reportLoad('Searches not asked before (no answer, page or count cached), 4 connections', await load(stack.url, { connections: 4, seconds, headers: { 'accept-encoding': 'identity' }, next: distinct }), false);
+    const distinct = () =>
+      `/api/v1/records?electrode=gc&scanRateMax=${1000 - (n++ % 900) / 10}&offset=${(n % 20) * 50}&limit=50`;
+    reportLoad(
+      'Searches not asked before (no answer, page or count cached), 4 connections',
+      await load(stack.url, {
+        connections: 4,
+        seconds,
+        headers: { 'accept-encoding': 'identity' },
+        next: distinct,
+      }),
+      false,
+    );
 
     const sets = [];
     for (const q of QUERIES) sets.push(await capturedSql(stack.env.DATABASE_URL!, q));
     const direct = await replay(stack.env.DATABASE_URL!, sets, connections, seconds);
-    console.log(`\nThe typical searches' SQL as a first (uncached) request runs it — page, total and facets — straight through pg (${sets.reduce((s, x) => s + x.length, 0) / sets.length} statements per request), ${connections} loops, ${seconds} s:`);
+    console.log(
+      `\nThe typical searches' SQL as a first (uncached) request runs it — page, total and facets — straight through pg (${sets.reduce((s, x) => s + x.length, 0) / sets.length} statements per request), ${connections} loops, ${seconds} s:`,
+    );
     report('pg p50', `${percentile(direct.times, 50).toFixed(1)} ms`, '—', true);
     report('pg p95', `${percentile(direct.times, 95).toFixed(1)} ms`, '—', true);
     report('pg throughput', `${direct.rps.toFixed(0)} req/s`, '—', true);
-    console.log(`ratio API (answers held per generation) / uncached SQL: p50 ×${(typical.p50 / percentile(direct.times, 50)).toFixed(3)}, throughput ×${(typical.rps / direct.rps).toFixed(1)}`);
+    console.log(
+      `ratio API (answers held per generation) / uncached SQL: p50 ×${(typical.p50 / percentile(direct.times, 50)).toFixed(3)}, throughput ×${(typical.rps / direct.rps).toFixed(1)}`,
+    );
   } finally {
     await stack.stop();
   }

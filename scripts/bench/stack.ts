@@ -4,7 +4,15 @@ import type { ChildProcess } from 'node:child_process';
 import path from 'node:path';
 import { loadVocabularySeed } from '../../seed/load-vocabulary.ts';
 import { dataDir } from '../lib/paths.ts';
-import { appEnv, buildApp, freePort, prepareDatabase, startApp, startFakes, type Fakes } from '../lib/services.ts';
+import {
+  appEnv,
+  buildApp,
+  freePort,
+  prepareDatabase,
+  startApp,
+  startFakes,
+  type Fakes,
+} from '../lib/services.ts';
 
 export interface BenchStack {
   url: string;
@@ -13,11 +21,20 @@ export interface BenchStack {
   stop(): Promise<void>;
 }
 
-export async function startBenchStack(database = 'edgewise_bench', opts: { fresh?: boolean } = {}): Promise<BenchStack> {
+export async function startBenchStack(
+  database = 'edgewise_bench',
+  opts: { fresh?: boolean } = {},
+): Promise<BenchStack> {
   const work = path.join(dataDir, 'bench');
   const cluster = await prepareDatabase(database, { fresh: opts.fresh ?? false, quiet: true });
   await loadVocabularySeed(cluster.appUrl(database));
-  const fakes: Fakes = await startFakes({ s3Port: 0, smtpPort: 0, s3Dir: path.join(work, 's3'), mailDir: path.join(work, 'mail'), bucket: 'edgewise-raw' });
+  const fakes: Fakes = await startFakes({
+    s3Port: 0,
+    smtpPort: 0,
+    s3Dir: path.join(work, 's3'),
+    mailDir: path.join(work, 'mail'),
+    bucket: 'edgewise-raw',
+  });
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
   const env = appEnv({ cluster, database, fakes, origin: url, appEnv: 'test' });
@@ -42,5 +59,7 @@ export function percentile(xs: number[], p: number): number {
 
 /** One result line: what, figure, target, verdict. */
 export function report(what: string, figure: string, target: string, ok: boolean): void {
-  console.log(`${ok ? 'meets ' : 'MISSES'}  ${what.padEnd(44)} ${figure.padEnd(22)} target ${target}`);
+  console.log(
+    `${ok ? 'meets ' : 'MISSES'}  ${what.padEnd(44)} ${figure.padEnd(22)} target ${target}`,
+  );
 }

@@ -19,7 +19,9 @@ async function main() {
   interval *= text.length / want;
   text = formatExport(cvWindowOpeningSamples({ sampleIntervalS: interval }));
   const bytes = Buffer.from(text);
-  console.log(`file: ${(bytes.byteLength / 1024 / 1024).toFixed(1)} MB, ${text.split('\n').length - 1} rows`);
+  console.log(
+    `file: ${(bytes.byteLength / 1024 / 1024).toFixed(1)} MB, ${text.split('\n').length - 1} rows`,
+  );
 
   const stack = await startBenchStack('edgewise_bench_upload', { fresh: true });
   const db = createDb(stack.adminUrl, 2);
@@ -27,13 +29,40 @@ async function main() {
     const { createToken } = await import('../../src/lib/server/api-tokens.ts');
     const u = await db
       .insertInto('User')
-      .values({ email: `bench-${randomBytes(3).toString('hex')}@bench.test`, name: 'Bench contributor', role: 'contributor', emailVerified: new Date() })
+      .values({
+        email: `bench-${randomBytes(3).toString('hex')}@bench.test`,
+        name: 'Bench contributor',
+        role: 'contributor',
+        emailVerified: new Date(),
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
-    const principal = { kind: 'user' as const, id: u.id, email: '', name: null, role: 'contributor' as const, labs: [], via: 'session' as const, scopes: ['read', 'write'] as ('read' | 'write')[] };
-    const token = (await createToken(db, principal, { name: 'bench', scopes: ['read', 'write'], expiresInDays: 1 })).token;
+    const principal = {
+      kind: 'user' as const,
+      id: u.id,
+      email: '',
+      name: null,
+      role: 'contributor' as const,
+      labs: [],
+      via: 'session' as const,
+      scopes: ['read', 'write'] as ('read' | 'write')[],
+    };
+    const token = (
+      await createToken(db, principal, {
+        name: 'bench',
+        scopes: ['read', 'write'],
+        expiresInDays: 1,
+      })
+    ).token;
     const call = (p: string, method = 'GET', body?: unknown) =>
-      fetch(stack.url + p, { method, headers: { authorization: `Bearer ${token}`, ...(body ? { 'content-type': 'application/json' } : {}) }, body: body ? JSON.stringify(body) : undefined });
+      fetch(stack.url + p, {
+        method,
+        headers: {
+          authorization: `Bearer ${token}`,
+          ...(body ? { 'content-type': 'application/json' } : {}),
+        },
+        body: body ? JSON.stringify(body) : undefined,
+      });
     const { content } = await import('../../tests/support/record-content.ts');
     const rec = await (await call('/api/v1/records', 'POST', { content: content() })).json();
 
@@ -43,7 +72,11 @@ async function main() {
     const reader = (async () => {
       while (reading) {
         const t0 = performance.now();
-        await (await fetch(`${stack.url}/api/v1/records/${rec.handle}`, { headers: { authorization: `Bearer ${token}` } })).arrayBuffer();
+        await (
+          await fetch(`${stack.url}/api/v1/records/${rec.handle}`, {
+            headers: { authorization: `Bearer ${token}` },
+          })
+        ).arrayBuffer();
         readTimes.push(performance.now() - t0);
       }
     })();
@@ -51,7 +84,15 @@ async function main() {
     const t0 = performance.now();
     const sha256 = createHash('sha256').update(bytes).digest('hex');
     const t1 = performance.now();
-    const ticket = await (await call('/api/v1/uploads', 'POST', { record: rec.handle, name: 'big-cv.csv', size: bytes.byteLength, sha256, mediaType: 'text/csv' })).json();
+    const ticket = await (
+      await call('/api/v1/uploads', 'POST', {
+        record: rec.handle,
+        name: 'big-cv.csv',
+        size: bytes.byteLength,
+        sha256,
+        mediaType: 'text/csv',
+      })
+    ).json();
     const t2 = performance.now();
     const put = await fetch(ticket.url, { method: 'PUT', body: bytes, headers: ticket.headers });
     if (!put.ok) throw new Error(`PUT ${put.status}`);
@@ -63,10 +104,22 @@ async function main() {
     reading = false;
     await reader;
 
-    console.log(`steps: SHA-256 ${(t1 - t0).toFixed(0)} ms, declare ${(t2 - t1).toFixed(0)} ms, PUT ${(t3 - t2).toFixed(0)} ms, verify + analyse ${(t4 - t3).toFixed(0)} ms; evidence ${out.record.evidenceLevel}`);
+    console.log(
+      `steps: SHA-256 ${(t1 - t0).toFixed(0)} ms, declare ${(t2 - t1).toFixed(0)} ms, PUT ${(t3 - t2).toFixed(0)} ms, verify + analyse ${(t4 - t3).toFixed(0)} ms; evidence ${out.record.evidenceLevel}`,
+    );
     const total = (t4 - t0) / 1000;
-    report('50 MB upload end to end', `${total.toFixed(2)} s`, `≤ ${TARGET_S} s`, total <= TARGET_S);
-    report(`reads answered meanwhile (${readTimes.length})`, `p95 ${percentile(readTimes, 95).toFixed(0)} ms`, 'answered', readTimes.length > 0);
+    report(
+      '50 MB upload end to end',
+      `${total.toFixed(2)} s`,
+      `≤ ${TARGET_S} s`,
+      total <= TARGET_S,
+    );
+    report(
+      `reads answered meanwhile (${readTimes.length})`,
+      `p95 ${percentile(readTimes, 95).toFixed(0)} ms`,
+      'answered',
+      readTimes.length > 0,
+    );
     report('slowest read meanwhile', `${Math.max(...readTimes).toFixed(0)} ms`, '—', true);
   } finally {
     await db.destroy();

@@ -24,7 +24,11 @@ function run(bin: string, args: string[]) {
 }
 
 /** Dumps the database (custom format) and writes FILE.manifest.json beside it. */
-export async function backup(opts: { adminUrl: string; database: string; file: string }): Promise<Manifest> {
+export async function backup(opts: {
+  adminUrl: string;
+  database: string;
+  file: string;
+}): Promise<Manifest> {
   run('pg_dump', ['--format=custom', '--no-password', `--file=${opts.file}`, opts.adminUrl]);
   const objects = [];
   for (const o of await listObjects()) {
@@ -53,7 +57,8 @@ export interface RestoreReport {
 /** Restores a dump into an empty database and checks the objects its manifest names. */
 export async function restore(opts: { adminUrl: string; file: string }): Promise<RestoreReport> {
   const manifest = JSON.parse(readFileSync(manifestPath(opts.file), 'utf8')) as Manifest;
-  if (sha256(readFileSync(opts.file)) !== manifest.dumpSha256) throw new Error(`${opts.file} does not match its manifest (SHA-256 differs)`);
+  if (sha256(readFileSync(opts.file)) !== manifest.dumpSha256)
+    throw new Error(`${opts.file} does not match its manifest (SHA-256 differs)`);
   run('pg_restore', ['--exit-on-error', '--no-password', `--dbname=${opts.adminUrl}`, opts.file]);
   const report: RestoreReport = { objectsChecked: 0, missing: [], changed: [] };
   for (const o of manifest.objects) {

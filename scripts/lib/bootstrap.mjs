@@ -31,12 +31,17 @@ export function ensureDebianPackages(names) {
   const missing = names.filter((n) => !hasDebPackage(n));
   if (missing.length === 0) return;
   if (process.getuid?.() !== 0) {
-    throw new Error(`missing Debian packages: ${missing.join(', ')} — install them with apt-get (root needed)`);
+    throw new Error(
+      `missing Debian packages: ${missing.join(', ')} — install them with apt-get (root needed)`,
+    );
   }
   log(`installing Debian packages: ${missing.join(', ')}…`);
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
   execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit', env });
-  execFileSync('apt-get', ['install', '-y', '-qq', '--no-install-recommends', ...missing], { stdio: 'inherit', env });
+  execFileSync('apt-get', ['install', '-y', '-qq', '--no-install-recommends', ...missing], {
+    stdio: 'inherit',
+    env,
+  });
 }
 
 export const SERVER_PACKAGES = ['postgresql', 'postgresql-contrib'];

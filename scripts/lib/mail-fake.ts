@@ -36,5 +36,9 @@ export async function startMailFake(opts: { port: number; directory: string }): 
   });
   const address = server.server.address();
   const port = typeof address === 'object' && address ? address.port : opts.port;
-  return { port, directory: opts.directory, close: () => new Promise((r) => server.close(() => r())) };
+  return {
+    port,
+    directory: opts.directory,
+    close: () => new Promise((r) => server.close(() => r())),
+  };
 }

@@ -14,9 +14,14 @@ const APP_ROLE = 'edgewise_app';
 function pgBinDir(): string {
   const base = '/usr/lib/postgresql';
   const versions = existsSync(base)
-    ? readdirSync(base).filter((v) => existsSync(path.join(base, v, 'bin', 'pg_ctl'))).sort((a, b) => Number(b) - Number(a))
+    ? readdirSync(base)
+        .filter((v) => existsSync(path.join(base, v, 'bin', 'pg_ctl')))
+        .sort((a, b) => Number(b) - Number(a))
     : [];
-  if (versions.length === 0) throw new Error('PostgreSQL server binaries not found under /usr/lib/postgresql (apt-get install postgresql)');
+  if (versions.length === 0)
+    throw new Error(
+      'PostgreSQL server binaries not found under /usr/lib/postgresql (apt-get install postgresql)',
+    );
   return path.join(base, versions[0]!, 'bin');
 }
 
@@ -42,7 +47,8 @@ export function clusterDir(): string {
   const local = path.join(dataDir, 'pg');
   if (!asRoot) return local;
   mkdirSync(dataDir, { recursive: true });
-  const reachable = spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-x', dataDir]).status === 0;
+  const reachable =
+    spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-x', dataDir]).status === 0;
   if (reachable) return local;
   const tag = createHash('sha256').update(dataDir).digest('hex').slice(0, 12);
   return `/var/lib/postgresql/edgewise-${tag}`;
@@ -77,7 +83,13 @@ function portTaken(port: number): boolean {
 function clusterPort(dir: string, running: boolean): number {
   if (running) {
     // A running server says its port on line 4 of postmaster.pid (readable by root only here).
-    const pid = spawnSync(asRoot ? 'runuser' : 'cat', asRoot ? ['-u', 'postgres', '--', 'cat', path.join(dir, 'postmaster.pid')] : [path.join(dir, 'postmaster.pid')], { encoding: 'utf8' });
+    const pid = spawnSync(
+      asRoot ? 'runuser' : 'cat',
+      asRoot
+        ? ['-u', 'postgres', '--', 'cat', path.join(dir, 'postmaster.pid')]
+        : [path.join(dir, 'postmaster.pid')],
+      { encoding: 'utf8' },
+    );
     const port = Number(pid.stdout.split('\n')[3]);
     if (Number.isInteger(port) && port > 0) return port;
   }
@@ -104,7 +116,18 @@ export function ensureCluster(log: (m: string) => void = () => {}): ClusterInfo 
     writeFileSync(pwfile, adminPassword, { mode: 0o600 });
     if (asRoot) execFileSync('chown', ['postgres', pwfile]);
     try {
-      pgRun('initdb', ['-D', dir, '-U', 'postgres', '--auth-local=peer', '--auth-host=scram-sha-256', `--pwfile=${pwfile}`, '-E', 'UTF8', '--locale=C.UTF-8']);
+      pgRun('initdb', [
+        '-D',
+        dir,
+        '-U',
+        'postgres',
+        '--auth-local=peer',
+        '--auth-host=scram-sha-256',
+        `--pwfile=${pwfile}`,
+        '-E',
+        'UTF8',
+        '--locale=C.UTF-8',
+      ]);
     } finally {
       spawnSync('rm', ['-f', pwfile]);
     }
@@ -114,7 +137,18 @@ export function ensureCluster(log: (m: string) => void = () => {}): ClusterInfo 
   if (!running) {
     log(`starting PostgreSQL on 127.0.0.1:${PG_PORT}`);
     const opts = `-c listen_addresses=127.0.0.1 -p ${PG_PORT} -c unix_socket_directories=${dir} -c max_connections=200 -c fsync=on`;
-    pgRun('pg_ctl', ['start', '-w', '-t', '60', '-D', dir, '-l', path.join(dir, 'server.log'), '-o', opts]);
+    pgRun('pg_ctl', [
+      'start',
+      '-w',
+      '-t',
+      '60',
+      '-D',
+      dir,
+      '-l',
+      path.join(dir, 'server.log'),
+      '-o',
+      opts,
+    ]);
   }
   const enc = encodeURIComponent;
   return {
@@ -141,7 +175,11 @@ export function killCluster(): void {
   pgRun('pg_ctl', ['stop', '-m', 'immediate', '-D', dir], { allowFail: true });
 }
 
-async function withAdmin<T>(info: ClusterInfo, database: string, fn: (c: pg.Client) => Promise<T>): Promise<T> {
+async function withAdmin<T>(
+  info: ClusterInfo,
+  database: string,
+  fn: (c: pg.Client) => Promise<T>,
+): Promise<T> {
   const client = new pg.Client({ connectionString: info.adminUrl(database) });
   await client.connect();
   try {
@@ -157,7 +195,11 @@ const ident = (name: string) => {
 };
 
 /** Creates the app's login role (once per cluster) and the database if missing. */
-export async function ensureDatabase(info: ClusterInfo, database: string, opts: { fresh?: boolean } = {}) {
+export async function ensureDatabase(
+  info: ClusterInfo,
+  database: string,
+  opts: { fresh?: boolean } = {},
+) {
   const appPassword = localSecret('pg-app-password');
   await withAdmin(info, 'postgres', async (c) => {
     const role = await c.query('SELECT 1 FROM pg_roles WHERE rolname = $1', [APP_ROLE]);
@@ -178,7 +220,9 @@ export async function grantAppRole(info: ClusterInfo, database: string) {
   await withAdmin(info, database, async (c) => {
     await c.query(`REVOKE ALL ON SCHEMA public FROM PUBLIC`);
     await c.query(`GRANT USAGE ON SCHEMA public TO ${APP_ROLE}`);
-    await c.query(`GRANT SELECT, INSERT, UPDATE, DELETE ON ALL TABLES IN SCHEMA public TO ${APP_ROLE}`);
+    await c.query(
+      `GRANT SELECT, INSERT, UPDATE, DELETE ON ALL TABLES IN SCHEMA public TO ${APP_ROLE}`,
+    );
     await c.query(`GRANT USAGE, SELECT ON ALL SEQUENCES IN SCHEMA public TO ${APP_ROLE}`);
     // Tables listed in `append_only_tables` (kept by migrations) lose UPDATE and DELETE.
     const tables = await c.query<{ table_name: string }>(
@@ -191,13 +235,17 @@ export async function grantAppRole(info: ClusterInfo, database: string) {
 }
 
 export async function dropDatabase(info: ClusterInfo, database: string) {
-  await withAdmin(info, 'postgres', (c) => c.query(`DROP DATABASE IF EXISTS ${ident(database)} WITH (FORCE)`));
+  await withAdmin(info, 'postgres', (c) =>
+    c.query(`DROP DATABASE IF EXISTS ${ident(database)} WITH (FORCE)`),
+  );
 }
 
 /** Test databases left behind by runs that were killed before their teardown. */
 export async function dropStaleTestDatabases(info: ClusterInfo) {
   await withAdmin(info, 'postgres', async (c) => {
-    const r = await c.query<{ datname: string }>(`SELECT datname FROM pg_database WHERE datname LIKE 'edgewise_test_%'`);
+    const r = await c.query<{ datname: string }>(
+      `SELECT datname FROM pg_database WHERE datname LIKE 'edgewise_test_%'`,
+    );
     for (const { datname } of r.rows) {
       const pid = Number(datname.split('_').pop());
       let alive = false;
@@ -209,4 +257,3 @@ export async function dropStaleTestDatabases(info: ClusterInfo) {
     }
   });
 }
-

@@ -15,13 +15,17 @@ export const log = (msg: string) => console.log(`[edgewise] ${msg}`);
 export const migrationsDir = path.join(projectRoot, 'migrations');
 
 /** Cluster up, database present (fresh when asked), migrations run, app role granted. */
-export async function prepareDatabase(database: string, opts: { fresh?: boolean; quiet?: boolean } = {}) {
+export async function prepareDatabase(
+  database: string,
+  opts: { fresh?: boolean; quiet?: boolean } = {},
+) {
   const cluster = ensureCluster(opts.quiet ? undefined : log);
   await ensureDatabase(cluster, database, { fresh: opts.fresh });
   const admin = createDb(cluster.adminUrl(database), 2);
   try {
     const results = await migrateToLatest(admin, migrationsDir);
-    for (const r of results ?? []) if (!opts.quiet) log(`migration ${r.migrationName}: ${r.status}`);
+    for (const r of results ?? [])
+      if (!opts.quiet) log(`migration ${r.migrationName}: ${r.status}`);
   } finally {
     await admin.destroy();
   }
@@ -35,14 +39,26 @@ export interface Fakes {
   close(): Promise<void>;
 }
 
-export async function startFakes(opts: { s3Port: number; smtpPort: number; s3Dir: string; mailDir: string; bucket: string }): Promise<Fakes> {
+export async function startFakes(opts: {
+  s3Port: number;
+  smtpPort: number;
+  s3Dir: string;
+  mailDir: string;
+  bucket: string;
+}): Promise<Fakes> {
   const s3 = await startS3Fake({ port: opts.s3Port, directory: opts.s3Dir, bucket: opts.bucket });
   const mail = await startMailFake({ port: opts.smtpPort, directory: opts.mailDir });
   return { s3, mail, close: async () => void (await Promise.all([s3.close(), mail.close()])) };
 }
 
 /** Environment for the app server, from the parts started above. */
-export function appEnv(p: { cluster: ClusterInfo; database: string; fakes: Fakes; origin: string; appEnv: 'development' | 'test' }): Record<string, string> {
+export function appEnv(p: {
+  cluster: ClusterInfo;
+  database: string;
+  fakes: Fakes;
+  origin: string;
+  appEnv: 'development' | 'test';
+}): Record<string, string> {
   return {
     APP_ENV: p.appEnv,
     PUBLIC_ORIGIN: p.origin,
@@ -61,7 +77,12 @@ export function buildApp(outDir: string, quiet = false): void {
   const started = Date.now();
   const r = spawnSync(path.join(projectRoot, 'node_modules', '.bin', 'astro'), ['build'], {
     cwd: projectRoot,
-    env: { ...process.env, NODE_ENV: 'production', EDGEWISE_OUT_DIR: outDir, ASTRO_TELEMETRY_DISABLED: '1' },
+    env: {
+      ...process.env,
+      NODE_ENV: 'production',
+      EDGEWISE_OUT_DIR: outDir,
+      ASTRO_TELEMETRY_DISABLED: '1',
+    },
     stdio: quiet ? 'pipe' : 'inherit',
     encoding: 'utf8',
   });
@@ -70,10 +91,23 @@ export function buildApp(outDir: string, quiet = false): void {
 }
 
 /** Starts the built server and resolves once /api/health answers 200. */
-export async function startApp(outDir: string, env: Record<string, string>, port: number, quiet = false): Promise<ChildProcess> {
+export async function startApp(
+  outDir: string,
+  env: Record<string, string>,
+  port: number,
+  quiet = false,
+): Promise<ChildProcess> {
   const child = spawn(process.execPath, [path.join(outDir, 'app-server.mjs')], {
     cwd: projectRoot,
-    env: { ...process.env, ...env, HOST: '127.0.0.1', PORT: String(port), NODE_ENV: 'production', ASTRO_TELEMETRY_DISABLED: '1', AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' },
+    env: {
+      ...process.env,
+      ...env,
+      HOST: '127.0.0.1',
+      PORT: String(port),
+      NODE_ENV: 'production',
+      ASTRO_TELEMETRY_DISABLED: '1',
+      AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true',
+    },
     stdio: quiet ? ['ignore', 'pipe', 'pipe'] : ['ignore', 'inherit', 'inherit'],
   });
   let output = '';
@@ -87,7 +121,8 @@ export async function startApp(outDir: string, env: Record<string, string>, port
   const deadline = Date.now() + 30_000;
   let last = '';
   while (Date.now() < deadline) {
-    if (child.exitCode !== null) throw new Error(`app server exited with ${child.exitCode}\n${output}`);
+    if (child.exitCode !== null)
+      throw new Error(`app server exited with ${child.exitCode}\n${output}`);
     try {
       const res = await fetch(`http://127.0.0.1:${port}/api/health`);
       last = `${res.status} ${await res.text()}`;
@@ -140,7 +175,11 @@ export async function useLocalStorage(defaultPort = 4580): Promise<() => Promise
     process.env.S3_ENDPOINT = `http://127.0.0.1:${defaultPort}`;
     return async () => {};
   }
-  const s3 = await startS3Fake({ port: 0, directory: path.join(dataDir, 's3'), bucket: 'edgewise-raw' });
+  const s3 = await startS3Fake({
+    port: 0,
+    directory: path.join(dataDir, 's3'),
+    bucket: 'edgewise-raw',
+  });
   process.env.S3_ENDPOINT = s3.endpoint;
   return () => s3.close();
 }

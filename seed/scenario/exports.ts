@@ -1,7 +1,12 @@
 // The shapes raw exports come in: each invented instrument writes its own separator, decimal
 // mark, units, header style and preamble, and one writes the older current sign. A file that the
 // engine cannot read by itself (no header) carries the column mapping a contributor would give.
-import { formatExport, type ExportFormat, type ModelSamples, type Quantity } from '../../src/lib/analysis/index.ts';
+import {
+  formatExport,
+  type ExportFormat,
+  type ModelSamples,
+  type Quantity,
+} from '../../src/lib/analysis/index.ts';
 import type { ColumnMap } from '../../src/lib/analysis/index.ts';
 
 export interface ExportShape {
@@ -17,7 +22,11 @@ export interface ExportShape {
 }
 
 const byKind = (kind: 'cv' | 'lsv' | 'hold'): Quantity[] =>
-  kind === 'cv' ? ['time', 'potential', 'current', 'cycle'] : kind === 'hold' ? ['time', 'step', 'potential', 'current'] : ['time', 'potential', 'current'];
+  kind === 'cv'
+    ? ['time', 'potential', 'current', 'cycle']
+    : kind === 'hold'
+      ? ['time', 'step', 'potential', 'current']
+      : ['time', 'potential', 'current'];
 
 export const SHAPES: readonly ExportShape[] = [
   {
@@ -26,7 +35,13 @@ export const SHAPES: readonly ExportShape[] = [
     extension: 'csv',
     mediaType: 'text/csv',
     sign: 'iupac',
-    format: (kind, meta) => ({ separator: ',', units: { time: 's', potential: 'V', current: 'A' }, metadata: meta.map((m) => `# ${m}`), columns: byKind(kind), significantDigits: 7 }),
+    format: (kind, meta) => ({
+      separator: ',',
+      units: { time: 's', potential: 'V', current: 'A' },
+      metadata: meta.map((m) => `# ${m}`),
+      columns: byKind(kind),
+      significantDigits: 7,
+    }),
   },
   {
     key: 'voltaris-semicolon',
@@ -101,12 +116,25 @@ export const SHAPES: readonly ExportShape[] = [
     extension: 'tsv',
     mediaType: 'text/tab-separated-values',
     sign: 'iupac',
-    format: (kind) => ({ separator: '\t', header: false, units: { time: 's', potential: 'V', current: 'uA' }, columns: byKind(kind), significantDigits: 7 }),
+    format: (kind) => ({
+      separator: '\t',
+      header: false,
+      units: { time: 's', potential: 'V', current: 'uA' },
+      columns: byKind(kind),
+      significantDigits: 7,
+    }),
     columns: (kind) => {
       const cols = byKind(kind);
       const map: ColumnMap = {};
       cols.forEach((q, i) => {
-        map[q] = q === 'time' ? { column: i, unit: 's' } : q === 'potential' ? { column: i, unit: 'V' } : q === 'current' ? { column: i, unit: 'uA' } : { column: i };
+        map[q] =
+          q === 'time'
+            ? { column: i, unit: 's' }
+            : q === 'potential'
+              ? { column: i, unit: 'V' }
+              : q === 'current'
+                ? { column: i, unit: 'uA' }
+                : { column: i };
       });
       return map;
     },
@@ -114,6 +142,11 @@ export const SHAPES: readonly ExportShape[] = [
 ];
 
 /** Writes samples in a shape. */
-export function writeExport(samples: ModelSamples, shape: ExportShape, kind: 'cv' | 'lsv' | 'hold', meta: string[]): string {
+export function writeExport(
+  samples: ModelSamples,
+  shape: ExportShape,
+  kind: 'cv' | 'lsv' | 'hold',
+  meta: string[],
+): string {
   return formatExport(samples, { ...shape.format(kind, meta), sign: shape.sign });
 }

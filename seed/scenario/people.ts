@@ -19,19 +19,22 @@ export const LABS: readonly ScenarioLab[] = [
     slug: 'riverbend-interfaces',
     name: 'Riverbend University Interfaces Group',
     kind: 'university group',
-    about: 'Model electrodes (glassy carbon, platinum, gold) in aqueous and ionic-liquid electrolytes; how the electrode changes the window.',
+    about:
+      'Model electrodes (glassy carbon, platinum, gold) in aqueous and ionic-liquid electrolytes; how the electrode changes the window.',
   },
   {
     slug: 'northmoor-energy',
     name: 'Northmoor Institute for Energy Materials',
     kind: 'research institute',
-    about: 'Lithium and sodium battery electrolytes, current collectors, and concentrated aqueous ("water-in-salt") electrolytes.',
+    about:
+      'Lithium and sodium battery electrolytes, current collectors, and concentrated aqueous ("water-in-salt") electrolytes.',
   },
   {
     slug: 'kestrel-cells',
     name: 'Kestrel Cells R&D',
     kind: 'industrial R&D',
-    about: 'Supercapacitor development: activated-carbon electrodes, symmetric cells and float (hold) tests.',
+    about:
+      'Supercapacitor development: activated-carbon electrodes, symmetric cells and float (hold) tests.',
   },
 ];
 
@@ -50,8 +53,24 @@ export interface ScenarioPerson {
 // The first six are the sign-in accounts of the accounts seed (same e-mails and roles); the rest
 // are colleagues who own records, review them or flag them.
 export const PEOPLE: readonly ScenarioPerson[] = [
-  { key: 'admin', name: 'Iris Vantongeren', email: 'admin@edgewise-demo.test', role: 'admin', affiliation: 'Edgewise', labs: [], part: 'runs the service' },
-  { key: 'curator', name: 'Tomas Okafor-Lind', email: 'curator@edgewise-demo.test', role: 'curator', affiliation: 'Edgewise', labs: [], part: 'reviews records, answers flags' },
+  {
+    key: 'admin',
+    name: 'Iris Vantongeren',
+    email: 'admin@edgewise-demo.test',
+    role: 'admin',
+    affiliation: 'Edgewise',
+    labs: [],
+    part: 'runs the service',
+  },
+  {
+    key: 'curator',
+    name: 'Tomas Okafor-Lind',
+    email: 'curator@edgewise-demo.test',
+    role: 'curator',
+    affiliation: 'Edgewise',
+    labs: [],
+    part: 'reviews records, answers flags',
+  },
   {
     key: 'riverbend-manager',
     name: 'Jun Aldana',
@@ -79,7 +98,15 @@ export const PEOPLE: readonly ScenarioPerson[] = [
     labs: [['northmoor-energy', 'manager']],
     part: 'heads the electrolyte team',
   },
-  { key: 'reader', name: 'Pell Ravensworth', email: 'reader@edgewise-demo.test', role: 'reader', affiliation: 'Kestrel Cells', labs: [], part: 'formulator who reads and flags' },
+  {
+    key: 'reader',
+    name: 'Pell Ravensworth',
+    email: 'reader@edgewise-demo.test',
+    role: 'reader',
+    affiliation: 'Kestrel Cells',
+    labs: [],
+    part: 'formulator who reads and flags',
+  },
   {
     key: 'riverbend-student',
     name: 'Dario Quenneville',
@@ -125,8 +152,24 @@ export const PEOPLE: readonly ScenarioPerson[] = [
     labs: [['kestrel-cells', 'member']],
     part: 'runs the float tests and cell windows',
   },
-  { key: 'curator-2', name: 'Saskia Oyelaran', email: 'saskia.oyelaran@edgewise-demo.test', role: 'curator', affiliation: 'Edgewise', labs: [], part: 'curator for aqueous and ionic-liquid records' },
-  { key: 'reader-2', name: 'Noor Abernethy', email: 'noor.abernethy@haldenworks.test', role: 'reader', affiliation: 'Halden Capacitor Works', labs: [], part: 'reader comparing windows for a new cell' },
+  {
+    key: 'curator-2',
+    name: 'Saskia Oyelaran',
+    email: 'saskia.oyelaran@edgewise-demo.test',
+    role: 'curator',
+    affiliation: 'Edgewise',
+    labs: [],
+    part: 'curator for aqueous and ionic-liquid records',
+  },
+  {
+    key: 'reader-2',
+    name: 'Noor Abernethy',
+    email: 'noor.abernethy@haldenworks.test',
+    role: 'reader',
+    affiliation: 'Halden Capacitor Works',
+    labs: [],
+    part: 'reader comparing windows for a new cell',
+  },
 ];
 
 export type PersonKey = (typeof PEOPLE)[number]['key'];
@@ -141,7 +184,28 @@ export const JOURNALS = [
 ] as const;
 
 // Given and family names combined at random for invented authors.
-export const GIVEN_NAMES = ['Aino', 'Bastien', 'Chiara', 'Dagny', 'Eero', 'Farah', 'Gideon', 'Hana', 'Ilse', 'Joaquim', 'Kalani', 'Lucan', 'Maelis', 'Nils', 'Orla', 'Priya', 'Quill', 'Rafe', 'Sunniva', 'Tobiah'] as const;
+export const GIVEN_NAMES = [
+  'Aino',
+  'Bastien',
+  'Chiara',
+  'Dagny',
+  'Eero',
+  'Farah',
+  'Gideon',
+  'Hana',
+  'Ilse',
+  'Joaquim',
+  'Kalani',
+  'Lucan',
+  'Maelis',
+  'Nils',
+  'Orla',
+  'Priya',
+  'Quill',
+  'Rafe',
+  'Sunniva',
+  'Tobiah',
+] as const;
 export const FAMILY_NAMES = [
   'Ardelean',
   'Brightwater',

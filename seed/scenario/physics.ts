@@ -24,7 +24,13 @@ export const AC_F_PER_G = 100;
 /** Onsets move inward by this much per kelvin above 25 °C (model parameter: decomposition is faster warm). */
 const INWARD_V_PER_K = 0.002;
 
-export type ElectrodeId = 'glassy-carbon' | 'platinum' | 'gold' | 'activated-carbon' | 'stainless-steel' | 'aluminium';
+export type ElectrodeId =
+  | 'glassy-carbon'
+  | 'platinum'
+  | 'gold'
+  | 'activated-carbon'
+  | 'stainless-steel'
+  | 'aluminium';
 
 interface ElectrodeModel {
   /** Active area ÷ geometric area of a planar electrode (activated carbon goes by mass instead). */
@@ -36,15 +42,39 @@ interface ElectrodeModel {
 }
 
 export const ELECTRODES: Readonly<Record<ElectrodeId, ElectrodeModel>> = {
-  'glassy-carbon': { roughness: 1.2, organic: { anodic: 0, cathodic: 0 }, aqueous: { her: 0.45, oer: 0.55 } },
+  'glassy-carbon': {
+    roughness: 1.2,
+    organic: { anodic: 0, cathodic: 0 },
+    aqueous: { her: 0.45, oer: 0.55 },
+  },
   // Platinum catalyses both reduction and oxidation of solvent and water.
-  platinum: { roughness: 1.4, organic: { anodic: -0.3, cathodic: 0.25 }, aqueous: { her: 0.03, oer: 0.38 } },
-  gold: { roughness: 1.3, organic: { anodic: -0.15, cathodic: 0.15 }, aqueous: { her: 0.22, oer: 0.5 } },
+  platinum: {
+    roughness: 1.4,
+    organic: { anodic: -0.3, cathodic: 0.25 },
+    aqueous: { her: 0.03, oer: 0.38 },
+  },
+  gold: {
+    roughness: 1.3,
+    organic: { anodic: -0.15, cathodic: 0.15 },
+    aqueous: { her: 0.22, oer: 0.5 },
+  },
   // Surface groups of activated carbon react earlier than a glassy-carbon surface; its area is counted by mass.
-  'activated-carbon': { roughness: 1, organic: { anodic: -0.12, cathodic: 0.1 }, aqueous: { her: 0.35, oer: 0.45 } },
+  'activated-carbon': {
+    roughness: 1,
+    organic: { anodic: -0.12, cathodic: 0.1 },
+    aqueous: { her: 0.35, oer: 0.45 },
+  },
   // Steel dissolves (transpassive) before most solvents oxidise.
-  'stainless-steel': { roughness: 2, organic: { anodic: -0.35, cathodic: 0.05 }, aqueous: { her: 0.3, oer: 0.35 } },
-  aluminium: { roughness: 1.5, organic: { anodic: 0, cathodic: 0.1 }, aqueous: { her: 0.6, oer: 0.2 } },
+  'stainless-steel': {
+    roughness: 2,
+    organic: { anodic: -0.35, cathodic: 0.05 },
+    aqueous: { her: 0.3, oer: 0.35 },
+  },
+  aluminium: {
+    roughness: 1.5,
+    organic: { anodic: 0, cathodic: 0.1 },
+    aqueous: { her: 0.6, oer: 0.2 },
+  },
 };
 
 /** Aluminium pits where the anion forms no fluoride film: onset vs SHE (model value). */
@@ -59,7 +89,13 @@ export interface ElectrolyteSystem {
   /** As written in a record (vocabulary names). */
   electrolyte: {
     solvents: { term: string; fraction: number; fractionBasis?: 'volume' | 'mass' | 'mole' }[];
-    salts: { term: string; concentration: { value: number; basis: 'mol/L' | 'mol/kg' | 'mole fraction' | 'mass fraction' } }[];
+    salts: {
+      term: string;
+      concentration: {
+        value: number;
+        basis: 'mol/L' | 'mol/kg' | 'mole fraction' | 'mass fraction';
+      };
+    }[];
     waterContentPpm?: number;
     pH?: number;
   };
@@ -88,19 +124,27 @@ export function waterInSaltWideningV(molality: number | undefined): number {
 }
 
 /** Onset of decomposition on one side for an electrolyte on an electrode at a temperature. */
-export function onset(sys: ElectrolyteSystem, electrode: ElectrodeId, side: Side, temperatureC = 25): Onset {
+export function onset(
+  sys: ElectrolyteSystem,
+  electrode: ElectrodeId,
+  side: Side,
+  temperatureC = 25,
+): Onset {
   const el = ELECTRODES[electrode];
   const inward = Math.max(0, temperatureC - 25) * INWARD_V_PER_K;
   const slopeV = sys.slopes[side];
   if (sys.family === 'aqueous') {
     const w = waterWindow(sys.electrolyte.pH ?? 7, temperatureC + 273.15);
     const wide = waterInSaltWideningV(sys.molality);
-    return side === 'anodic' ? { sheV: w.oerV + el.aqueous.oer + wide - inward, slopeV } : { sheV: w.herV - el.aqueous.her - wide + inward, slopeV };
+    return side === 'anodic'
+      ? { sheV: w.oerV + el.aqueous.oer + wide - inward, slopeV }
+      : { sheV: w.herV - el.aqueous.her - wide + inward, slopeV };
   }
   if (side === 'anodic') {
     let e = sys.anodicSheV! + el.organic.anodic - inward;
     // Pitting of aluminium is steep (a breakdown, not a slow film growth).
-    if (electrode === 'aluminium' && !sys.passivatesAluminium && AL_PITTING_SHE_V < e) return { sheV: AL_PITTING_SHE_V - inward, slopeV: 0.08 };
+    if (electrode === 'aluminium' && !sys.passivatesAluminium && AL_PITTING_SHE_V < e)
+      return { sheV: AL_PITTING_SHE_V - inward, slopeV: 0.08 };
     return { sheV: e, slopeV };
   }
   return { sheV: sys.cathodicSheV! + el.organic.cathodic + inward, slopeV };
@@ -146,7 +190,10 @@ export function electrodeCapacitance(c: Cell): { capacitanceF: number; activeAre
  * electrode moves by half the cell voltage from rest, so the onset cell voltage is twice the
  * nearer electrode's distance from rest and the slope doubles; only positive voltages are opened.
  */
-export function sideModel(c: Cell, side: Side): { startV: number; capacitanceF: number; tafel: Tafel; direction: Side } {
+export function sideModel(
+  c: Cell,
+  side: Side,
+): { startV: number; capacitanceF: number; tafel: Tafel; direction: Side } {
   const { capacitanceF, activeAreaCm2 } = electrodeCapacitance(c);
   const i0A = J_ONSET_A_PER_CM2 * activeAreaCm2;
   const rest = restSheV(c.system, c.temperatureC);
@@ -156,31 +203,54 @@ export function sideModel(c: Cell, side: Side): { startV: number; capacitanceF: 
     const dAn = an.sheV - rest;
     const dCa = rest - ca.sheV;
     const near = dAn <= dCa ? an : ca;
-    return { startV: 0, capacitanceF: capacitanceF / 2, tafel: { i0A, onsetV: 2 * Math.min(dAn, dCa), slopeVPerDecade: 2 * near.slopeV }, direction: 'anodic' };
+    return {
+      startV: 0,
+      capacitanceF: capacitanceF / 2,
+      tafel: { i0A, onsetV: 2 * Math.min(dAn, dCa), slopeVPerDecade: 2 * near.slopeV },
+      direction: 'anodic',
+    };
   }
   const o = onset(c.system, c.electrode, side, c.temperatureC);
   const ctx = { pH: c.system.electrolyte.pH ?? 7, temperatureK: c.temperatureC + 273.15 };
   const toFile = (she: number) => convertPotential(she, 'SHE', c.scale!, ctx);
-  return { startV: toFile(rest), capacitanceF, tafel: { i0A, onsetV: toFile(o.sheV), slopeVPerDecade: o.slopeV }, direction: side };
+  return {
+    startV: toFile(rest),
+    capacitanceF,
+    tafel: { i0A, onsetV: toFile(o.sheV), slopeVPerDecade: o.slopeV },
+    direction: side,
+  };
 }
 
 /** Faradaic current (A, IUPAC sign) of a Tafel model on one side. */
 function faradaic(t: Tafel, e: number, side: Side): number {
-  return side === 'anodic' ? t.i0A * 10 ** ((e - t.onsetV) / t.slopeVPerDecade) : -t.i0A * 10 ** ((t.onsetV - e) / t.slopeVPerDecade);
+  return side === 'anodic'
+    ? t.i0A * 10 ** ((e - t.onsetV) / t.slopeVPerDecade)
+    : -t.i0A * 10 ** ((t.onsetV - e) / t.slopeVPerDecade);
 }
 
 /** Closed-form S-value of a window-opening cycle to vertex E_v (valid while the return current keeps its sign). */
-export function modelS(m: ReturnType<typeof sideModel>, scanRateVPerS: number, vertexV: number): number {
+export function modelS(
+  m: ReturnType<typeof sideModel>,
+  scanRateVPerS: number,
+  vertexV: number,
+): number {
   const t = m.tafel;
   const sgn = m.direction === 'anodic' ? 1 : -1;
   const d = (e: number) => sgn * (e - t.onsetV);
-  const phi = ((t.i0A * t.slopeVPerDecade) / (scanRateVPerS * Math.LN10)) * (10 ** (d(vertexV) / t.slopeVPerDecade) - 10 ** (d(m.startV) / t.slopeVPerDecade));
+  const phi =
+    ((t.i0A * t.slopeVPerDecade) / (scanRateVPerS * Math.LN10)) *
+    (10 ** (d(vertexV) / t.slopeVPerDecade) - 10 ** (d(m.startV) / t.slopeVPerDecade));
   const q = m.capacitanceF * Math.abs(vertexV - m.startV);
   return (q + phi) / (q - phi) - 1;
 }
 
 /** Bisection for the potential where f (increasing away from start) reaches a target. */
-function solveOutward(m: { startV: number; direction: Side }, f: (e: number) => number, target: number, spanV = 4): number {
+function solveOutward(
+  m: { startV: number; direction: Side },
+  f: (e: number) => number,
+  target: number,
+  spanV = 4,
+): number {
   const sgn = m.direction === 'anodic' ? 1 : -1;
   let lo = 0.001;
   let hi = spanV;
@@ -210,7 +280,10 @@ export function modelLimit(
     return solveOutward(m, (e) => modelS(m, method.scanRateVPerS!, e), crit.s);
   }
   if (crit.kind !== 'current') throw new Error('LSV and holds need a current cutoff');
-  const background = method.kind === 'lsv' ? m.capacitanceF * method.scanRateVPerS! : holdDecayA(m.capacitanceF, method.stepV!, method.holdS!) / Math.sqrt(method.holdS!);
+  const background =
+    method.kind === 'lsv'
+      ? m.capacitanceF * method.scanRateVPerS!
+      : holdDecayA(m.capacitanceF, method.stepV!, method.holdS!) / Math.sqrt(method.holdS!);
   return solveOutward(m, (e) => sgn * faradaic(m.tafel, e, m.direction) + background, crit.amperes);
 }
 
@@ -224,7 +297,13 @@ export function holdDecayA(capacitanceF: number, stepV: number, holdS: number): 
 export interface Run {
   cell: Cell;
   side: Side;
-  method: { kind: 'cv' | 'lsv' | 'hold'; scanRateVPerS?: number; vertexStepV?: number; stepV?: number; holdS?: number };
+  method: {
+    kind: 'cv' | 'lsv' | 'hold';
+    scanRateVPerS?: number;
+    vertexStepV?: number;
+    stepV?: number;
+    holdS?: number;
+  };
   crit: ModelCriterion;
   /** Rows to aim for (the file stays small enough to load quickly). */
   rows: number;

@@ -32,14 +32,22 @@ function windowsHref(r: CoverageRow, electrode: string): string {
 }
 
 function evidenceWords(c: CoverageCell): string {
-  return LEVELS.filter((l) => c.byEvidence[l]).map((l) => `${c.byEvidence[l]} ${l}`).join(', ');
+  return LEVELS.filter((l) => c.byEvidence[l])
+    .map((l) => `${c.byEvidence[l]} ${l}`)
+    .join(', ');
 }
 
 /** The cell's count split by evidence level, strongest first, as a thin bar (SVG: no inline styles). */
 function EvidenceBar({ cell }: { cell: CoverageCell }) {
   let x = 0;
   return (
-    <svg width="40" height="6" viewBox="0 0 40 6" aria-hidden="true" className="mx-auto mt-1 block rounded-sm">
+    <svg
+      width="40"
+      height="6"
+      viewBox="0 0 40 6"
+      aria-hidden="true"
+      className="mx-auto mt-1 block rounded-sm"
+    >
       <rect width="40" height="6" className="fill-rule/50 dark:fill-night-rule" />
       {LEVELS.map((l) => {
         const n = cell.byEvidence[l];
@@ -53,7 +61,17 @@ function EvidenceBar({ cell }: { cell: CoverageCell }) {
   );
 }
 
-function Cell({ row, cell, electrodeName, rowLabel }: { row: CoverageRow; cell: CoverageCell | undefined; electrodeName: string; rowLabel: string }) {
+function Cell({
+  row,
+  cell,
+  electrodeName,
+  rowLabel,
+}: {
+  row: CoverageRow;
+  cell: CoverageCell | undefined;
+  electrodeName: string;
+  rowLabel: string;
+}) {
   if (!cell)
     return (
       <td className="border-b border-l border-rule/60 dark:border-night-rule/60 px-2 py-1.5 text-center bg-[repeating-linear-gradient(135deg,transparent_0_5px,var(--color-rule)_5px_6px)] dark:bg-[repeating-linear-gradient(135deg,transparent_0_5px,var(--color-night-rule)_5px_6px)]">
@@ -85,7 +103,10 @@ function Cell({ row, cell, electrodeName, rowLabel }: { row: CoverageRow; cell: 
 function CoverageView() {
   const matrix = useQuery(coverageQueries.matrix());
   const vocab = useQuery(vocabularyQueries.all());
-  const terms = useMemo(() => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined), [vocab.data]);
+  const terms = useMemo(
+    () => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined),
+    [vocab.data],
+  );
   const [filter, setFilter] = useState('');
   const id = useId();
 
@@ -97,15 +118,24 @@ function CoverageView() {
       [r.salt, r.solvent].some((t) => {
         if (!t) return false;
         const term = terms?.get(t);
-        return [t, term?.name ?? '', ...(term?.abbreviations ?? []), ...(term?.synonyms ?? [])].some((n) => n.toLowerCase().includes(f));
+        return [
+          t,
+          term?.name ?? '',
+          ...(term?.abbreviations ?? []),
+          ...(term?.synonyms ?? []),
+        ].some((n) => n.toLowerCase().includes(f));
       }),
     );
   }, [matrix.data, filter, terms]);
 
-  if (matrix.isError) return <Failed error={matrix.error} retry={() => void matrix.refetch()} what="the coverage matrix" />;
+  if (matrix.isError)
+    return (
+      <Failed error={matrix.error} retry={() => void matrix.refetch()} what="the coverage matrix" />
+    );
   if (matrix.isPending) return <Loading what="the coverage matrix" />;
   const { electrodes } = matrix.data;
-  if (matrix.data.rows.length === 0) return <Empty>No published records yet: every combination is still open.</Empty>;
+  if (matrix.data.rows.length === 0)
+    return <Empty>No published records yet: every combination is still open.</Empty>;
   const filled = matrix.data.rows.reduce((n, r) => n + r.cells.length, 0);
   const possible = matrix.data.rows.length * electrodes.length;
 
@@ -116,23 +146,48 @@ function CoverageView() {
           <label htmlFor={`${id}-f`} className="text-sm font-semibold">
             Show electrolytes containing
           </label>
-          <input id={`${id}-f`} type="search" value={filter} onChange={(e) => setFilter(e.target.value)} placeholder="e.g. LiTFSI, PC, water" className={`${input} w-64 max-w-full`} />
+          <input
+            id={`${id}-f`}
+            type="search"
+            value={filter}
+            onChange={(e) => setFilter(e.target.value)}
+            placeholder="e.g. LiTFSI, PC, water"
+            className={`${input} w-64 max-w-full`}
+          />
         </div>
         <p className={`text-sm ${muted}`} data-testid="coverage-summary">
-          {matrix.data.rows.length} electrolyte{matrix.data.rows.length === 1 ? '' : 's'} × {electrodes.length} electrode{electrodes.length === 1 ? '' : 's'}: {filled} of {possible} combinations have a record, {possible - filled} are gaps.
+          {matrix.data.rows.length} electrolyte{matrix.data.rows.length === 1 ? '' : 's'} ×{' '}
+          {electrodes.length} electrode{electrodes.length === 1 ? '' : 's'}: {filled} of {possible}{' '}
+          combinations have a record, {possible - filled} are gaps.
         </p>
       </div>
       <figure className="grid grid-cols-[minmax(0,1fr)] gap-2 min-w-0">
-        <div className={`${panel} relative max-h-[36rem] overflow-auto`} tabIndex={0} role="region" aria-label="Coverage matrix (scrolls)">
+        <div
+          className={`${panel} relative max-h-[36rem] overflow-auto`}
+          tabIndex={0}
+          role="region"
+          aria-label="Coverage matrix (scrolls)"
+        >
           <table className="text-sm border-separate border-spacing-0" data-testid="coverage-table">
-            <caption className="sr-only">Published records per electrolyte (rows) and working electrode (columns); each count links to those records</caption>
+            <caption className="sr-only">
+              Published records per electrolyte (rows) and working electrode (columns); each count
+              links to those records
+            </caption>
             <thead>
               <tr>
-                <th scope="col" className="sticky left-0 top-0 z-20 bg-panel dark:bg-night-panel border-b border-rule dark:border-night-rule px-3 py-2 text-left font-semibold">
+                <th
+                  scope="col"
+                  className="sticky left-0 top-0 z-20 bg-panel dark:bg-night-panel border-b border-rule dark:border-night-rule px-3 py-2 text-left font-semibold"
+                >
                   Salt in solvent
                 </th>
                 {electrodes.map((e) => (
-                  <th key={e.id} scope="col" title={longName(terms, e.id)} className="sticky top-0 z-10 bg-panel dark:bg-night-panel border-b border-l border-rule dark:border-night-rule px-2 py-2 font-semibold align-bottom min-w-20">
+                  <th
+                    key={e.id}
+                    scope="col"
+                    title={longName(terms, e.id)}
+                    className="sticky top-0 z-10 bg-panel dark:bg-night-panel border-b border-l border-rule dark:border-night-rule px-2 py-2 font-semibold align-bottom min-w-20"
+                  >
                     <span className="block max-w-28 leading-tight">{longName(terms, e.id)}</span>
                     <span className={`block text-xs font-normal num ${muted}`}>{e.total}</span>
                   </th>
@@ -143,12 +198,24 @@ function CoverageView() {
               {rows.map((r) => {
                 const label = rowName(r, terms);
                 return (
-                  <tr key={`${r.salt}|${r.solvent}`} data-row={`${r.salt ?? ''}|${r.solvent ?? ''}`}>
-                    <th scope="row" className="sticky left-0 z-10 bg-panel dark:bg-night-panel border-b border-rule/60 dark:border-night-rule/60 px-3 py-1.5 text-left font-normal whitespace-nowrap">
+                  <tr
+                    key={`${r.salt}|${r.solvent}`}
+                    data-row={`${r.salt ?? ''}|${r.solvent ?? ''}`}
+                  >
+                    <th
+                      scope="row"
+                      className="sticky left-0 z-10 bg-panel dark:bg-night-panel border-b border-rule/60 dark:border-night-rule/60 px-3 py-1.5 text-left font-normal whitespace-nowrap"
+                    >
                       {label} <span className={`num text-xs ${muted}`}>{r.total}</span>
                     </th>
                     {electrodes.map((e) => (
-                      <Cell key={e.id} row={r} cell={r.cells.find((c) => c.electrode === e.id)} electrodeName={longName(terms, e.id)} rowLabel={label} />
+                      <Cell
+                        key={e.id}
+                        row={r}
+                        cell={r.cells.find((c) => c.electrode === e.id)}
+                        electrodeName={longName(terms, e.id)}
+                        rowLabel={label}
+                      />
                     ))}
                   </tr>
                 );

@@ -2,10 +2,21 @@ import { QueryClientProvider, useQuery } from '@tanstack/react-query';
 import Fuse from 'fuse.js';
 import { useId, useMemo, useState } from 'react';
 import { queryClient } from '../lib/client/query.ts';
-import { electrolyteText, longName, recordQueries, vocabularyQueries, type IndexTerm } from '../lib/client/records.ts';
+import {
+  electrolyteText,
+  longName,
+  recordQueries,
+  vocabularyQueries,
+  type IndexTerm,
+} from '../lib/client/records.ts';
 import { buttonPrimary, EvidenceBadge, Failed, input, Loading, muted } from './ui.tsx';
 
-const KIND_WORD: Record<string, string> = { salt: 'salt', solvent: 'solvent', additive: 'additive', 'electrode-material': 'electrode' };
+const KIND_WORD: Record<string, string> = {
+  salt: 'salt',
+  solvent: 'solvent',
+  additive: 'additive',
+  'electrode-material': 'electrode',
+};
 const SEARCHABLE = new Set(Object.keys(KIND_WORD));
 
 /** The words that join the parts of a search: "LiTFSI in water on glassy carbon". */
@@ -20,7 +31,10 @@ export interface Understood {
 export function understand(fuse: Fuse<IndexTerm>, text: string): Understood {
   const terms: IndexTerm[] = [];
   const rest: string[] = [];
-  for (const part of text.split(JOINERS).map((p) => p.trim()).filter(Boolean)) {
+  for (const part of text
+    .split(JOINERS)
+    .map((p) => p.trim())
+    .filter(Boolean)) {
     const hit = fuse.search(part, { limit: 1 })[0];
     if (hit && (hit.score ?? 1) <= 0.55) {
       if (!terms.some((t) => t.id === hit.item.id)) terms.push(hit.item);
@@ -32,7 +46,8 @@ export function understand(fuse: Fuse<IndexTerm>, text: string): Understood {
 /** Where a search leads: the explorer filtered by the understood components and electrodes. */
 export function searchHref(u: Understood): string {
   const p = new URLSearchParams();
-  for (const t of u.terms) p.append(t.kind === 'electrode-material' ? 'electrode' : 'component', t.id);
+  for (const t of u.terms)
+    p.append(t.kind === 'electrode-material' ? 'electrode' : 'component', t.id);
   if (u.rest.length) p.set('q', u.rest.join(' '));
   const s = p.toString();
   return `/windows${s ? `?${s}` : ''}`;
@@ -47,23 +62,30 @@ function Search({ examples, initialQuery }: { examples: string[]; initialQuery: 
   const [open, setOpen] = useState(false);
   const fuse = useMemo(
     () =>
-      new Fuse((vocab.data ?? []).filter((t) => SEARCHABLE.has(t.kind)), {
-        keys: [
-          { name: 'abbreviations', weight: 3 },
-          { name: 'name', weight: 2 },
-          { name: 'synonyms', weight: 1 },
-          { name: 'id', weight: 1 },
-        ],
-        includeScore: true,
-        threshold: 0.55,
-        ignoreLocation: true,
-      }),
+      new Fuse(
+        (vocab.data ?? []).filter((t) => SEARCHABLE.has(t.kind)),
+        {
+          keys: [
+            { name: 'abbreviations', weight: 3 },
+            { name: 'name', weight: 2 },
+            { name: 'synonyms', weight: 1 },
+            { name: 'id', weight: 1 },
+          ],
+          includeScore: true,
+          threshold: 0.55,
+          ignoreLocation: true,
+        },
+      ),
     [vocab.data],
   );
-  const terms = useMemo(() => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined), [vocab.data]);
+  const terms = useMemo(
+    () => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined),
+    [vocab.data],
+  );
   const parts = text.split(JOINERS);
   const last = parts[parts.length - 1]!.trim();
-  const suggestions = last.length >= 1 && vocab.data ? fuse.search(last, { limit: 6 }).map((r) => r.item) : [];
+  const suggestions =
+    last.length >= 1 && vocab.data ? fuse.search(last, { limit: 6 }).map((r) => r.item) : [];
   const understood = vocab.data ? understand(fuse, text) : { terms: [], rest: [] };
 
   const pick = (t: IndexTerm) => {
@@ -172,7 +194,12 @@ function Search({ examples, initialQuery }: { examples: string[]; initialQuery: 
         <ul className="mt-2 flex flex-wrap gap-2">
           {examples.map((m) => (
             <li key={m}>
-              <button type="button" onClick={() => go(m)} disabled={!vocab.data} className="rounded-full border border-rule dark:border-night-rule px-3 py-1 text-sm hover:border-cobalt disabled:opacity-60">
+              <button
+                type="button"
+                onClick={() => go(m)}
+                disabled={!vocab.data}
+                className="rounded-full border border-rule dark:border-night-rule px-3 py-1 text-sm hover:border-cobalt disabled:opacity-60"
+              >
                 {m}
               </button>
             </li>
@@ -193,11 +220,15 @@ function Search({ examples, initialQuery }: { examples: string[]; initialQuery: 
           <ul className="mt-2 grid gap-2" data-testid="recent">
             {recent.data.items.map((r) => (
               <li key={r.handle} className="flex flex-wrap items-baseline gap-x-3 gap-y-1">
-                <a href={`/windows/${r.handle}`} className="num font-semibold text-cobalt dark:text-night-cobalt underline-offset-2 hover:underline">
+                <a
+                  href={`/windows/${r.handle}`}
+                  className="num font-semibold text-cobalt dark:text-night-cobalt underline-offset-2 hover:underline"
+                >
                   {r.handle}
                 </a>
                 <span>
-                  {electrolyteText(r.content, terms)} on {longName(terms, r.content.workingElectrode.material)}
+                  {electrolyteText(r.content, terms)} on{' '}
+                  {longName(terms, r.content.workingElectrode.material)}
                 </span>
                 <EvidenceBadge level={r.evidenceLevel} />
               </li>
@@ -210,7 +241,13 @@ function Search({ examples, initialQuery }: { examples: string[]; initialQuery: 
 }
 
 /** The home page's search: understands salts, solvents and electrodes by name, abbreviation or near-miss spelling. */
-export default function HomeSearch({ examples, initialQuery = '' }: { examples: string[]; initialQuery?: string }) {
+export default function HomeSearch({
+  examples,
+  initialQuery = '',
+}: {
+  examples: string[];
+  initialQuery?: string;
+}) {
   return (
     <QueryClientProvider client={queryClient}>
       <Search examples={examples} initialQuery={initialQuery} />

@@ -1,12 +1,24 @@
 import { QueryClientProvider, useQuery } from '@tanstack/react-query';
 import { useEffect, useId, useMemo, useState, type ReactNode } from 'react';
-import { energyRatio, specificEnergyWhPerKg, symmetricCellCapacitanceFPerG } from '../lib/analysis/energy.ts';
+import {
+  energyRatio,
+  specificEnergyWhPerKg,
+  symmetricCellCapacitanceFPerG,
+} from '../lib/analysis/energy.ts';
 import { windowOpeningPlan, type DirectionPlan } from '../lib/analysis/plan.ts';
 import { errorMessage } from '../lib/client/api.ts';
 import { queryClient } from '../lib/client/query.ts';
 import { vocabularyQueries, type IndexTerm } from '../lib/client/records.ts';
 import { CAUTION_AUTHORITY, GAS_CAUTION, cautionsFor } from '../lib/shared/cautions.ts';
-import { anodicText, buttonPrimary, buttonQuiet, cathodicText, input, muted, panel } from './ui.tsx';
+import {
+  anodicText,
+  buttonPrimary,
+  buttonQuiet,
+  cathodicText,
+  input,
+  muted,
+  panel,
+} from './ui.tsx';
 
 // The window-opening planner: a vertex schedule per direction with its duration, the criteria to
 // judge it by, what a wider window is worth, and the cautions for the chosen materials.
@@ -60,42 +72,92 @@ function recognise(text: string, terms: IndexTerm[]): IndexTerm[] {
   for (const t of terms) {
     if (!['solvent', 'salt', 'additive'].includes(t.kind)) continue;
     const names = [t.name, ...t.abbreviations, ...t.synonyms].filter((n) => n.length >= 2);
-    if (names.some((n) => new RegExp(`(^|[^\\p{L}\\p{N}])${escape(n)}($|[^\\p{L}\\p{N}])`, 'iu').test(text))) out.push(t);
+    if (
+      names.some((n) =>
+        new RegExp(`(^|[^\\p{L}\\p{N}])${escape(n)}($|[^\\p{L}\\p{N}])`, 'iu').test(text),
+      )
+    )
+      out.push(t);
   }
   return out;
 }
 
 const ELECTRODE_NOTES: Record<string, string> = {
-  platinum: 'Platinum catalyses electrolyte decomposition: expect a narrower window than on carbon.',
-  'glassy-carbon': 'Glassy carbon is comparatively inert, so windows measured on it are often the widest a carbon gives.',
-  'activated-carbon': 'Activated carbon’s very large area swamps current-density cutoffs: judge by S-value or per active mass.',
+  platinum:
+    'Platinum catalyses electrolyte decomposition: expect a narrower window than on carbon.',
+  'glassy-carbon':
+    'Glassy carbon is comparatively inert, so windows measured on it are often the widest a carbon gives.',
+  'activated-carbon':
+    'Activated carbon’s very large area swamps current-density cutoffs: judge by S-value or per active mass.',
   gold: 'Gold oxidises and adsorbs anions at high potentials; check the anodic side for surface features.',
 };
 
-function Num({ label, value, onChange, unit, hint, id }: { label: string; value: string; onChange: (v: string) => void; unit?: string; hint?: ReactNode; id: string }) {
+function Num({
+  label,
+  value,
+  onChange,
+  unit,
+  hint,
+  id,
+}: {
+  label: string;
+  value: string;
+  onChange: (v: string) => void;
+  unit?: string;
+  hint?: ReactNode;
+  id: string;
+}) {
   return (
     <div className="grid gap-1 content-start">
       <label htmlFor={id} className="text-sm font-semibold">
         {label}
         {unit && <span className={`font-normal ${muted}`}> ({unit})</span>}
       </label>
-      <input id={id} type="text" inputMode="decimal" value={value} onChange={(e) => onChange(e.target.value)} className={`${input} num w-full`} />
+      <input
+        id={id}
+        type="text"
+        inputMode="decimal"
+        value={value}
+        onChange={(e) => onChange(e.target.value)}
+        className={`${input} num w-full`}
+      />
       {hint && <p className={`text-xs ${muted}`}>{hint}</p>}
     </div>
   );
 }
 
-function DirectionTable({ plan, scale, cycles }: { plan: DirectionPlan; scale: string; cycles: number }) {
+function DirectionTable({
+  plan,
+  scale,
+  cycles,
+}: {
+  plan: DirectionPlan;
+  scale: string;
+  cycles: number;
+}) {
   const anodic = plan.direction === 'anodic';
   return (
-    <section className={`${panel} p-4 min-w-0 break-inside-avoid`} aria-labelledby={`plan-${plan.direction}`} data-testid={`plan-${plan.direction}`}>
-      <h3 id={`plan-${plan.direction}`} className={`font-semibold ${anodic ? anodicText : cathodicText}`}>
+    <section
+      className={`${panel} p-4 min-w-0 break-inside-avoid`}
+      aria-labelledby={`plan-${plan.direction}`}
+      data-testid={`plan-${plan.direction}`}
+    >
+      <h3
+        id={`plan-${plan.direction}`}
+        className={`font-semibold ${anodic ? anodicText : cathodicText}`}
+      >
         {anodic ? 'Anodic' : 'Cathodic'} cell — fresh working electrode
       </h3>
       <p className={`text-sm ${muted}`}>
-        {plan.steps.length} vertices, {cycles} cycle{cycles === 1 ? '' : 's'} each, every cycle back to the start potential.
+        {plan.steps.length} vertices, {cycles} cycle{cycles === 1 ? '' : 's'} each, every cycle back
+        to the start potential.
       </p>
-      <div className="mt-2 overflow-x-auto" tabIndex={0} role="region" aria-label={`${anodic ? 'Anodic' : 'Cathodic'} schedule (scrolls sideways)`}>
+      <div
+        className="mt-2 overflow-x-auto"
+        tabIndex={0}
+        role="region"
+        aria-label={`${anodic ? 'Anodic' : 'Cathodic'} schedule (scrolls sideways)`}
+      >
         <table className="w-full text-sm">
           <thead>
             <tr className="border-b border-rule dark:border-night-rule text-left">
@@ -130,15 +192,30 @@ function DirectionTable({ plan, scale, cycles }: { plan: DirectionPlan; scale: s
         </table>
       </div>
       <p className="mt-2 text-sm font-semibold" data-testid={`total-${plan.direction}`}>
-        Sweeping time for this cell: <span className="num">{duration(plan.totalS)}</span> <span className={`num font-normal ${muted}`}>({Math.round(plan.totalS)} s)</span>
+        Sweeping time for this cell: <span className="num">{duration(plan.totalS)}</span>{' '}
+        <span className={`num font-normal ${muted}`}>({Math.round(plan.totalS)} s)</span>
       </p>
     </section>
   );
 }
 
 function csvOf(plans: DirectionPlan[], scale: string, cycles: number): string {
-  const lines = [`direction,step,vertex_V_vs_${scale.replace(/[^A-Za-z0-9+/]/g, '')},cycles,cycle_s,step_s,elapsed_s`];
-  for (const p of plans) for (const s of p.steps) lines.push([p.direction, s.index, s.vertexV, cycles, s.cycleS.toFixed(1), s.stepS.toFixed(1), s.elapsedS.toFixed(1)].join(','));
+  const lines = [
+    `direction,step,vertex_V_vs_${scale.replace(/[^A-Za-z0-9+/]/g, '')},cycles,cycle_s,step_s,elapsed_s`,
+  ];
+  for (const p of plans)
+    for (const s of p.steps)
+      lines.push(
+        [
+          p.direction,
+          s.index,
+          s.vertexV,
+          cycles,
+          s.cycleS.toFixed(1),
+          s.stepS.toFixed(1),
+          s.elapsedS.toFixed(1),
+        ].join(','),
+      );
   return lines.join('\n') + '\n';
 }
 
@@ -155,16 +232,28 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
     history.replaceState(null, '', `${location.pathname}${s ? `?${s}` : ''}`);
   }, [f]);
 
-  const electrodes = (vocab.data ?? []).filter((t) => t.kind === 'electrode-material').sort((a, b) => a.name.localeCompare(b.name));
-  const references = (vocab.data ?? []).filter((t) => t.kind === 'reference-electrode').sort((a, b) => a.name.localeCompare(b.name));
-  const components = useMemo(() => recognise(f.electrolyte, vocab.data ?? []), [f.electrolyte, vocab.data]);
+  const electrodes = (vocab.data ?? [])
+    .filter((t) => t.kind === 'electrode-material')
+    .sort((a, b) => a.name.localeCompare(b.name));
+  const references = (vocab.data ?? [])
+    .filter((t) => t.kind === 'reference-electrode')
+    .sort((a, b) => a.name.localeCompare(b.name));
+  const components = useMemo(
+    () => recognise(f.electrolyte, vocab.data ?? []),
+    [f.electrolyte, vocab.data],
+  );
   const refTerm = references.find((r) => r.id === f.reference);
   const scale = refTerm ? (refTerm.abbreviations[0] ?? refTerm.name) : 'reference';
 
   const rate = num(f.rate);
   const step = num(f.step);
   const cycles = num(f.cycles);
-  const directions = f.direction === 'both' ? (['cathodic', 'anodic'] as const) : f.direction === 'cathodic' ? (['cathodic'] as const) : (['anodic'] as const);
+  const directions =
+    f.direction === 'both'
+      ? (['cathodic', 'anodic'] as const)
+      : f.direction === 'cathodic'
+        ? (['cathodic'] as const)
+        : (['anodic'] as const);
   const result = useMemo(() => {
     const plans: DirectionPlan[] = [];
     const problems: string[] = [];
@@ -193,16 +282,30 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
       const cell = symmetricCellCapacitanceFPerG(num(f.csp));
       const now = specificEnergyWhPerKg(cell, num(f.vNow));
       const wide = specificEnergyWhPerKg(cell, num(f.vWide));
-      return { cell, now, wide, gain: energyRatio(num(f.vNow), num(f.vWide)) - 1, battery: energyRatio(num(f.vNow), num(f.vWide), 'battery') - 1 };
+      return {
+        cell,
+        now,
+        wide,
+        gain: energyRatio(num(f.vNow), num(f.vWide)) - 1,
+        battery: energyRatio(num(f.vNow), num(f.vWide), 'battery') - 1,
+      };
     } catch (e) {
       return { error: errorMessage(e) };
     }
   }, [f.csp, f.vNow, f.vWide]);
 
-  const cautions = cautionsFor([...components.map((c) => c.id), f.electrode, f.reference].filter(Boolean));
+  const cautions = cautionsFor(
+    [...components.map((c) => c.id), f.electrode, f.reference].filter(Boolean),
+  );
   const pct = (v: number) => `${v >= 0 ? '+' : '−'}${Math.abs(v * 100).toFixed(2)} %`;
-  const rateNote = Number.isFinite(rate) && (rate < 2 || rate > 5) ? 'Outside the usual 2–5 mV/s: faster scans make the window look wider, slower ones narrower.' : '2–5 mV/s is usual; slower scans give narrower windows.';
-  const stepNote = Number.isFinite(step) && (step < 50 || step > 200) ? 'Outside the usual 50–200 mV: the limit will be bracketed too coarsely or the run gets long.' : '50–200 mV is usual.';
+  const rateNote =
+    Number.isFinite(rate) && (rate < 2 || rate > 5)
+      ? 'Outside the usual 2–5 mV/s: faster scans make the window look wider, slower ones narrower.'
+      : '2–5 mV/s is usual; slower scans give narrower windows.';
+  const stepNote =
+    Number.isFinite(step) && (step < 50 || step > 200)
+      ? 'Outside the usual 50–200 mV: the limit will be bracketed too coarsely or the run gets long.'
+      : '50–200 mV is usual.';
 
   const download = () => {
     const blob = new Blob([csvOf(result.plans, scale, cycles)], { type: 'text/csv' });
@@ -220,21 +323,38 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
 
   return (
     <div className="grid grid-cols-[minmax(0,1fr)] gap-6 lg:grid-cols-[minmax(0,20rem)_minmax(0,1fr)]">
-      <form className={`${panel} p-5 grid gap-4 content-start self-start print:hidden`} aria-label="Experiment" onSubmit={(e) => e.preventDefault()}>
+      <form
+        className={`${panel} p-5 grid gap-4 content-start self-start print:hidden`}
+        aria-label="Experiment"
+        onSubmit={(e) => e.preventDefault()}
+      >
         <div className="grid gap-1">
           <label htmlFor={`${id}-el`} className="text-sm font-semibold">
             Electrolyte
           </label>
-          <input id={`${id}-el`} type="text" value={f.electrolyte} onChange={(e) => set('electrolyte')(e.target.value)} className={`${input} w-full`} />
+          <input
+            id={`${id}-el`}
+            type="text"
+            value={f.electrolyte}
+            onChange={(e) => set('electrolyte')(e.target.value)}
+            className={`${input} w-full`}
+          />
           <p className={`text-xs ${muted}`} data-testid="recognised">
-            {components.length ? `Recognised: ${components.map((c) => `${c.abbreviations[0] ?? c.name} (${c.kind})`).join(', ')}` : 'Name salts and solvents by name or abbreviation to get their cautions.'}
+            {components.length
+              ? `Recognised: ${components.map((c) => `${c.abbreviations[0] ?? c.name} (${c.kind})`).join(', ')}`
+              : 'Name salts and solvents by name or abbreviation to get their cautions.'}
           </p>
         </div>
         <div className="grid gap-1">
           <label htmlFor={`${id}-we`} className="text-sm font-semibold">
             Working electrode
           </label>
-          <select id={`${id}-we`} value={f.electrode} onChange={(e) => set('electrode')(e.target.value)} className={input}>
+          <select
+            id={`${id}-we`}
+            value={f.electrode}
+            onChange={(e) => set('electrode')(e.target.value)}
+            className={input}
+          >
             {electrodes.length === 0 && <option value={f.electrode}>{f.electrode}</option>}
             {electrodes.map((t) => (
               <option key={t.id} value={t.id}>
@@ -247,7 +367,12 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
           <label htmlFor={`${id}-ref`} className="text-sm font-semibold">
             Reference electrode
           </label>
-          <select id={`${id}-ref`} value={f.reference} onChange={(e) => set('reference')(e.target.value)} className={input}>
+          <select
+            id={`${id}-ref`}
+            value={f.reference}
+            onChange={(e) => set('reference')(e.target.value)}
+            className={input}
+          >
             {references.length === 0 && <option value={f.reference}>{f.reference}</option>}
             {references.map((t) => (
               <option key={t.id} value={t.id}>
@@ -261,21 +386,72 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
           <div className="flex flex-wrap gap-x-4 gap-y-1 text-sm">
             {(['both', 'anodic', 'cathodic'] as const).map((d) => (
               <label key={d} className="flex items-center gap-1.5">
-                <input type="radio" name={`${id}-dir`} value={d} checked={f.direction === d} onChange={() => set('direction')(d)} className="accent-cobalt" />
+                <input
+                  type="radio"
+                  name={`${id}-dir`}
+                  value={d}
+                  checked={f.direction === d}
+                  onChange={() => set('direction')(d)}
+                  className="accent-cobalt"
+                />
                 {d === 'both' ? 'both (two cells)' : d}
               </label>
             ))}
           </div>
         </fieldset>
         <div className="grid grid-cols-2 gap-3">
-          <Num id={`${id}-start`} label="Start, near open circuit" unit={`V vs ${scale}`} value={f.start} onChange={set('start')} />
-          <Num id={`${id}-beyond`} label="Go past the guess by" unit="mV" value={f.beyond} onChange={set('beyond')} />
-          <Num id={`${id}-cat`} label="Expected cathodic limit" unit="V" value={f.cathodic} onChange={set('cathodic')} />
-          <Num id={`${id}-an`} label="Expected anodic limit" unit="V" value={f.anodic} onChange={set('anodic')} />
+          <Num
+            id={`${id}-start`}
+            label="Start, near open circuit"
+            unit={`V vs ${scale}`}
+            value={f.start}
+            onChange={set('start')}
+          />
+          <Num
+            id={`${id}-beyond`}
+            label="Go past the guess by"
+            unit="mV"
+            value={f.beyond}
+            onChange={set('beyond')}
+          />
+          <Num
+            id={`${id}-cat`}
+            label="Expected cathodic limit"
+            unit="V"
+            value={f.cathodic}
+            onChange={set('cathodic')}
+          />
+          <Num
+            id={`${id}-an`}
+            label="Expected anodic limit"
+            unit="V"
+            value={f.anodic}
+            onChange={set('anodic')}
+          />
         </div>
-        <Num id={`${id}-rate`} label="Scan rate" unit="mV/s" value={f.rate} onChange={set('rate')} hint={rateNote} />
-        <Num id={`${id}-step`} label="Vertex step" unit="mV" value={f.step} onChange={set('step')} hint={stepNote} />
-        <Num id={`${id}-cyc`} label="Cycles per vertex" value={f.cycles} onChange={set('cycles')} hint="Judge the last cycle at each vertex." />
+        <Num
+          id={`${id}-rate`}
+          label="Scan rate"
+          unit="mV/s"
+          value={f.rate}
+          onChange={set('rate')}
+          hint={rateNote}
+        />
+        <Num
+          id={`${id}-step`}
+          label="Vertex step"
+          unit="mV"
+          value={f.step}
+          onChange={set('step')}
+          hint={stepNote}
+        />
+        <Num
+          id={`${id}-cyc`}
+          label="Cycles per vertex"
+          value={f.cycles}
+          onChange={set('cycles')}
+          hint="Judge the last cycle at each vertex."
+        />
       </form>
 
       <div className="grid grid-cols-[minmax(0,1fr)] gap-6 min-w-0 content-start">
@@ -288,13 +464,24 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
               <button type="button" className={buttonPrimary} onClick={() => print()}>
                 Print plan
               </button>
-              <button type="button" className={buttonQuiet} onClick={download} disabled={result.plans.length === 0}>
+              <button
+                type="button"
+                className={buttonQuiet}
+                onClick={download}
+                disabled={result.plans.length === 0}
+              >
                 CSV
               </button>
             </span>
           </div>
           <p className="text-sm">
-            {components.length ? components.map((c) => c.abbreviations[0] ?? c.name).join(' + ') : f.electrolyte || 'Electrolyte not named'} on {electrodes.find((e) => e.id === f.electrode)?.name ?? f.electrode}, potentials vs {scale}; {rate} mV/s, {step} mV steps. One cell per direction — decomposition products carry over — and a fresh working electrode in each: a window-opening run damages the surface.
+            {components.length
+              ? components.map((c) => c.abbreviations[0] ?? c.name).join(' + ')
+              : f.electrolyte || 'Electrolyte not named'}{' '}
+            on {electrodes.find((e) => e.id === f.electrode)?.name ?? f.electrode}, potentials vs{' '}
+            {scale}; {rate} mV/s, {step} mV steps. One cell per direction — decomposition products
+            carry over — and a fresh working electrode in each: a window-opening run damages the
+            surface.
           </p>
           {result.problems.map((p) => (
             <p key={p} role="alert" className="text-sm text-copper dark:text-night-copper">
@@ -308,7 +495,8 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
           </div>
           {result.plans.length > 1 && (
             <p className="text-sm" data-testid="total-all">
-              Both cells together: <span className="num font-semibold">{duration(totalAll)}</span> of sweeping, before rests, cell assembly and open-circuit settling.
+              Both cells together: <span className="num font-semibold">{duration(totalAll)}</span>{' '}
+              of sweeping, before rests, cell assembly and open-circuit settling.
             </p>
           )}
         </section>
@@ -319,12 +507,18 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
           </h2>
           <ul className="mt-2 grid gap-1 text-sm list-disc pl-5">
             <li>
-              Per cycle, integrate the anodic and cathodic charge, Q⁺ and Q⁻. Anodic side: S = Q⁺/Q⁻ − 1; cathodic side: S = Q⁻/Q⁺ − 1.
+              Per cycle, integrate the anodic and cathodic charge, Q⁺ and Q⁻. Anodic side: S = Q⁺/Q⁻
+              − 1; cathodic side: S = Q⁻/Q⁺ − 1.
             </li>
             <li>
-              The limit is where S first exceeds the cutoff: <strong>S ≤ 0.1</strong> is the usual one (coulombic efficiency 90.9 %); the stricter <strong>CE ≥ 99 %</strong> is S ≤ 0.0101. They are not the same cutoff — say which you used.
+              The limit is where S first exceeds the cutoff: <strong>S ≤ 0.1</strong> is the usual
+              one (coulombic efficiency 90.9 %); the stricter <strong>CE ≥ 99 %</strong> is S ≤
+              0.0101. They are not the same cutoff — say which you used.
             </li>
-            <li>Report the last passing vertex and the crossing interpolated in log S between the two vertices around the cutoff.</li>
+            <li>
+              Report the last passing vertex and the crossing interpolated in log S between the two
+              vertices around the cutoff.
+            </li>
             {ELECTRODE_NOTES[f.electrode] && <li>{ELECTRODE_NOTES[f.electrode]}</li>}
           </ul>
         </section>
@@ -333,18 +527,42 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
           <h2 id="energy-title" className="text-lg font-semibold">
             What a wider window is worth
           </h2>
-          <p className={`text-sm ${muted}`}>Capacitor energy E = ½CV²; a symmetric cell of two equal electrodes has a quarter of the per-electrode capacitance per total active mass.</p>
+          <p className={`text-sm ${muted}`}>
+            Capacitor energy E = ½CV²; a symmetric cell of two equal electrodes has a quarter of the
+            per-electrode capacitance per total active mass.
+          </p>
           <div className="mt-3 grid grid-cols-3 gap-3 max-w-lg print:hidden">
-            <Num id={`${id}-vnow`} label="Cell voltage now" unit="V" value={f.vNow} onChange={set('vNow')} />
-            <Num id={`${id}-vwide`} label="Wider window" unit="V" value={f.vWide} onChange={set('vWide')} />
-            <Num id={`${id}-csp`} label="Per electrode" unit="F/g" value={f.csp} onChange={set('csp')} />
+            <Num
+              id={`${id}-vnow`}
+              label="Cell voltage now"
+              unit="V"
+              value={f.vNow}
+              onChange={set('vNow')}
+            />
+            <Num
+              id={`${id}-vwide`}
+              label="Wider window"
+              unit="V"
+              value={f.vWide}
+              onChange={set('vWide')}
+            />
+            <Num
+              id={`${id}-csp`}
+              label="Per electrode"
+              unit="F/g"
+              value={f.csp}
+              onChange={set('csp')}
+            />
           </div>
           {'error' in energy ? (
             <p role="alert" className="mt-2 text-sm text-copper dark:text-night-copper">
               {energy.error}
             </p>
           ) : (
-            <dl className="mt-3 grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm" data-testid="energy">
+            <dl
+              className="mt-3 grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm"
+              data-testid="energy"
+            >
               <dt className={muted}>Cell capacitance</dt>
               <dd className="num">{+energy.cell.toPrecision(4)} F/g</dd>
               <dt className={muted}>Specific energy at {f.vNow} V</dt>
@@ -359,10 +577,16 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
               <dd className="num">{pct(energy.battery)}</dd>
             </dl>
           )}
-          <p className={`mt-2 text-xs ${muted}`}>Active-material mass only; the packaged cell stores less per kilogram.</p>
+          <p className={`mt-2 text-xs ${muted}`}>
+            Active-material mass only; the packaged cell stores less per kilogram.
+          </p>
         </section>
 
-        <section className="rounded-lg border border-copper/50 bg-copper-soft/50 dark:bg-copper/10 p-4 break-inside-avoid" aria-labelledby="safety-title" data-testid="plan-cautions">
+        <section
+          className="rounded-lg border border-copper/50 bg-copper-soft/50 dark:bg-copper/10 p-4 break-inside-avoid"
+          aria-labelledby="safety-title"
+          data-testid="plan-cautions"
+        >
           <h2 id="safety-title" className="text-lg font-semibold">
             Safety
           </h2>

@@ -1,6 +1,11 @@
 import { useEffect, useId, useMemo, useState } from 'react';
 import { AnalysisError } from '../lib/analysis/errors.ts';
-import { REFERENCE_ELECTRODES, referenceConversion, referenceWarnings, type ReferenceInfo } from '../lib/analysis/references.ts';
+import {
+  REFERENCE_ELECTRODES,
+  referenceConversion,
+  referenceWarnings,
+  type ReferenceInfo,
+} from '../lib/analysis/references.ts';
 import { buttonQuiet, input, muted, panel } from './ui.tsx';
 
 /** Every scale the engine knows, in the order offered. */
@@ -20,8 +25,24 @@ interface State {
   fcVersus: string;
 }
 
-const DEFAULTS: State = { value: '0.100', from: 'SCE', to: 'SHE', pH: '7', tempC: '25', fcValue: '', fcVersus: 'SCE' };
-const KEYS: Record<keyof State, string> = { value: 'v', from: 'from', to: 'to', pH: 'pH', tempC: 'T', fcValue: 'fc', fcVersus: 'fcvs' };
+const DEFAULTS: State = {
+  value: '0.100',
+  from: 'SCE',
+  to: 'SHE',
+  pH: '7',
+  tempC: '25',
+  fcValue: '',
+  fcVersus: 'SCE',
+};
+const KEYS: Record<keyof State, string> = {
+  value: 'v',
+  from: 'from',
+  to: 'to',
+  pH: 'pH',
+  tempC: 'T',
+  fcValue: 'fc',
+  fcVersus: 'fcvs',
+};
 const known = new Set(SCALE_CHOICES.map((c) => c.id));
 
 function fromUrl(search: string): State {
@@ -33,7 +54,8 @@ function fromUrl(search: string): State {
   }
   if (!known.has(s.from)) s.from = DEFAULTS.from;
   if (!known.has(s.to)) s.to = DEFAULTS.to;
-  if (!known.has(s.fcVersus) || s.fcVersus === 'Fc+/Fc' || s.fcVersus === 'RHE') s.fcVersus = DEFAULTS.fcVersus;
+  if (!known.has(s.fcVersus) || s.fcVersus === 'Fc+/Fc' || s.fcVersus === 'RHE')
+    s.fcVersus = DEFAULTS.fcVersus;
   return s;
 }
 
@@ -44,18 +66,22 @@ function num(text: string): number | undefined {
   return Number.isFinite(v) ? v : Number.NaN;
 }
 
-type Outcome = { ok: true; result: number; info: ReferenceInfo; warnings: string[] } | { ok: false; message: string };
+type Outcome =
+  | { ok: true; result: number; info: ReferenceInfo; warnings: string[] }
+  | { ok: false; message: string };
 
 /** Converts a potential between any two scales of the engine's table, showing the values and sources used. */
 export default function ScaleConverter({ initialSearch = '' }: { initialSearch?: string }) {
   const [s, setS] = useState<State>(() => fromUrl(initialSearch));
   const id = useId();
-  const set = (k: keyof State) => (e: { target: { value: string } }) => setS((prev) => ({ ...prev, [k]: e.target.value }));
+  const set = (k: keyof State) => (e: { target: { value: string } }) =>
+    setS((prev) => ({ ...prev, [k]: e.target.value }));
 
   // The conversion lives in the address so it can be shared; replace, so typing does not fill the history.
   useEffect(() => {
     const q = new URLSearchParams();
-    for (const k of Object.keys(KEYS) as (keyof State)[]) if (s[k] !== DEFAULTS[k]) q.set(KEYS[k], s[k]);
+    for (const k of Object.keys(KEYS) as (keyof State)[])
+      if (s[k] !== DEFAULTS[k]) q.set(KEYS[k], s[k]);
     const url = `${location.pathname}${q.size ? `?${q}` : ''}`;
     if (url !== `${location.pathname}${location.search}`) history.replaceState(null, '', url);
   }, [s]);
@@ -70,12 +96,16 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
     const pH = num(s.pH);
     const tempC = num(s.tempC);
     const fc = num(s.fcValue);
-    if (needsPh && (pH === undefined || Number.isNaN(pH))) return { ok: false, message: 'The RHE scale needs the pH of the electrolyte.' };
-    if (needsPh && (tempC === undefined || Number.isNaN(tempC) || tempC <= -273.15)) return { ok: false, message: 'Give the temperature in °C for the RHE slope.' };
+    if (needsPh && (pH === undefined || Number.isNaN(pH)))
+      return { ok: false, message: 'The RHE scale needs the pH of the electrolyte.' };
+    if (needsPh && (tempC === undefined || Number.isNaN(tempC) || tempC <= -273.15))
+      return { ok: false, message: 'Give the temperature in °C for the RHE slope.' };
     try {
       const ctx = {
         ...(needsPh ? { pH: pH!, temperatureK: tempC! + 273.15 } : {}),
-        ...(needsFc && fc !== undefined && !Number.isNaN(fc) ? { ferrocene: { potentialV: fc, versus: s.fcVersus } } : {}),
+        ...(needsFc && fc !== undefined && !Number.isNaN(fc)
+          ? { ferrocene: { potentialV: fc, versus: s.fcVersus } }
+          : {}),
       };
       const info = referenceConversion(s.from, s.to, ctx);
       return { ok: true, result: v + info.offsetV, info, warnings: referenceWarnings(info) };
@@ -91,21 +121,49 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
     }
   }, [s, needsPh, needsFc]);
 
-  const label = (scale: string) => SCALE_CHOICES.find((c) => c.id === scale)?.label.replace(/ \(needs.*\)$/, '') ?? scale;
+  const label = (scale: string) =>
+    SCALE_CHOICES.find((c) => c.id === scale)?.label.replace(/ \(needs.*\)$/, '') ?? scale;
   const fmt = (x: number) => x.toFixed(4).replace(/^-/, '−');
 
   return (
     <div className="grid gap-6 lg:grid-cols-[minmax(0,22rem)_minmax(0,1fr)]">
-      <form className={`${panel} p-5 grid gap-4 content-start`} onSubmit={(e) => e.preventDefault()} aria-label="Conversion">
+      <form
+        className={`${panel} p-5 grid gap-4 content-start`}
+        onSubmit={(e) => e.preventDefault()}
+        aria-label="Conversion"
+      >
         <div className="grid gap-1">
           <label htmlFor={`${id}-v`} className="text-sm font-semibold">
             Potential (V)
           </label>
-          <input id={`${id}-v`} inputMode="decimal" autoComplete="off" value={s.value} onChange={set('value')} className={`${input} num`} />
+          <input
+            id={`${id}-v`}
+            inputMode="decimal"
+            autoComplete="off"
+            value={s.value}
+            onChange={set('value')}
+            className={`${input} num`}
+          />
         </div>
-        <ScaleSelect id={`${id}-from`} label="Measured against" value={s.from} onChange={set('from')} />
+        <ScaleSelect
+          id={`${id}-from`}
+          label="Measured against"
+          value={s.from}
+          onChange={set('from')}
+        />
         <div>
-          <button type="button" className={buttonQuiet} onClick={() => setS((p) => ({ ...p, from: p.to, to: p.from, value: outcome.ok ? outcome.result.toFixed(4) : p.value }))}>
+          <button
+            type="button"
+            className={buttonQuiet}
+            onClick={() =>
+              setS((p) => ({
+                ...p,
+                from: p.to,
+                to: p.from,
+                value: outcome.ok ? outcome.result.toFixed(4) : p.value,
+              }))
+            }
+          >
             ⇅ Swap scales
           </button>
         </div>
@@ -117,31 +175,57 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
               <label htmlFor={`${id}-ph`} className="text-sm font-semibold">
                 pH
               </label>
-              <input id={`${id}-ph`} inputMode="decimal" value={s.pH} onChange={set('pH')} className={`${input} num`} />
+              <input
+                id={`${id}-ph`}
+                inputMode="decimal"
+                value={s.pH}
+                onChange={set('pH')}
+                className={`${input} num`}
+              />
             </div>
             <div className="grid gap-1">
               <label htmlFor={`${id}-t`} className="text-sm font-semibold">
                 Temperature (°C)
               </label>
-              <input id={`${id}-t`} inputMode="decimal" value={s.tempC} onChange={set('tempC')} className={`${input} num`} />
+              <input
+                id={`${id}-t`}
+                inputMode="decimal"
+                value={s.tempC}
+                onChange={set('tempC')}
+                className={`${input} num`}
+              />
             </div>
           </fieldset>
         )}
         {needsFc && (
           <fieldset className="grid gap-3 border-t border-rule dark:border-night-rule pt-3">
-            <legend className="text-sm font-semibold pt-1">Fc⁺/Fc as measured in this electrolyte</legend>
+            <legend className="text-sm font-semibold pt-1">
+              Fc⁺/Fc as measured in this electrolyte
+            </legend>
             <div className="grid grid-cols-2 gap-3">
               <div className="grid gap-1">
                 <label htmlFor={`${id}-fc`} className="text-sm">
                   E½ of Fc⁺/Fc (V)
                 </label>
-                <input id={`${id}-fc`} inputMode="decimal" value={s.fcValue} onChange={set('fcValue')} placeholder="e.g. 0.40" className={`${input} num`} />
+                <input
+                  id={`${id}-fc`}
+                  inputMode="decimal"
+                  value={s.fcValue}
+                  onChange={set('fcValue')}
+                  placeholder="e.g. 0.40"
+                  className={`${input} num`}
+                />
               </div>
               <div className="grid gap-1">
                 <label htmlFor={`${id}-fcvs`} className="text-sm">
                   measured against
                 </label>
-                <select id={`${id}-fcvs`} value={s.fcVersus} onChange={set('fcVersus')} className={input}>
+                <select
+                  id={`${id}-fcvs`}
+                  value={s.fcVersus}
+                  onChange={set('fcVersus')}
+                  className={input}
+                >
                   {SCALE_CHOICES.filter((c) => c.id !== 'Fc+/Fc' && c.id !== 'RHE').map((c) => (
                     <option key={c.id} value={c.id}>
                       {c.label}
@@ -155,16 +239,21 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
       </form>
 
       <section className={`${panel} p-5`} aria-labelledby={`${id}-out`} aria-live="polite">
-        <h2 id={`${id}-out`} className="text-sm font-semibold uppercase tracking-wide text-muted dark:text-night-muted">
+        <h2
+          id={`${id}-out`}
+          className="text-sm font-semibold uppercase tracking-wide text-muted dark:text-night-muted"
+        >
           Result
         </h2>
         {outcome.ok ? (
           <>
             <p className="mt-2 text-2xl" data-testid="scale-result">
-              <span className="num font-semibold">{fmt(outcome.result)} V</span> <span className={muted}>vs {label(outcome.info.to)}</span>
+              <span className="num font-semibold">{fmt(outcome.result)} V</span>{' '}
+              <span className={muted}>vs {label(outcome.info.to)}</span>
             </p>
             <p className={`mt-1 ${muted}`}>
-              <span className="num">{fmt(num(s.value)!)} V</span> vs {label(outcome.info.from)} · offset{' '}
+              <span className="num">{fmt(num(s.value)!)} V</span> vs {label(outcome.info.from)} ·
+              offset{' '}
               <span className="num">
                 {outcome.info.offsetV >= 0 ? '+' : '−'}
                 {Math.abs(outcome.info.offsetV).toFixed(4)} V
@@ -187,7 +276,10 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
                   ['from', outcome.info.from, outcome.info.fromVsSheV],
                   ['to', outcome.info.to, outcome.info.toVsSheV],
                 ].map(([k, name, v]) => (
-                  <tr key={k as string} className="border-b border-rule/60 dark:border-night-rule/60">
+                  <tr
+                    key={k as string}
+                    className="border-b border-rule/60 dark:border-night-rule/60"
+                  >
                     <td className="py-1 pr-3">{label(name as string)}</td>
                     <td className="py-1 pr-3 text-right num">{fmt(v as number)}</td>
                   </tr>
@@ -197,17 +289,29 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
             <h3 className="mt-4 text-sm font-semibold">Sources</h3>
             <ul className="mt-1 list-disc pl-5 text-sm" data-testid="scale-sources">
               {outcome.info.sources.map((src) => (
-                <li key={src}>{src.replace(/ \[(pub|cp|mem)\]$/, (_, t: string) => (t === 'cp' ? ' — common practice' : t === 'mem' ? ' — recalled' : ''))}</li>
+                <li key={src}>
+                  {src.replace(/ \[(pub|cp|mem)\]$/, (_, t: string) =>
+                    t === 'cp' ? ' — common practice' : t === 'mem' ? ' — recalled' : '',
+                  )}
+                </li>
               ))}
             </ul>
             {outcome.warnings.map((w) => (
-              <p key={w} role="note" className="mt-4 rounded-md border border-copper/40 bg-copper-soft/50 dark:bg-copper/15 p-3 text-sm" data-testid="scale-warning">
+              <p
+                key={w}
+                role="note"
+                className="mt-4 rounded-md border border-copper/40 bg-copper-soft/50 dark:bg-copper/15 p-3 text-sm"
+                data-testid="scale-warning"
+              >
                 Approximate: {w.replace(/^conversion between \S+ and \S+ is approximate: /, '')}.
               </p>
             ))}
           </>
         ) : (
-          <p className="mt-2 rounded-md border border-rule dark:border-night-rule p-3" data-testid="scale-refusal">
+          <p
+            className="mt-2 rounded-md border border-rule dark:border-night-rule p-3"
+            data-testid="scale-refusal"
+          >
             {outcome.message}
           </p>
         )}
@@ -217,7 +321,17 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
 }
 
 /** A labelled choice among the conversion table's scales. */
-function ScaleSelect({ id, label, value, onChange }: { id: string; label: string; value: string; onChange: (e: { target: { value: string } }) => void }) {
+function ScaleSelect({
+  id,
+  label,
+  value,
+  onChange,
+}: {
+  id: string;
+  label: string;
+  value: string;
+  onChange: (e: { target: { value: string } }) => void;
+}) {
   return (
     <div className="grid gap-1">
       <label htmlFor={id} className="text-sm font-semibold">

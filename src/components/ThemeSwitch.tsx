@@ -7,7 +7,11 @@ export default function ThemeSwitch() {
   const [theme, setTheme] = useState<Theme>('light');
   useEffect(() => {
     const set = document.documentElement.dataset.theme;
-    setTheme(set === 'dark' || (!set && matchMedia('(prefers-color-scheme: dark)').matches) ? 'dark' : 'light');
+    setTheme(
+      set === 'dark' || (!set && matchMedia('(prefers-color-scheme: dark)').matches)
+        ? 'dark'
+        : 'light',
+    );
   }, []);
   const next: Theme = theme === 'dark' ? 'light' : 'dark';
   return (

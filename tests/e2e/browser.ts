@@ -8,7 +8,16 @@ import { dataDir } from '../../scripts/lib/paths.ts';
 
 // Debian's Chromium for the reader's pages, axe-core checks and screenshots kept as artifacts.
 
-const ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+const ARGS = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 
 export const artifactsDir = path.join(dataDir, 'artifacts');
 
@@ -18,7 +27,9 @@ export interface Browser {
 }
 
 /** A fresh browser profile; `colorScheme` sets the system preference the pages see. */
-export async function openBrowser(opts: { colorScheme?: 'light' | 'dark'; viewport?: { width: number; height: number } } = {}): Promise<Browser> {
+export async function openBrowser(
+  opts: { colorScheme?: 'light' | 'dark'; viewport?: { width: number; height: number } } = {},
+): Promise<Browser> {
   const profile = mkdtempSync(path.join(tmpdir(), 'edgewise-chromium-'));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: '/usr/bin/chromium',
@@ -38,7 +49,9 @@ export async function openBrowser(opts: { colorScheme?: 'light' | 'dark'; viewpo
 }
 
 /** A page that collects console errors, uncaught errors and CSP refusals into `problems`. */
-export async function watchedPage(context: BrowserContext): Promise<{ page: Page; problems: string[] }> {
+export async function watchedPage(
+  context: BrowserContext,
+): Promise<{ page: Page; problems: string[] }> {
   const page = await context.newPage();
   const problems: string[] = [];
   page.on('console', (m) => m.type() === 'error' && problems.push(m.text()));
@@ -54,7 +67,10 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   return file;
 }
 
-const axeSource = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
+const axeSource = readFileSync(
+  createRequire(import.meta.url).resolve('axe-core/axe.min.js'),
+  'utf8',
+);
 
 export interface AxeViolation {
   id: string;
@@ -68,9 +84,32 @@ export async function seriousViolations(page: Page): Promise<AxeViolation[]> {
   // Evaluated through the DevTools protocol, which the page's content security policy does not govern.
   await page.evaluate(axeSource);
   const result = await page.evaluate(async () => {
-    const axe = (globalThis as unknown as { axe: { run: (ctx: unknown, opts: unknown) => Promise<{ violations: { id: string; impact: string | null; help: string; nodes: { target: unknown[] }[] }[] }> } }).axe;
-    const r = await axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] } });
-    return r.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.slice(0, 5).map((n) => JSON.stringify(n.target)) }));
+    const axe = (
+      globalThis as unknown as {
+        axe: {
+          run: (
+            ctx: unknown,
+            opts: unknown,
+          ) => Promise<{
+            violations: {
+              id: string;
+              impact: string | null;
+              help: string;
+              nodes: { target: unknown[] }[];
+            }[];
+          }>;
+        };
+      }
+    ).axe;
+    const r = await axe.run(document, {
+      runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] },
+    });
+    return r.violations.map((v) => ({
+      id: v.id,
+      impact: v.impact,
+      help: v.help,
+      nodes: v.nodes.slice(0, 5).map((n) => JSON.stringify(n.target)),
+    }));
   });
   return result.filter((v) => v.impact === 'serious' || v.impact === 'critical');
 }
@@ -94,14 +133,21 @@ export async function wideElements(page: Page): Promise<string> {
     for (const el of document.querySelectorAll('body *')) {
       if (clipped(el)) continue;
       const r = el.getBoundingClientRect();
-      if (r.right > w + 1 && out.length < 8) out.push(`${el.tagName.toLowerCase()}.${String(el.getAttribute('class') ?? '').split(' ').slice(0, 4).join('.')} → ${Math.round(r.right)}px`);
+      if (r.right > w + 1 && out.length < 8)
+        out.push(
+          `${el.tagName.toLowerCase()}.${String(el.getAttribute('class') ?? '')
+            .split(' ')
+            .slice(0, 4)
+            .join('.')} → ${Math.round(r.right)}px`,
+        );
     }
     return `wider than ${w}px: ${out.join('; ') || 'nothing found'}`;
   });
 }
 
 /** The text of the element with a test id, whitespace collapsed. */
-export const text = async (page: Page, testId: string) => (await page.getByTestId(testId).innerText()).replace(/\s+/g, ' ').trim();
+export const text = async (page: Page, testId: string) =>
+  (await page.getByTestId(testId).innerText()).replace(/\s+/g, ' ').trim();
 
 /** Waits until every island on the page has hydrated (Astro drops the `ssr` mark then): input typed before that can be reset. */
 export async function hydrated(page: Page): Promise<void> {
@@ -112,7 +158,8 @@ export async function hydrated(page: Page): Promise<void> {
 export const PHONE = { width: 390, height: 844 };
 
 /** A browser at phone size whose system preference is dark. */
-export const openDarkPhone = (): Promise<Browser> => openBrowser({ colorScheme: 'dark', viewport: PHONE });
+export const openDarkPhone = (): Promise<Browser> =>
+  openBrowser({ colorScheme: 'dark', viewport: PHONE });
 
 /**
  * What every page shows on a dark phone: a screenshot kept as `name`, the dark scheme in force,
@@ -120,7 +167,12 @@ export const openDarkPhone = (): Promise<Browser> => openBrowser({ colorScheme: 
  */
 export async function expectReadsWellOnPhone(page: Page, name: string): Promise<void> {
   await screenshot(page, name);
-  expect(await page.evaluate(() => getComputedStyle(document.documentElement).colorScheme)).toBe('dark');
-  expect(await page.evaluate(() => document.documentElement.scrollWidth), await wideElements(page)).toBeLessThanOrEqual(PHONE.width);
+  expect(await page.evaluate(() => getComputedStyle(document.documentElement).colorScheme)).toBe(
+    'dark',
+  );
+  expect(
+    await page.evaluate(() => document.documentElement.scrollWidth),
+    await wideElements(page),
+  ).toBeLessThanOrEqual(PHONE.width);
   expect(await seriousViolations(page)).toEqual([]);
 }

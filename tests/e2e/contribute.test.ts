@@ -1,12 +1,29 @@
 import type { Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { appDb, as, asJson, clearSignInFailures, closeAppDb, makeUser, signIn, TEST_PASSWORD, type TestUser } from '../auth-helpers.ts';
+import {
+  appDb,
+  as,
+  asJson,
+  clearSignInFailures,
+  closeAppDb,
+  makeUser,
+  signIn,
+  TEST_PASSWORD,
+  type TestUser,
+} from '../auth-helpers.ts';
 import { appUrl, waitForMail } from '../helpers.ts';
 import { curator } from '../support/records.ts';
 import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/synthetic.ts';
 import { decide } from '../../src/lib/server/curation.ts';
 import { decisionBody } from '../../src/lib/shared/curation.ts';
-import { openBrowser, openDarkPhone, screenshot, seriousViolations, watchedPage, type Browser } from './browser.ts';
+import {
+  openBrowser,
+  openDarkPhone,
+  screenshot,
+  seriousViolations,
+  watchedPage,
+  type Browser,
+} from './browser.ts';
 
 // A contributor records a window in a real browser: the steps, two generated raw files sent to
 // storage (one with a wrong unit corrected in the preview, one cancelled, one failing once and
@@ -17,14 +34,21 @@ import { openBrowser, openDarkPhone, screenshot, seriousViolations, watchedPage,
 const MODEL_LIMIT = '1.090 V';
 const goodCsv = formatExport(cvWindowOpeningSamples());
 // Potentials written in mV under a header that says V: the contributor corrects the unit.
-const mislabelled = formatExport(cvWindowOpeningSamples(), { units: { potential: 'mV' } }).replace('E/mV', 'E/V');
+const mislabelled = formatExport(cvWindowOpeningSamples(), { units: { potential: 'mV' } }).replace(
+  'E/mV',
+  'E/V',
+);
 const badLine = 'time/s,E/V,I/A,cycle\n0,0,1e-3,1\n0.2,0.001,1e-3,1\n0.4,oops,1e-3,1\n';
 
 let user: TestUser;
 /** The page under test, photographed when a test fails. */
 let lastPage: Page | undefined;
 afterEach(async (ctx) => {
-  if (ctx.task.result?.state === 'fail' && lastPage && !lastPage.isClosed()) await screenshot(lastPage, `contribute-failed-${ctx.task.name.slice(0, 30).replace(/\W+/g, '-')}`);
+  if (ctx.task.result?.state === 'fail' && lastPage && !lastPage.isClosed())
+    await screenshot(
+      lastPage,
+      `contribute-failed-${ctx.task.name.slice(0, 30).replace(/\W+/g, '-')}`,
+    );
 });
 
 beforeAll(async () => {
@@ -46,7 +70,8 @@ async function signInAt(page: Page, next: string) {
 
 /** The islands answer only once hydrated; the server-rendered form looks the same before. */
 async function hydrated(page: Page) {
-  for (const island of await page.locator('astro-island[component-url*="Contribute"]').all()) await island.and(page.locator(':not([ssr])')).waitFor({ state: 'attached' });
+  for (const island of await page.locator('astro-island[component-url*="Contribute"]').all())
+    await island.and(page.locator(':not([ssr])')).waitFor({ state: 'attached' });
 }
 
 /** Types into a vocabulary box and picks the suggestion. */
@@ -60,11 +85,14 @@ async function dropFiles(page: Page, files: { name: string; text: string }[]) {
   await page.evaluate((list) => {
     const dt = new DataTransfer();
     for (const f of list) dt.items.add(new File([f.text], f.name, { type: 'text/csv' }));
-    document.querySelector('[data-testid="drop-zone"]')!.dispatchEvent(new DragEvent('drop', { dataTransfer: dt, bubbles: true, cancelable: true }));
+    document
+      .querySelector('[data-testid="drop-zone"]')!
+      .dispatchEvent(new DragEvent('drop', { dataTransfer: dt, bubbles: true, cancelable: true }));
   }, files);
 }
 
-const step = (page: Page, n: number) => page.getByRole('heading', { level: 2, name: new RegExp(`^${n}\\. `) }).waitFor();
+const step = (page: Page, n: number) =>
+  page.getByRole('heading', { level: 2, name: new RegExp(`^${n}\\. `) }).waitFor();
 const next = (page: Page) => page.getByRole('button', { name: /^Next: / }).click();
 
 describe('contributing a record in a browser', () => {
@@ -107,7 +135,10 @@ describe('contributing a record in a browser', () => {
     await page.getByLabel('Anodic limit').fill('1.0');
     await screenshot(page, 'contribute-3-method');
     await next(page);
-    await page.getByTestId('notice').getByText(/^Saved EW-\d{6} v1\.$/).waitFor();
+    await page
+      .getByTestId('notice')
+      .getByText(/^Saved EW-\d{6} v1\.$/)
+      .waitFor();
     handle = /EW-\d{6}/.exec(await page.getByTestId('notice').innerText())![0];
     expect(new URL(page.url()).searchParams.get('record')).toBe(handle);
 
@@ -137,8 +168,13 @@ describe('contributing a record in a browser', () => {
     const mv = page.getByRole('region', { name: 'Raw file opening-mV.csv' });
     const broken = page.getByRole('region', { name: 'Raw file broken.csv' });
     await good.getByTestId('detected').getByText('comma-separated, decimal point').waitFor();
-    await expect(good.getByTestId('detected').innerText()).resolves.toContain('potential “E/V” in V');
-    await broken.getByTestId('read-error').getByText(/line 4/).waitFor();
+    await expect(good.getByTestId('detected').innerText()).resolves.toContain(
+      'potential “E/V” in V',
+    );
+    await broken
+      .getByTestId('read-error')
+      .getByText(/line 4/)
+      .waitFor();
     await expect(broken.getByRole('button', { name: 'Upload' }).isDisabled()).resolves.toBe(true);
     await broken.getByRole('button', { name: 'Remove' }).click();
 
@@ -154,21 +190,33 @@ describe('contributing a record in a browser', () => {
       }
       if (failNext) {
         failNext = false;
-        return route.fulfill({ status: 503, headers: { 'access-control-allow-origin': '*' }, body: 'busy' });
+        return route.fulfill({
+          status: 503,
+          headers: { 'access-control-allow-origin': '*' },
+          body: 'busy',
+        });
       }
       return route.continue();
     });
     await good.getByRole('button', { name: 'Upload' }).click();
-    await good.getByTestId('upload-state').getByText(/^Uploading \d+ %$/).waitFor();
+    await good
+      .getByTestId('upload-state')
+      .getByText(/^Uploading \d+ %$/)
+      .waitFor();
     await good.getByRole('button', { name: 'Cancel upload' }).click();
     await good.getByTestId('upload-state').getByText('Cancelled').waitFor();
     await good.getByText('Upload cancelled; nothing was attached.').waitFor();
     failNext = true;
     await good.getByRole('button', { name: 'Retry upload' }).click();
     await good.getByTestId('upload-state').getByText('Failed').waitFor();
-    await good.getByText(/storage refused the file \(HTTP 503\)|connection to storage failed/).waitFor();
+    await good
+      .getByText(/storage refused the file \(HTTP 503\)|connection to storage failed/)
+      .waitFor();
     await good.getByRole('button', { name: 'Retry upload' }).click();
-    await good.getByTestId('upload-state').getByText('Attached and verified').waitFor({ timeout: 30_000 });
+    await good
+      .getByTestId('upload-state')
+      .getByText('Attached and verified')
+      .waitFor({ timeout: 30_000 });
     await expect(good.locator('progress').getAttribute('value')).resolves.toBe('100');
     await expect(good.getByTestId('server-result').innerText()).resolves.toContain(MODEL_LIMIT);
 
@@ -177,7 +225,10 @@ describe('contributing a record in a browser', () => {
     await unit.blur();
     await mv.getByTestId('detected').getByText('potential “E/V” in mV').waitFor();
     await mv.getByRole('button', { name: 'Upload' }).click();
-    await mv.getByTestId('upload-state').getByText('Attached and verified').waitFor({ timeout: 30_000 });
+    await mv
+      .getByTestId('upload-state')
+      .getByText('Attached and verified')
+      .waitFor({ timeout: 30_000 });
     await expect(mv.getByTestId('server-result').innerText()).resolves.toContain(MODEL_LIMIT);
     await screenshot(page, 'contribute-5-files');
 
@@ -187,8 +238,13 @@ describe('contributing a record in a browser', () => {
     const analysis = page.getByRole('region', { name: 'Analysis of opening-mV.csv' });
     await expect(analysis.getByTestId('browser-limit').innerText()).resolves.toBe(MODEL_LIMIT);
     await expect(analysis.getByTestId('server-limit').innerText()).resolves.toBe(MODEL_LIMIT);
-    await expect(analysis.getByTestId('disagreement').innerText()).resolves.toContain('differ by 90 mV (more than 50 mV)');
-    await page.getByRole('img', { name: /S-value against potential/ }).first().waitFor();
+    await expect(analysis.getByTestId('disagreement').innerText()).resolves.toContain(
+      'differ by 90 mV (more than 50 mV)',
+    );
+    await page
+      .getByRole('img', { name: /S-value against potential/ })
+      .first()
+      .waitFor();
     await screenshot(page, 'contribute-6-analysis');
 
     // 7. review and submit
@@ -196,27 +252,54 @@ describe('contributing a record in a browser', () => {
     await step(page, 7);
     const checklist = page.getByTestId('checklist');
     await checklist.getByText('Raw files attached and verified').waitFor();
-    const agreement = await checklist.locator('li', { hasText: 'Computed limits within 50 mV' }).innerText();
+    const agreement = await checklist
+      .locator('li', { hasText: 'Computed limits within 50 mV' })
+      .innerText();
     expect(agreement).toContain('recommended:');
     expect(agreement).toContain('2 of 2 disagree by more than 50 mV');
     await screenshot(page, 'contribute-7-submit');
     await page.getByRole('button', { name: 'Submit for review' }).click();
-    await page.getByTestId('notice').getByText(/is in the review queue/).waitFor();
+    await page
+      .getByTestId('notice')
+      .getByText(/is in the review queue/)
+      .waitFor();
     expect(await seriousViolations(page)).toEqual([]);
 
-    const mail = await waitForMail(user.email, new RegExp(`Edgewise received ${handle} v\\d+ for review`));
+    const mail = await waitForMail(
+      user.email,
+      new RegExp(`Edgewise received ${handle} v\\d+ for review`),
+    );
     expect(mail.text).toContain(`/windows/${handle}`);
 
     // The curator's queue has it, with both files verified.
     const cookie = await signIn(await makeUser({ role: 'curator' }));
-    const queue = await (await as(cookie, '/api/v1/records?status=submitted&sort=-updated&limit=20&facets=false')).json();
+    const queue = await (
+      await as(cookie, '/api/v1/records?status=submitted&sort=-updated&limit=20&facets=false')
+    ).json();
     expect(queue.items.map((i: { handle: string }) => i.handle)).toContain(handle);
     const rec = await (await as(cookie, `/api/v1/records/${handle}`)).json();
     expect(rec.status).toBe('submitted');
     expect(rec.rawFiles).toHaveLength(2);
     expect(rec.evidenceLevel).toBe('recomputed');
-    expect(rec.analyses.map((a: { limitV: number }) => a.limitV.toFixed(3))).toEqual(['1.090', '1.090']);
-    const uploads = await appDb().selectFrom('uploads').select(['status']).where('record_id', '=', (await appDb().selectFrom('records').select('id').where('handle', '=', handle).executeTakeFirstOrThrow()).id).execute();
+    expect(rec.analyses.map((a: { limitV: number }) => a.limitV.toFixed(3))).toEqual([
+      '1.090',
+      '1.090',
+    ]);
+    const uploads = await appDb()
+      .selectFrom('uploads')
+      .select(['status'])
+      .where(
+        'record_id',
+        '=',
+        (
+          await appDb()
+            .selectFrom('records')
+            .select('id')
+            .where('handle', '=', handle)
+            .executeTakeFirstOrThrow()
+        ).id,
+      )
+      .execute();
     expect(uploads.filter((u) => u.status === 'complete')).toHaveLength(2);
     expect(problems.filter((p) => !/503|Failed to load resource/.test(p))).toEqual([]);
     await page.close();
@@ -225,12 +308,19 @@ describe('contributing a record in a browser', () => {
   it('edits after changes requested on a phone in dark mode: the curator’s reason, a 409 handled, a new version with a change note', async () => {
     const cur = await curator();
     const before = await (await as(await signIn(user), `/api/v1/records/${handle}`)).json();
-    await decide(appDb(), cur, handle, decisionBody.parse({
-      decision: 'request-changes',
-      version: before.version,
-      reason: 'The anodic limit should be the value at S = 0.1; please recheck it.',
-      comments: [{ path: 'reportedLimits.anodic.valueV', message: 'Your own files give 1.090 V here.' }],
-    }));
+    await decide(
+      appDb(),
+      cur,
+      handle,
+      decisionBody.parse({
+        decision: 'request-changes',
+        version: before.version,
+        reason: 'The anodic limit should be the value at S = 0.1; please recheck it.',
+        comments: [
+          { path: 'reportedLimits.anodic.valueV', message: 'Your own files give 1.090 V here.' },
+        ],
+      }),
+    );
 
     const phone = await openDarkPhone();
     try {
@@ -242,33 +332,62 @@ describe('contributing a record in a browser', () => {
       await hydrated(page);
       await page.getByTestId('changes-requested').getByText('please recheck it').waitFor();
       await step(page, 1);
-      await expect.poll(() => page.getByRole('combobox', { name: 'Solvent 1' }).inputValue()).toBe('propylene carbonate (PC)');
+      await expect
+        .poll(() => page.getByRole('combobox', { name: 'Solvent 1' }).inputValue())
+        .toBe('propylene carbonate (PC)');
       await screenshot(page, 'contribute-phone-dark-1');
       for (const n of [2, 3, 4, 5, 6]) {
-        await page.getByRole('navigation', { name: 'Steps' }).getByRole('button', { name: new RegExp(`^${n}\\. `) }).click();
+        await page
+          .getByRole('navigation', { name: 'Steps' })
+          .getByRole('button', { name: new RegExp(`^${n}\\. `) })
+          .click();
         await step(page, n);
         await screenshot(page, `contribute-phone-dark-${n}`);
       }
-      await page.getByRole('navigation', { name: 'Steps' }).getByRole('button', { name: /^3\. / }).click();
-      await page.getByTestId('curator-note').getByText('Your own files give 1.090 V here.').waitFor();
+      await page
+        .getByRole('navigation', { name: 'Steps' })
+        .getByRole('button', { name: /^3\. / })
+        .click();
+      await page
+        .getByTestId('curator-note')
+        .getByText('Your own files give 1.090 V here.')
+        .waitFor();
       await page.getByLabel('Anodic limit').fill('1.09');
 
       // Someone saves the record from another session meanwhile.
       const other = await signIn(user);
       const current = await (await as(other, `/api/v1/records/${handle}`)).json();
-      const put = await asJson(other, `/api/v1/records/${handle}`, 'PUT', { version: current.version, changeNote: 'Title from another tab', content: { ...current.content, title: 'Edited elsewhere' } });
+      const put = await asJson(other, `/api/v1/records/${handle}`, 'PUT', {
+        version: current.version,
+        changeNote: 'Title from another tab',
+        content: { ...current.content, title: 'Edited elsewhere' },
+      });
       expect(put.status).toBe(200);
 
       await page.getByRole('button', { name: 'Save draft' }).click();
-      await page.getByTestId('notice').getByText(`changed elsewhere meanwhile (it is now v${current.version + 1})`).waitFor();
+      await page
+        .getByTestId('notice')
+        .getByText(`changed elsewhere meanwhile (it is now v${current.version + 1})`)
+        .waitFor();
       await page.getByRole('button', { name: 'Save draft' }).click();
-      await page.getByTestId('notice').getByText(`Saved ${handle} v${current.version + 2}.`).waitFor();
+      await page
+        .getByTestId('notice')
+        .getByText(`Saved ${handle} v${current.version + 2}.`)
+        .waitFor();
 
-      await page.getByRole('navigation', { name: 'Steps' }).getByRole('button', { name: /^7\. / }).click();
-      await page.getByLabel('What did you change?').fill('Anodic limit corrected to the S = 0.1 crossing.');
+      await page
+        .getByRole('navigation', { name: 'Steps' })
+        .getByRole('button', { name: /^7\. / })
+        .click();
+      await page
+        .getByLabel('What did you change?')
+        .fill('Anodic limit corrected to the S = 0.1 crossing.');
       await screenshot(page, 'contribute-phone-dark-7');
       await page.getByRole('button', { name: 'Send back for review' }).click();
-      await page.getByTestId('notice').getByText(/is in the review queue/).waitFor();
+      await page
+        .getByTestId('notice')
+        .getByText(/is in the review queue/)
+        .waitFor();
       expect(await seriousViolations(page)).toEqual([]);
       expect(problems.filter((p) => !/409|Failed to load resource/.test(p))).toEqual([]);
     } finally {
@@ -280,8 +399,13 @@ describe('contributing a record in a browser', () => {
     expect(after.content.reportedLimits.anodic.valueV).toBe(1.09);
     expect(after.evidenceLevel).toBe('confirmed');
     const versions = await (await as(cookie, `/api/v1/records/${handle}/versions`)).json();
-    expect(versions.versions.map((v: { changeNote: string }) => v.changeNote)).toContain('Title from another tab');
-    await waitForMail(user.email, new RegExp(`Edgewise received ${handle} v${after.version} for review`));
+    expect(versions.versions.map((v: { changeNote: string }) => v.changeNote)).toContain(
+      'Title from another tab',
+    );
+    await waitForMail(
+      user.email,
+      new RegExp(`Edgewise received ${handle} v${after.version} for review`),
+    );
   });
 
   it('turns a reader away politely', async () => {
@@ -294,7 +418,12 @@ describe('contributing a record in a browser', () => {
     await page.getByRole('button', { name: 'Sign in', exact: true }).click();
     await page.waitForURL(/\/contribute$/);
     await page.getByText('Your account can read records but not add them.').waitFor();
-    expect(await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Contribute' }).count()).toBe(0);
+    expect(
+      await page
+        .getByRole('navigation', { name: 'Main' })
+        .getByRole('link', { name: 'Contribute' })
+        .count(),
+    ).toBe(0);
     await page.close();
   });
 });

@@ -24,7 +24,9 @@ describe('home page in a real browser', () => {
     await option.waitFor();
     await option.click();
     await expect(box.inputValue()).resolves.toBe('GC ');
-    await page.waitForFunction(() => document.querySelector('[data-testid=understood]')?.textContent?.includes('GC (electrode)'));
+    await page.waitForFunction(() =>
+      document.querySelector('[data-testid=understood]')?.textContent?.includes('GC (electrode)'),
+    );
     // No script blocked by the content security policy, no uncaught error.
     expect(problems).toEqual([]);
     await page.close();

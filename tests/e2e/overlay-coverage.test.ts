@@ -3,7 +3,16 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
 import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
-import { expectReadsWellOnPhone, openBrowser, openDarkPhone, screenshot, seriousViolations, text, watchedPage, type Browser } from './browser.ts';
+import {
+  expectReadsWellOnPhone,
+  openBrowser,
+  openDarkPhone,
+  screenshot,
+  seriousViolations,
+  text,
+  watchedPage,
+  type Browser,
+} from './browser.ts';
 import { publishThroughApi, publishedTotal } from './publish.ts';
 
 // The overlay of raw curves from the table selection, and the coverage matrix, on records
@@ -15,15 +24,29 @@ const h: Record<'gc' | 'pt' | 'ac', string> = { gc: '', pt: '', ac: '' };
 
 const content = (electrode: string) => ({
   title: `NaClO4 in water on ${electrode}`,
-  electrolyte: { solvents: [{ term: 'water', fraction: 1 }], salts: [{ term: 'NaClO4', concentration: { value: 1, basis: 'mol/L' } }], pH: 6 },
+  electrolyte: {
+    solvents: [{ term: 'water', fraction: 1 }],
+    salts: [{ term: 'NaClO4', concentration: { value: 1, basis: 'mol/L' } }],
+    pH: 6,
+  },
   temperatureC: 25,
   workingElectrode: { material: electrode, form: 'disk', geometricAreaCm2: 0.07 },
   referenceElectrode: 'Ag/AgCl, sat. KCl',
   cellType: 'three-electrode',
   method: { kind: 'cv-window-opening', scanRateMVs: 5, vertexStepMV: 100 },
   criterion: { kind: 's-value', threshold: 0.1 },
-  reportedLimits: { cathodic: { valueV: -1.0, reference: 'Ag/AgCl, sat. KCl' }, anodic: { valueV: 1.0, reference: 'Ag/AgCl, sat. KCl' } },
-  source: { kind: 'published', doi: '10.5555/ew.overlay.1', title: 'An invented study of perchlorate windows', authors: [{ family: 'Ferrant', given: 'Ilse' }], containerTitle: 'Journal of Made-up Electrochemistry', year: 2025 },
+  reportedLimits: {
+    cathodic: { valueV: -1.0, reference: 'Ag/AgCl, sat. KCl' },
+    anodic: { valueV: 1.0, reference: 'Ag/AgCl, sat. KCl' },
+  },
+  source: {
+    kind: 'published',
+    doi: '10.5555/ew.overlay.1',
+    title: 'An invented study of perchlorate windows',
+    authors: [{ family: 'Ferrant', given: 'Ilse' }],
+    containerTitle: 'Journal of Made-up Electrochemistry',
+    year: 2025,
+  },
 });
 
 beforeAll(async () => {
@@ -31,8 +54,21 @@ beforeAll(async () => {
   const curator = await signIn(await makeUser({ role: 'curator' }));
   const cols = { columns: ['time', 'potential', 'current', 'cycle'] as const };
   // METHODS.md §8 A model on glassy carbon; an earlier, steeper onset on platinum; no raw file on activated carbon.
-  h.gc = await publishThroughApi(contributor, curator, content('GC'), formatExport(cvWindowOpeningSamples(), { columns: [...cols.columns] }));
-  h.pt = await publishThroughApi(contributor, curator, content('Pt'), formatExport(cvWindowOpeningSamples({ faradaic: { i0A: 3e-5, onsetV: 0.9, slopeVPerDecade: 0.12 } }), { columns: [...cols.columns] }));
+  h.gc = await publishThroughApi(
+    contributor,
+    curator,
+    content('GC'),
+    formatExport(cvWindowOpeningSamples(), { columns: [...cols.columns] }),
+  );
+  h.pt = await publishThroughApi(
+    contributor,
+    curator,
+    content('Pt'),
+    formatExport(
+      cvWindowOpeningSamples({ faradaic: { i0A: 3e-5, onsetV: 0.9, slopeVPerDecade: 0.12 } }),
+      { columns: [...cols.columns] },
+    ),
+  );
   h.ac = await publishThroughApi(contributor, curator, content('activated carbon'));
   browser = await openBrowser();
 }, 120_000);
@@ -43,44 +79,64 @@ afterAll(async () => {
   await closeAppDb();
 });
 
-
 const FILTER = 'component=naclo4&component=water';
 
 describe('overlay of raw curves', () => {
   it('selects records in the table, keeps the selection in the address and draws their raw curves', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL(`/windows?${FILTER}`, appUrl()).href);
-    await expect.poll(() => text(page, 'result-count')).toMatch(new RegExp(`^${await publishedTotal(FILTER)} matching`));
-    for (const k of ['gc', 'pt', 'ac'] as const) await page.getByRole('checkbox', { name: `Select ${h[k]} for the overlay` }).check();
-    await expect.poll(() => new URL(page.url()).searchParams.get('pick')).toBe(`${h.gc},${h.pt},${h.ac}`);
+    await expect
+      .poll(() => text(page, 'result-count'))
+      .toMatch(new RegExp(`^${await publishedTotal(FILTER)} matching`));
+    for (const k of ['gc', 'pt', 'ac'] as const)
+      await page.getByRole('checkbox', { name: `Select ${h[k]} for the overlay` }).check();
+    await expect
+      .poll(() => new URL(page.url()).searchParams.get('pick'))
+      .toBe(`${h.gc},${h.pt},${h.ac}`);
     expect(await text(page, 'overlay-bar')).toContain('3 of 6 selected');
 
     // The selection survives a reload (it lives in the address).
     await page.reload();
-    await expect.poll(() => page.getByRole('checkbox', { name: `Select ${h.pt} for the overlay` }).isChecked()).toBe(true);
+    await expect
+      .poll(() =>
+        page.getByRole('checkbox', { name: `Select ${h.pt} for the overlay` }).isChecked(),
+      )
+      .toBe(true);
 
     await page.getByRole('link', { name: 'Overlay curves' }).click();
     await page.waitForURL(/\/windows\/overlay\?records=/);
     const chart = page.getByTestId('overlay-chart');
     await chart.waitFor();
     // One curve per raw-backed record, named by handle and electrode; the record without raw data says so.
-    await expect.poll(async () => (await chart.locator('svg').textContent()) ?? '').toContain(`${h.gc} · glassy carbon`);
+    await expect
+      .poll(async () => (await chart.locator('svg').textContent()) ?? '')
+      .toContain(`${h.gc} · glassy carbon`);
     const legend = (await chart.locator('svg').textContent()) ?? '';
     expect(legend).toContain(`${h.pt} · platinum`);
     expect(legend).not.toContain(h.ac);
     expect(await page.locator(`li[data-handle="${h.ac}"]`).innerText()).toContain('no raw data');
     // Two different colours.
-    const strokes = await chart.locator('svg path[stroke^="var(--series"]').evaluateAll((ps) => ps.map((p) => p.getAttribute('stroke')));
+    const strokes = await chart
+      .locator('svg path[stroke^="var(--series"]')
+      .evaluateAll((ps) => ps.map((p) => p.getAttribute('stroke')));
     expect(new Set(strokes).size).toBe(2);
 
-    const [svgFile] = await Promise.all([page.waitForEvent('download'), chart.getByRole('button', { name: 'SVG' }).click()]);
+    const [svgFile] = await Promise.all([
+      page.waitForEvent('download'),
+      chart.getByRole('button', { name: 'SVG' }).click(),
+    ]);
     const svg = readFileSync((await svgFile.path())!, 'utf8');
     expect(svg).toMatch(/^<svg[^>]+xmlns="http:\/\/www\.w3\.org\/2000\/svg"/);
     expect(svg).toContain(h.gc);
     expect(svg).toContain(h.pt);
     expect(svg).toContain('E / V vs SHE');
-    const [pngFile] = await Promise.all([page.waitForEvent('download'), chart.getByRole('button', { name: 'PNG' }).click()]);
-    expect([...readFileSync((await pngFile.path())!).subarray(0, 4)]).toEqual([0x89, 0x50, 0x4e, 0x47]);
+    const [pngFile] = await Promise.all([
+      page.waitForEvent('download'),
+      chart.getByRole('button', { name: 'PNG' }).click(),
+    ]);
+    expect([...readFileSync((await pngFile.path())!).subarray(0, 4)]).toEqual([
+      0x89, 0x50, 0x4e, 0x47,
+    ]);
 
     expect(await seriousViolations(page)).toEqual([]);
     await screenshot(page, 'overlay-light');
@@ -91,7 +147,9 @@ describe('overlay of raw curves', () => {
     const back = new URL(page.url()).searchParams;
     for (const [k, v] of new URLSearchParams(FILTER)) expect(back.getAll(k)).toContain(v);
     expect(back.get('pick')).toBe(`${h.gc},${h.pt},${h.ac}`);
-    await expect.poll(() => text(page, 'result-count')).toMatch(new RegExp(`^${await publishedTotal(FILTER)} matching`));
+    await expect
+      .poll(() => text(page, 'result-count'))
+      .toMatch(new RegExp(`^${await publishedTotal(FILTER)} matching`));
     expect(problems).toEqual([]);
     await page.close();
   });
@@ -105,7 +163,9 @@ describe('overlay of raw curves', () => {
     await box.waitFor();
     await expect.poll(() => text(page, 'overlay-bar')).toContain('6 of 6 selected');
     await box.click();
-    await expect.poll(() => text(page, 'overlay-refusal')).toContain(`${h.gc} was not added: an overlay holds at most 6 records`);
+    await expect
+      .poll(() => text(page, 'overlay-refusal'))
+      .toContain(`${h.gc} was not added: an overlay holds at most 6 records`);
     expect(await box.isChecked()).toBe(false);
     expect(new URL(page.url()).searchParams.get('pick')).toBe(six.join(','));
     await page.getByRole('button', { name: 'Clear selection' }).click();
@@ -122,7 +182,9 @@ describe('coverage matrix', () => {
     await page.getByTestId('coverage-table').waitFor();
     const cov = await (await fetch(new URL('/api/v1/coverage', appUrl()))).json();
     const electrodes: string[] = cov.electrodes.map((e: { id: string }) => e.id);
-    expect(electrodes).toEqual(expect.arrayContaining(['glassy-carbon', 'platinum', 'activated-carbon']));
+    expect(electrodes).toEqual(
+      expect.arrayContaining(['glassy-carbon', 'platinum', 'activated-carbon']),
+    );
     for (const e of electrodes) {
       const n = await publishedTotal(`${FILTER}&electrode=${e}`);
       const cell = page.locator(`a[data-cell="naclo4|water|${e}"]`);
@@ -141,7 +203,9 @@ describe('coverage matrix', () => {
       expect(await cell.getAttribute('aria-label')).toContain(`: ${words.join(', ')}`);
     }
     // Raw-backed records are recomputed (or confirmed); the one without raw data is not.
-    expect(await page.locator('a[data-cell="naclo4|water|glassy-carbon"]').getAttribute('aria-label')).toMatch(/(recomputed|confirmed)/);
+    expect(
+      await page.locator('a[data-cell="naclo4|water|glassy-carbon"]').getAttribute('aria-label'),
+    ).toMatch(/(recomputed|confirmed)/);
 
     expect(await seriousViolations(page)).toEqual([]);
     await screenshot(page, 'coverage-light');
@@ -151,7 +215,9 @@ describe('coverage matrix', () => {
     const q = new URL(page.url()).searchParams;
     expect(q.getAll('component').sort()).toEqual(['naclo4', 'water']);
     expect(q.getAll('electrode')).toEqual(['glassy-carbon']);
-    await expect.poll(() => text(page, 'result-count')).toMatch(new RegExp(`^${expected} matching`));
+    await expect
+      .poll(() => text(page, 'result-count'))
+      .toMatch(new RegExp(`^${expected} matching`));
     expect(problems).toEqual([]);
     await page.close();
   });
@@ -165,7 +231,13 @@ describe('coverage matrix', () => {
       ] as const) {
         const { page, problems } = await watchedPage(phone.context);
         await page.goto(new URL(path, appUrl()).href);
-        await page.locator(name.startsWith('coverage') ? '[data-testid="coverage-table"]' : '[data-testid="overlay-chart"] svg').waitFor();
+        await page
+          .locator(
+            name.startsWith('coverage')
+              ? '[data-testid="coverage-table"]'
+              : '[data-testid="overlay-chart"] svg',
+          )
+          .waitFor();
         await expectReadsWellOnPhone(page, name);
         expect(problems).toEqual([]);
         await page.close();

@@ -39,15 +39,21 @@ describe('an account in a real browser', () => {
     await page.getByLabel('Password').fill(password);
     await page.getByRole('button', { name: 'Sign in', exact: true }).click();
     await page.waitForURL(/\/account$/);
-    await expect(page.getByRole('heading', { name: 'Your account' }).isVisible()).resolves.toBe(true);
+    await expect(page.getByRole('heading', { name: 'Your account' }).isVisible()).resolves.toBe(
+      true,
+    );
     await expect(page.getByTestId('account-link').textContent()).resolves.toBe('Bea Browser');
-    const cookie = (await browser.context.cookies()).find((c) => c.name === 'authjs.session-token')!;
+    const cookie = (await browser.context.cookies()).find(
+      (c) => c.name === 'authjs.session-token',
+    )!;
     expect(cookie).toMatchObject({ httpOnly: true, sameSite: 'Lax' });
 
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.waitForURL(/\/signin\?signedout=1$/);
     await page.getByText('You are signed out').waitFor();
-    expect((await browser.context.cookies()).some((c) => c.name === 'authjs.session-token')).toBe(false);
+    expect((await browser.context.cookies()).some((c) => c.name === 'authjs.session-token')).toBe(
+      false,
+    );
     await page.goto(`${appUrl()}/account`);
     await page.waitForURL(/\/signin\?next=%2Faccount$/);
     expect(problems).toEqual([]);

@@ -1,7 +1,17 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
-import { expectReadsWellOnPhone, hydrated, openBrowser, openDarkPhone, screenshot, seriousViolations, text, watchedPage, type Browser } from './browser.ts';
+import {
+  expectReadsWellOnPhone,
+  hydrated,
+  openBrowser,
+  openDarkPhone,
+  screenshot,
+  seriousViolations,
+  text,
+  watchedPage,
+  type Browser,
+} from './browser.ts';
 import { publishThroughApi } from './publish.ts';
 
 let browser: Browser;
@@ -13,15 +23,29 @@ beforeAll(async () => {
   // A published aqueous record at pH 4 for the water chart: limits −0.60 and 0.95 V vs Ag/AgCl (sat. KCl).
   aqueous = await publishThroughApi(contributor, curator, {
     title: 'Li2SO4 in water on gold',
-    electrolyte: { solvents: [{ term: 'water', fraction: 1 }], salts: [{ term: 'Li2SO4', concentration: { value: 0.5, basis: 'mol/L' } }], pH: 4 },
+    electrolyte: {
+      solvents: [{ term: 'water', fraction: 1 }],
+      salts: [{ term: 'Li2SO4', concentration: { value: 0.5, basis: 'mol/L' } }],
+      pH: 4,
+    },
     temperatureC: 25,
     workingElectrode: { material: 'gold', form: 'disk', geometricAreaCm2: 0.07 },
     referenceElectrode: 'Ag/AgCl, sat. KCl',
     cellType: 'three-electrode',
     method: { kind: 'lsv', scanRateMVs: 1 },
     criterion: { kind: 'j-area', threshold: 50 },
-    reportedLimits: { cathodic: { valueV: -0.6, reference: 'Ag/AgCl, sat. KCl' }, anodic: { valueV: 0.95, reference: 'Ag/AgCl, sat. KCl' } },
-    source: { kind: 'published', doi: '10.5555/ew.tools.1', title: 'An invented aqueous window on gold', authors: [{ family: 'Noor', given: 'Tamsin' }], containerTitle: 'Journal of Made-up Electrochemistry', year: 2025 },
+    reportedLimits: {
+      cathodic: { valueV: -0.6, reference: 'Ag/AgCl, sat. KCl' },
+      anodic: { valueV: 0.95, reference: 'Ag/AgCl, sat. KCl' },
+    },
+    source: {
+      kind: 'published',
+      doi: '10.5555/ew.tools.1',
+      title: 'An invented aqueous window on gold',
+      authors: [{ family: 'Noor', given: 'Tamsin' }],
+      containerTitle: 'Journal of Made-up Electrochemistry',
+      year: 2025,
+    },
   });
   browser = await openBrowser();
 }, 120_000);
@@ -31,7 +55,6 @@ afterAll(async () => {
   await clearSignInFailures();
   await closeAppDb();
 });
-
 
 describe('reference scale converter', () => {
   it('converts with the table values and names their sources (METHODS.md §8 B)', async () => {
@@ -69,7 +92,9 @@ describe('reference scale converter', () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL('/tools/scales?v=1&from=SHE&to=Fc%2B%2FFc', appUrl()).href);
     await hydrated(page);
-    await expect.poll(() => text(page, 'scale-refusal')).toContain('never converts it from a table');
+    await expect
+      .poll(() => text(page, 'scale-refusal'))
+      .toContain('never converts it from a table');
     await page.getByLabel('E½ of Fc⁺/Fc (V)').fill('0.40');
     await page.getByLabel('measured against', { exact: true }).selectOption('SCE');
     // Fc⁺/Fc at 0.40 V vs SCE sits at 0.6412 V vs SHE, so 1 V vs SHE is 0.3588 V vs Fc⁺/Fc.
@@ -92,7 +117,9 @@ describe('water window tool', () => {
     await page.goto(new URL('/tools/water', appUrl()).href);
     await page.getByRole('img', { name: /Thermodynamic water window/ }).waitFor();
     // Check value C: pH 7, 25 °C — HER −0.41412 V, OER 0.81488 V vs SHE.
-    await expect.poll(() => text(page, 'water-values')).toContain('OER 0.815 V HER −0.414 V Width 1.229 V');
+    await expect
+      .poll(() => text(page, 'water-values'))
+      .toContain('OER 0.815 V HER −0.414 V Width 1.229 V');
     await page.getByLabel('Temperature (°C)', { exact: true }).fill('60');
     // Check value C: 60 °C, pH 7 — HER −0.46273 V, OER 0.73666 V, slope 0.066104 V/pH.
     await expect.poll(() => text(page, 'water-values')).toContain('OER 0.737 V HER −0.463 V');
@@ -112,10 +139,27 @@ describe('water window tool', () => {
     const bar = page.locator(`g[data-handle="${aqueous}"]`);
     await bar.waitFor({ state: 'attached' });
     // Ag/AgCl (sat. KCl) is 0.197 V vs SHE (Bard & Faulkner): −0.60 → −0.403 V, 0.95 → 1.147 V.
-    expect(await bar.locator('title').textContent()).toBe(`${aqueous} (gold) at pH 4: -0.403 to 1.147 V vs SHE`);
+    expect(await bar.locator('title').textContent()).toBe(
+      `${aqueous} (gold) at pH 4: -0.403 to 1.147 V vs SHE`,
+    );
     // As many bars as the API has published records in water alone with a pH.
-    const res = await (await fetch(new URL('/api/v1/records?component=water&status=published&limit=200&facets=false', appUrl()))).json();
-    const expected = res.items.filter((i: { limitKind: string; content: { electrolyte: { pH?: number; solvents: { term: string }[] } } }) => i.limitKind === 'electrode-potential' && i.content.electrolyte.pH !== undefined && i.content.electrolyte.solvents.every((s) => s.term === 'water')).length;
+    const res = await (
+      await fetch(
+        new URL(
+          '/api/v1/records?component=water&status=published&limit=200&facets=false',
+          appUrl(),
+        ),
+      )
+    ).json();
+    const expected = res.items.filter(
+      (i: {
+        limitKind: string;
+        content: { electrolyte: { pH?: number; solvents: { term: string }[] } };
+      }) =>
+        i.limitKind === 'electrode-potential' &&
+        i.content.electrolyte.pH !== undefined &&
+        i.content.electrolyte.solvents.every((s) => s.term === 'water'),
+    ).length;
     await expect.poll(async () => page.locator('g[data-handle]').count()).toBe(expected);
     expect(await text(page, 'water-records')).toContain(`${expected} published record`);
     expect(await seriousViolations(page)).toEqual([]);
@@ -160,7 +204,13 @@ describe('window-opening planner', () => {
     // takes 2·ΔE/v = 40, 80, 120, 160, 200 s at 5 mV/s; three cycles each: 3 × 600 s = 1800 s = 30 min.
     await expect.poll(() => text(page, 'total-anodic')).toContain('30 min 00 s (1800 s)');
     const rows = await page.getByTestId('plan-anodic').locator('tbody tr').allInnerTexts();
-    expect(rows.map((r) => r.split(/\s+/)[1])).toEqual(['0.100', '0.200', '0.300', '0.400', '0.500']);
+    expect(rows.map((r) => r.split(/\s+/)[1])).toEqual([
+      '0.100',
+      '0.200',
+      '0.300',
+      '0.400',
+      '0.500',
+    ]);
     expect(await page.getByTestId('plan-cathodic').count()).toBe(0);
 
     // METHODS.md §8 E (Kötz & Carlen, Electrochim. Acta 45 (2000) 2483): 100 F/g per electrode → 25 F/g
@@ -168,7 +218,9 @@ describe('window-opening planner', () => {
     expect(await text(page, 'energy-gain')).toBe('+23.46 %');
     expect(await text(page, 'energy')).toContain('25.31 Wh/kg');
     expect(await text(page, 'energy')).toContain('31.25 Wh/kg');
-    expect(await page.getByRole('region', { name: 'How to judge each vertex' }).innerText()).toMatch(/S ≤ 0\.1[\s\S]*CE ≥ 99 %/);
+    expect(
+      await page.getByRole('region', { name: 'How to judge each vertex' }).innerText(),
+    ).toMatch(/S ≤ 0\.1[\s\S]*CE ≥ 99 %/);
 
     // LiPF6 in EC:DMC against lithium: HF, flammable carbonates, alkali metal; local rules govern.
     const cautions = await text(page, 'plan-cautions');
@@ -186,7 +238,9 @@ describe('window-opening planner', () => {
     await expect.poll(() => text(page, 'total-anodic')).toContain('(1800 s)');
     // A guess on the wrong side of the start is refused in words.
     await page.getByLabel('Expected anodic limit').fill('-0.2');
-    await expect.poll(() => page.getByRole('alert').first().innerText()).toContain('must lie above the start potential');
+    await expect
+      .poll(() => page.getByRole('alert').first().innerText())
+      .toContain('must lie above the start potential');
     await page.getByLabel('Expected anodic limit').fill('0.3');
     expect(await seriousViolations(page)).toEqual([]);
     await screenshot(page, 'tools-plan-light');
@@ -197,8 +251,13 @@ describe('window-opening planner', () => {
 
 describe('API reference', () => {
   it('shows every operation of the OpenAPI document, with fields of the record body, and reads well', async () => {
-    const doc = (await (await fetch(new URL('/api/v1/openapi.json', appUrl()))).json()) as { paths: Record<string, Record<string, unknown>> };
-    const operations = Object.values(doc.paths).reduce((n, item) => n + ['get', 'post', 'put', 'patch', 'delete'].filter((m) => item[m]).length, 0);
+    const doc = (await (await fetch(new URL('/api/v1/openapi.json', appUrl()))).json()) as {
+      paths: Record<string, Record<string, unknown>>;
+    };
+    const operations = Object.values(doc.paths).reduce(
+      (n, item) => n + ['get', 'post', 'put', 'patch', 'delete'].filter((m) => item[m]).length,
+      0,
+    );
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL('/docs/api', appUrl()).href);
     await expect.poll(() => page.getByTestId('api-operation').count()).toBe(operations);
@@ -206,7 +265,10 @@ describe('API reference', () => {
     expect(await create.innerText()).not.toContain('content.electrolyte.salts[]'); // long bodies start folded
     await create.getByText(/^Request body/).click();
     expect(await create.innerText()).toContain('content.electrolyte.salts[].concentration.value');
-    await page.getByRole('link', { name: /POST\s+\/records$/ }).first().click();
+    await page
+      .getByRole('link', { name: /POST\s+\/records$/ })
+      .first()
+      .click();
     expect(page.url()).toMatch(/#op-createRecord$/);
     expect(await seriousViolations(page)).toEqual([]);
     await screenshot(page, 'docs-api-light');

@@ -3,7 +3,17 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
 import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
-import { expectReadsWellOnPhone, hydrated, openBrowser, openDarkPhone, screenshot, seriousViolations, text, watchedPage, type Browser } from './browser.ts';
+import {
+  expectReadsWellOnPhone,
+  hydrated,
+  openBrowser,
+  openDarkPhone,
+  screenshot,
+  seriousViolations,
+  text,
+  watchedPage,
+  type Browser,
+} from './browser.ts';
 import { publishThroughApi, publishedTotal } from './publish.ts';
 
 // The formulator's path through the reader's pages, on records made through the API in this test:
@@ -17,28 +27,59 @@ const handles: Record<string, string> = {};
 
 const base = (electrode: string, over: Record<string, unknown> = {}) => ({
   title: `LiTFSI in water on ${electrode}`,
-  electrolyte: { solvents: [{ term: 'water', fraction: 1 }], salts: [{ term: 'LiTFSI', concentration: { value: 21, basis: 'mol/kg' } }], pH: 7 },
+  electrolyte: {
+    solvents: [{ term: 'water', fraction: 1 }],
+    salts: [{ term: 'LiTFSI', concentration: { value: 21, basis: 'mol/kg' } }],
+    pH: 7,
+  },
   temperatureC: 25,
   workingElectrode: { material: electrode, form: 'disk', geometricAreaCm2: 0.07 },
   referenceElectrode: 'Ag/AgCl, sat. KCl',
   cellType: 'three-electrode',
   method: { kind: 'cv-window-opening', scanRateMVs: 5, vertexStepMV: 100 },
   criterion: { kind: 's-value', threshold: 0.1 },
-  reportedLimits: { cathodic: { valueV: -1.3, reference: 'Ag/AgCl, sat. KCl' }, anodic: { valueV: 1.09, reference: 'Ag/AgCl, sat. KCl' } },
-  source: { kind: 'published', doi: '10.5555/ew.reader.1', title: 'An invented study of concentrated aqueous windows', authors: [{ family: 'Vale', given: 'Orla' }], containerTitle: 'Journal of Made-up Electrochemistry', year: 2025 },
+  reportedLimits: {
+    cathodic: { valueV: -1.3, reference: 'Ag/AgCl, sat. KCl' },
+    anodic: { valueV: 1.09, reference: 'Ag/AgCl, sat. KCl' },
+  },
+  source: {
+    kind: 'published',
+    doi: '10.5555/ew.reader.1',
+    title: 'An invented study of concentrated aqueous windows',
+    authors: [{ family: 'Vale', given: 'Orla' }],
+    containerTitle: 'Journal of Made-up Electrochemistry',
+    year: 2025,
+  },
   ...over,
 });
 
-const publish = (content: unknown, raw?: string) => publishThroughApi(contributor, curator, content, raw);
+const publish = (content: unknown, raw?: string) =>
+  publishThroughApi(contributor, curator, content, raw);
 
 beforeAll(async () => {
   contributor = await signIn(await makeUser({ role: 'contributor' }));
   curator = await signIn(await makeUser({ role: 'curator' }));
   // METHODS.md §8 A model: S-values 3.7e-4 … 0.116 at vertices 0.7 … 1.1 V; S = 0.1 crossed near 1.09 V.
-  const raw = formatExport(cvWindowOpeningSamples(), { columns: ['time', 'potential', 'current', 'cycle'] });
+  const raw = formatExport(cvWindowOpeningSamples(), {
+    columns: ['time', 'potential', 'current', 'cycle'],
+  });
   handles.gc = await publish(base('GC'), raw);
-  handles.ac = await publish(base('activated carbon', { reportedLimits: { cathodic: { valueV: -1.1, reference: 'Ag/AgCl, sat. KCl' }, anodic: { valueV: 0.95, reference: 'Ag/AgCl, sat. KCl' } } }));
-  handles.pt = await publish(base('Pt', { reportedLimits: { cathodic: { valueV: -0.9, reference: 'Ag/AgCl, sat. KCl' }, anodic: { valueV: 0.85, reference: 'Ag/AgCl, sat. KCl' } } }));
+  handles.ac = await publish(
+    base('activated carbon', {
+      reportedLimits: {
+        cathodic: { valueV: -1.1, reference: 'Ag/AgCl, sat. KCl' },
+        anodic: { valueV: 0.95, reference: 'Ag/AgCl, sat. KCl' },
+      },
+    }),
+  );
+  handles.pt = await publish(
+    base('Pt', {
+      reportedLimits: {
+        cathodic: { valueV: -0.9, reference: 'Ag/AgCl, sat. KCl' },
+        anodic: { valueV: 0.85, reference: 'Ag/AgCl, sat. KCl' },
+      },
+    }),
+  );
   browser = await openBrowser();
 }, 120_000);
 
@@ -49,7 +90,6 @@ afterAll(async () => {
 });
 
 const matching = (n: number) => new RegExp(`^${n} matching`);
-
 
 describe("the formulator's path", () => {
   it('searches by abbreviation, filters to two electrodes, switches criterion and scale, and keeps it all in the address', async () => {
@@ -64,14 +104,19 @@ describe("the formulator's path", () => {
     await box.press('Escape');
     await page.getByRole('button', { name: 'Search', exact: true }).click();
     await page.waitForURL(/\/windows\?/);
-    expect(new URL(page.url()).searchParams.getAll('component').sort()).toEqual(['litfsi', 'water']);
+    expect(new URL(page.url()).searchParams.getAll('component').sort()).toEqual([
+      'litfsi',
+      'water',
+    ]);
     const all = await publishedTotal('component=litfsi&component=water');
     expect(all).toBeGreaterThanOrEqual(3); // this file's three records at least
     await expect.poll(() => text(page, 'result-count')).toMatch(matching(all));
 
     // Two electrodes.
     const gcOnly = await publishedTotal('component=litfsi&component=water&electrode=glassy-carbon');
-    const gcAndAc = await publishedTotal('component=litfsi&component=water&electrode=glassy-carbon&electrode=activated-carbon');
+    const gcAndAc = await publishedTotal(
+      'component=litfsi&component=water&electrode=glassy-carbon&electrode=activated-carbon',
+    );
     expect(gcOnly).toBeGreaterThanOrEqual(1);
     expect(gcAndAc).toBeGreaterThanOrEqual(gcOnly + 1);
     expect(gcAndAc).toBeLessThan(all);
@@ -80,7 +125,14 @@ describe("the formulator's path", () => {
     await page.getByRole('checkbox', { name: /activated carbon/ }).check();
     await expect.poll(() => text(page, 'result-count')).toMatch(matching(gcAndAc));
     const table = page.getByTestId('results-table');
-    await expect.poll(async () => (await table.innerText()).includes(handles.gc!) && (await table.innerText()).includes(handles.ac!) && !(await table.innerText()).includes(handles.pt!)).toBe(true);
+    await expect
+      .poll(
+        async () =>
+          (await table.innerText()).includes(handles.gc!) &&
+          (await table.innerText()).includes(handles.ac!) &&
+          !(await table.innerText()).includes(handles.pt!),
+      )
+      .toBe(true);
 
     // SHE: the raw-backed record's reported anodic limit 1.09 V vs Ag/AgCl (sat.) is 1.287 V vs SHE (0.197 V, Bard & Faulkner).
     const gcRow = page.locator(`tr[data-handle="${handles.gc}"]`);
@@ -95,7 +147,11 @@ describe("the formulator's path", () => {
     // Recomputed from the raw file at S ≤ 0.1: 1.0898 V vs Ag/AgCl (METHODS.md §8 A) → 1.0898 + 0.197 + 3.040 = 4.327 V.
     await expect.poll(async () => gcRow.innerText()).toContain('4.327');
     // The record without raw data keeps its own criterion, and says so.
-    await expect.poll(async () => page.locator(`tr[data-handle="${handles.ac}"] [data-own-criterion]`).count()).toBe(1);
+    await expect
+      .poll(async () =>
+        page.locator(`tr[data-handle="${handles.ac}"] [data-own-criterion]`).count(),
+      )
+      .toBe(1);
     expect(await page.getByTestId('ladder').innerHTML()).not.toBe(ladderBefore);
     expect(await text(page, 'spread-table')).toContain('glassy carbon');
 
@@ -103,8 +159,12 @@ describe("the formulator's path", () => {
     const shared = page.url();
     const again = await browser.context.newPage();
     await again.goto(shared);
-    await expect.poll(() => text(again, 'result-count')).toMatch(new RegExp(`^${gcAndAc} matching · common criterion s:0\\.1 · limits vs Li⁺/Li`));
-    await expect.poll(async () => again.locator(`tr[data-handle="${handles.gc}"]`).innerText()).toContain('4.327');
+    await expect
+      .poll(() => text(again, 'result-count'))
+      .toMatch(new RegExp(`^${gcAndAc} matching · common criterion s:0\\.1 · limits vs Li⁺/Li`));
+    await expect
+      .poll(async () => again.locator(`tr[data-handle="${handles.gc}"]`).innerText())
+      .toContain('4.327');
     await again.close();
     await page.goBack();
     await expect.poll(() => text(page, 'result-count')).toContain('limits vs SHE');
@@ -118,8 +178,13 @@ describe("the formulator's path", () => {
   it('exports the selection as BibTeX', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL(`/windows?component=litfsi&electrode=glassy-carbon`, appUrl()).href);
-    await expect.poll(() => text(page, 'result-count')).toMatch(matching(await publishedTotal('component=litfsi&electrode=glassy-carbon')));
-    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'BibTeX' }).click()]);
+    await expect
+      .poll(() => text(page, 'result-count'))
+      .toMatch(matching(await publishedTotal('component=litfsi&electrode=glassy-carbon')));
+    const [download] = await Promise.all([
+      page.waitForEvent('download'),
+      page.getByRole('button', { name: 'BibTeX' }).click(),
+    ]);
     const bib = readFileSync((await download.path())!, 'utf8');
     expect(bib).toMatch(/^@/m);
     expect(bib).toContain(handles.gc);
@@ -135,16 +200,24 @@ describe("the formulator's path", () => {
     await page.waitForURL(new RegExp(`/windows/${handles.gc}$`));
     await expect.poll(() => text(page, 'handle')).toMatch(new RegExp(`^${handles.gc} v\\d+$`));
     // JSON-LD in the head names the record as a schema.org Dataset.
-    const ld = JSON.parse((await page.locator('head script[type="application/ld+json"]').textContent())!);
+    const ld = JSON.parse(
+      (await page.locator('head script[type="application/ld+json"]').textContent())!,
+    );
     expect(ld['@type']).toBe('Dataset');
     expect(ld.identifier).toBe(handles.gc);
     // Stored analysis at S ≤ 0.1: 1.090 V (METHODS.md §8 A, log-interpolated 1.0898 V).
     await expect.poll(() => text(page, 'limit-anodic')).toContain('1.090 V');
     await page.getByLabel('Criterion kind').last().selectOption('ce');
     // CE ≥ 99 % is S ≤ 0.0101: crossed between the 0.9 V (S 6.3e-3) and 1.0 V (S 2.6e-2) vertices.
-    await expect.poll(async () => (await page.getByRole('region', { name: /Analysis of/ }).innerText()).replace(/\s+/g, ' ')).toMatch(/Recomputed at ce:99%: 0\.9[3-6]\d V/);
+    await expect
+      .poll(async () =>
+        (await page.getByRole('region', { name: /Analysis of/ }).innerText()).replace(/\s+/g, ' '),
+      )
+      .toMatch(/Recomputed at ce:99%: 0\.9[3-6]\d V/);
     expect(await text(page, 'files')).toMatch(/[0-9a-f]{64}/);
-    expect(await page.getByTestId('doi-link').getAttribute('href')).toBe('https://doi.org/10.5555/ew.reader.1');
+    expect(await page.getByTestId('doi-link').getAttribute('href')).toBe(
+      'https://doi.org/10.5555/ew.reader.1',
+    );
     expect(await text(page, 'cautions')).toContain('safety data sheet');
     await page.getByRole('button', { name: 'BibTeX' }).click();
     expect(await text(page, 'cite')).toContain(`@misc{`);

@@ -11,11 +11,16 @@ function form(file: string, options: unknown, name = 'export.csv') {
   return fd;
 }
 
-const post = (body: FormData | string, headers: Record<string, string> = {}) => api('/api/v1/analyses', { method: 'POST', body, headers });
+const post = (body: FormData | string, headers: Record<string, string> = {}) =>
+  api('/api/v1/analyses', { method: 'POST', body, headers });
 
 describe('POST /api/v1/analyses', () => {
   it('returns the per-cycle S-values of a generated window-opening CV (METHODS.md §8 A)', async () => {
-    const text = formatExport(cvWindowOpeningSamples({ sampleIntervalS: 0.05 }), { separator: ';', decimalComma: true, units: { current: 'mA' } });
+    const text = formatExport(cvWindowOpeningSamples({ sampleIntervalS: 0.05 }), {
+      separator: ';',
+      decimalComma: true,
+      units: { current: 'mA' },
+    });
     const res = await post(form(text, { method: 'cv', criterion: 's:0.1' }));
     expect(res.status).toBe(200);
     const out = await res.json();
@@ -23,7 +28,9 @@ describe('POST /api/v1/analyses', () => {
     // Electrochimica Acta 103 (2013) (from memory): S at vertices 0.7…1.1 V.
     const expected = ['3.723e-4', '1.513e-3', '6.257e-3', '0.02640', '0.1164'];
     expect(out.cycles).toHaveLength(5);
-    out.cycles.forEach((c: { sValue: number }, i: number) => expectToDigits(c.sValue, expected[i]!));
+    out.cycles.forEach((c: { sValue: number }, i: number) =>
+      expectToDigits(c.sValue, expected[i]!),
+    );
     expectToDigits(out.limit.lastPassingV, '1.0');
     expectToDigits(out.limit.interpolatedV, '1.0898');
     expect(out.limit.status).toBe('reached');
@@ -51,7 +58,9 @@ describe('POST /api/v1/analyses', () => {
     const fd = new FormData();
     fd.set('options', '{"method":"cv"}');
     expect((await (await post(fd)).json()).errors[0].path).toBe('file');
-    const res = await post(JSON.stringify({ method: 'cv' }), { 'content-type': 'application/json' });
+    const res = await post(JSON.stringify({ method: 'cv' }), {
+      'content-type': 'application/json',
+    });
     expect(res.status).toBe(400);
   });
 
@@ -60,7 +69,11 @@ describe('POST /api/v1/analyses', () => {
     const status = await new Promise<number>((resolve, reject) => {
       const req = http.request(url, {
         method: 'POST',
-        headers: { origin: appUrl(), 'content-type': 'multipart/form-data; boundary=x', 'content-length': String(10 * 1024 * 1024 * 1024) },
+        headers: {
+          origin: appUrl(),
+          'content-type': 'multipart/form-data; boundary=x',
+          'content-length': String(10 * 1024 * 1024 * 1024),
+        },
       });
       req.on('response', (res) => {
         resolve(res.statusCode ?? 0);
@@ -74,7 +87,9 @@ describe('POST /api/v1/analyses', () => {
   });
 
   it('keeps answering other requests while a large file is analysed', async () => {
-    const big = formatExport(cvWindowOpeningSamples({ sampleIntervalS: 0.002, verticesV: [0.7, 0.8, 0.9, 1.0, 1.1, 1.2] }));
+    const big = formatExport(
+      cvWindowOpeningSamples({ sampleIntervalS: 0.002, verticesV: [0.7, 0.8, 0.9, 1.0, 1.1, 1.2] }),
+    );
     const order: string[] = [];
     const analysis = post(form(big, { method: 'cv' })).then(async (r) => {
       order.push(`analysis ${r.status}`);

@@ -1,7 +1,24 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { enumerateRoutes } from '../routes.ts';
-import { as, closeAppDb, clearSignInFailures, ensureLab, makeUser, signIn, uniqueEmail, appDb, type TestUser } from '../auth-helpers.ts';
-import { PRINCIPALS, ROWS, type Helpers, type PrincipalName, type Row, type Vars } from './authz-routes.ts';
+import {
+  as,
+  closeAppDb,
+  clearSignInFailures,
+  ensureLab,
+  makeUser,
+  signIn,
+  uniqueEmail,
+  appDb,
+  type TestUser,
+} from '../auth-helpers.ts';
+import {
+  PRINCIPALS,
+  ROWS,
+  type Helpers,
+  type PrincipalName,
+  type Row,
+  type Vars,
+} from './authz-routes.ts';
 import { createToken } from '../../src/lib/server/api-tokens.ts';
 import { randomUUID, randomBytes } from 'node:crypto';
 
@@ -19,10 +36,18 @@ beforeAll(async () => {
   await ensureLab(labB);
   users.reader = await makeUser({ role: 'reader' });
   users.contributor = await makeUser({ role: 'contributor', labs: [[labA, 'member']] });
-  users.manager = await makeUser({ role: 'contributor', labs: [[labA, 'manager']], tag: 'manager' });
+  users.manager = await makeUser({
+    role: 'contributor',
+    labs: [[labA, 'manager']],
+    tag: 'manager',
+  });
   users.curator = await makeUser({ role: 'curator' });
   users.admin = await makeUser({ role: 'admin' });
-  users.otherLab = await makeUser({ role: 'contributor', labs: [[labB, 'manager']], tag: 'otherlab' });
+  users.otherLab = await makeUser({
+    role: 'contributor',
+    labs: [[labB, 'manager']],
+    tag: 'otherlab',
+  });
   cookies.anon = null;
   for (const name of PRINCIPALS) if (name !== 'anon') cookies[name] = await signIn(users[name]);
 });
@@ -37,8 +62,19 @@ const helpers: Helpers = {
   newMemberOfLabA: async () => (await makeUser({ labs: [[labA, 'member']], tag: 'member' })).id,
   newContributorToken: async () => {
     const c = users.contributor;
-    const principal = { kind: 'user' as const, id: c.id, email: c.email, name: null, role: 'contributor' as const, labs: [], via: 'session' as const, scopes: ['read', 'write'] as ('read' | 'write')[] };
-    return (await createToken(appDb(), principal, { name: 'matrix', scopes: ['read'], expiresInDays: 1 })).info.id;
+    const principal = {
+      kind: 'user' as const,
+      id: c.id,
+      email: c.email,
+      name: null,
+      role: 'contributor' as const,
+      labs: [],
+      via: 'session' as const,
+      scopes: ['read', 'write'] as ('read' | 'write')[],
+    };
+    return (
+      await createToken(appDb(), principal, { name: 'matrix', scopes: ['read'], expiresInDays: 1 })
+    ).info.id;
   },
   unique: (tag) => uniqueEmail(tag),
 };
@@ -53,10 +89,14 @@ async function cell(r: Row, who: PrincipalName): Promise<number> {
   const headers = init.headers as Record<string, string>;
   if (r.json !== undefined) {
     headers['content-type'] = 'application/json';
-    init.body = JSON.stringify(typeof r.json === 'function' ? (r.json as (v: Vars) => unknown)(vars) : r.json);
+    init.body = JSON.stringify(
+      typeof r.json === 'function' ? (r.json as (v: Vars) => unknown)(vars) : r.json,
+    );
   } else if (r.form) {
     headers['content-type'] = 'application/x-www-form-urlencoded';
-    init.body = new URLSearchParams(typeof r.form === 'function' ? r.form(vars) : r.form).toString();
+    init.body = new URLSearchParams(
+      typeof r.form === 'function' ? r.form(vars) : r.form,
+    ).toString();
   } else if (r.multipart) {
     init.body = new FormData();
   }
@@ -86,12 +126,21 @@ describe('authorisation matrix', () => {
         cells++;
         const want = r.expect[who];
         if (got !== want) {
-          const kind = got < 400 && want >= 400 ? 'UNEXPECTED ALLOW' : got >= 400 && want < 400 ? 'unexpected deny' : 'different status';
-          surprises.push(`${kind}: ${r.method} ${r.path ?? r.route} as ${who}: got ${got}, want ${want}`);
+          const kind =
+            got < 400 && want >= 400
+              ? 'UNEXPECTED ALLOW'
+              : got >= 400 && want < 400
+                ? 'unexpected deny'
+                : 'different status';
+          surprises.push(
+            `${kind}: ${r.method} ${r.path ?? r.route} as ${who}: got ${got}, want ${want}`,
+          );
         }
       }
     }
-    console.log(`authorisation matrix: ${ROWS.length} rows × ${PRINCIPALS.length} principals = ${cells} cells, ${surprises.length} surprises`);
+    console.log(
+      `authorisation matrix: ${ROWS.length} rows × ${PRINCIPALS.length} principals = ${cells} cells, ${surprises.length} surprises`,
+    );
     expect(surprises).toEqual([]);
   });
 });

@@ -8,7 +8,10 @@ import { makeRecord, tag } from '../support/records.ts';
 
 // A combination other test files do not use, so its counts are this file's alone.
 const combo = {
-  electrolyte: { solvents: [{ term: 'sulfolane', fraction: 1 }], salts: [{ term: 'Mg(TFSI)2', concentration: { value: 0.5, basis: 'mol/L' as const } }] },
+  electrolyte: {
+    solvents: [{ term: 'sulfolane', fraction: 1 }],
+    salts: [{ term: 'Mg(TFSI)2', concentration: { value: 0.5, basis: 'mol/L' as const } }],
+  },
   workingElectrode: { material: 'bdd', form: 'disk' as const, geometricAreaCm2: 0.07 },
 };
 let lab: string;
@@ -18,10 +21,18 @@ let before: { anon: number; inside: number };
 
 interface Cov {
   electrodes: { id: string; total: number }[];
-  rows: { salt: string | null; solvent: string | null; total: number; cells: { electrode: string; total: number; byEvidence: Record<string, number> }[] }[];
+  rows: {
+    salt: string | null;
+    solvent: string | null;
+    total: number;
+    cells: { electrode: string; total: number; byEvidence: Record<string, number> }[];
+  }[];
 }
 
-const cell = (c: Cov) => c.rows.find((r) => r.salt === 'mg-tfsi2' && r.solvent === 'sulfolane')?.cells.find((x) => x.electrode === 'bdd');
+const cell = (c: Cov) =>
+  c.rows
+    .find((r) => r.salt === 'mg-tfsi2' && r.solvent === 'sulfolane')
+    ?.cells.find((x) => x.electrode === 'bdd');
 
 async function coverage(cred: string | null): Promise<Cov> {
   const res = cred ? await as(cred, '/api/v1/coverage') : await api('/api/v1/coverage');
@@ -30,7 +41,8 @@ async function coverage(cred: string | null): Promise<Cov> {
 }
 
 async function searchTotal(cred: string | null): Promise<number> {
-  const path = '/api/v1/records?component=mg-tfsi2&component=sulfolane&electrode=bdd&limit=1&facets=false';
+  const path =
+    '/api/v1/records?component=mg-tfsi2&component=sulfolane&electrode=bdd&limit=1&facets=false';
   const res = cred ? await as(cred, path) : await api(path);
   return (await res.json()).total;
 }
@@ -41,12 +53,19 @@ beforeAll(async () => {
   member = await signIn(m);
   outsider = await signIn(await makeUser({ role: 'contributor' }));
   // Counts before this file's records (a fresh database has none of this combination).
-  before = { anon: cell(await coverage(null))?.total ?? 0, inside: cell(await coverage(member))?.total ?? 0 };
+  before = {
+    anon: cell(await coverage(null))?.total ?? 0,
+    inside: cell(await coverage(member))?.total ?? 0,
+  };
   await makeRecord({ status: 'published', over: combo });
   await makeRecord({ status: 'published', over: combo });
   // Lab-private and under embargo until next year: only the lab sees it.
   const next = `${new Date().getUTCFullYear() + 1}-06-01`;
-  await makeRecord({ status: 'published', lab, over: { ...combo, visibility: 'lab', embargoUntil: next } });
+  await makeRecord({
+    status: 'published',
+    lab,
+    over: { ...combo, visibility: 'lab', embargoUntil: next },
+  });
   // Drafts are never counted, not even for their lab.
   await makeRecord({ status: 'draft', lab, over: combo });
 });

@@ -1,7 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { api } from '../helpers.ts';
 
-const SECURITY_HEADERS = ['content-security-policy', 'x-content-type-options', 'referrer-policy', 'x-frame-options'];
+const SECURITY_HEADERS = [
+  'content-security-policy',
+  'x-content-type-options',
+  'referrer-policy',
+  'x-frame-options',
+];
 
 function expectSecurityHeaders(res: Response) {
   for (const h of SECURITY_HEADERS) expect(res.headers.get(h), h).toBeTruthy();
@@ -13,7 +18,10 @@ describe('GET /api/health', () => {
   it('reports database, storage and mail up with 200', async () => {
     const res = await api('/api/health');
     expect(res.status).toBe(200);
-    expect(await res.json()).toEqual({ status: 'up', parts: { database: 'up', storage: 'up', mail: 'up' } });
+    expect(await res.json()).toEqual({
+      status: 'up',
+      parts: { database: 'up', storage: 'up', mail: 'up' },
+    });
     expectSecurityHeaders(res);
   });
 });
@@ -49,7 +57,12 @@ describe('every kind of response carries the security headers', () => {
     expect(res.status).toBe(200);
     expect(res.headers.get('cache-control')).toBe('public, max-age=31536000, immutable');
     expectSecurityHeaders(res);
-    for (const path of ['/_astro/../server/entry.mjs', '/_astro/%2e%2e/server/entry.mjs', '/_astro/no-such-bundle.js', '/_astro/%E0%A4%A']) {
+    for (const path of [
+      '/_astro/../server/entry.mjs',
+      '/_astro/%2e%2e/server/entry.mjs',
+      '/_astro/no-such-bundle.js',
+      '/_astro/%E0%A4%A',
+    ]) {
       const miss = await api(path);
       expect([400, 404], path).toContain(miss.status);
       expect(await miss.text(), path).not.toContain('pageMap');
@@ -58,7 +71,10 @@ describe('every kind of response carries the security headers', () => {
   });
 
   it('a refusal', async () => {
-    const res = await api('/api/health', { method: 'POST', headers: { origin: 'http://evil.test' } });
+    const res = await api('/api/health', {
+      method: 'POST',
+      headers: { origin: 'http://evil.test' },
+    });
     expect(res.status).toBe(403);
     expect(res.headers.get('content-type')).toMatch(/application\/problem\+json/);
     expect((await res.json()).detail).toBe('cross-origin request from http://evil.test refused');
@@ -68,7 +84,10 @@ describe('every kind of response carries the security headers', () => {
 
 describe('API paths without a route', () => {
   it('answer problem+json, not an HTML page', async () => {
-    for (const [method, path] of [['GET', '/api/v1/no-such-thing'], ['DELETE', '/api/health']] as const) {
+    for (const [method, path] of [
+      ['GET', '/api/v1/no-such-thing'],
+      ['DELETE', '/api/health'],
+    ] as const) {
       const res = await api(path, { method });
       expect([404, 405]).toContain(res.status);
       expect(res.headers.get('content-type')).toMatch(/application\/problem\+json/);

@@ -1,6 +1,15 @@
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { appDb, as, asJson, clearSignInFailures, closeAppDb, makeUser, signIn, type TestUser } from '../auth-helpers.ts';
+import {
+  appDb,
+  as,
+  asJson,
+  clearSignInFailures,
+  closeAppDb,
+  makeUser,
+  signIn,
+  type TestUser,
+} from '../auth-helpers.ts';
 import { api, waitForMail } from '../helpers.ts';
 import { content, tag } from '../support/records.ts';
 import { IMPORT_COLUMN_NAMES, importTemplateCsv } from '../../src/lib/shared/import-template.ts';
@@ -24,17 +33,24 @@ afterAll(async () => {
   await closeAppDb();
 });
 
-const postCsv = (who: string | null, csv: string, type = 'text/csv') => as(who, '/api/v1/imports', { method: 'POST', headers: { 'content-type': type }, body: csv });
+const postCsv = (who: string | null, csv: string, type = 'text/csv') =>
+  as(who, '/api/v1/imports', { method: 'POST', headers: { 'content-type': type }, body: csv });
 
 async function ownedCount(): Promise<number> {
-  const r = await sql<{ n: string }>`SELECT count(*) AS n FROM records WHERE owner_id = ${user.id}`.execute(appDb());
+  const r = await sql<{
+    n: string;
+  }>`SELECT count(*) AS n FROM records WHERE owner_id = ${user.id}`.execute(appDb());
   return Number(r.rows[0]!.n);
 }
 
 /** A CSV with the given rows (objects by column name), header included. */
 function csvOf(rows: Record<string, string>[], columns = IMPORT_COLUMN_NAMES): string {
   const cell = (v: string) => (/[",\n;]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v);
-  return [columns.join(','), ...rows.map((r) => columns.map((c) => cell(r[c] ?? '')).join(','))].join('\n') + '\n';
+  return (
+    [columns.join(','), ...rows.map((r) => columns.map((c) => cell(r[c] ?? '')).join(','))].join(
+      '\n',
+    ) + '\n'
+  );
 }
 
 const good = (over: Record<string, string> = {}) => ({
@@ -87,7 +103,13 @@ describe('POST /api/v1/imports', () => {
   });
 
   it('stores each row as the record the form would make, canonical names and all', async () => {
-    const res = await postCsv(cookie, csvOf([good(), good({ visibility: 'lab', lab, embargo_until: '2031-01-01', title: 'Private import' })]));
+    const res = await postCsv(
+      cookie,
+      csvOf([
+        good(),
+        good({ visibility: 'lab', lab, embargo_until: '2031-01-01', title: 'Private import' }),
+      ]),
+    );
     const body = await res.json();
     expect(res.status, JSON.stringify(body)).toBe(201);
     const first = await (await as(cookie, `/api/v1/records/${body.records[0].handle}`)).json();
@@ -95,13 +117,24 @@ describe('POST /api/v1/imports', () => {
       { term: 'ec', fraction: 0.5, fractionBasis: 'mass' },
       { term: 'dmc', fraction: 0.5, fractionBasis: 'mass' },
     ]);
-    expect(first.content.workingElectrode).toEqual({ material: 'platinum', form: 'disk', geometricAreaCm2: 0.0314 });
-    expect(first.content.source.authors).toEqual([{ family: 'Ferrand', given: 'Lio' }, { family: 'Okoye', given: 'Dara' }]);
+    expect(first.content.workingElectrode).toEqual({
+      material: 'platinum',
+      form: 'disk',
+      geometricAreaCm2: 0.0314,
+    });
+    expect(first.content.source.authors).toEqual([
+      { family: 'Ferrand', given: 'Lio' },
+      { family: 'Okoye', given: 'Dara' },
+    ]);
     expect(first.evidenceLevel).toBe('documented');
     const second = await (await as(cookie, `/api/v1/records/${body.records[1].handle}`)).json();
     expect(second.lab.slug).toBe(lab);
     expect(second.content.embargoUntil).toBe('2031-01-01');
-    const audit = await sql<{ n: string }>`SELECT count(*) AS n FROM audit_events WHERE action = 'record.create' AND subject_id = ANY(${body.records.map((r: { handle: string }) => r.handle)})`.execute(appDb());
+    const audit = await sql<{
+      n: string;
+    }>`SELECT count(*) AS n FROM audit_events WHERE action = 'record.create' AND subject_id = ANY(${body.records.map((r: { handle: string }) => r.handle)})`.execute(
+      appDb(),
+    );
     expect(Number(audit.rows[0]!.n)).toBe(2);
   });
 
@@ -124,19 +157,33 @@ describe('POST /api/v1/imports', () => {
     expect(paths).toContain('line 4, solvents');
     expect(paths).toContain('line 5, doi');
     expect(paths).toContain('line 5, cathodic_v');
-    expect(body.errors.find((e: { path: string }) => e.path === 'line 4, solvents').message).toMatch(/unobtainium-carbonate.*not a known solvent/);
-    expect(paths.some((p: string) => p.startsWith('line 2,') || p.startsWith('line 6,'))).toBe(false);
+    expect(
+      body.errors.find((e: { path: string }) => e.path === 'line 4, solvents').message,
+    ).toMatch(/unobtainium-carbonate.*not a known solvent/);
+    expect(paths.some((p: string) => p.startsWith('line 2,') || p.startsWith('line 6,'))).toBe(
+      false,
+    );
     expect(await ownedCount()).toBe(before);
   });
 
   it('counts lines from the top of the file, blank lines and quoted line breaks included', async () => {
     const header = IMPORT_COLUMN_NAMES.join(',');
-    const row = (over: Record<string, string>) => csvOf([good(over)]).slice(header.length + 1).replace(/\n$/, '');
-    const csv = [header, row({ notes: 'first\nsecond line of the note' }), '', row({ year: '20x3' })].join('\n');
+    const row = (over: Record<string, string>) =>
+      csvOf([good(over)])
+        .slice(header.length + 1)
+        .replace(/\n$/, '');
+    const csv = [
+      header,
+      row({ notes: 'first\nsecond line of the note' }),
+      '',
+      row({ year: '20x3' }),
+    ].join('\n');
     const res = await postCsv(cookie, csv);
     const body = await res.json();
     expect(res.status).toBe(422);
-    expect(body.errors).toEqual([{ path: 'line 5, year', message: '"20x3" is not a number (use a decimal point)' }]);
+    expect(body.errors).toEqual([
+      { path: 'line 5, year', message: '"20x3" is not a number (use a decimal point)' },
+    ]);
   });
 
   it('refuses a header that is not the template and a file that is not CSV', async () => {
@@ -165,33 +212,60 @@ describe('POST /api/v1/imports', () => {
 
 describe('submitting a record', () => {
   it('queues a receipt mail in the submit transaction and delivers it', async () => {
-    const created = await (await asJson(cookie, '/api/v1/records', 'POST', { content: content() })).json();
-    const res = await asJson(cookie, `/api/v1/records/${created.handle}/transitions`, 'POST', { action: 'submit', version: created.version });
+    const created = await (
+      await asJson(cookie, '/api/v1/records', 'POST', { content: content() })
+    ).json();
+    const res = await asJson(cookie, `/api/v1/records/${created.handle}/transitions`, 'POST', {
+      action: 'submit',
+      version: created.version,
+    });
     expect(res.status).toBe(200);
-    const row = await sql<{ kind: string; subject: string }>`SELECT kind, subject FROM mail_outbox WHERE to_address = ${user.email} AND subject LIKE ${`%${created.handle}%`}`.execute(appDb());
-    expect(row.rows).toEqual([{ kind: 'record.submitted', subject: `Edgewise received ${created.handle} v1 for review` }]);
+    const row = await sql<{
+      kind: string;
+      subject: string;
+    }>`SELECT kind, subject FROM mail_outbox WHERE to_address = ${user.email} AND subject LIKE ${`%${created.handle}%`}`.execute(
+      appDb(),
+    );
+    expect(row.rows).toEqual([
+      { kind: 'record.submitted', subject: `Edgewise received ${created.handle} v1 for review` },
+    ]);
     const mail = await waitForMail(user.email, new RegExp(`received ${created.handle} v1`));
     expect(mail.text).toContain(`/windows/${created.handle}`);
     expect(mail.text).toContain("curators' review queue");
   });
 
   it('queues nothing when the submission is refused', async () => {
-    const created = await (await asJson(cookie, '/api/v1/records', 'POST', { content: content() })).json();
-    const stale = await asJson(cookie, `/api/v1/records/${created.handle}/transitions`, 'POST', { action: 'submit', version: 7 });
+    const created = await (
+      await asJson(cookie, '/api/v1/records', 'POST', { content: content() })
+    ).json();
+    const stale = await asJson(cookie, `/api/v1/records/${created.handle}/transitions`, 'POST', {
+      action: 'submit',
+      version: 7,
+    });
     expect(stale.status).toBe(409);
-    const row = await sql<{ n: string }>`SELECT count(*) AS n FROM mail_outbox WHERE subject LIKE ${`%${created.handle}%`}`.execute(appDb());
+    const row = await sql<{
+      n: string;
+    }>`SELECT count(*) AS n FROM mail_outbox WHERE subject LIKE ${`%${created.handle}%`}`.execute(
+      appDb(),
+    );
     expect(Number(row.rows[0]!.n)).toBe(0);
   });
 });
 
 describe('the contribute pages', () => {
   it('list the contributor’s own drafts, send visitors to sign in and turn readers away politely', async () => {
-    const created = await (await asJson(cookie, '/api/v1/records', 'POST', { content: content({ title: 'Listed draft' }) })).json();
+    const created = await (
+      await asJson(cookie, '/api/v1/records', 'POST', {
+        content: content({ title: 'Listed draft' }),
+      })
+    ).json();
     const page = await as(cookie, '/contribute');
     expect(page.status).toBe(200);
     const html = await page.text();
     expect(html).toContain(`/contribute?record=${created.handle}`);
-    expect(page.headers.get('content-security-policy')).toMatch(/connect-src 'self' http:\/\/127\.0\.0\.1:\d+/);
+    expect(page.headers.get('content-security-policy')).toMatch(
+      /connect-src 'self' http:\/\/127\.0\.0\.1:\d+/,
+    );
     const account = await (await as(cookie, '/account')).text();
     expect(account).toContain(`/contribute?record=${created.handle}`);
     const anon = await as(null, '/contribute?record=EW-000001');

@@ -1,6 +1,10 @@
 import { sql } from 'kysely';
 import { afterAll, beforeEach, describe, expect, it, inject } from 'vitest';
-import { forgetOldMailRequests, MESSAGES_PER_ADDRESS, requestsPerClient } from '../../src/lib/server/auth/mail-limits.ts';
+import {
+  forgetOldMailRequests,
+  MESSAGES_PER_ADDRESS,
+  requestsPerClient,
+} from '../../src/lib/server/auth/mail-limits.ts';
 import { readCapturedMail } from '../../src/lib/server/mail-capture.ts';
 import { api, waitForMail } from '../helpers.ts';
 import { appDb, asJson, closeAppDb, makeUser, uniqueEmail } from '../auth-helpers.ts';
@@ -10,7 +14,8 @@ import { appDb, asJson, closeAppDb, makeUser, uniqueEmail } from '../auth-helper
 // request comes from 127.0.0.1; this file fills the counter to reach it). Each test starts with
 // an empty per-client counter; addresses are new each time, so their counters start empty too.
 
-const clearClientCounters = () => sql`DELETE FROM mail_requests WHERE key LIKE 'client:%'`.execute(appDb());
+const clearClientCounters = () =>
+  sql`DELETE FROM mail_requests WHERE key LIKE 'client:%'`.execute(appDb());
 const used: string[] = [];
 const fresh = (tag: string) => {
   const email = uniqueEmail(tag);
@@ -26,22 +31,41 @@ async function makeTrackedUser() {
 beforeEach(clearClientCounters);
 afterAll(async () => {
   await clearClientCounters();
-  for (const email of used) await appDb().deleteFrom('mail_requests').where('key', 'like', `address:%:${email}`).execute();
+  for (const email of used)
+    await appDb().deleteFrom('mail_requests').where('key', 'like', `address:%:${email}`).execute();
   await closeAppDb();
 });
 
 const strong = 'a long enough mail limit passphrase';
 const forgot = (email: string, headers: Record<string, string> = {}) =>
-  api('/api/v1/account/password/forgot', { method: 'POST', headers: { 'content-type': 'application/json', ...headers }, body: JSON.stringify({ email }) });
-const signUp = (email: string) => asJson(null, '/api/v1/account/signup', 'POST', { email, password: strong });
+  api('/api/v1/account/password/forgot', {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', ...headers },
+    body: JSON.stringify({ email }),
+  });
+const signUp = (email: string) =>
+  asJson(null, '/api/v1/account/signup', 'POST', { email, password: strong });
 const askForLink = (email: string) =>
-  api('/api/auth/signin/email', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams({ email }).toString() });
+  api('/api/auth/signin/email', {
+    method: 'POST',
+    headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    body: new URLSearchParams({ email }).toString(),
+  });
 const postPage = (path: string, fields: Record<string, string>) =>
-  api(path, { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams(fields).toString() });
+  api(path, {
+    method: 'POST',
+    headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    body: new URLSearchParams(fields).toString(),
+  });
 
 /** Messages queued for an address (each of them is sent once the outbox delivers it). */
 async function queued(to: string, kind: string): Promise<number> {
-  const row = await appDb().selectFrom('mail_outbox').select((eb) => eb.fn.countAll<string>().as('n')).where('to_address', '=', to).where('kind', '=', kind).executeTakeFirstOrThrow();
+  const row = await appDb()
+    .selectFrom('mail_outbox')
+    .select((eb) => eb.fn.countAll<string>().as('n'))
+    .where('to_address', '=', to)
+    .where('kind', '=', kind)
+    .executeTakeFirstOrThrow();
   return Number(row.n);
 }
 
@@ -49,19 +73,30 @@ async function queued(to: string, kind: string): Promise<number> {
 async function delivered(to: string, subject: RegExp): Promise<number> {
   const deadline = Date.now() + 10_000;
   for (;;) {
-    const waiting = await appDb().selectFrom('mail_outbox').select('id').where('to_address', '=', to).where('status', '!=', 'sent').execute();
+    const waiting = await appDb()
+      .selectFrom('mail_outbox')
+      .select('id')
+      .where('to_address', '=', to)
+      .where('status', '!=', 'sent')
+      .execute();
     if (waiting.length === 0) break;
     if (Date.now() > deadline) throw new Error(`mail to ${to} still waiting`);
     await new Promise((r) => setTimeout(r, 100));
   }
-  return (await readCapturedMail(inject('mailDir'))).filter((m) => m.to.includes(to) && subject.test(m.subject)).length;
+  return (await readCapturedMail(inject('mailDir'))).filter(
+    (m) => m.to.includes(to) && subject.test(m.subject),
+  ).length;
 }
 
 /** The key the server counts this machine's requests under (the test's own peer address). */
 async function ourClientKey(): Promise<string> {
   await clearClientCounters();
   expect((await forgot(fresh('probe'))).status).toBe(202);
-  const rows = await appDb().selectFrom('mail_requests').select('key').where('key', 'like', 'client:%').execute();
+  const rows = await appDb()
+    .selectFrom('mail_requests')
+    .select('key')
+    .where('key', 'like', 'client:%')
+    .execute();
   expect(rows).toHaveLength(1);
   return rows[0]!.key;
 }
@@ -70,7 +105,9 @@ async function ourClientKey(): Promise<string> {
 async function fillClientCounter(key: string, left: number): Promise<void> {
   await sql`DELETE FROM mail_requests WHERE key = ${key}`.execute(appDb());
   const n = requestsPerClient() - left;
-  await sql`INSERT INTO mail_requests (key) SELECT ${key} FROM generate_series(1, ${n})`.execute(appDb());
+  await sql`INSERT INTO mail_requests (key) SELECT ${key} FROM generate_series(1, ${n})`.execute(
+    appDb(),
+  );
 }
 
 describe('per recipient address', () => {
@@ -81,7 +118,9 @@ describe('per recipient address', () => {
     for (let i = 1; i <= MESSAGES_PER_ADDRESS + 1; i++) {
       const res = await forgot(u.email);
       answers.push({ status: res.status, body: await res.text() });
-      expect(await queued(u.email, 'account.password-reset'), `after request ${i}`).toBe(Math.min(i, MESSAGES_PER_ADDRESS));
+      expect(await queued(u.email, 'account.password-reset'), `after request ${i}`).toBe(
+        Math.min(i, MESSAGES_PER_ADDRESS),
+      );
     }
     expect(new Set(answers.map((a) => JSON.stringify(a))).size).toBe(1);
     expect(answers[0]!.status).toBe(202);
@@ -89,11 +128,22 @@ describe('per recipient address', () => {
 
     // The refused request did not expire the last link that was sent (each earlier one was
     // expired by the next; delivery order is not guaranteed, so try them all).
-    const mails = (await readCapturedMail(inject('mailDir'))).filter((m) => m.to.includes(u.email) && /Reset your/.test(m.subject));
+    const mails = (await readCapturedMail(inject('mailDir'))).filter(
+      (m) => m.to.includes(u.email) && /Reset your/.test(m.subject),
+    );
     const statuses = [];
     for (const m of mails) {
-      const token = new URL(/https?:\/\/\S+\/password\/reset\?\S+/.exec(m.text)![0]).searchParams.get('token');
-      statuses.push((await asJson(null, '/api/v1/account/password/reset', 'POST', { token, password: 'a brand new mail limit passphrase' })).status);
+      const token = new URL(
+        /https?:\/\/\S+\/password\/reset\?\S+/.exec(m.text)![0],
+      ).searchParams.get('token');
+      statuses.push(
+        (
+          await asJson(null, '/api/v1/account/password/reset', 'POST', {
+            token,
+            password: 'a brand new mail limit passphrase',
+          })
+        ).status,
+      );
     }
     expect(statuses.sort()).toEqual([200, 404, 404]);
 
@@ -133,7 +183,11 @@ describe('per recipient address', () => {
     expect(await queued(u.email, 'account.sign-in-link')).toBe(MESSAGES_PER_ADDRESS);
     expect(await delivered(u.email, /sign-in link/)).toBe(MESSAGES_PER_ADDRESS);
     // The page's link form is counted under the same limit.
-    expect((await postPage('/signin', { intent: 'link', email: u.email, next: '/account' })).headers.get('location')).toBe('/signin/check-email');
+    expect(
+      (await postPage('/signin', { intent: 'link', email: u.email, next: '/account' })).headers.get(
+        'location',
+      ),
+    ).toBe('/signin/check-email');
     expect(await queued(u.email, 'account.sign-in-link')).toBe(MESSAGES_PER_ADDRESS);
   });
 
@@ -142,7 +196,12 @@ describe('per recipient address', () => {
     for (let i = 0; i < MESSAGES_PER_ADDRESS; i++) await forgot(u.email);
     const capped = await forgot(u.email);
     const unknown = await forgot(fresh('ghost'));
-    const shape = async (r: Response) => ({ status: r.status, type: r.headers.get('content-type'), retry: r.headers.get('retry-after'), body: await r.text() });
+    const shape = async (r: Response) => ({
+      status: r.status,
+      type: r.headers.get('content-type'),
+      retry: r.headers.get('retry-after'),
+      body: await r.text(),
+    });
     expect(await shape(capped)).toEqual(await shape(unknown));
   });
 
@@ -150,11 +209,18 @@ describe('per recipient address', () => {
     const u = await makeTrackedUser();
     const key = `address:password-reset:${u.email}`;
     const hourAgo = new Date(Date.now() - 61 * 60_000);
-    await appDb().insertInto('mail_requests').values(Array.from({ length: MESSAGES_PER_ADDRESS }, () => ({ key, at: hourAgo }))).execute();
+    await appDb()
+      .insertInto('mail_requests')
+      .values(Array.from({ length: MESSAGES_PER_ADDRESS }, () => ({ key, at: hourAgo })))
+      .execute();
     expect((await forgot(u.email)).status).toBe(202);
     expect(await queued(u.email, 'account.password-reset')).toBe(1);
     await forgetOldMailRequests(appDb());
-    const left = await appDb().selectFrom('mail_requests').select('at').where('key', '=', key).execute();
+    const left = await appDb()
+      .selectFrom('mail_requests')
+      .select('at')
+      .where('key', '=', key)
+      .execute();
     expect(left).toHaveLength(1);
   });
 });
@@ -185,14 +251,24 @@ describe('per client address', () => {
     // Every mail-sending route shares the count: sign-up, the sign-in link, and their pages.
     const newcomer = fresh('refused');
     expect((await signUp(newcomer)).status).toBe(429);
-    expect(await appDb().selectFrom('User').select('id').where('email', '=', newcomer).executeTakeFirst()).toBeUndefined();
+    expect(
+      await appDb()
+        .selectFrom('User')
+        .select('id')
+        .where('email', '=', newcomer)
+        .executeTakeFirst(),
+    ).toBeUndefined();
     const link = await askForLink(u.email);
     expect(link.status).toBe(429);
     expect(link.headers.get('retry-after')).toBeTruthy();
     expect(link.headers.get('content-type')).toMatch(/application\/problem\+json/);
     expect(await queued(u.email, 'account.sign-in-link')).toBe(0);
     // Auth.js reads `/api/auth//signin/email/` as the same action; it is counted the same.
-    const variant = await api('/api/auth//signin/email/', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams({ email: u.email }).toString() });
+    const variant = await api('/api/auth//signin/email/', {
+      method: 'POST',
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+      body: new URLSearchParams({ email: u.email }).toString(),
+    });
     expect(variant.status).toBe(429);
     expect(await queued(u.email, 'account.sign-in-link')).toBe(0);
     for (const [path, fields, text] of [
@@ -207,22 +283,47 @@ describe('per client address', () => {
     }
 
     // A forged peer header or X-Forwarded-For does not escape the count (the proxy is not trusted here).
-    expect((await forgot(fresh('spoof'), { 'x-edgewise-peer': '192.0.2.9', 'x-forwarded-for': '198.51.100.9' })).status).toBe(429);
+    expect(
+      (
+        await forgot(fresh('spoof'), {
+          'x-edgewise-peer': '192.0.2.9',
+          'x-forwarded-for': '198.51.100.9',
+        })
+      ).status,
+    ).toBe(429);
   });
 
   it('another client address is unaffected', async () => {
     const key = await ourClientKey();
     await fillClientCounter('client:192.0.2.44', 0);
     expect((await forgot(fresh('elsewhere'))).status).toBe(202);
-    const ours = await appDb().selectFrom('mail_requests').select((eb) => eb.fn.countAll<string>().as('n')).where('key', '=', key).executeTakeFirstOrThrow();
+    const ours = await appDb()
+      .selectFrom('mail_requests')
+      .select((eb) => eb.fn.countAll<string>().as('n'))
+      .where('key', '=', key)
+      .executeTakeFirstOrThrow();
     expect(Number(ours.n)).toBe(2);
   });
 
   it('does not count requests refused as invalid', async () => {
     const key = await ourClientKey();
-    expect((await asJson(null, '/api/v1/account/password/forgot', 'POST', { email: 'not an address' })).status).toBe(400);
-    expect((await asJson(null, '/api/v1/account/signup', 'POST', { email: fresh('weak'), password: 'short' })).status).toBe(400);
-    const ours = await appDb().selectFrom('mail_requests').select((eb) => eb.fn.countAll<string>().as('n')).where('key', '=', key).executeTakeFirstOrThrow();
+    expect(
+      (await asJson(null, '/api/v1/account/password/forgot', 'POST', { email: 'not an address' }))
+        .status,
+    ).toBe(400);
+    expect(
+      (
+        await asJson(null, '/api/v1/account/signup', 'POST', {
+          email: fresh('weak'),
+          password: 'short',
+        })
+      ).status,
+    ).toBe(400);
+    const ours = await appDb()
+      .selectFrom('mail_requests')
+      .select((eb) => eb.fn.countAll<string>().as('n'))
+      .where('key', '=', key)
+      .executeTakeFirstOrThrow();
     expect(Number(ours.n)).toBe(1);
   });
 });

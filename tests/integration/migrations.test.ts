@@ -41,17 +41,42 @@ describe('migrations on an empty database', () => {
     expect(first?.length).toBeGreaterThan(0);
     expect(first?.every((r) => r.status === 'Success')).toBe(true);
     const tables = await sql<{ table_name: string }>`
-      SELECT table_name FROM information_schema.tables WHERE table_schema = 'public' ORDER BY table_name`.execute(db);
+      SELECT table_name FROM information_schema.tables WHERE table_schema = 'public' ORDER BY table_name`.execute(
+      db,
+    );
     const names = tables.rows.map((r) => r.table_name);
-    for (const t of ['User', 'Account', 'Session', 'VerificationToken', 'audit_events', 'labs', 'lab_memberships']) expect(names).toContain(t);
+    for (const t of [
+      'User',
+      'Account',
+      'Session',
+      'VerificationToken',
+      'audit_events',
+      'labs',
+      'lab_memberships',
+    ])
+      expect(names).toContain(t);
     expect(await migrateToLatest(db, migrationsDir)).toEqual([]);
   });
 
   it('refuses a role outside the set and a malformed ORCID iD', async () => {
-    await expect(db.insertInto('User').values({ email: 'a@example.test', role: 'owner' as never }).execute()).rejects.toThrow(/check constraint/);
-    await expect(db.insertInto('User').values({ email: 'b@example.test', orcid: '0000-0002-1825-009' }).execute()).rejects.toThrow(/check constraint/);
-    await expect(db.insertInto('User').values({ email: 'C@Example.test' }).execute()).resolves.toBeDefined();
-    await expect(db.insertInto('User').values({ email: 'c@example.TEST' }).execute()).rejects.toThrow(/user_email_lower/);
+    await expect(
+      db
+        .insertInto('User')
+        .values({ email: 'a@example.test', role: 'owner' as never })
+        .execute(),
+    ).rejects.toThrow(/check constraint/);
+    await expect(
+      db
+        .insertInto('User')
+        .values({ email: 'b@example.test', orcid: '0000-0002-1825-009' })
+        .execute(),
+    ).rejects.toThrow(/check constraint/);
+    await expect(
+      db.insertInto('User').values({ email: 'C@Example.test' }).execute(),
+    ).resolves.toBeDefined();
+    await expect(
+      db.insertInto('User').values({ email: 'c@example.TEST' }).execute(),
+    ).rejects.toThrow(/user_email_lower/);
   });
 });
 
@@ -61,12 +86,25 @@ describe('audit events are append-only', () => {
     try {
       const row = await app
         .insertInto('audit_events')
-        .values({ action: 'test.append', subject_type: 'test', subject_id: '1', details: JSON.stringify({ n: 1 }) })
+        .values({
+          action: 'test.append',
+          subject_type: 'test',
+          subject_id: '1',
+          details: JSON.stringify({ n: 1 }),
+        })
         .returning(['id', 'details'])
         .executeTakeFirstOrThrow();
       expect(row.details).toEqual({ n: 1 });
-      await expect(app.updateTable('audit_events').set({ action: 'test.changed' }).where('id', '=', row.id).execute()).rejects.toThrow(/permission denied/);
-      await expect(app.deleteFrom('audit_events').where('id', '=', row.id).execute()).rejects.toThrow(/permission denied/);
+      await expect(
+        app
+          .updateTable('audit_events')
+          .set({ action: 'test.changed' })
+          .where('id', '=', row.id)
+          .execute(),
+      ).rejects.toThrow(/permission denied/);
+      await expect(
+        app.deleteFrom('audit_events').where('id', '=', row.id).execute(),
+      ).rejects.toThrow(/permission denied/);
       await expect(sql`TRUNCATE audit_events`.execute(app)).rejects.toThrow(/permission denied/);
     } finally {
       await app.destroy();
@@ -82,8 +120,12 @@ describe('audit events are append-only', () => {
         .values({ action: 'test.owner', subject_type: 'test', subject_id: '2' })
         .returning('id')
         .executeTakeFirstOrThrow();
-      await expect(owner.updateTable('audit_events').set({ action: 'x.y' }).where('id', '=', row.id).execute()).rejects.toThrow(/append-only/);
-      await expect(owner.deleteFrom('audit_events').where('id', '=', row.id).execute()).rejects.toThrow(/append-only/);
+      await expect(
+        owner.updateTable('audit_events').set({ action: 'x.y' }).where('id', '=', row.id).execute(),
+      ).rejects.toThrow(/append-only/);
+      await expect(
+        owner.deleteFrom('audit_events').where('id', '=', row.id).execute(),
+      ).rejects.toThrow(/append-only/);
     } finally {
       await owner.destroy();
     }
@@ -92,7 +134,9 @@ describe('audit events are append-only', () => {
   it('the app role cannot change the schema', async () => {
     const app = createDb(inject('appEnv').DATABASE_URL!, 1);
     try {
-      await expect(sql`CREATE TABLE intruder (id int)`.execute(app)).rejects.toThrow(/permission denied/);
+      await expect(sql`CREATE TABLE intruder (id int)`.execute(app)).rejects.toThrow(
+        /permission denied/,
+      );
       await expect(sql`DROP TABLE audit_events`.execute(app)).rejects.toThrow(/must be owner/);
     } finally {
       await app.destroy();

@@ -8,7 +8,16 @@ import { ROWS } from './authz-routes.ts';
 // operation names its statuses, path parameters, tag and purpose. (Validity against the OpenAPI
 // 3.1 schema is checked in search.test.ts.)
 
-const OPERATION_KEYS = ['get', 'put', 'post', 'delete', 'options', 'head', 'patch', 'trace'] as const;
+const OPERATION_KEYS = [
+  'get',
+  'put',
+  'post',
+  'delete',
+  'options',
+  'head',
+  'patch',
+  'trace',
+] as const;
 
 interface Parameter {
   name: string;
@@ -21,7 +30,9 @@ interface Operation {
   parameters?: Parameter[];
   responses: Record<string, { content?: Record<string, unknown> }>;
 }
-type PathItem = { parameters?: Parameter[] } & Partial<Record<(typeof OPERATION_KEYS)[number], Operation>>;
+type PathItem = { parameters?: Parameter[] } & Partial<
+  Record<(typeof OPERATION_KEYS)[number], Operation>
+>;
 interface Document {
   tags: { name: string; description?: string }[];
   paths: Record<string, PathItem>;
@@ -30,7 +41,8 @@ interface Document {
 const API = /^\/api\/v1(?=\/|$)/;
 
 /** `/api/v1/labs/[slug]/members` → `/labs/{slug}/members`, the way the document writes paths. */
-const documentPath = (route: string) => route.replace(API, '').replace(/\[([^\]]+)\]/g, '{$1}') || '/';
+const documentPath = (route: string) =>
+  route.replace(API, '').replace(/\[([^\]]+)\]/g, '{$1}') || '/';
 
 let doc: Document;
 let operations: { key: string; path: string; item: PathItem; op: Operation }[];
@@ -40,7 +52,12 @@ beforeAll(async () => {
   expect(res.status).toBe(200);
   doc = (await res.json()) as Document;
   operations = Object.entries(doc.paths).flatMap(([path, item]) =>
-    OPERATION_KEYS.filter((m) => item[m]).map((m) => ({ key: `${m.toUpperCase()} ${path}`, path, item, op: item[m]! })),
+    OPERATION_KEYS.filter((m) => item[m]).map((m) => ({
+      key: `${m.toUpperCase()} ${path}`,
+      path,
+      item,
+      op: item[m]!,
+    })),
   );
 });
 
@@ -61,8 +78,12 @@ describe('the OpenAPI document', () => {
     expect(doc.tags.filter((t) => !t.description)).toEqual([]);
     const ids = operations.map((o) => o.op.operationId);
     expect(ids.filter((id, i) => !id || ids.indexOf(id) !== i)).toEqual([]);
-    const badSummary = operations.filter((o) => !o.op.summary?.trim() || o.op.summary.includes('\n')).map((o) => o.key);
-    const badTags = operations.filter((o) => o.op.tags?.length !== 1 || !tags.includes(o.op.tags[0]!)).map((o) => o.key);
+    const badSummary = operations
+      .filter((o) => !o.op.summary?.trim() || o.op.summary.includes('\n'))
+      .map((o) => o.key);
+    const badTags = operations
+      .filter((o) => o.op.tags?.length !== 1 || !tags.includes(o.op.tags[0]!))
+      .map((o) => o.key);
     expect({ badSummary, badTags }).toEqual({ badSummary: [], badTags: [] });
     // Every listed tag has operations (a tag with none would be an empty section).
     expect(tags.filter((t) => !operations.some((o) => o.op.tags?.includes(t)))).toEqual([]);
@@ -71,8 +92,13 @@ describe('the OpenAPI document', () => {
   it('declares exactly the path parameters each path names', () => {
     const wrong = operations.flatMap(({ key, path, item, op }) => {
       const named = [...path.matchAll(/\{(\w+)\}/g)].map((m) => m[1]!).sort();
-      const declared = [...(item.parameters ?? []), ...(op.parameters ?? [])].filter((p) => p.in === 'path').map((p) => p.name).sort();
-      return JSON.stringify(named) === JSON.stringify(declared) ? [] : [`${key}: names ${named.join(',')}, declares ${declared.join(',')}`];
+      const declared = [...(item.parameters ?? []), ...(op.parameters ?? [])]
+        .filter((p) => p.in === 'path')
+        .map((p) => p.name)
+        .sort();
+      return JSON.stringify(named) === JSON.stringify(declared)
+        ? []
+        : [`${key}: names ${named.join(',')}, declares ${declared.join(',')}`];
     });
     expect(wrong).toEqual([]);
   });
@@ -81,8 +107,13 @@ describe('the OpenAPI document', () => {
     const wrong = operations.flatMap(({ key, op }) => {
       const statuses = Object.keys(op.responses);
       const successes = statuses.filter((s) => /^2\d\d$/.test(s));
-      const notProblems = statuses.filter((s) => Number(s) >= 400 && !op.responses[s]!.content?.['application/problem+json']);
-      return [...(successes.length === 1 ? [] : [`${key}: successes ${successes.join(',') || 'none'}`]), ...notProblems.map((s) => `${key}: ${s} is not problem+json`)];
+      const notProblems = statuses.filter(
+        (s) => Number(s) >= 400 && !op.responses[s]!.content?.['application/problem+json'],
+      );
+      return [
+        ...(successes.length === 1 ? [] : [`${key}: successes ${successes.join(',') || 'none'}`]),
+        ...notProblems.map((s) => `${key}: ${s} is not problem+json`),
+      ];
     });
     expect(wrong).toEqual([]);
   });
@@ -95,7 +126,9 @@ describe('the OpenAPI document', () => {
       const key = `${r.method} ${documentPath(r.route)}`;
       const op = byKey.get(key);
       if (!op) return [`${key}: not documented`];
-      return [...new Set(Object.values(r.expect))].filter((s) => !(String(s) in op.responses)).map((s) => `${key}: ${s}`);
+      return [...new Set(Object.values(r.expect))]
+        .filter((s) => !(String(s) in op.responses))
+        .map((s) => `${key}: ${s}`);
     });
     expect(missing).toEqual([]);
   });

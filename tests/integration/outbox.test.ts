@@ -11,7 +11,8 @@ import { readCapturedMail } from '../../src/lib/server/mail-capture.ts';
 const port = await freePort();
 process.env.SMTP_PORT = String(port);
 const { db } = await import('../../src/lib/server/db/index.ts');
-const { deliverDueMail, queueMail, retryDelaySeconds } = await import('../../src/lib/server/outbox.ts');
+const { deliverDueMail, queueMail, retryDelaySeconds } =
+  await import('../../src/lib/server/outbox.ts');
 
 const dir = mkdtempSync(path.join(tmpdir(), 'edgewise-outbox-'));
 let fake: MailFake | undefined;
@@ -23,11 +24,19 @@ afterAll(async () => {
 describe('mail outbox', () => {
   it('keeps a message while the mail server is down and delivers it once it is back', async () => {
     const to = `outbox-${randomBytes(4).toString('hex')}@example.test`;
-    await db().transaction().execute((trx) => queueMail(trx, { kind: 'test.outbox', to, subject: 'Held back', text: 'body' }));
+    await db()
+      .transaction()
+      .execute((trx) =>
+        queueMail(trx, { kind: 'test.outbox', to, subject: 'Held back', text: 'body' }),
+      );
 
     const down = await deliverDueMail();
     expect(down.failed).toBeGreaterThanOrEqual(1);
-    const held = await db().selectFrom('mail_outbox').selectAll().where('to_address', '=', to).executeTakeFirstOrThrow();
+    const held = await db()
+      .selectFrom('mail_outbox')
+      .selectAll()
+      .where('to_address', '=', to)
+      .executeTakeFirstOrThrow();
     expect(held.status).toBe('failed');
     expect(held.attempts).toBe(1);
     expect(held.last_error).toBeTruthy();
@@ -36,13 +45,29 @@ describe('mail outbox', () => {
     // Not due yet: a pass now leaves it alone.
     fake = await startMailFake({ port, directory: dir });
     await deliverDueMail();
-    expect((await db().selectFrom('mail_outbox').select('status').where('to_address', '=', to).executeTakeFirstOrThrow()).status).toBe('failed');
+    expect(
+      (
+        await db()
+          .selectFrom('mail_outbox')
+          .select('status')
+          .where('to_address', '=', to)
+          .executeTakeFirstOrThrow()
+      ).status,
+    ).toBe('failed');
 
     // Time passes (the retry pause is over); the next pass delivers it.
-    await db().updateTable('mail_outbox').set({ next_attempt_at: new Date(Date.now() - 1000) }).where('to_address', '=', to).execute();
+    await db()
+      .updateTable('mail_outbox')
+      .set({ next_attempt_at: new Date(Date.now() - 1000) })
+      .where('to_address', '=', to)
+      .execute();
     const up = await deliverDueMail();
     expect(up.sent).toBeGreaterThanOrEqual(1);
-    const sent = await db().selectFrom('mail_outbox').selectAll().where('to_address', '=', to).executeTakeFirstOrThrow();
+    const sent = await db()
+      .selectFrom('mail_outbox')
+      .selectAll()
+      .where('to_address', '=', to)
+      .executeTakeFirstOrThrow();
     expect(sent.status).toBe('sent');
     expect(sent.attempts).toBe(2);
     expect(sent.sent_at).toBeInstanceOf(Date);
@@ -54,12 +79,16 @@ describe('mail outbox', () => {
   it('a message queued in a transaction that rolls back is never sent', async () => {
     const to = `rollback-${randomBytes(4).toString('hex')}@example.test`;
     await expect(
-      db().transaction().execute(async (trx) => {
-        await queueMail(trx, { kind: 'test.outbox', to, subject: 'Never', text: 'x' });
-        throw new Error('the change failed');
-      }),
+      db()
+        .transaction()
+        .execute(async (trx) => {
+          await queueMail(trx, { kind: 'test.outbox', to, subject: 'Never', text: 'x' });
+          throw new Error('the change failed');
+        }),
     ).rejects.toThrow('the change failed');
-    expect(await db().selectFrom('mail_outbox').select('id').where('to_address', '=', to).execute()).toEqual([]);
+    expect(
+      await db().selectFrom('mail_outbox').select('id').where('to_address', '=', to).execute(),
+    ).toEqual([]);
   });
 
   it('backs off by doubling from 15 s up to an hour', () => {

@@ -26,7 +26,14 @@ const list = async (query: string, who: string | null = null) => {
   const res = await as(who, `/api/v1/records?q=${token}&${query}`);
   const body = await res.json();
   if (res.status !== 200) throw new Error(`${res.status} ${JSON.stringify(body)}`);
-  return body as { total: number; items: { handle: string; onScale: { cathodic: number | null; anodic: number | null; scale: string } }[]; facets: Record<string, { value: string; count: number }[]> };
+  return body as {
+    total: number;
+    items: {
+      handle: string;
+      onScale: { cathodic: number | null; anodic: number | null; scale: string };
+    }[];
+    facets: Record<string, { value: string; count: number }[]>;
+  };
 };
 const hs = (r: { items: { handle: string }[] }) => r.items.map((i) => i.handle).sort();
 const names = (...keys: string[]) => keys.map((k) => handles[k]!).sort();
@@ -36,26 +43,43 @@ let memberA: Principal;
 beforeAll(async () => {
   const title = (t: string) => `${t} ${token}`;
   const mk = async (key: string, opts: NonNullable<Parameters<typeof makeRecord>[0]>) => {
-    const { record } = await makeRecord({ status: 'published', ...opts, over: { title: title(key), ...opts.over } });
+    const { record } = await makeRecord({
+      status: 'published',
+      ...opts,
+      over: { title: title(key), ...opts.over },
+    });
     handles[key] = record.handle;
   };
   await mk('pcGc', {});
   await mk('acnPt', {
     over: {
-      electrolyte: { solvents: [{ term: 'MeCN', fraction: 1 }], salts: [{ term: 'TEABF4', concentration: { value: 1.5, basis: 'mol/L' } }] },
+      electrolyte: {
+        solvents: [{ term: 'MeCN', fraction: 1 }],
+        salts: [{ term: 'TEABF4', concentration: { value: 1.5, basis: 'mol/L' } }],
+      },
       workingElectrode: { material: 'Pt', form: 'disk', geometricAreaCm2: 0.03 },
       method: { kind: 'lsv', scanRateMVs: 1 },
       criterion: { kind: 'j-area', threshold: 100 },
       temperatureC: 60,
-      reportedLimits: { cathodic: { valueV: -2.8, reference: 'Ag/AgCl' }, anodic: { valueV: 2.6, reference: 'Ag/AgCl' } },
+      reportedLimits: {
+        cathodic: { valueV: -2.8, reference: 'Ag/AgCl' },
+        anodic: { valueV: 2.6, reference: 'Ag/AgCl' },
+      },
     },
   });
   await mk('water', {
     over: {
-      electrolyte: { solvents: [{ term: 'water', fraction: 1 }], salts: [{ term: 'LiTFSI', concentration: { value: 21, basis: 'mol/kg' } }], pH: 7 },
+      electrolyte: {
+        solvents: [{ term: 'water', fraction: 1 }],
+        salts: [{ term: 'LiTFSI', concentration: { value: 21, basis: 'mol/kg' } }],
+        pH: 7,
+      },
       workingElectrode: { material: 'stainless steel', form: 'foil' },
       method: { kind: 'cv-window-opening', scanRateMVs: 10 },
-      reportedLimits: { cathodic: { valueV: 1.9, reference: 'Li+/Li' }, anodic: { valueV: 4.9, reference: 'Li+/Li' } },
+      reportedLimits: {
+        cathodic: { valueV: 1.9, reference: 'Li+/Li' },
+        anodic: { valueV: 4.9, reference: 'Li+/Li' },
+      },
     },
   });
   await mk('cell', {
@@ -67,7 +91,17 @@ beforeAll(async () => {
     },
   });
   await mk('draftA', { status: 'draft', lab: labA, over: { visibility: 'lab' } });
-  await mk('embargoA', { lab: labA, over: { visibility: 'lab', embargoUntil: '2999-01-01', electrolyte: { solvents: [{ term: 'DMSO', fraction: 1 }], salts: [{ term: 'NaClO4', concentration: { value: 1, basis: 'mol/L' } }] } } });
+  await mk('embargoA', {
+    lab: labA,
+    over: {
+      visibility: 'lab',
+      embargoUntil: '2999-01-01',
+      electrolyte: {
+        solvents: [{ term: 'DMSO', fraction: 1 }],
+        salts: [{ term: 'NaClO4', concentration: { value: 1, basis: 'mol/L' } }],
+      },
+    },
+  });
   await mk('submittedB', { status: 'submitted', lab: labB });
   await mk('withdrawn', { status: 'withdrawn' });
   memberA = await principal({ labs: [[labA, 'member']] });
@@ -82,7 +116,10 @@ describe('filters', () => {
   });
 
   it('finds components by id, name, abbreviation or synonym', async () => {
-    for (const c of ['pc', 'PC', 'propylene carbonate', '4-methyl-1,3-dioxolan-2-one']) expect(hs(await list(`component=${encodeURIComponent(c)}`)), c).toEqual(names('pcGc', 'cell'));
+    for (const c of ['pc', 'PC', 'propylene carbonate', '4-methyl-1,3-dioxolan-2-one'])
+      expect(hs(await list(`component=${encodeURIComponent(c)}`)), c).toEqual(
+        names('pcGc', 'cell'),
+      );
     expect(hs(await list('component=acetonitrile&component=TEA%20BF4'))).toEqual(names('acnPt'));
     expect(hs(await list('component=acetonitrile&component=LiPF6'))).toEqual([]);
     const bad = await as(null, `/api/v1/records?component=unobtainium`);
@@ -114,7 +151,9 @@ describe('filters', () => {
     const values = all.items.map((i) => i.onScale.anodic).filter((v): v is number => v !== null);
     expect(values).toEqual([...values].sort((a, b) => b - a));
     const second = await list('sort=handle&limit=2&offset=2');
-    expect(second.items.map((i) => i.handle)).toEqual(names('pcGc', 'acnPt', 'water', 'cell').slice(2));
+    expect(second.items.map((i) => i.handle)).toEqual(
+      names('pcGc', 'acnPt', 'water', 'cell').slice(2),
+    );
     expect((await as(null, '/api/v1/records?limit=201')).status).toBe(400);
     expect((await as(null, '/api/v1/records?sort=secret')).status).toBe(400);
     expect((await as(null, '/api/v1/records?ownerId=x')).status).toBe(400);
@@ -137,7 +176,12 @@ describe('filters', () => {
     const r = await list('limit=1');
     const f = (name: string) => Object.fromEntries(r.facets[name]!.map((x) => [x.value, x.count]));
     expect(f('method')).toEqual({ 'cv-window-opening': 3, lsv: 1 });
-    expect(f('electrode')).toEqual({ 'glassy-carbon': 1, platinum: 1, 'stainless-steel': 1, 'activated-carbon': 1 });
+    expect(f('electrode')).toEqual({
+      'glassy-carbon': 1,
+      platinum: 1,
+      'stainless-steel': 1,
+      'activated-carbon': 1,
+    });
     expect(f('cellType')).toEqual({ 'three-electrode': 3, 'two-electrode': 1 });
     expect(f('status')).toEqual({ published: 4 });
     expect(f('salt')).toEqual({ lipf6: 2, teabf4: 1, litfsi: 1 });
@@ -170,7 +214,10 @@ describe('answers held between changes', () => {
     expect(await zipped.text()).toBe(text); // fetch decompresses
 
     // A record published in between is in the very next answer; the old tag no longer matches.
-    const { record } = await makeRecord({ status: 'published', over: { title: `late arrival ${late}` } });
+    const { record } = await makeRecord({
+      status: 'published',
+      over: { title: `late arrival ${late}` },
+    });
     const after = await as(null, path, { headers: { ...identity, 'if-none-match': etag } });
     expect(after.status).toBe(200);
     expect(after.headers.get('etag')).not.toBe(etag);
@@ -182,7 +229,10 @@ describe('answers held between changes', () => {
   it("never serves one principal's held answer to another", async () => {
     const path = `/api/v1/records?q=${token}&status=draft&status=published`;
     const member = await signIn(await makeUser({ labs: [[labA, 'member']], tag: 'srch-held' }));
-    const seen = async (who: string | null) => ((await (await as(who, path)).json()) as { items: { handle: string }[] }).items.map((i) => i.handle);
+    const seen = async (who: string | null) =>
+      ((await (await as(who, path)).json()) as { items: { handle: string }[] }).items.map(
+        (i) => i.handle,
+      );
     expect(await seen(null)).not.toContain(handles.draftA);
     expect(await seen(member)).toContain(handles.draftA);
     expect(await seen(null)).not.toContain(handles.draftA);
@@ -191,30 +241,67 @@ describe('answers held between changes', () => {
 
 describe('private records never leak', () => {
   it('are absent from results, totals, facets and exports for outsiders, present for the lab', async () => {
-    const everything = 'status=draft&status=submitted&status=published&status=flagged&status=withdrawn&status=changes_requested&status=declined';
+    const everything =
+      'status=draft&status=submitted&status=published&status=flagged&status=withdrawn&status=changes_requested&status=declined';
     const anon = await list(everything);
     expect(hs(anon)).toEqual(names('pcGc', 'acnPt', 'water', 'cell', 'withdrawn'));
     expect(anon.total).toBe(5);
     expect(JSON.stringify(anon.facets)).not.toContain('dmso');
     expect(JSON.stringify(anon.facets)).not.toContain(labA);
     for (const format of ['csv', 'json', 'bibtex', 'csljson']) {
-      const text = await (await api(`/api/v1/exports?format=${format}&q=${token}&${everything}`)).text();
-      for (const k of ['draftA', 'embargoA', 'submittedB']) expect(text, `${format} ${k}`).not.toContain(handles[k]);
+      const text = await (
+        await api(`/api/v1/exports?format=${format}&q=${token}&${everything}`)
+      ).text();
+      for (const k of ['draftA', 'embargoA', 'submittedB'])
+        expect(text, `${format} ${k}`).not.toContain(handles[k]);
     }
     // The lab's member sees the lab's draft and embargoed record, not lab B's submission.
     const scope = readScope(memberA);
-    const mine = await searchRecords(appDb(), { statuses: everything.split('&').map((s) => s.slice(7)), q: token }, scope, { sort: 'handle', desc: false, limit: 50, offset: 0 });
-    expect(mine.rows.map((r) => r.handle).sort()).toEqual(names('pcGc', 'acnPt', 'water', 'cell', 'withdrawn', 'draftA', 'embargoA'));
+    const mine = await searchRecords(
+      appDb(),
+      { statuses: everything.split('&').map((s) => s.slice(7)), q: token },
+      scope,
+      { sort: 'handle', desc: false, limit: 50, offset: 0 },
+    );
+    expect(mine.rows.map((r) => r.handle).sort()).toEqual(
+      names('pcGc', 'acnPt', 'water', 'cell', 'withdrawn', 'draftA', 'embargoA'),
+    );
   });
 
   it('the SQL visibility rule agrees with the policy for every record and principal', async () => {
-    const principals: Principal[] = [ANONYMOUS, await principal({ role: 'reader' }), memberA, await principal({ labs: [[labB, 'manager']] }), await curator(), await principal({ role: 'admin' })];
-    const all = ['draft', 'submitted', 'changes_requested', 'published', 'declined', 'flagged', 'withdrawn'];
+    const principals: Principal[] = [
+      ANONYMOUS,
+      await principal({ role: 'reader' }),
+      memberA,
+      await principal({ labs: [[labB, 'manager']] }),
+      await curator(),
+      await principal({ role: 'admin' }),
+    ];
+    const all = [
+      'draft',
+      'submitted',
+      'changes_requested',
+      'published',
+      'declined',
+      'flagged',
+      'withdrawn',
+    ];
     for (const p of principals) {
-      const visible = new Set((await searchRecords(appDb(), { statuses: all, q: token }, readScope(p), { sort: 'handle', desc: false, limit: 200, offset: 0 })).rows.map((r) => r.handle));
+      const visible = new Set(
+        (
+          await searchRecords(appDb(), { statuses: all, q: token }, readScope(p), {
+            sort: 'handle',
+            desc: false,
+            limit: 200,
+            offset: 0,
+          })
+        ).rows.map((r) => r.handle),
+      );
       for (const h of Object.values(handles)) {
         const head = (await getRecordHead(appDb(), h))!;
-        expect(visible.has(h), `${p.kind === 'user' ? p.role : 'anon'} ${h} ${head.status}`).toBe(can(p, 'record.read', policyObject(head)));
+        expect(visible.has(h), `${p.kind === 'user' ? p.role : 'anon'} ${h} ${head.status}`).toBe(
+          can(p, 'record.read', policyObject(head)),
+        );
       }
     }
   });
@@ -224,7 +311,9 @@ describe('exports', () => {
   const get = async (format: string) => {
     const res = await api(`/api/v1/exports?format=${format}&q=${token}&sort=handle`);
     expect(res.status).toBe(200);
-    expect(res.headers.get('content-disposition')).toMatch(/^attachment; filename="edgewise-windows\./);
+    expect(res.headers.get('content-disposition')).toMatch(
+      /^attachment; filename="edgewise-windows\./,
+    );
     return res.text();
   };
 
@@ -240,7 +329,11 @@ describe('exports', () => {
   });
 
   it('JSON parses back', async () => {
-    const items = JSON.parse(await get('json')) as { handle: string; version: number; citation: string }[];
+    const items = JSON.parse(await get('json')) as {
+      handle: string;
+      version: number;
+      citation: string;
+    }[];
     expect(items).toHaveLength(4);
     expect(items.every((i) => i.version >= 1 && i.citation.includes('2024'))).toBe(true);
   });
@@ -282,7 +375,16 @@ describe('the OpenAPI document', () => {
     expect(result.errors ?? []).toEqual([]);
     expect(result.valid).toBe(true);
     expect(v.version).toBe('3.1');
-    for (const p of ['/records', '/records/{handle}', '/records/{handle}/transitions', '/records/{handle}/versions/{n}', '/uploads', '/uploads/{id}/complete', '/exports', '/vocabulary']) {
+    for (const p of [
+      '/records',
+      '/records/{handle}',
+      '/records/{handle}/transitions',
+      '/records/{handle}/versions/{n}',
+      '/uploads',
+      '/uploads/{id}/complete',
+      '/exports',
+      '/vocabulary',
+    ]) {
       expect(Object.keys(doc.paths)).toContain(p);
     }
     // Generated from the same zod schema as the API: the concentration bases are the schema's.
@@ -290,4 +392,3 @@ describe('the OpenAPI document', () => {
     expect(doc.components.schemas.CreateRecord.additionalProperties).toBe(false);
   });
 });
-

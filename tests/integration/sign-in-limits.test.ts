@@ -1,5 +1,12 @@
 import { afterAll, beforeEach, describe, expect, it } from 'vitest';
-import { clearSignInFailures, closeAppDb, makeUser, postSignIn, sessionCookieFrom, uniqueEmail } from '../auth-helpers.ts';
+import {
+  clearSignInFailures,
+  closeAppDb,
+  makeUser,
+  postSignIn,
+  sessionCookieFrom,
+  uniqueEmail,
+} from '../auth-helpers.ts';
 import { sql } from 'kysely';
 import { appDb } from '../auth-helpers.ts';
 
@@ -39,8 +46,14 @@ describe('failed sign-in limits', () => {
 
   it('per client address: 10 failures on different accounts block the 11th attempt from that address', async () => {
     // A made-up X-Forwarded-For (and a forged peer header) on each attempt changes nothing: the proxy is not trusted here.
-    const spoof = (i: number) => ({ 'x-forwarded-for': `198.51.100.${i}`, 'x-edgewise-peer': `192.0.2.${i}` });
-    for (let i = 1; i <= 10; i++) expect((await postSignIn(uniqueEmail('nobody'), 'some wrong password', spoof(i))).status).toBe(302);
+    const spoof = (i: number) => ({
+      'x-forwarded-for': `198.51.100.${i}`,
+      'x-edgewise-peer': `192.0.2.${i}`,
+    });
+    for (let i = 1; i <= 10; i++)
+      expect(
+        (await postSignIn(uniqueEmail('nobody'), 'some wrong password', spoof(i))).status,
+      ).toBe(302);
     const u = await makeUser();
     const res = await postSignIn(u.email, u.password, spoof(11));
     expect(res.status).toBe(429);
@@ -51,7 +64,15 @@ describe('failed sign-in limits', () => {
     const u = await makeUser();
     for (let i = 0; i < 10; i++) await postSignIn(u.email, 'a wrong password again');
     const { api, appUrl } = await import('../helpers.ts');
-    const res = await api('/api/auth//callback/credentials/', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams({ email: u.email, password: u.password, callbackUrl: `${appUrl()}/account` }).toString() });
+    const res = await api('/api/auth//callback/credentials/', {
+      method: 'POST',
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+      body: new URLSearchParams({
+        email: u.email,
+        password: u.password,
+        callbackUrl: `${appUrl()}/account`,
+      }).toString(),
+    });
     expect(res.status).toBe(429);
     expect(sessionCookieFrom(res)).toBeNull();
   });
@@ -60,7 +81,12 @@ describe('failed sign-in limits', () => {
     const u = await makeUser();
     await appDb()
       .insertInto('sign_in_failures')
-      .values(Array.from({ length: 10 }, () => ({ key: `account:${u.email}`, at: new Date(Date.now() - 16 * 60_000) })))
+      .values(
+        Array.from({ length: 10 }, () => ({
+          key: `account:${u.email}`,
+          at: new Date(Date.now() - 16 * 60_000),
+        })),
+      )
       .execute();
     expect(sessionCookieFrom(await postSignIn(u.email, u.password))).not.toBeNull();
   });
@@ -69,7 +95,15 @@ describe('failed sign-in limits', () => {
     const u = await makeUser();
     for (let i = 0; i < 10; i++) await postSignIn(u.email, 'a wrong password again');
     const { api } = await import('../helpers.ts');
-    const res = await api('/signin', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams({ intent: 'password', email: u.email, password: u.password }).toString() });
+    const res = await api('/signin', {
+      method: 'POST',
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+      body: new URLSearchParams({
+        intent: 'password',
+        email: u.email,
+        password: u.password,
+      }).toString(),
+    });
     expect(res.status).toBe(429);
     expect(res.headers.get('retry-after')).toBeTruthy();
     expect(await res.text()).toContain('Too many failed sign-ins');

@@ -1,6 +1,12 @@
 import { createHash, randomBytes } from 'node:crypto';
 import { describe, expect, it, inject } from 'vitest';
-import { getObjectBytes, objectSize, presignPut, putObject, deleteObject } from '../../src/lib/server/storage.ts';
+import {
+  getObjectBytes,
+  objectSize,
+  presignPut,
+  putObject,
+  deleteObject,
+} from '../../src/lib/server/storage.ts';
 
 describe('object storage through the S3 SDK against the local fake', () => {
   it('stores bytes and reads back exactly the same bytes', async () => {
@@ -9,7 +15,9 @@ describe('object storage through the S3 SDK against the local fake', () => {
     await putObject(key, bytes, 'application/octet-stream');
     const back = await getObjectBytes(key);
     expect(back).not.toBeNull();
-    expect(createHash('sha256').update(back!).digest('hex')).toBe(createHash('sha256').update(bytes).digest('hex'));
+    expect(createHash('sha256').update(back!).digest('hex')).toBe(
+      createHash('sha256').update(bytes).digest('hex'),
+    );
     expect(await objectSize(key)).toBe(bytes.length);
     await deleteObject(key);
     expect(await getObjectBytes(key)).toBeNull();
@@ -31,7 +39,11 @@ describe('object storage through the S3 SDK against the local fake', () => {
     const endpoint = inject('appEnv').S3_ENDPOINT!;
     const res = await fetch(`${endpoint}/edgewise-raw/test/preflight.csv`, {
       method: 'OPTIONS',
-      headers: { origin: inject('appUrl'), 'access-control-request-method': 'PUT', 'access-control-request-headers': 'content-type' },
+      headers: {
+        origin: inject('appUrl'),
+        'access-control-request-method': 'PUT',
+        'access-control-request-headers': 'content-type',
+      },
     });
     expect(res.status).toBe(200);
     expect(res.headers.get('access-control-allow-methods')).toMatch(/PUT/);

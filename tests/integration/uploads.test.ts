@@ -1,8 +1,22 @@
 import { createHash, randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { appDb, as, asJson, closeAppDb, clearSignInFailures, makeUser, signIn } from '../auth-helpers.ts';
+import {
+  appDb,
+  as,
+  asJson,
+  closeAppDb,
+  clearSignInFailures,
+  makeUser,
+  signIn,
+} from '../auth-helpers.ts';
 import { content, tag } from '../support/records.ts';
-import { analyzeText, cvWindowOpeningSamples, formatExport, lsvSamples, type AnalysisOptions } from '../../src/lib/analysis/index.ts';
+import {
+  analyzeText,
+  cvWindowOpeningSamples,
+  formatExport,
+  lsvSamples,
+  type AnalysisOptions,
+} from '../../src/lib/analysis/index.ts';
 import { attachRawFile } from '../../src/lib/server/records.ts';
 import { insertRawFile } from '../../src/lib/server/repositories/records.ts';
 import { cleanStaleUploads, safeFileName } from '../../src/lib/server/uploads.ts';
@@ -44,11 +58,20 @@ async function newRecord() {
   return res.json();
 }
 async function declare(handle: string, body: string, over: Record<string, unknown> = {}) {
-  const res = await asJson(owner, '/api/v1/uploads', 'POST', { record: handle, name: 'cv run 1.csv', size: Buffer.byteLength(body), sha256: sha(body), mediaType: 'text/csv', ...over });
+  const res = await asJson(owner, '/api/v1/uploads', 'POST', {
+    record: handle,
+    name: 'cv run 1.csv',
+    size: Buffer.byteLength(body),
+    sha256: sha(body),
+    mediaType: 'text/csv',
+    ...over,
+  });
   return { res, json: await res.json() };
 }
-const put = (ticket: { url: string; headers: Record<string, string> }, body: string) => fetch(ticket.url, { method: 'PUT', body, headers: ticket.headers });
-const complete = (id: string, who = owner) => as(who, `/api/v1/uploads/${id}/complete`, { method: 'POST' });
+const put = (ticket: { url: string; headers: Record<string, string> }, body: string) =>
+  fetch(ticket.url, { method: 'PUT', body, headers: ticket.headers });
+const complete = (id: string, who = owner) =>
+  as(who, `/api/v1/uploads/${id}/complete`, { method: 'POST' });
 
 describe('the upload flow', () => {
   let handle: string;
@@ -82,44 +105,91 @@ describe('the upload flow', () => {
     expect(r.rawFiles.map((f: { id: string }) => f.id)).toEqual([rawFileId]);
     expect(r.computed.anodicV).toBeCloseTo(1.0898, 3);
     expect(r.computed.anodicSheV).toBeCloseTo(1.0898, 3);
-    expect(r.analyses[0].parameters).toMatchObject({ method: 'cv', criterion: 's:0.1', scanRate: 0.005, fromRef: 'SHE' });
+    expect(r.analyses[0].parameters).toMatchObject({
+      method: 'cv',
+      criterion: 's:0.1',
+      scanRate: 0.005,
+      fromRef: 'SHE',
+    });
     expect(r.analyses[0].engineVersion).toBeTruthy();
   });
 
   it('answers a repeated complete with the same result and no new version', async () => {
-    const u = await appDb().selectFrom('uploads').select('id').where('raw_file_id', '=', rawFileId).executeTakeFirstOrThrow();
+    const u = await appDb()
+      .selectFrom('uploads')
+      .select('id')
+      .where('raw_file_id', '=', rawFileId)
+      .executeTakeFirstOrThrow();
     const again = await complete(u.id);
     expect(again.status).toBe(200);
     const body = await again.json();
     expect(body.rawFile.id).toBe(rawFileId);
     expect(body.record.version).toBe(2);
-    const files = await appDb().selectFrom('raw_files').select('id').where('object_key', '=', `raw/${u.id}`).execute();
+    const files = await appDb()
+      .selectFrom('raw_files')
+      .select('id')
+      .where('object_key', '=', `raw/${u.id}`)
+      .execute();
     expect(files).toHaveLength(1);
   });
 
   it('downloads through the server as an attachment with a safe name; not for those who cannot see the record', async () => {
     const res = await as(owner, `/api/v1/raw-files/${rawFileId}`);
     expect(res.status).toBe(200);
-    expect(res.headers.get('content-disposition')).toBe(`attachment; filename="cv_run_1.csv"; filename*=UTF-8''cv_run_1.csv`);
+    expect(res.headers.get('content-disposition')).toBe(
+      `attachment; filename="cv_run_1.csv"; filename*=UTF-8''cv_run_1.csv`,
+    );
     expect(res.headers.get('x-content-type-options')).toBe('nosniff');
     expect(sha(new Uint8Array(await res.arrayBuffer()))).toBe(sha(cvFile));
     expect((await as(null, `/api/v1/raw-files/${rawFileId}`)).status).toBe(404);
     expect((await as(other, `/api/v1/raw-files/${rawFileId}`)).status).toBe(404);
-    expect((await as(other, `/api/v1/raw-files/00000000-0000-4000-8000-000000000000`)).status).toBe(404);
+    expect((await as(other, `/api/v1/raw-files/00000000-0000-4000-8000-000000000000`)).status).toBe(
+      404,
+    );
   });
 
   it('recomputes a published raw-backed record at a common criterion from its stored analysis', async () => {
-    expect((await asJson(owner, `/api/v1/records/${handle}/transitions`, 'POST', { action: 'submit', version: 2 })).status).toBe(200);
-    expect((await asJson(curator, `/api/v1/records/${handle}/transitions`, 'POST', { action: 'publish', version: 2 })).status).toBe(200);
+    expect(
+      (
+        await asJson(owner, `/api/v1/records/${handle}/transitions`, 'POST', {
+          action: 'submit',
+          version: 2,
+        })
+      ).status,
+    ).toBe(200);
+    expect(
+      (
+        await asJson(curator, `/api/v1/records/${handle}/transitions`, 'POST', {
+          action: 'publish',
+          version: 2,
+        })
+      ).status,
+    ).toBe(200);
     // A stated record beside it keeps its own criterion and says so.
-    const stated = await (await asJson(owner, '/api/v1/records', 'POST', { content: content({ title: `Stated ${token}` }) })).json();
-    await asJson(owner, `/api/v1/records/${stated.handle}/transitions`, 'POST', { action: 'submit', version: 1 });
-    await asJson(curator, `/api/v1/records/${stated.handle}/transitions`, 'POST', { action: 'publish', version: 1 });
+    const stated = await (
+      await asJson(owner, '/api/v1/records', 'POST', {
+        content: content({ title: `Stated ${token}` }),
+      })
+    ).json();
+    await asJson(owner, `/api/v1/records/${stated.handle}/transitions`, 'POST', {
+      action: 'submit',
+      version: 1,
+    });
+    await asJson(curator, `/api/v1/records/${stated.handle}/transitions`, 'POST', {
+      action: 'publish',
+      version: 1,
+    });
 
     const get = async (criterion: string) => {
-      const res = await as(null, `/api/v1/records?q=${token}&criterion=${encodeURIComponent(criterion)}&sort=handle`);
+      const res = await as(
+        null,
+        `/api/v1/records?q=${token}&criterion=${encodeURIComponent(criterion)}&sort=handle`,
+      );
       expect(res.status).toBe(200);
-      return (await res.json()).items as { handle: string; commonCriterion: { applied: boolean; anodicV: number | null; reason?: string } }[];
+      return (await res.json()).items as {
+        handle: string;
+        commonCriterion: { applied: boolean; anodicV: number | null; reason?: string };
+      }[];
     };
     const s01 = await get('s:0.1');
     expect(s01).toHaveLength(2);
@@ -158,9 +228,20 @@ describe('a linear sweep at a common criterion', () => {
       criterion: { kind: 'j-area', threshold: 10 },
       reportedLimits: { anodic: { valueV: 1.08, reference: 'SHE' } },
     });
-  type Item = { handle: string; commonCriterion: { applied: boolean; anodicV: number | null; status: { anodic?: string }; reason?: string } };
+  type Item = {
+    handle: string;
+    commonCriterion: {
+      applied: boolean;
+      anodicV: number | null;
+      status: { anodic?: string };
+      reason?: string;
+    };
+  };
   const find = async (who: string | null, handle: string, criterion: string, extra = '') => {
-    const res = await as(who, `/api/v1/records?q=${token}&criterion=${encodeURIComponent(criterion)}${extra}`);
+    const res = await as(
+      who,
+      `/api/v1/records?q=${token}&criterion=${encodeURIComponent(criterion)}${extra}`,
+    );
     expect(res.status).toBe(200);
     return ((await res.json()).items as Item[]).find((x) => x.handle === handle)!.commonCriterion;
   };
@@ -172,22 +253,45 @@ describe('a linear sweep at a common criterion', () => {
     return done.json();
   }
   /** The engine run directly on the file, with the options the server stored but another criterion. */
-  const engineAt = (params: AnalysisOptions, criterion: string) => analyzeText(lsvFile, { ...params, criterion }).limit;
+  const engineAt = (params: AnalysisOptions, criterion: string) =>
+    analyzeText(lsvFile, { ...params, criterion }).limit;
 
   it('recomputes its limit at another current-density cutoff from the stored analysis, as the engine does on the file', async () => {
-    const rec = await (await asJson(owner, '/api/v1/records', 'POST', { content: lsvContent(`LSV ${token}`) })).json();
+    const rec = await (
+      await asJson(owner, '/api/v1/records', 'POST', { content: lsvContent(`LSV ${token}`) })
+    ).json();
     const up = await uploadLsv(rec.handle);
     expect(up.analysis.direction).toBe('anodic');
     expect(up.record.evidenceLevel).toBe('confirmed');
-    expect((await asJson(owner, `/api/v1/records/${rec.handle}/transitions`, 'POST', { action: 'submit', version: 2 })).status).toBe(200);
-    expect((await asJson(curator, `/api/v1/records/${rec.handle}/transitions`, 'POST', { action: 'publish', version: 2 })).status).toBe(200);
+    expect(
+      (
+        await asJson(owner, `/api/v1/records/${rec.handle}/transitions`, 'POST', {
+          action: 'submit',
+          version: 2,
+        })
+      ).status,
+    ).toBe(200);
+    expect(
+      (
+        await asJson(curator, `/api/v1/records/${rec.handle}/transitions`, 'POST', {
+          action: 'publish',
+          version: 2,
+        })
+      ).status,
+    ).toBe(200);
     const r = await (await as(null, `/api/v1/records/${rec.handle}`)).json();
     const params = r.analyses[0].parameters as AnalysisOptions;
     expect(params).toMatchObject({ method: 'lsv', criterion: 'j:10uA/cm2', area: 0.5 });
     // The crossing table is kept with the analysis, not shown with the record.
     expect(r.analyses[0].result.envelope).toBeUndefined();
-    const stored = await appDb().selectFrom('analyses').select('result').where('id', '=', r.analyses[0].id).executeTakeFirstOrThrow();
-    expect((stored.result as { envelope: { rows: unknown[] } }).envelope.rows.length).toBeGreaterThan(0);
+    const stored = await appDb()
+      .selectFrom('analyses')
+      .select('result')
+      .where('id', '=', r.analyses[0].id)
+      .executeTakeFirstOrThrow();
+    expect(
+      (stored.result as { envelope: { rows: unknown[] } }).envelope.rows.length,
+    ).toBeGreaterThan(0);
 
     // At the record's own cutoff: the stored limit itself.
     const own = await find(null, rec.handle, 'j:10uA/cm2');
@@ -202,11 +306,21 @@ describe('a linear sweep at a common criterion', () => {
     expect(j50.anodicV! - own.anodicV!).toBeGreaterThan(0.05); // a higher cutoff, a wider window
     // In the flat part, where new maxima are thinned: within 1 mV of the engine.
     const j1 = await find(null, rec.handle, 'j:1.02uA/cm2');
-    expect(Math.abs(j1.anodicV! - engineAt(params, 'j:1.02uA/cm2').interpolatedV!)).toBeLessThan(1e-3);
+    expect(Math.abs(j1.anodicV! - engineAt(params, 'j:1.02uA/cm2').interpolatedV!)).toBeLessThan(
+      1e-3,
+    );
     // Beyond the largest current: not reached (the engine agrees); below the first sample: exceeded at first.
-    expect(await find(null, rec.handle, 'j:1A/cm2')).toMatchObject({ applied: true, anodicV: null, status: { anodic: 'not-reached' } });
+    expect(await find(null, rec.handle, 'j:1A/cm2')).toMatchObject({
+      applied: true,
+      anodicV: null,
+      status: { anodic: 'not-reached' },
+    });
     expect(engineAt(params, 'j:1A/cm2').status).toBe('not-reached');
-    expect(await find(null, rec.handle, 'i:0.1uA')).toMatchObject({ applied: true, anodicV: null, status: { anodic: 'exceeded-at-first' } });
+    expect(await find(null, rec.handle, 'i:0.1uA')).toMatchObject({
+      applied: true,
+      anodicV: null,
+      status: { anodic: 'exceeded-at-first' },
+    });
     // Per mass needs a mass the record does not give; S and CE judge window-opening CV only.
     const jm = await find(null, rec.handle, 'jm:10mA/g');
     expect(jm.applied).toBe(false);
@@ -227,36 +341,63 @@ describe('a linear sweep at a common criterion', () => {
     const { envelope: _, ...old } = analyzeText(lsvFile, params);
     const key = `raw/${randomUUID()}`;
     await putObject(key, lsvFile, 'text/csv');
-    const recordId = (await appDb().selectFrom('records').select('id').where('handle', '=', rec.handle).executeTakeFirstOrThrow()).id;
-    await appDb().transaction().execute(async (trx) => {
-      const rawFileId = await insertRawFile(trx, {
-        recordId,
-        objectKey: key,
-        originalName: 'lsv run 2.csv',
-        safeName: 'lsv_run_2.csv',
-        bytes: Buffer.byteLength(lsvFile),
-        sha256: sha(lsvFile),
-        mediaType: 'text/csv',
-        mapping: {},
-        parseSummary: {},
-        uploadedBy: me.id,
+    const recordId = (
+      await appDb()
+        .selectFrom('records')
+        .select('id')
+        .where('handle', '=', rec.handle)
+        .executeTakeFirstOrThrow()
+    ).id;
+    await appDb()
+      .transaction()
+      .execute(async (trx) => {
+        const rawFileId = await insertRawFile(trx, {
+          recordId,
+          objectKey: key,
+          originalName: 'lsv run 2.csv',
+          safeName: 'lsv_run_2.csv',
+          bytes: Buffer.byteLength(lsvFile),
+          sha256: sha(lsvFile),
+          mediaType: 'text/csv',
+          mapping: {},
+          parseSummary: {},
+          uploadedBy: me.id,
+        });
+        await attachRawFile(trx, me, recordId, {
+          rawFileId,
+          options: params,
+          result: old,
+          name: 'lsv_run_2.csv',
+        });
       });
-      await attachRawFile(trx, me, recordId, { rawFileId, options: params, result: old, name: 'lsv_run_2.csv' });
-    });
     const before = await find(owner, rec.handle, 'j:50uA/cm2', '&status=draft');
     expect(before.applied).toBe(false);
     expect(before.reason).toMatch(/analysed before .*; re-run the analysis/);
 
-    const edited = await asJson(owner, `/api/v1/records/${rec.handle}`, 'PUT', { version: 3, content: body, changeNote: 'no change; analyses brought up to date' });
+    const edited = await asJson(owner, `/api/v1/records/${rec.handle}`, 'PUT', {
+      version: 3,
+      content: body,
+      changeNote: 'no change; analyses brought up to date',
+    });
     expect(edited.status).toBe(200);
     const after = await edited.json();
     expect(after.version).toBe(4);
     expect(after.analyses).toHaveLength(2);
-    const kept = await appDb().selectFrom('analyses').select('result').where('id', 'in', after.analyses.map((a: { id: string }) => a.id)).execute();
+    const kept = await appDb()
+      .selectFrom('analyses')
+      .select('result')
+      .where(
+        'id',
+        'in',
+        after.analyses.map((a: { id: string }) => a.id),
+      )
+      .execute();
     expect(kept.every((a) => (a.result as { envelope?: unknown }).envelope)).toBe(true);
     const now = await find(owner, rec.handle, 'j:50uA/cm2', '&status=draft');
     expect(now.applied).toBe(true);
-    expect(Math.abs(now.anodicV! - engineAt(params, 'j:50uA/cm2').interpolatedV!)).toBeLessThan(1e-9);
+    expect(Math.abs(now.anodicV! - engineAt(params, 'j:50uA/cm2').interpolatedV!)).toBeLessThan(
+      1e-9,
+    );
   });
 });
 
@@ -274,7 +415,15 @@ describe('uploads that go wrong', () => {
     const early = await complete(ticket.id);
     expect(early.status).toBe(409);
     expect((await early.json()).code).toBe('object-missing');
-    expect((await appDb().selectFrom('uploads').select('status').where('id', '=', ticket.id).executeTakeFirstOrThrow()).status).toBe('pending');
+    expect(
+      (
+        await appDb()
+          .selectFrom('uploads')
+          .select('status')
+          .where('id', '=', ticket.id)
+          .executeTakeFirstOrThrow()
+      ).status,
+    ).toBe('pending');
     const r = await (await as(owner, `/api/v1/records/${rec.handle}`)).json();
     expect(r.rawFiles).toEqual([]);
     await put(ticket, cvFile);
@@ -291,7 +440,11 @@ describe('uploads that go wrong', () => {
     expect(res.status).toBe(422);
     const body = await res.json();
     expect(body.errors[0].path).toBe('sha256');
-    const row = await appDb().selectFrom('uploads').selectAll().where('id', '=', ticket.id).executeTakeFirstOrThrow();
+    const row = await appDb()
+      .selectFrom('uploads')
+      .selectAll()
+      .where('id', '=', ticket.id)
+      .executeTakeFirstOrThrow();
     expect(row.status).toBe('failed');
     expect(row.raw_file_id).toBeNull();
     expect(await getObjectBytes(`raw/${ticket.id}`)).toBeNull();
@@ -322,9 +475,40 @@ describe('uploads that go wrong', () => {
     const { json: ticket } = await declare(rec.handle, cvFile);
     expect((await complete(ticket.id, other)).status).toBe(404);
     expect((await complete('00000000-0000-4000-8000-000000000000')).status).toBe(404);
-    expect((await asJson(other, '/api/v1/uploads', 'POST', { record: rec.handle, name: 'a.csv', size: 3, sha256: sha('abc'), mediaType: 'text/csv' })).status).toBe(404);
-    expect((await asJson(null, '/api/v1/uploads', 'POST', { record: rec.handle, name: 'a.csv', size: 3, sha256: sha('abc'), mediaType: 'text/csv' })).status).toBe(404);
-    expect((await asJson(owner, '/api/v1/uploads', 'POST', { record: rec.handle, name: 'a.csv', size: 3, sha256: sha('abc'), mediaType: 'text/csv', key: 'raw/mine' })).status).toBe(400);
+    expect(
+      (
+        await asJson(other, '/api/v1/uploads', 'POST', {
+          record: rec.handle,
+          name: 'a.csv',
+          size: 3,
+          sha256: sha('abc'),
+          mediaType: 'text/csv',
+        })
+      ).status,
+    ).toBe(404);
+    expect(
+      (
+        await asJson(null, '/api/v1/uploads', 'POST', {
+          record: rec.handle,
+          name: 'a.csv',
+          size: 3,
+          sha256: sha('abc'),
+          mediaType: 'text/csv',
+        })
+      ).status,
+    ).toBe(404);
+    expect(
+      (
+        await asJson(owner, '/api/v1/uploads', 'POST', {
+          record: rec.handle,
+          name: 'a.csv',
+          size: 3,
+          sha256: sha('abc'),
+          mediaType: 'text/csv',
+          key: 'raw/mine',
+        })
+      ).status,
+    ).toBe(400);
   });
 
   it('cleans pending uploads whose URL expired long ago, and their objects', async () => {
@@ -332,11 +516,22 @@ describe('uploads that go wrong', () => {
     const { json: stale } = await declare(rec.handle, cvFile);
     await putObject(`raw/${stale.id}`, cvFile, 'text/csv');
     const { json: fresh } = await declare(rec.handle, cvFile);
-    await appDb().updateTable('uploads').set({ expires_at: new Date(Date.now() - 2 * 3600_000) }).where('id', '=', stale.id).execute();
+    await appDb()
+      .updateTable('uploads')
+      .set({ expires_at: new Date(Date.now() - 2 * 3600_000) })
+      .where('id', '=', stale.id)
+      .execute();
     const cleaned = await cleanStaleUploads(appDb(), { graceSeconds: 3600 });
     expect(cleaned).toBeGreaterThanOrEqual(1);
-    const rows = await appDb().selectFrom('uploads').select(['id', 'status']).where('id', 'in', [stale.id, fresh.id]).execute();
-    expect(Object.fromEntries(rows.map((r) => [r.id, r.status]))).toEqual({ [stale.id]: 'expired', [fresh.id]: 'pending' });
+    const rows = await appDb()
+      .selectFrom('uploads')
+      .select(['id', 'status'])
+      .where('id', 'in', [stale.id, fresh.id])
+      .execute();
+    expect(Object.fromEntries(rows.map((r) => [r.id, r.status]))).toEqual({
+      [stale.id]: 'expired',
+      [fresh.id]: 'pending',
+    });
     expect(await getObjectBytes(`raw/${stale.id}`)).toBeNull();
     expect((await complete(stale.id)).status).toBe(409);
   });

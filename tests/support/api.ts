@@ -16,7 +16,12 @@ export async function ok<T = any>(res: Response, what: string, status = 200): Pr
  * presigned address, completed (verified, analysed, attached). The completion's answer, with the
  * record at its new version.
  */
-export async function attachRawThroughApi(cookie: string, handle: string, text: string, direction: 'anodic' | 'cathodic' = 'anodic'): Promise<{ record: { version: number } }> {
+export async function attachRawThroughApi(
+  cookie: string,
+  handle: string,
+  text: string,
+  direction: 'anodic' | 'cathodic' = 'anodic',
+): Promise<{ record: { version: number } }> {
   const bytes = Buffer.from(text);
   const up = await ok(
     await asJson(cookie, '/api/v1/uploads', 'POST', {
@@ -31,5 +36,8 @@ export async function attachRawThroughApi(cookie: string, handle: string, text: 
     201,
   );
   expect((await fetch(up.url, { method: 'PUT', body: bytes, headers: up.headers })).ok).toBe(true);
-  return ok(await asJson(cookie, `/api/v1/uploads/${up.id}/complete`, 'POST', {}), 'complete upload');
+  return ok(
+    await asJson(cookie, `/api/v1/uploads/${up.id}/complete`, 'POST', {}),
+    'complete upload',
+  );
 }

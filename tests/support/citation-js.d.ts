@@ -3,7 +3,10 @@ declare module '@citation-js/core' {
   export class Cite {
     constructor(data: unknown);
     data: Record<string, unknown>[];
-    format(kind: 'bibliography' | 'citation' | 'data', options?: { format?: 'text' | 'html'; template?: string; lang?: string }): string;
+    format(
+      kind: 'bibliography' | 'citation' | 'data',
+      options?: { format?: 'text' | 'html'; template?: string; lang?: string },
+    ): string;
   }
 }
 declare module '@citation-js/plugin-csl';

@@ -30,11 +30,28 @@ export async function openFlag(): Promise<{ flag: string; handle: string }> {
 /** An open proposal of a new contributor; its id. */
 export async function openProposal(): Promise<string> {
   const who = await principal({ role: 'contributor' });
-  return (await proposeTerm(appDb(), who, { kind: 'additive', name: `proposed additive ${hex()}`, abbreviations: [], synonyms: [] })).id;
+  return (
+    await proposeTerm(appDb(), who, {
+      kind: 'additive',
+      name: `proposed additive ${hex()}`,
+      abbreviations: [],
+      synonyms: [],
+    })
+  ).id;
 }
 
 /** A throwaway term straight in the vocabulary; its id. */
-export async function freshTerm(kind: VocabularyKind, over: { name?: string; abbreviations?: string[]; synonyms?: string[]; scale?: string; potentialVsSheV?: number; source?: string } = {}): Promise<string> {
+export async function freshTerm(
+  kind: VocabularyKind,
+  over: {
+    name?: string;
+    abbreviations?: string[];
+    synonyms?: string[];
+    scale?: string;
+    potentialVsSheV?: number;
+    source?: string;
+  } = {},
+): Promise<string> {
   const id = `t-${kind.slice(0, 4)}-${hex()}`;
   const name = over.name ?? `Test ${kind} ${id}`;
   const t = { id, name, abbreviations: over.abbreviations ?? [], synonyms: over.synonyms ?? [] };
@@ -47,7 +64,10 @@ export async function freshTerm(kind: VocabularyKind, over: { name?: string; abb
       lookup_keys: termKeys(t),
       scale: over.scale ?? null,
       potential_vs_she_v: over.potentialVsSheV ?? null,
-      potential_source: over.potentialVsSheV !== undefined ? (over.source ?? 'an invented handbook, table 1') : null,
+      potential_source:
+        over.potentialVsSheV !== undefined
+          ? (over.source ?? 'an invented handbook, table 1')
+          : null,
     })
     .execute();
   return id;

@@ -12,5 +12,8 @@ export function halfUlp(given: string): number {
 export function expectToDigits(actual: number | null | undefined, given: string): void {
   expect(actual, `expected a number close to ${given}`).toBeTypeOf('number');
   const tol = halfUlp(given) * (1 + 1e-9);
-  expect(Math.abs((actual as number) - Number(given)), `${actual} should round to ${given} (±${halfUlp(given)})`).toBeLessThanOrEqual(tol);
+  expect(
+    Math.abs((actual as number) - Number(given)),
+    `${actual} should round to ${given} (±${halfUlp(given)})`,
+  ).toBeLessThanOrEqual(tol);
 }

@@ -5,7 +5,10 @@ import type { RecordContentInput } from '../../src/lib/shared/record.ts';
 export function content(over: Partial<RecordContentInput> = {}): RecordContentInput {
   return {
     title: 'Test window',
-    electrolyte: { solvents: [{ term: 'propylene carbonate', fraction: 1 }], salts: [{ term: 'LiPF6', concentration: { value: 1, basis: 'mol/L' } }] },
+    electrolyte: {
+      solvents: [{ term: 'propylene carbonate', fraction: 1 }],
+      salts: [{ term: 'LiPF6', concentration: { value: 1, basis: 'mol/L' } }],
+    },
     temperatureC: 25,
     workingElectrode: { material: 'GC', form: 'disk', geometricAreaCm2: 0.07 },
     counterElectrode: { material: 'platinum' },
@@ -13,8 +16,20 @@ export function content(over: Partial<RecordContentInput> = {}): RecordContentIn
     cellType: 'three-electrode',
     method: { kind: 'cv-window-opening', scanRateMVs: 5, vertexStepMV: 100 },
     criterion: { kind: 's-value', threshold: 0.1 },
-    reportedLimits: { cathodic: { valueV: -2.5, reference: 'SCE' }, anodic: { valueV: 1.0, reference: 'SCE' } },
-    source: { kind: 'published', doi: '10.5555/ew.test.1', title: 'An invented window study', authors: [{ family: 'Example', given: 'Erin' }], containerTitle: 'Journal of Made-up Electrochemistry', year: 2024, volume: '7', pages: '1-9' },
+    reportedLimits: {
+      cathodic: { valueV: -2.5, reference: 'SCE' },
+      anodic: { valueV: 1.0, reference: 'SCE' },
+    },
+    source: {
+      kind: 'published',
+      doi: '10.5555/ew.test.1',
+      title: 'An invented window study',
+      authors: [{ family: 'Example', given: 'Erin' }],
+      containerTitle: 'Journal of Made-up Electrochemistry',
+      year: 2024,
+      volume: '7',
+      pages: '1-9',
+    },
     ...over,
   };
 }

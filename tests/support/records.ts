@@ -18,26 +18,52 @@ export function parsedContent(over: Partial<RecordContentInput> = {}) {
 }
 
 /** A signed-in principal for direct service calls (as the middleware would resolve it). */
-export async function principal(opts: { role?: Role; labs?: [string, LabRole][] } = {}): Promise<UserPrincipal> {
-  const u = await makeUser({ role: opts.role ?? 'contributor', ...(opts.labs ? { labs: opts.labs } : {}) });
+export async function principal(
+  opts: { role?: Role; labs?: [string, LabRole][] } = {},
+): Promise<UserPrincipal> {
+  const u = await makeUser({
+    role: opts.role ?? 'contributor',
+    ...(opts.labs ? { labs: opts.labs } : {}),
+  });
   const labs = [];
   for (const [slug, role] of opts.labs ?? []) {
     const lab = await ensureLab(slug);
     labs.push({ labId: lab.id, slug, name: `Lab ${slug}`, role });
   }
-  return { kind: 'user', id: u.id, email: u.email, name: null, role: opts.role ?? 'contributor', labs, via: 'session', scopes: ['read', 'write'] };
+  return {
+    kind: 'user',
+    id: u.id,
+    email: u.email,
+    name: null,
+    role: opts.role ?? 'contributor',
+    labs,
+    via: 'session',
+    scopes: ['read', 'write'],
+  };
 }
 
 let curatorP: Promise<UserPrincipal> | undefined;
 export const curator = () => (curatorP ??= principal({ role: 'curator' }));
 
 /** Moves a record (owned by `owner`) from draft to the given status through the services. */
-export async function bringTo(owner: UserPrincipal, rec: RecordDetail, status: RecordStatus): Promise<RecordDetail> {
+export async function bringTo(
+  owner: UserPrincipal,
+  rec: RecordDetail,
+  status: RecordStatus,
+): Promise<RecordDetail> {
   const db = appDb();
   const cur = await curator();
   let r = rec;
-  const move = async (who: UserPrincipal, action: Parameters<typeof transitionRecord>[3]['action'], reason?: string) => {
-    r = await transitionRecord(db, who, r.handle, { action, version: r.version, ...(reason ? { reason } : {}) });
+  const move = async (
+    who: UserPrincipal,
+    action: Parameters<typeof transitionRecord>[3]['action'],
+    reason?: string,
+  ) => {
+    r = await transitionRecord(db, who, r.handle, {
+      action,
+      version: r.version,
+      ...(reason ? { reason } : {}),
+    });
   };
   if (status === 'draft') return r;
   await move(owner, 'submit');
@@ -52,9 +78,19 @@ export async function bringTo(owner: UserPrincipal, rec: RecordDetail, status: R
 }
 
 /** A record in a status, owned by a new contributor (member of `lab` when given). */
-export async function makeRecord(opts: { status?: RecordStatus; lab?: string; over?: Partial<RecordContentInput>; owner?: UserPrincipal } = {}) {
+export async function makeRecord(
+  opts: {
+    status?: RecordStatus;
+    lab?: string;
+    over?: Partial<RecordContentInput>;
+    owner?: UserPrincipal;
+  } = {},
+) {
   const owner = opts.owner ?? (await principal(opts.lab ? { labs: [[opts.lab, 'member']] } : {}));
-  const rec = await createRecord(appDb(), owner, { content: recordContentSchema.parse(content(opts.over)), ...(opts.lab ? { lab: opts.lab } : {}) });
+  const rec = await createRecord(appDb(), owner, {
+    content: recordContentSchema.parse(content(opts.over)),
+    ...(opts.lab ? { lab: opts.lab } : {}),
+  });
   return { owner, record: await bringTo(owner, rec, opts.status ?? 'draft') };
 }
 
@@ -70,7 +106,8 @@ export async function publishedRecord(): Promise<string> {
   return (await makeRecord({ status: 'published' })).record.handle;
 }
 
-const smallCv = 'time/s,E/V,I/A,cycle\n0,0,1e-3,1\n1,0.5,1e-3,1\n2,1.0,1e-3,1\n3,0.5,-1e-3,1\n4,0,-1e-3,1\n';
+const smallCv =
+  'time/s,E/V,I/A,cycle\n0,0,1e-3,1\n1,0.5,1e-3,1\n2,1.0,1e-3,1\n3,0.5,-1e-3,1\n4,0,-1e-3,1\n';
 
 /** A pending upload (declared, nothing stored) of a lab draft's owner; its id. */
 export async function pendingUpload(lab: string): Promise<string> {
@@ -91,5 +128,12 @@ export async function labRawFile(lab: string): Promise<string> {
 }
 
 function uploadBody(handle: string, text: string) {
-  return { record: handle, name: 'run.csv', size: Buffer.byteLength(text), sha256: createHash('sha256').update(text).digest('hex'), mediaType: 'text/csv', mapping: { sign: 'iupac' as const } };
+  return {
+    record: handle,
+    name: 'run.csv',
+    size: Buffer.byteLength(text),
+    sha256: createHash('sha256').update(text).digest('hex'),
+    mediaType: 'text/csv',
+    mapping: { sign: 'iupac' as const },
+  };
 }

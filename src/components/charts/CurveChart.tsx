@@ -2,7 +2,16 @@ import { useId, useMemo, useRef, useState } from 'react';
 import { decimateMinMax } from '../../lib/analysis/decimate.ts';
 import { buttonQuiet } from '../ui.tsx';
 import { downloadPng, downloadSvg } from './figure.ts';
-import { AxisBottom, AxisLeft, ChartFrame, currentUnit, linearScale, niceTicks, padded, seriesColour } from './plot.tsx';
+import {
+  AxisBottom,
+  AxisLeft,
+  ChartFrame,
+  currentUnit,
+  linearScale,
+  niceTicks,
+  padded,
+  seriesColour,
+} from './plot.tsx';
 
 /** One curve: potential (V) against current (A), in sample order. */
 export interface Curve {
@@ -28,7 +37,12 @@ const M = { top: 16, right: 16, bottom: 48, left: 72 };
  * consecutive in-range samples is thinned by min/max buckets, so spikes survive and 10⁶ samples
  * draw as a few thousand.
  */
-export function visibleRuns(c: Curve, x0: number, x1: number, budget: number): { x: Float64Array; y: Float64Array }[] {
+export function visibleRuns(
+  c: Curve,
+  x0: number,
+  x1: number,
+  budget: number,
+): { x: Float64Array; y: Float64Array }[] {
   const n = c.x.length;
   const runs: [number, number][] = [];
   let start = -1;
@@ -56,10 +70,15 @@ export function visibleRuns(c: Curve, x0: number, x1: number, budget: number): {
   });
 }
 
-function path(runs: { x: Float64Array; y: Float64Array }[], sx: (v: number) => number, sy: (v: number) => number): string {
+function path(
+  runs: { x: Float64Array; y: Float64Array }[],
+  sx: (v: number) => number,
+  sy: (v: number) => number,
+): string {
   let d = '';
   for (const r of runs) {
-    for (let i = 0; i < r.x.length; i++) d += `${i === 0 ? 'M' : 'L'}${sx(r.x[i]!).toFixed(1)},${sy(r.y[i]!).toFixed(1)}`;
+    for (let i = 0; i < r.x.length; i++)
+      d += `${i === 0 ? 'M' : 'L'}${sx(r.x[i]!).toFixed(1)},${sy(r.y[i]!).toFixed(1)}`;
   }
   return d;
 }
@@ -69,7 +88,8 @@ export default function CurveChart({ curves, xLabel, figureName, height = 360 }:
   const full = useMemo<[number, number]>(() => {
     let lo = Infinity;
     let hi = -Infinity;
-    for (const c of curves) for (const v of c.x) if (Number.isFinite(v)) (lo = Math.min(lo, v)), (hi = Math.max(hi, v));
+    for (const c of curves)
+      for (const v of c.x) if (Number.isFinite(v)) ((lo = Math.min(lo, v)), (hi = Math.max(hi, v)));
     return Number.isFinite(lo) ? [lo, hi] : [0, 1];
   }, [curves]);
   const [view, setView] = useState<[number, number] | null>(null);
@@ -94,10 +114,19 @@ export default function CurveChart({ curves, xLabel, figureName, height = 360 }:
         <button type="button" className={buttonQuiet} onClick={() => zoom(2)} disabled={!view}>
           Zoom out
         </button>
-        <button type="button" className={buttonQuiet} onClick={() => setView(null)} disabled={!view}>
+        <button
+          type="button"
+          className={buttonQuiet}
+          onClick={() => setView(null)}
+          disabled={!view}
+        >
           Show all
         </button>
-        <span className="text-muted dark:text-night-muted" aria-live="polite" data-testid="curve-range">
+        <span
+          className="text-muted dark:text-night-muted"
+          aria-live="polite"
+          data-testid="curve-range"
+        >
           <span className="num">
             {x0.toFixed(3)} … {x1.toFixed(3)} V
           </span>
@@ -105,19 +134,35 @@ export default function CurveChart({ curves, xLabel, figureName, height = 360 }:
         </span>
         {figureName && (
           <span className="ml-auto flex gap-2">
-            <button type="button" className={buttonQuiet} onClick={() => svgRef.current && downloadSvg(svgRef.current, `${figureName}.svg`)}>
+            <button
+              type="button"
+              className={buttonQuiet}
+              onClick={() => svgRef.current && downloadSvg(svgRef.current, `${figureName}.svg`)}
+            >
               SVG
             </button>
-            <button type="button" className={buttonQuiet} onClick={() => svgRef.current && void downloadPng(svgRef.current, `${figureName}.png`)}>
+            <button
+              type="button"
+              className={buttonQuiet}
+              onClick={() =>
+                svgRef.current && void downloadPng(svgRef.current, `${figureName}.png`)
+              }
+            >
               PNG
             </button>
           </span>
         )}
       </div>
-      <ChartFrame height={height} svgRef={svgRef} title={`Current against potential: ${curves.map((c) => c.label).join(', ')}`}>
+      <ChartFrame
+        height={height}
+        svgRef={svgRef}
+        title={`Current against potential: ${curves.map((c) => c.label).join(', ')}`}
+      >
         {(width) => {
           const budget = Math.max(200, Math.round((width - M.left - M.right) * 2));
-          const runs = curves.map((c) => visibleRuns(c, x0, x1, budget / Math.max(1, curves.length)));
+          const runs = curves.map((c) =>
+            visibleRuns(c, x0, x1, budget / Math.max(1, curves.length)),
+          );
           let maxAbs = 0;
           let ylo = Infinity;
           let yhi = -Infinity;
@@ -135,17 +180,42 @@ export default function CurveChart({ curves, xLabel, figureName, height = 360 }:
           const [dlo, dhi] = padded(ylo * u.factor, yhi * u.factor, 0.06, 1);
           const yu = linearScale([dlo, dhi], [height - M.bottom, M.top]);
           const y = (v: number) => yu(v * u.factor);
-          const toData = (clientX: number, el: Element) => x.invert(clientX - el.getBoundingClientRect().left + M.left);
+          const toData = (clientX: number, el: Element) =>
+            x.invert(clientX - el.getBoundingClientRect().left + M.left);
           return (
             <>
-              <AxisBottom scale={x} ticks={niceTicks(x0, x1, width < 480 ? 4 : 8)} y={height - M.bottom} top={M.top} label={xLabel} />
-              <AxisLeft scale={yu} ticks={niceTicks(dlo, dhi, 6)} x={M.left} right={width - M.right} label={`I / ${u.unit}`} />
+              <AxisBottom
+                scale={x}
+                ticks={niceTicks(x0, x1, width < 480 ? 4 : 8)}
+                y={height - M.bottom}
+                top={M.top}
+                label={xLabel}
+              />
+              <AxisLeft
+                scale={yu}
+                ticks={niceTicks(dlo, dhi, 6)}
+                x={M.left}
+                right={width - M.right}
+                label={`I / ${u.unit}`}
+              />
               <clipPath id={clipId}>
-                <rect x={M.left} y={M.top} width={Math.max(0, width - M.left - M.right)} height={height - M.top - M.bottom} />
+                <rect
+                  x={M.left}
+                  y={M.top}
+                  width={Math.max(0, width - M.left - M.right)}
+                  height={height - M.top - M.bottom}
+                />
               </clipPath>
               <g clipPath={`url(#${clipId})`}>
                 {runs.map((rs, i) => (
-                  <path key={curves[i]!.label} d={path(rs, x, y)} fill="none" stroke={curves[i]!.colour ?? seriesColour(i)} strokeWidth={1.4} strokeLinejoin="round" />
+                  <path
+                    key={curves[i]!.label}
+                    d={path(rs, x, y)}
+                    fill="none"
+                    stroke={curves[i]!.colour ?? seriesColour(i)}
+                    strokeWidth={1.4}
+                    strokeLinejoin="round"
+                  />
                 ))}
               </g>
               {curves.length > 1 &&
@@ -178,9 +248,12 @@ export default function CurveChart({ curves, xLabel, figureName, height = 360 }:
                   const v = toData(e.clientX, e.currentTarget);
                   setDrag({ from: v, to: v });
                 }}
-                onPointerMove={(e) => drag && setDrag({ ...drag, to: toData(e.clientX, e.currentTarget) })}
+                onPointerMove={(e) =>
+                  drag && setDrag({ ...drag, to: toData(e.clientX, e.currentTarget) })
+                }
                 onPointerUp={() => {
-                  if (drag && Math.abs(x(drag.to) - x(drag.from)) > 6) setView([Math.min(drag.from, drag.to), Math.max(drag.from, drag.to)]);
+                  if (drag && Math.abs(x(drag.to) - x(drag.from)) > 6)
+                    setView([Math.min(drag.from, drag.to), Math.max(drag.from, drag.to)]);
                   setDrag(null);
                 }}
                 onDoubleClick={() => setView(null)}

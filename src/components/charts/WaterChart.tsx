@@ -22,7 +22,13 @@ interface Props {
 const M = { top: 16, right: 16, bottom: 48, left: 64 };
 
 /** HER and OER lines (V vs SHE) against pH at one temperature, with records placed at their pH. */
-export default function WaterChart({ temperatureK, pH, points = [], onPickPh, height = 380 }: Props) {
+export default function WaterChart({
+  temperatureK,
+  pH,
+  points = [],
+  onPickPh,
+  height = 380,
+}: Props) {
   const at0 = waterWindow(0, temperatureK);
   const at14 = waterWindow(14, temperatureK);
   const ref0 = waterWindow(0);
@@ -56,21 +62,62 @@ export default function WaterChart({ temperatureK, pH, points = [], onPickPh, he
         const px = x(pH);
         return (
           <>
-            <AxisBottom scale={x} ticks={niceTicks(0, 14, 7)} y={height - M.bottom} top={M.top} label="pH" />
-            <AxisLeft scale={y} ticks={niceTicks(lo, hi, 6)} x={M.left} right={width - M.right} label="E / V vs SHE" />
+            <AxisBottom
+              scale={x}
+              ticks={niceTicks(0, 14, 7)}
+              y={height - M.bottom}
+              top={M.top}
+              label="pH"
+            />
+            <AxisLeft
+              scale={y}
+              ticks={niceTicks(lo, hi, 6)}
+              x={M.left}
+              right={width - M.right}
+              label="E / V vs SHE"
+            />
             <polygon points={band} className="fill-cobalt-soft/70 dark:fill-night-cobalt/10" />
             {showRef && (
-              <g className="stroke-muted dark:stroke-night-muted" strokeDasharray="4 4" strokeWidth={1}>
+              <g
+                className="stroke-muted dark:stroke-night-muted"
+                strokeDasharray="4 4"
+                strokeWidth={1}
+              >
                 <line x1={x(0)} y1={y(ref0.oerV)} x2={x(14)} y2={y(ref14.oerV)} />
                 <line x1={x(0)} y1={y(ref0.herV)} x2={x(14)} y2={y(ref14.herV)} />
               </g>
             )}
-            <line x1={x(0)} y1={y(at0.oerV)} x2={x(14)} y2={y(at14.oerV)} className="stroke-copper dark:stroke-night-copper" strokeWidth={2.5} />
-            <line x1={x(0)} y1={y(at0.herV)} x2={x(14)} y2={y(at14.herV)} className="stroke-cobalt dark:stroke-night-cobalt" strokeWidth={2.5} />
-            <text x={x(0.3)} y={y(at0.oerV) - 8} className="fill-copper dark:fill-night-copper" fontSize={12}>
+            <line
+              x1={x(0)}
+              y1={y(at0.oerV)}
+              x2={x(14)}
+              y2={y(at14.oerV)}
+              className="stroke-copper dark:stroke-night-copper"
+              strokeWidth={2.5}
+            />
+            <line
+              x1={x(0)}
+              y1={y(at0.herV)}
+              x2={x(14)}
+              y2={y(at14.herV)}
+              className="stroke-cobalt dark:stroke-night-cobalt"
+              strokeWidth={2.5}
+            />
+            <text
+              x={x(0.3)}
+              y={y(at0.oerV) - 8}
+              className="fill-copper dark:fill-night-copper"
+              fontSize={12}
+            >
               O₂ evolution (OER)
             </text>
-            <text x={x(13.7)} y={y(at14.herV) - 8} textAnchor="end" className="fill-cobalt dark:fill-night-cobalt" fontSize={12}>
+            <text
+              x={x(13.7)}
+              y={y(at14.herV) - 8}
+              textAnchor="end"
+              className="fill-cobalt dark:fill-night-cobalt"
+              fontSize={12}
+            >
               H₂ evolution (HER)
             </text>
             {points.map((p) => {
@@ -80,14 +127,41 @@ export default function WaterChart({ temperatureK, pH, points = [], onPickPh, he
               return (
                 <g key={p.handle} data-handle={p.handle}>
                   <title>{`${p.handle} (${p.group}) at pH ${p.pH}: ${p.cathodicSheV?.toFixed(3) ?? '—'} to ${p.anodicSheV?.toFixed(3) ?? '—'} V vs SHE`}</title>
-                  <line x1={x(p.pH)} x2={x(p.pH)} y1={y(bottom)} y2={y(top)} stroke={c} strokeWidth={5} strokeLinecap="round" opacity={0.85} />
+                  <line
+                    x1={x(p.pH)}
+                    x2={x(p.pH)}
+                    y1={y(bottom)}
+                    y2={y(top)}
+                    stroke={c}
+                    strokeWidth={5}
+                    strokeLinecap="round"
+                    opacity={0.85}
+                  />
                 </g>
               );
             })}
             <g>
-              <line x1={px} x2={px} y1={M.top} y2={height - M.bottom} className="stroke-ink dark:stroke-night-ink" strokeWidth={1} strokeDasharray="2 3" />
-              <circle cx={px} cy={y(here.oerV)} r={4.5} className="fill-copper dark:fill-night-copper" />
-              <circle cx={px} cy={y(here.herV)} r={4.5} className="fill-cobalt dark:fill-night-cobalt" />
+              <line
+                x1={px}
+                x2={px}
+                y1={M.top}
+                y2={height - M.bottom}
+                className="stroke-ink dark:stroke-night-ink"
+                strokeWidth={1}
+                strokeDasharray="2 3"
+              />
+              <circle
+                cx={px}
+                cy={y(here.oerV)}
+                r={4.5}
+                className="fill-copper dark:fill-night-copper"
+              />
+              <circle
+                cx={px}
+                cy={y(here.herV)}
+                r={4.5}
+                className="fill-cobalt dark:fill-night-cobalt"
+              />
             </g>
             {onPickPh && (
               <rect

@@ -26,9 +26,13 @@ const M = { top: 28, right: 16, bottom: 48 };
 export default function WindowLadder({ rows, axisLabel, water, onPick }: Props) {
   const groups = [...new Set(rows.map((r) => r.group))];
   const sorted = [...rows].sort((a, b) => groups.indexOf(a.group) - groups.indexOf(b.group));
-  const values = rows.flatMap((r) => [r.cathodicV, r.anodicV]).filter((v): v is number => v !== null && Number.isFinite(v));
+  const values = rows
+    .flatMap((r) => [r.cathodicV, r.anodicV])
+    .filter((v): v is number => v !== null && Number.isFinite(v));
   if (water) values.push(water.herV, water.oerV);
-  const [lo, hi] = values.length ? padded(Math.min(...values), Math.max(...values), 0.05, 0.5) : [-1, 1];
+  const [lo, hi] = values.length
+    ? padded(Math.min(...values), Math.max(...values), 0.05, 0.5)
+    : [-1, 1];
   // Group labels take a line of their own above their rows.
   const lines: ({ kind: 'group'; group: string } | { kind: 'row'; row: LadderRow })[] = [];
   for (const g of groups) {
@@ -39,7 +43,11 @@ export default function WindowLadder({ rows, axisLabel, water, onPick }: Props) 
   const summary = `${rows.length} records in ${groups.length} electrode group${groups.length === 1 ? '' : 's'}, ${axisLabel}.`;
 
   return (
-    <ChartFrame height={height} title="Window ladder: each record from its cathodic to its anodic limit" description={summary}>
+    <ChartFrame
+      height={height}
+      title="Window ladder: each record from its cathodic to its anodic limit"
+      description={summary}
+    >
       {(width) => {
         const left = width < 480 ? 84 : 104;
         const x = linearScale([lo, hi], [left, width - M.right]);
@@ -49,8 +57,20 @@ export default function WindowLadder({ rows, axisLabel, water, onPick }: Props) 
           <>
             {water && (
               <g>
-                <rect x={x(water.herV)} y={M.top - 6} width={Math.max(0, x(water.oerV) - x(water.herV))} height={bottom - M.top + 6} className="fill-cobalt-soft/60 dark:fill-night-cobalt/10" />
-                <text x={(x(water.herV) + x(water.oerV)) / 2} y={M.top - 12} textAnchor="middle" fontSize={11} className="fill-muted dark:fill-night-muted">
+                <rect
+                  x={x(water.herV)}
+                  y={M.top - 6}
+                  width={Math.max(0, x(water.oerV) - x(water.herV))}
+                  height={bottom - M.top + 6}
+                  className="fill-cobalt-soft/60 dark:fill-night-cobalt/10"
+                />
+                <text
+                  x={(x(water.herV) + x(water.oerV)) / 2}
+                  y={M.top - 12}
+                  textAnchor="middle"
+                  fontSize={11}
+                  className="fill-muted dark:fill-night-muted"
+                >
                   {water.note}
                 </text>
               </g>
@@ -63,7 +83,14 @@ export default function WindowLadder({ rows, axisLabel, water, onPick }: Props) 
                 return (
                   <g key={`g-${line.group}`}>
                     <rect x={8} y={yMid - 5} width={10} height={10} rx={2} fill={c} />
-                    <text x={24} y={yMid} dy="0.32em" fontSize={12} fontWeight={600} className="fill-ink dark:fill-night-ink">
+                    <text
+                      x={24}
+                      y={yMid}
+                      dy="0.32em"
+                      fontSize={12}
+                      fontWeight={600}
+                      className="fill-ink dark:fill-night-ink"
+                    >
                       {line.group}
                     </text>
                   </g>
@@ -76,9 +103,21 @@ export default function WindowLadder({ rows, axisLabel, water, onPick }: Props) 
               const x0 = a !== null ? x(a) : x(lo);
               const x1 = b !== null ? x(b) : x(hi);
               return (
-                <g key={r.handle} data-handle={r.handle} onClick={onPick ? () => onPick(r.handle) : undefined} className={onPick ? 'cursor-pointer' : undefined}>
+                <g
+                  key={r.handle}
+                  data-handle={r.handle}
+                  onClick={onPick ? () => onPick(r.handle) : undefined}
+                  className={onPick ? 'cursor-pointer' : undefined}
+                >
                   <title>{`${r.handle} · ${r.group}: ${a?.toFixed(3) ?? 'open'} to ${b?.toFixed(3) ?? 'open'} V${r.ownCriterion ? ' (its own criterion)' : ''}`}</title>
-                  <text x={left - 8} y={yMid} dy="0.32em" textAnchor="end" fontSize={11} className="num fill-muted dark:fill-night-muted">
+                  <text
+                    x={left - 8}
+                    y={yMid}
+                    dy="0.32em"
+                    textAnchor="end"
+                    fontSize={11}
+                    className="num fill-muted dark:fill-night-muted"
+                  >
                     {r.ownCriterion ? '◇ ' : ''}
                     {r.handle}
                   </text>
@@ -92,8 +131,24 @@ export default function WindowLadder({ rows, axisLabel, water, onPick }: Props) 
                     opacity={r.ownCriterion ? 0.45 : 0.85}
                     strokeDasharray={a === null || b === null ? '3 3' : undefined}
                   />
-                  {a !== null && <rect x={x0 - 1.5} y={yMid - 8} width={3} height={16} className="fill-cobalt dark:fill-night-cobalt" />}
-                  {b !== null && <rect x={x1 - 1.5} y={yMid - 8} width={3} height={16} className="fill-copper dark:fill-night-copper" />}
+                  {a !== null && (
+                    <rect
+                      x={x0 - 1.5}
+                      y={yMid - 8}
+                      width={3}
+                      height={16}
+                      className="fill-cobalt dark:fill-night-cobalt"
+                    />
+                  )}
+                  {b !== null && (
+                    <rect
+                      x={x1 - 1.5}
+                      y={yMid - 8}
+                      width={3}
+                      height={16}
+                      className="fill-copper dark:fill-night-copper"
+                    />
+                  )}
                 </g>
               );
             })}

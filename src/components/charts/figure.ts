@@ -1,7 +1,16 @@
 // Figures leave the page as files: the SVG with its computed colours written in (the page's CSS
 // does not travel with it), and a PNG drawn from that SVG at twice the screen size.
 
-const PROPS = ['fill', 'stroke', 'stroke-width', 'stroke-dasharray', 'opacity', 'font-family', 'font-size', 'font-weight'] as const;
+const PROPS = [
+  'fill',
+  'stroke',
+  'stroke-width',
+  'stroke-dasharray',
+  'opacity',
+  'font-family',
+  'font-size',
+  'font-weight',
+] as const;
 
 /** A standalone copy of an on-screen SVG, colours and fonts inlined. */
 export function standaloneSvg(svg: SVGSVGElement): string {

@@ -44,7 +44,8 @@ export function niceTicks(lo: number, hi: number, count = 6): number[] {
   const mag = 10 ** Math.floor(Math.log10(raw));
   const step = [1, 2, 2.5, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
   const out: number[] = [];
-  for (let v = Math.ceil(lo / step) * step; v <= hi + step * 1e-9; v += step) out.push(Math.abs(v) < step * 1e-9 ? 0 : +v.toPrecision(12));
+  for (let v = Math.ceil(lo / step) * step; v <= hi + step * 1e-9; v += step)
+    out.push(Math.abs(v) < step * 1e-9 ? 0 : +v.toPrecision(12));
   return out;
 }
 
@@ -68,7 +69,11 @@ export function padded(lo: number, hi: number, fraction = 0.06, minPad = 0.05): 
 /** Tick label: as few decimals as the ticks need to stay distinct and exact. */
 export function tickLabel(v: number, ticks: number[]): string {
   let d = 0;
-  while (d < 6 && !ticks.every((t) => Math.abs(+t.toFixed(d) - t) < 1e-9 * Math.max(1, Math.abs(t)))) d++;
+  while (
+    d < 6 &&
+    !ticks.every((t) => Math.abs(+t.toFixed(d) - t) < 1e-9 * Math.max(1, Math.abs(t)))
+  )
+    d++;
   return v.toFixed(d).replace(/^-(0(\.0+)?)$/, '$1');
 }
 
@@ -77,12 +82,16 @@ export function powerLabel(v: number): string {
   const e = Math.round(Math.log10(v));
   if (e === 0) return '1';
   if (e === 1) return '10';
-  const sup = String(e).replace(/-/g, '⁻').replace(/\d/g, (d) => '⁰¹²³⁴⁵⁶⁷⁸⁹'[+d]!);
+  const sup = String(e)
+    .replace(/-/g, '⁻')
+    .replace(/\d/g, (d) => '⁰¹²³⁴⁵⁶⁷⁸⁹'[+d]!);
   return `10${sup}`;
 }
 
 /** Width of an element, following resizes. */
-export function useWidth<T extends HTMLElement>(initial = 640): [React.RefObject<T | null>, number] {
+export function useWidth<T extends HTMLElement>(
+  initial = 640,
+): [React.RefObject<T | null>, number] {
   const ref = useRef<T>(null);
   const [width, setWidth] = useState(initial);
   useEffect(() => {
@@ -109,7 +118,21 @@ const GRID = 'stroke-rule dark:stroke-night-rule';
 const TEXT = 'fill-muted dark:fill-night-muted';
 
 /** Bottom axis with grid lines up to `top`. */
-export function AxisBottom({ scale, ticks, y, top, label, format }: { scale: Scale; ticks: number[]; y: number; top: number; label?: string; format?: (v: number) => string }) {
+export function AxisBottom({
+  scale,
+  ticks,
+  y,
+  top,
+  label,
+  format,
+}: {
+  scale: Scale;
+  ticks: number[];
+  y: number;
+  top: number;
+  label?: string;
+  format?: (v: number) => string;
+}) {
   const [x0, x1] = scale.range;
   const fmt = format ?? ((v: number) => (scale.log ? powerLabel(v) : tickLabel(v, ticks)));
   return (
@@ -125,7 +148,13 @@ export function AxisBottom({ scale, ticks, y, top, label, format }: { scale: Sca
       ))}
       <line x1={Math.min(x0, x1)} x2={Math.max(x0, x1)} y1={y} y2={y} className={AXIS} />
       {label && (
-        <text x={(x0 + x1) / 2} y={y + 36} textAnchor="middle" className="fill-ink dark:fill-night-ink" fontSize={12}>
+        <text
+          x={(x0 + x1) / 2}
+          y={y + 36}
+          textAnchor="middle"
+          className="fill-ink dark:fill-night-ink"
+          fontSize={12}
+        >
           {label}
         </text>
       )}
@@ -134,7 +163,21 @@ export function AxisBottom({ scale, ticks, y, top, label, format }: { scale: Sca
 }
 
 /** Left axis with grid lines across to `right`. */
-export function AxisLeft({ scale, ticks, x, right, label, format }: { scale: Scale; ticks: number[]; x: number; right: number; label?: string; format?: (v: number) => string }) {
+export function AxisLeft({
+  scale,
+  ticks,
+  x,
+  right,
+  label,
+  format,
+}: {
+  scale: Scale;
+  ticks: number[];
+  x: number;
+  right: number;
+  label?: string;
+  format?: (v: number) => string;
+}) {
   const [y0, y1] = scale.range;
   const fmt = format ?? ((v: number) => (scale.log ? powerLabel(v) : tickLabel(v, ticks)));
   return (
@@ -150,7 +193,12 @@ export function AxisLeft({ scale, ticks, x, right, label, format }: { scale: Sca
       ))}
       <line x1={x} x2={x} y1={Math.min(y0, y1)} y2={Math.max(y0, y1)} className={AXIS} />
       {label && (
-        <text transform={`translate(${x - 48},${(y0 + y1) / 2}) rotate(-90)`} textAnchor="middle" className="fill-ink dark:fill-night-ink" fontSize={12}>
+        <text
+          transform={`translate(${x - 48},${(y0 + y1) / 2}) rotate(-90)`}
+          textAnchor="middle"
+          className="fill-ink dark:fill-night-ink"
+          fontSize={12}
+        >
           {label}
         </text>
       )}
@@ -177,7 +225,15 @@ export function ChartFrame({
   const [ref, width] = useWidth<HTMLDivElement>();
   return (
     <div ref={ref} className={className ?? 'w-full'}>
-      <svg ref={svgRef} width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-label={title} className="block max-w-full font-sans">
+      <svg
+        ref={svgRef}
+        width={width}
+        height={height}
+        viewBox={`0 0 ${width} ${height}`}
+        role="img"
+        aria-label={title}
+        className="block max-w-full font-sans"
+      >
         <title>{title}</title>
         {description && <desc>{description}</desc>}
         {children(width)}
@@ -199,6 +255,7 @@ export function currentUnit(maxAbsA: number, per = ''): { factor: number; unit: 
     [1e6, 'µA'],
     [1e9, 'nA'],
   ];
-  for (const [f, u] of units) if (maxAbsA * f >= 1 || f === 1e9) return { factor: f, unit: u + per };
+  for (const [f, u] of units)
+    if (maxAbsA * f >= 1 || f === 1e9) return { factor: f, unit: u + per };
   return { factor: 1, unit: 'A' + per };
 }

@@ -10,7 +10,10 @@ export default function BulkImport() {
   const [file, setFile] = useState<File | null>(null);
   const [busy, setBusy] = useState(false);
   const [done, setDone] = useState<ImportAnswer | null>(null);
-  const [failure, setFailure] = useState<{ text: string; rows: { path: string; message: string }[] } | null>(null);
+  const [failure, setFailure] = useState<{
+    text: string;
+    rows: { path: string; message: string }[];
+  } | null>(null);
 
   const send = async () => {
     if (!file) return;
@@ -31,8 +34,19 @@ export default function BulkImport() {
       <label className="block text-sm font-semibold" htmlFor="import-file">
         CSV file from the template
       </label>
-      <input id="import-file" type="file" accept=".csv,text/csv,text/plain" className="mt-1 block text-sm" onChange={(e) => setFile(e.target.files?.[0] ?? null)} />
-      <button type="button" className={`${buttonPrimary} mt-3`} disabled={!file || busy} onClick={() => void send()}>
+      <input
+        id="import-file"
+        type="file"
+        accept=".csv,text/csv,text/plain"
+        className="mt-1 block text-sm"
+        onChange={(e) => setFile(e.target.files?.[0] ?? null)}
+      />
+      <button
+        type="button"
+        className={`${buttonPrimary} mt-3`}
+        disabled={!file || busy}
+        onClick={() => void send()}
+      >
         {busy ? 'Checking…' : 'Check and import'}
       </button>
       {done && (
@@ -43,7 +57,10 @@ export default function BulkImport() {
           <ul className="mt-1">
             {done.records.map((r) => (
               <li key={r.handle}>
-                line {r.line}: <a className="underline num" href={`/contribute?record=${r.handle}`}>{r.handle}</a>
+                line {r.line}:{' '}
+                <a className="underline num" href={`/contribute?record=${r.handle}`}>
+                  {r.handle}
+                </a>
               </li>
             ))}
           </ul>

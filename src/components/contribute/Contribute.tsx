@@ -3,7 +3,13 @@ import { QueryClientProvider, useQuery } from '@tanstack/react-query';
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { FormProvider, useForm, type Resolver } from 'react-hook-form';
 import { ApiError, errorMessage, getJson } from '../../lib/client/api.ts';
-import { conflictVersion, createDraft, saveDraft, submitRecord, type UploadDone } from '../../lib/client/contribute.ts';
+import {
+  conflictVersion,
+  createDraft,
+  saveDraft,
+  submitRecord,
+  type UploadDone,
+} from '../../lib/client/contribute.ts';
 import { queryClient } from '../../lib/client/query.ts';
 import { recordQueries, type RecordDetail } from '../../lib/client/records.ts';
 import { recordContentSchema } from '../../lib/shared/record.ts';
@@ -11,7 +17,15 @@ import { buttonPrimary, buttonQuiet, Failed, Loading, muted, panel } from '../ui
 import AnalysisPreview from './AnalysisPreview.tsx';
 import { CuratorNotes } from './fields.tsx';
 import { StepCell, StepElectrolyte, StepMethod, StepSource } from './FormSteps.tsx';
-import { STEPS, checkContent, emptyForm, stepOfPath, toContent, toForm, type FormValues } from './form-model.ts';
+import {
+  STEPS,
+  checkContent,
+  emptyForm,
+  stepOfPath,
+  toContent,
+  toForm,
+  type FormValues,
+} from './form-model.ts';
 import RawFiles, { useRawFiles, type FileItem } from './RawFiles.tsx';
 import ReviewSubmit, { checklist } from './ReviewSubmit.tsx';
 
@@ -31,7 +45,9 @@ const zod = zodResolver(recordContentSchema);
 /** The shared schema applied to the content the form stands for (blanks dropped, reference derived). */
 const resolver: Resolver<FormValues> = async (values, ctx, options) => {
   const r = await zod(toContent(values) as never, ctx, options as never);
-  return (Object.keys(r.errors).length ? { values: {}, errors: r.errors } : { values, errors: {} }) as never;
+  return (
+    Object.keys(r.errors).length ? { values: {}, errors: r.errors } : { values, errors: {} }
+  ) as never;
 };
 
 type Notice = { tone: 'done' | 'info' | 'error'; text: string } | null;
@@ -48,8 +64,16 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
   const [changeNote, setChangeNote] = useState('');
   const files = useRawFiles();
   const labName = labs.find((l) => l.slug === lab)?.name ?? '';
-  const form = useForm<FormValues>({ defaultValues: emptyForm(labName), resolver, mode: 'onTouched' });
-  const detail = useQuery({ ...recordQueries.detail(handle ?? ''), enabled: Boolean(handle), staleTime: 0 });
+  const form = useForm<FormValues>({
+    defaultValues: emptyForm(labName),
+    resolver,
+    mode: 'onTouched',
+  });
+  const detail = useQuery({
+    ...recordQueries.detail(handle ?? ''),
+    enabled: Boolean(handle),
+    staleTime: 0,
+  });
   const loaded = useRef(false);
   /** The content as last saved to (or loaded from) the server, to tell whether a save is needed. */
   const saved = useRef<string | null>(null);
@@ -90,11 +114,23 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
   // The curator's decisions with their comments on fields, while the record waits for changes.
   const reviews = useQuery({
     queryKey: ['records', 'reviews', handle],
-    queryFn: ({ signal }) => getJson<{ reviews: Review[] }>(`/api/v1/records/${encodeURIComponent(handle!)}/reviews`, signal),
+    queryFn: ({ signal }) =>
+      getJson<{ reviews: Review[] }>(
+        `/api/v1/records/${encodeURIComponent(handle!)}/reviews`,
+        signal,
+      ),
     enabled: Boolean(handle) && status === 'changes_requested',
   });
-  const review = (reviews.data?.reviews ?? detail.data?.reviews ?? []).filter((r) => r.decision === 'request-changes').at(-1) as Review | undefined;
-  const notes = useMemo(() => (status === 'changes_requested' ? (review?.comments ?? []).map((c) => ({ path: c.path, text: c.message })) : []), [review, status]);
+  const review = (reviews.data?.reviews ?? detail.data?.reviews ?? [])
+    .filter((r) => r.decision === 'request-changes')
+    .at(-1) as Review | undefined;
+  const notes = useMemo(
+    () =>
+      status === 'changes_requested'
+        ? (review?.comments ?? []).map((c) => ({ path: c.path, text: c.message }))
+        : [],
+    [review, status],
+  );
 
   /** Saves to the server when the content is complete, else in this browser. True when on the server. */
   const save = async (why: string): Promise<{ handle: string; version: number } | null> => {
@@ -102,7 +138,12 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
     const check = checkContent(v);
     if (!check.success) {
       if (!handle) localStorage.setItem(LOCAL_KEY, JSON.stringify(v));
-      setNotice({ tone: 'info', text: handle ? 'Not saved yet: fix the marked fields first.' : 'Kept in this browser. The draft goes to Edgewise once steps 1–3 are complete.' });
+      setNotice({
+        tone: 'info',
+        text: handle
+          ? 'Not saved yet: fix the marked fields first.'
+          : 'Kept in this browser. The draft goes to Edgewise once steps 1–3 are complete.',
+      });
       return null;
     }
     if (handle && !unsaved()) return { handle, version };
@@ -110,7 +151,12 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
     try {
       const content = toContent(v);
       const r = handle
-        ? await saveDraft(handle, version, content, status === 'changes_requested' && changeNote.trim() ? changeNote.trim() : why)
+        ? await saveDraft(
+            handle,
+            version,
+            content,
+            status === 'changes_requested' && changeNote.trim() ? changeNote.trim() : why,
+          )
         : await createDraft(content, lab || undefined);
       if (!handle) {
         localStorage.removeItem(LOCAL_KEY);
@@ -132,12 +178,21 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
         queryClient.setQueryData(recordQueries.detail(handle).queryKey, fresh);
         setVersion(fresh.version);
         setStatus(fresh.status);
-        setNotice({ tone: 'error', text: `This record was changed elsewhere meanwhile (it is now v${fresh.version}). Your edits are still in the form; save again to make them v${fresh.version + 1}.` });
+        setNotice({
+          tone: 'error',
+          text: `This record was changed elsewhere meanwhile (it is now v${fresh.version}). Your edits are still in the form; save again to make them v${fresh.version + 1}.`,
+        });
       } else {
         // The server's field problems (vocabulary names, lab) go next to the fields they name.
-        if (e instanceof ApiError) for (const p of e.errors) if (p.path.startsWith('content.')) form.setError(p.path.slice(8) as never, { type: 'server', message: p.message });
+        if (e instanceof ApiError)
+          for (const p of e.errors)
+            if (p.path.startsWith('content.'))
+              form.setError(p.path.slice(8) as never, { type: 'server', message: p.message });
         const first = e instanceof ApiError ? e.errors[0] : undefined;
-        setNotice({ tone: 'error', text: `Not saved: ${errorMessage(e)}${first ? ` ${first.message}.` : ''}` });
+        setNotice({
+          tone: 'error',
+          text: `Not saved: ${errorMessage(e)}${first ? ` ${first.message}.` : ''}`,
+        });
       }
       return null;
     } finally {
@@ -148,7 +203,11 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
   const go = async (to: number, validate: boolean) => {
     if (validate && STEPS[step]!.fields.length) {
       const ok = await form.trigger(STEPS[step]!.fields as unknown as (keyof FormValues)[]);
-      if (!ok) return setNotice({ tone: 'error', text: `Some fields of “${STEPS[step]!.title}” need attention.` });
+      if (!ok)
+        return setNotice({
+          tone: 'error',
+          text: `Some fields of “${STEPS[step]!.title}” need attention.`,
+        });
     }
     if (editable && step < 4) await save(`Draft: ${STEPS[step]!.title.toLowerCase()}`);
     setStep(to);
@@ -161,8 +220,13 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
   };
   const onAttached = (done: UploadDone) => {
     setVersion((v) => Math.max(v, done.record.version));
-    setNotice({ tone: 'done', text: `Attached ${done.rawFile.name}; ${done.record.handle} is now v${done.record.version} (${done.record.evidenceLevel}).` });
-    void queryClient.invalidateQueries({ queryKey: recordQueries.detail(done.record.handle).queryKey });
+    setNotice({
+      tone: 'done',
+      text: `Attached ${done.rawFile.name}; ${done.record.handle} is now v${done.record.version} (${done.record.evidenceLevel}).`,
+    });
+    void queryClient.invalidateQueries({
+      queryKey: recordQueries.detail(done.record.handle).queryKey,
+    });
   };
 
   const submit = async () => {
@@ -175,7 +239,10 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
       queryClient.setQueryData(recordQueries.detail(r.handle).queryKey, r);
       setStatus(r.status);
       setVersion(r.version);
-      setNotice({ tone: 'done', text: `${r.handle} v${r.version} is in the review queue. A receipt is on its way to your e-mail.` });
+      setNotice({
+        tone: 'done',
+        text: `${r.handle} v${r.version} is in the review queue. A receipt is on its way to your e-mail.`,
+      });
     } catch (e) {
       setNotice({ tone: 'error', text: `Not submitted: ${errorMessage(e)}` });
     } finally {
@@ -184,7 +251,8 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
   };
 
   if (handle && detail.isPending && !loaded.current) return <Loading what="the draft" />;
-  if (handle && detail.isError && !loaded.current) return <Failed error={detail.error} retry={() => void detail.refetch()} what="the draft" />;
+  if (handle && detail.isError && !loaded.current)
+    return <Failed error={detail.error} retry={() => void detail.refetch()} what="the draft" />;
   const record = detail.data ?? null;
   const content = parsed.success ? parsed.data : null;
 
@@ -192,11 +260,24 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
     <FormProvider {...form}>
       <CuratorNotes.Provider value={notes}>
         <div className="flex flex-wrap items-center gap-x-4 gap-y-2 text-sm">
-          <span data-testid="record-state">{handle ? <>Draft <strong className="num">{handle}</strong> v{version} · {status?.replace('_', ' ')}</> : 'New record, not yet saved'}</span>
+          <span data-testid="record-state">
+            {handle ? (
+              <>
+                Draft <strong className="num">{handle}</strong> v{version} ·{' '}
+                {status?.replace('_', ' ')}
+              </>
+            ) : (
+              'New record, not yet saved'
+            )}
+          </span>
           {!handle && labs.length > 0 && (
             <label>
               Belongs to lab{' '}
-              <select className="rounded-md border border-rule dark:border-night-rule bg-panel dark:bg-night-panel px-2 py-1" value={lab} onChange={(e) => setLab(e.target.value)}>
+              <select
+                className="rounded-md border border-rule dark:border-night-rule bg-panel dark:bg-night-panel px-2 py-1"
+                value={lab}
+                onChange={(e) => setLab(e.target.value)}
+              >
                 <option value="">no lab</option>
                 {labs.map((l) => (
                   <option key={l.slug} value={l.slug}>
@@ -206,10 +287,17 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
               </select>
             </label>
           )}
-          {handle && <a className="underline" href={`/windows/${handle}`}>View the record page</a>}
+          {handle && (
+            <a className="underline" href={`/windows/${handle}`}>
+              View the record page
+            </a>
+          )}
         </div>
         {status === 'changes_requested' && review && (
-          <div className="mt-3 rounded-md border-l-4 border-cobalt bg-cobalt/10 p-3 text-sm" data-testid="changes-requested">
+          <div
+            className="mt-3 rounded-md border-l-4 border-cobalt bg-cobalt/10 p-3 text-sm"
+            data-testid="changes-requested"
+          >
             <p className="font-semibold">A curator asked for changes to v{review.version}:</p>
             {review.reason && <p className="mt-1 whitespace-pre-line">{review.reason}</p>}
             {notes.length > 0 && (
@@ -221,27 +309,44 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
                 ))}
               </ul>
             )}
-            <p className={`${muted} mt-1`}>Edit the fields, say what you changed in the last step, and send it back; each save is a new version.</p>
+            <p className={`${muted} mt-1`}>
+              Edit the fields, say what you changed in the last step, and send it back; each save is
+              a new version.
+            </p>
           </div>
         )}
         {!editable && (
-          <p className="mt-3 rounded-md border border-rule dark:border-night-rule p-3 text-sm" role="status">
+          <p
+            className="mt-3 rounded-md border border-rule dark:border-night-rule p-3 text-sm"
+            role="status"
+          >
             This record is {status?.replace('_', ' ')}; it cannot be edited now.
           </p>
         )}
         {notice && (
-          <p role={notice.tone === 'error' ? 'alert' : 'status'} data-testid="notice" className={`mt-3 rounded-md p-2 text-sm ${notice.tone === 'error' ? 'bg-copper-soft/60 dark:bg-copper/20' : 'bg-cobalt/10'}`}>
+          <p
+            role={notice.tone === 'error' ? 'alert' : 'status'}
+            data-testid="notice"
+            className={`mt-3 rounded-md p-2 text-sm ${notice.tone === 'error' ? 'bg-copper-soft/60 dark:bg-copper/20' : 'bg-cobalt/10'}`}
+          >
             {notice.text}
           </p>
         )}
         <nav aria-label="Steps" className="mt-4">
           <ol className="flex gap-1 overflow-x-auto text-sm">
             {STEPS.map((s, i) => {
-              const bad = !parsed.success && problems.some((p) => stepOfPath(p.path.join('.')) === i) && i < 4;
+              const bad =
+                !parsed.success &&
+                problems.some((p) => stepOfPath(p.path.join('.')) === i) &&
+                i < 4;
               return (
                 <li key={s.id}>
-                  <button type="button" aria-current={i === step ? 'step' : undefined} onClick={() => void go(i, false)}
-                    className={`whitespace-nowrap rounded-md px-2 py-1 ${i === step ? 'bg-cobalt text-white' : 'hover:bg-cobalt/10'}`}>
+                  <button
+                    type="button"
+                    aria-current={i === step ? 'step' : undefined}
+                    onClick={() => void go(i, false)}
+                    className={`whitespace-nowrap rounded-md px-2 py-1 ${i === step ? 'bg-cobalt text-white' : 'hover:bg-cobalt/10'}`}
+                  >
                     {i + 1}. {s.title}
                     {bad && <span className="sr-only"> (incomplete)</span>}
                     {bad && <span aria-hidden="true"> •</span>}
@@ -252,7 +357,12 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
           </ol>
         </nav>
         <section className={`${panel} mt-3 p-4 sm:p-6`} aria-labelledby="step-h">
-          <h2 id="step-h" ref={heading} tabIndex={-1} className="text-lg font-semibold outline-none">
+          <h2
+            id="step-h"
+            ref={heading}
+            tabIndex={-1}
+            className="text-lg font-semibold outline-none"
+          >
             {step + 1}. {STEPS[step]!.title}
           </h2>
           <fieldset disabled={!editable || busy} className="mt-4 min-w-0">
@@ -261,8 +371,21 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
             {step === 2 && <StepMethod />}
             {step === 3 && <StepSource labs={labs} hasLab={Boolean(lab) || Boolean(record?.lab)} />}
           </fieldset>
-          {step === 4 && <RawFiles files={files} attached={record?.rawFiles ?? []} ready={Boolean(content) && editable} onStart={(i) => void startUpload(i)} />}
-          {step === 5 && <AnalysisPreview items={files.items} content={content} attached={record?.analyses ?? []} />}
+          {step === 4 && (
+            <RawFiles
+              files={files}
+              attached={record?.rawFiles ?? []}
+              ready={Boolean(content) && editable}
+              onStart={(i) => void startUpload(i)}
+            />
+          )}
+          {step === 5 && (
+            <AnalysisPreview
+              items={files.items}
+              content={content}
+              attached={record?.analyses ?? []}
+            />
+          )}
           {step === 6 && (
             <ReviewSubmit
               checks={checklist(content, problems.length, record, unsaved())}
@@ -275,17 +398,31 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
           )}
           <div className="mt-6 flex flex-wrap gap-2 border-t border-rule dark:border-night-rule pt-4">
             {step > 0 && (
-              <button type="button" className={buttonQuiet} onClick={() => void go(step - 1, false)}>
+              <button
+                type="button"
+                className={buttonQuiet}
+                onClick={() => void go(step - 1, false)}
+              >
                 Back
               </button>
             )}
             {step < STEPS.length - 1 && (
-              <button type="button" className={buttonPrimary} disabled={busy} onClick={() => void go(step + 1, true)}>
+              <button
+                type="button"
+                className={buttonPrimary}
+                disabled={busy}
+                onClick={() => void go(step + 1, true)}
+              >
                 Next: {STEPS[step + 1]!.title}
               </button>
             )}
             {editable && step < 4 && (
-              <button type="button" className={buttonQuiet} disabled={busy} onClick={() => void save(`Draft: ${STEPS[step]!.title.toLowerCase()}`)}>
+              <button
+                type="button"
+                className={buttonQuiet}
+                disabled={busy}
+                onClick={() => void save(`Draft: ${STEPS[step]!.title.toLowerCase()}`)}
+              >
                 Save draft
               </button>
             )}

@@ -1,8 +1,22 @@
 import { useCallback, useRef, useState } from 'react';
 import { normalise } from '../../lib/analysis/normalise.ts';
-import { decodeText, readTable, type ColumnInfo, type Dialect, type Quantity } from '../../lib/analysis/read.ts';
+import {
+  decodeText,
+  readTable,
+  type ColumnInfo,
+  type Dialect,
+  type Quantity,
+} from '../../lib/analysis/read.ts';
 import { errorMessage } from '../../lib/client/api.ts';
-import { UploadCancelled, completeUpload, declareUpload, putWithProgress, sha256Hex, type Mapping, type UploadDone } from '../../lib/client/contribute.ts';
+import {
+  UploadCancelled,
+  completeUpload,
+  declareUpload,
+  putWithProgress,
+  sha256Hex,
+  type Mapping,
+  type UploadDone,
+} from '../../lib/client/contribute.ts';
 import { buttonPrimary, buttonQuiet, input, muted, panel } from '../ui.tsx';
 
 // Step 5: raw files dropped in the browser, read by the engine for a preview whose column
@@ -34,7 +48,12 @@ export interface FileItem {
   abort: AbortController | null;
 }
 
-const SEPARATOR_NAMES: Record<Dialect['separator'], string> = { ',': 'comma', ';': 'semicolon', '\t': 'tab', whitespace: 'spaces' };
+const SEPARATOR_NAMES: Record<Dialect['separator'], string> = {
+  ',': 'comma',
+  ';': 'semicolon',
+  '\t': 'tab',
+  whitespace: 'spaces',
+};
 const QUANTITIES: Quantity[] = ['time', 'potential', 'current', 'cycle'];
 
 function splitLine(line: string, d: Dialect): string[] {
@@ -46,13 +65,26 @@ function splitLine(line: string, d: Dialect): string[] {
 export function previewOf(text: string, mapping: Mapping): Preview {
   const table = readTable(text, mapping.columns ? { columns: mapping.columns } : {});
   const lines = text.split(/\r?\n/);
-  const header = table.headerLine ? splitLine(lines[table.headerLine - 1]!, table.dialect) : table.columns.map((c) => c.name);
-  const rows = lines.slice(table.firstDataLine - 1, table.firstDataLine + 5).filter((l) => l.trim()).map((l) => splitLine(l, table.dialect));
+  const header = table.headerLine
+    ? splitLine(lines[table.headerLine - 1]!, table.dialect)
+    : table.columns.map((c) => c.name);
+  const rows = lines
+    .slice(table.firstDataLine - 1, table.firstDataLine + 5)
+    .filter((l) => l.trim())
+    .map((l) => splitLine(l, table.dialect));
   const s = normalise(table, 'iupac');
   let agree = 0;
-  for (let i = 1; i < s.potential.length; i++) agree += Math.sign(s.potential[i]! - s.potential[i - 1]!) * Math.sign(s.current[i]!);
+  for (let i = 1; i < s.potential.length; i++)
+    agree += Math.sign(s.potential[i]! - s.potential[i - 1]!) * Math.sign(s.current[i]!);
   const swept = Math.abs(agree) > s.potential.length * 0.2;
-  return { columns: table.columns, dialect: table.dialect, header, rows, signGuess: swept ? (agree > 0 ? 'iupac' : 'opposite') : null, warnings: table.warnings };
+  return {
+    columns: table.columns,
+    dialect: table.dialect,
+    header,
+    rows,
+    signGuess: swept ? (agree > 0 ? 'iupac' : 'opposite') : null,
+    warnings: table.warnings,
+  };
 }
 
 let counter = 0;
@@ -60,9 +92,14 @@ let counter = 0;
 /** The files of this contribution and what happens to them. */
 export function useRawFiles() {
   const [items, setItems] = useState<FileItem[]>([]);
-  const patch = useCallback((key: string, p: Partial<FileItem> | ((f: FileItem) => Partial<FileItem>)) => {
-    setItems((all) => all.map((f) => (f.key === key ? { ...f, ...(typeof p === 'function' ? p(f) : p) } : f)));
-  }, []);
+  const patch = useCallback(
+    (key: string, p: Partial<FileItem> | ((f: FileItem) => Partial<FileItem>)) => {
+      setItems((all) =>
+        all.map((f) => (f.key === key ? { ...f, ...(typeof p === 'function' ? p(f) : p) } : f)),
+      );
+    },
+    [],
+  );
 
   const add = useCallback(async (files: File[]) => {
     const fresh = await Promise.all(
@@ -77,21 +114,37 @@ export function useRawFiles() {
         } catch (e) {
           readError = errorMessage(e);
         }
-        return { key: `f${++counter}`, file, text, preview, readError, mapping, state: 'ready', sent: 0, total: file.size, error: null, result: null, abort: null };
+        return {
+          key: `f${++counter}`,
+          file,
+          text,
+          preview,
+          readError,
+          mapping,
+          state: 'ready',
+          sent: 0,
+          total: file.size,
+          error: null,
+          result: null,
+          abort: null,
+        };
       }),
     );
     setItems((all) => [...all, ...fresh]);
   }, []);
 
-  const remap = useCallback((key: string, mapping: Mapping) => {
-    patch(key, (f) => {
-      try {
-        return { mapping, preview: previewOf(f.text, mapping), readError: null };
-      } catch (e) {
-        return { mapping, readError: errorMessage(e) };
-      }
-    });
-  }, [patch]);
+  const remap = useCallback(
+    (key: string, mapping: Mapping) => {
+      patch(key, (f) => {
+        try {
+          return { mapping, preview: previewOf(f.text, mapping), readError: null };
+        } catch (e) {
+          return { mapping, readError: errorMessage(e) };
+        }
+      });
+    },
+    [patch],
+  );
 
   const upload = useCallback(
     async (item: FileItem, handle: string, onAttached: (r: UploadDone) => void) => {
@@ -100,25 +153,53 @@ export function useRawFiles() {
       try {
         const bytes = await item.file.arrayBuffer();
         const sha256 = await sha256Hex(bytes);
-        const ticket = await declareUpload({ record: handle, name: item.file.name, size: item.file.size, sha256, mediaType: item.file.type || 'text/plain', mapping: item.mapping });
+        const ticket = await declareUpload({
+          record: handle,
+          name: item.file.name,
+          size: item.file.size,
+          sha256,
+          mediaType: item.file.type || 'text/plain',
+          mapping: item.mapping,
+        });
         patch(item.key, { state: 'uploading' });
-        await putWithProgress(ticket, new Blob([bytes], { type: ticket.headers['content-type'] }), (sent, total) => patch(item.key, { sent, total }), abort.signal);
+        await putWithProgress(
+          ticket,
+          new Blob([bytes], { type: ticket.headers['content-type'] }),
+          (sent, total) => patch(item.key, { sent, total }),
+          abort.signal,
+        );
         patch(item.key, { state: 'verifying', abort: null });
         const done = await completeUpload(ticket.id);
         patch(item.key, { state: 'done', result: done });
         onAttached(done);
       } catch (e) {
-        patch(item.key, e instanceof UploadCancelled ? { state: 'cancelled', abort: null, error: 'Upload cancelled; nothing was attached.' } : { state: 'failed', abort: null, error: errorMessage(e) });
+        patch(
+          item.key,
+          e instanceof UploadCancelled
+            ? { state: 'cancelled', abort: null, error: 'Upload cancelled; nothing was attached.' }
+            : { state: 'failed', abort: null, error: errorMessage(e) },
+        );
       }
     },
     [patch],
   );
 
-  const remove = useCallback((key: string) => setItems((all) => all.filter((f) => f.key !== key)), []);
+  const remove = useCallback(
+    (key: string) => setItems((all) => all.filter((f) => f.key !== key)),
+    [],
+  );
   return { items, add, remap, upload, remove };
 }
 
-function MappingEditor({ item, onChange, disabled }: { item: FileItem; onChange: (m: Mapping) => void; disabled: boolean }) {
+function MappingEditor({
+  item,
+  onChange,
+  disabled,
+}: {
+  item: FileItem;
+  onChange: (m: Mapping) => void;
+  disabled: boolean;
+}) {
   const p = item.preview;
   const cols = p?.header ?? [];
   const current = (q: Quantity): { column: number | string; unit?: string } | undefined => {
@@ -130,7 +211,8 @@ function MappingEditor({ item, onChange, disabled }: { item: FileItem; onChange:
   const set = (q: Quantity, v: { column: number | string; unit?: string } | undefined) => {
     const columns = { ...(item.mapping.columns ?? {}) };
     // Once the contributor touches the mapping, every detected column is stated explicitly.
-    for (const other of QUANTITIES) if (!columns[other] && current(other)) columns[other] = current(other)!;
+    for (const other of QUANTITIES)
+      if (!columns[other] && current(other)) columns[other] = current(other)!;
     if (v) columns[q] = v;
     else delete columns[q];
     onChange({ ...item.mapping, columns });
@@ -148,7 +230,14 @@ function MappingEditor({ item, onChange, disabled }: { item: FileItem; onChange:
                 className={`${input} w-full`}
                 aria-label={`${q} column of ${item.file.name}`}
                 value={c ? String(c.column) : ''}
-                onChange={(e) => set(q, e.target.value === '' ? undefined : { column: Number(e.target.value), ...(c?.unit ? { unit: c.unit } : {}) })}
+                onChange={(e) =>
+                  set(
+                    q,
+                    e.target.value === ''
+                      ? undefined
+                      : { column: Number(e.target.value), ...(c?.unit ? { unit: c.unit } : {}) },
+                  )
+                }
               >
                 <option value="">{q === 'time' || q === 'cycle' ? 'none' : '—'}</option>
                 {cols.map((h, i) => (
@@ -165,7 +254,13 @@ function MappingEditor({ item, onChange, disabled }: { item: FileItem; onChange:
                   className={`${input} num ml-2 w-20`}
                   aria-label={`${q} unit of ${item.file.name}`}
                   defaultValue={c.unit ?? ''}
-                  onBlur={(e) => e.target.value !== (c.unit ?? '') && set(q, { column: c.column, ...(e.target.value.trim() ? { unit: e.target.value.trim() } : {}) })}
+                  onBlur={(e) =>
+                    e.target.value !== (c.unit ?? '') &&
+                    set(q, {
+                      column: c.column,
+                      ...(e.target.value.trim() ? { unit: e.target.value.trim() } : {}),
+                    })
+                  }
                 />
               </label>
             )}
@@ -174,11 +269,20 @@ function MappingEditor({ item, onChange, disabled }: { item: FileItem; onChange:
       })}
       <fieldset className="text-sm" disabled={disabled}>
         <legend className="font-semibold">current sign</legend>
-        <select className={`${input} mt-1 w-full`} aria-label={`current sign of ${item.file.name}`} value={item.mapping.sign} onChange={(e) => onChange({ ...item.mapping, sign: e.target.value as Mapping['sign'] })}>
+        <select
+          className={`${input} mt-1 w-full`}
+          aria-label={`current sign of ${item.file.name}`}
+          value={item.mapping.sign}
+          onChange={(e) => onChange({ ...item.mapping, sign: e.target.value as Mapping['sign'] })}
+        >
           <option value="iupac">IUPAC (anodic positive)</option>
           <option value="opposite">opposite (cathodic positive)</option>
         </select>
-        <p className={`${muted} mt-1 text-xs`}>{p?.signGuess ? `The sweeps suggest ${p.signGuess === 'iupac' ? 'IUPAC' : 'the opposite convention'}.` : 'Cannot be told from this file.'}</p>
+        <p className={`${muted} mt-1 text-xs`}>
+          {p?.signGuess
+            ? `The sweeps suggest ${p.signGuess === 'iupac' ? 'IUPAC' : 'the opposite convention'}.`
+            : 'Cannot be told from this file.'}
+        </p>
       </fieldset>
       <fieldset className="text-sm" disabled={disabled}>
         <legend className="font-semibold">direction</legend>
@@ -186,7 +290,14 @@ function MappingEditor({ item, onChange, disabled }: { item: FileItem; onChange:
           className={`${input} mt-1 w-full`}
           aria-label={`direction of ${item.file.name}`}
           value={item.mapping.direction ?? ''}
-          onChange={(e) => onChange({ ...item.mapping, ...(e.target.value ? { direction: e.target.value as 'anodic' } : { direction: undefined }) })}
+          onChange={(e) =>
+            onChange({
+              ...item.mapping,
+              ...(e.target.value
+                ? { direction: e.target.value as 'anodic' }
+                : { direction: undefined }),
+            })
+          }
         >
           <option value="">detect</option>
           <option value="anodic">anodic</option>
@@ -199,14 +310,27 @@ function MappingEditor({ item, onChange, disabled }: { item: FileItem; onChange:
 
 function Progress({ item }: { item: FileItem }) {
   const pct = item.total ? Math.round((100 * item.sent) / item.total) : 0;
-  const label = { ready: 'Not uploaded', hashing: 'Computing SHA-256…', uploading: `Uploading ${pct} %`, verifying: 'Verifying and analysing on the server…', done: 'Attached and verified', failed: 'Failed', cancelled: 'Cancelled' }[item.state];
+  const label = {
+    ready: 'Not uploaded',
+    hashing: 'Computing SHA-256…',
+    uploading: `Uploading ${pct} %`,
+    verifying: 'Verifying and analysing on the server…',
+    done: 'Attached and verified',
+    failed: 'Failed',
+    cancelled: 'Cancelled',
+  }[item.state];
   return (
     <div className="mt-3">
       <div className="flex justify-between text-sm">
         <span data-testid="upload-state">{label}</span>
         <span className={`${muted} num`}>{(item.file.size / 1024).toFixed(1)} kB</span>
       </div>
-      <progress className="mt-1 h-2 w-full accent-cobalt" max={100} value={item.state === 'done' || item.state === 'verifying' ? 100 : pct} aria-label={`Upload of ${item.file.name}`} />
+      <progress
+        className="mt-1 h-2 w-full accent-cobalt"
+        max={100}
+        value={item.state === 'done' || item.state === 'verifying' ? 100 : pct}
+        aria-label={`Upload of ${item.file.name}`}
+      />
     </div>
   );
 }
@@ -229,8 +353,9 @@ export default function RawFiles({
   return (
     <div>
       <p className={`${muted} text-sm`}>
-        Delimited text exports (comma, semicolon, tab or spaces; decimal point or comma). Each file is checked here, then sent straight to storage; Edgewise verifies its size and SHA-256
-        and analyses it before attaching it to the record.
+        Delimited text exports (comma, semicolon, tab or spaces; decimal point or comma). Each file
+        is checked here, then sent straight to storage; Edgewise verifies its size and SHA-256 and
+        analyses it before attaching it to the record.
       </p>
       <div
         className={`mt-3 rounded-lg border-2 border-dashed p-6 text-center ${over ? 'border-cobalt bg-cobalt/10' : 'border-rule dark:border-night-rule'}`}
@@ -240,10 +365,21 @@ export default function RawFiles({
         data-testid="drop-zone"
       >
         <p className="font-semibold">Drop raw files here</p>
-        <button type="button" className={`${buttonQuiet} mt-2`} onClick={() => picker.current?.click()}>
+        <button
+          type="button"
+          className={`${buttonQuiet} mt-2`}
+          onClick={() => picker.current?.click()}
+        >
           or choose files
         </button>
-        <input ref={picker} type="file" multiple className="sr-only" aria-label="Choose raw files" onChange={(e) => (drop(e.target.files), (e.target.value = ''))} />
+        <input
+          ref={picker}
+          type="file"
+          multiple
+          className="sr-only"
+          aria-label="Choose raw files"
+          onChange={(e) => (drop(e.target.files), (e.target.value = ''))}
+        />
       </div>
       {attached.length > 0 && (
         <div className="mt-4">
@@ -251,7 +387,8 @@ export default function RawFiles({
           <ul className="mt-1 text-sm">
             {attached.map((f) => (
               <li key={f.id}>
-                {f.name} <span className={`${muted} num text-xs`}>SHA-256 {f.sha256.slice(0, 12)}…</span>
+                {f.name}{' '}
+                <span className={`${muted} num text-xs`}>SHA-256 {f.sha256.slice(0, 12)}…</span>
               </li>
             ))}
           </ul>
@@ -263,28 +400,46 @@ export default function RawFiles({
         </p>
       )}
       {files.items.map((item) => {
-        const busy = item.state === 'hashing' || item.state === 'uploading' || item.state === 'verifying';
+        const busy =
+          item.state === 'hashing' || item.state === 'uploading' || item.state === 'verifying';
         const p = item.preview;
         return (
-          <section key={item.key} className={`${panel} mt-4 p-4`} aria-label={`Raw file ${item.file.name}`} data-testid="raw-file">
+          <section
+            key={item.key}
+            className={`${panel} mt-4 p-4`}
+            aria-label={`Raw file ${item.file.name}`}
+            data-testid="raw-file"
+          >
             <div className="flex flex-wrap items-baseline justify-between gap-2">
               <h3 className="font-semibold break-all">{item.file.name}</h3>
               {item.state !== 'done' && !busy && (
-                <button type="button" className={buttonQuiet} onClick={() => files.remove(item.key)}>
+                <button
+                  type="button"
+                  className={buttonQuiet}
+                  onClick={() => files.remove(item.key)}
+                >
                   Remove
                 </button>
               )}
             </div>
             {item.readError && (
-              <p role="alert" className="mt-2 text-sm text-copper dark:text-night-copper" data-testid="read-error">
+              <p
+                role="alert"
+                className="mt-2 text-sm text-copper dark:text-night-copper"
+                data-testid="read-error"
+              >
                 This file cannot be read: {item.readError}
               </p>
             )}
             {p && (
               <>
                 <p className="mt-2 text-sm" data-testid="detected">
-                  Detected: {SEPARATOR_NAMES[p.dialect.separator]}-separated, decimal {p.dialect.decimal === '.' ? 'point' : 'comma'};{' '}
-                  {p.columns.map((c) => `${c.quantity} “${c.name}”${c.unit ? ` in ${c.unit}` : ''}`).join(', ')}.
+                  Detected: {SEPARATOR_NAMES[p.dialect.separator]}-separated, decimal{' '}
+                  {p.dialect.decimal === '.' ? 'point' : 'comma'};{' '}
+                  {p.columns
+                    .map((c) => `${c.quantity} “${c.name}”${c.unit ? ` in ${c.unit}` : ''}`)
+                    .join(', ')}
+                  .
                 </p>
                 <div className="mt-2 overflow-x-auto">
                   <table className="num text-xs">
@@ -312,7 +467,11 @@ export default function RawFiles({
                 </div>
               </>
             )}
-            <MappingEditor item={item} onChange={(m) => files.remap(item.key, m)} disabled={busy || item.state === 'done'} />
+            <MappingEditor
+              item={item}
+              onChange={(m) => files.remap(item.key, m)}
+              disabled={busy || item.state === 'done'}
+            />
             <Progress item={item} />
             {item.error && (
               <p role="alert" className="mt-2 text-sm text-copper dark:text-night-copper">
@@ -322,7 +481,12 @@ export default function RawFiles({
             {item.result && (
               <p className="mt-2 text-sm" data-testid="server-result">
                 Server: {item.result.analysis.direction} limit{' '}
-                {item.result.analysis.limitV !== null ? <strong className="num">{item.result.analysis.limitV.toFixed(3)} V</strong> : `not found (${item.result.analysis.limitStatus})`}; record now v{item.result.record.version}, evidence{' '}
+                {item.result.analysis.limitV !== null ? (
+                  <strong className="num">{item.result.analysis.limitV.toFixed(3)} V</strong>
+                ) : (
+                  `not found (${item.result.analysis.limitStatus})`
+                )}
+                ; record now v{item.result.record.version}, evidence{' '}
                 {item.result.record.evidenceLevel}.
               </p>
             )}
@@ -333,7 +497,12 @@ export default function RawFiles({
                 </button>
               )}
               {!busy && item.state !== 'done' && (
-                <button type="button" className={buttonPrimary} disabled={!ready || Boolean(item.readError)} onClick={() => onStart(item)}>
+                <button
+                  type="button"
+                  className={buttonPrimary}
+                  disabled={!ready || Boolean(item.readError)}
+                  onClick={() => onStart(item)}
+                >
                   {item.state === 'ready' ? 'Upload' : 'Retry upload'}
                 </button>
               )}

@@ -11,7 +11,10 @@ import type { FormValues } from './form-model.ts';
 // A vocabulary term chosen by typing: matches on names, abbreviations and synonyms; the form
 // keeps the term's id. A name the vocabulary lacks can be proposed to the curators.
 
-const label = (t: IndexTerm) => (t.abbreviations[0] && t.abbreviations[0] !== t.name ? `${t.name} (${t.abbreviations[0]})` : t.name);
+const label = (t: IndexTerm) =>
+  t.abbreviations[0] && t.abbreviations[0] !== t.name
+    ? `${t.name} (${t.abbreviations[0]})`
+    : t.name;
 
 function rank(t: IndexTerm, q: string): number {
   const keys = [t.id, t.name, ...t.abbreviations, ...t.synonyms].map(lookupKey);
@@ -21,13 +24,26 @@ function rank(t: IndexTerm, q: string): number {
   return -1;
 }
 
-export default function TermInput({ path, title, kinds, className = '' }: { path: string; title: string; kinds: VocabularyKind[]; className?: string }) {
+export default function TermInput({
+  path,
+  title,
+  kinds,
+  className = '',
+}: {
+  path: string;
+  title: string;
+  kinds: VocabularyKind[];
+  className?: string;
+}) {
   const id = useId();
   const { control } = useFormContext<FormValues>();
   const { field } = useController({ control, name: path as never });
   const value = (field.value as string | undefined) ?? '';
   const vocab = useQuery(vocabularyQueries.all());
-  const terms = useMemo(() => (vocab.data ?? []).filter((t) => kinds.includes(t.kind)), [vocab.data, kinds]);
+  const terms = useMemo(
+    () => (vocab.data ?? []).filter((t) => kinds.includes(t.kind)),
+    [vocab.data, kinds],
+  );
   const chosen = terms.find((t) => t.id === value);
   const [text, setTextState] = useState(chosen ? label(chosen) : value);
   // The blur handler runs after a delay (so a click on a suggestion lands first): it reads these.
@@ -78,7 +94,9 @@ export default function TermInput({ path, title, kinds, className = '' }: { path
   const propose = async () => {
     try {
       await sendJson('/api/v1/vocabulary/proposals', { kind: kinds[0], name: text.trim() });
-      setProposal(`Proposed “${text.trim()}” to the curators. Until one accepts it, choose the closest term from the list to save.`);
+      setProposal(
+        `Proposed “${text.trim()}” to the curators. Until one accepts it, choose the closest term from the list to save.`,
+      );
     } catch (e) {
       setProposal(
         e instanceof ApiError && (e.status === 404 || e.status === 405)
@@ -111,14 +129,20 @@ export default function TermInput({ path, title, kinds, className = '' }: { path
         onFocus={() => setOpen(true)}
         onBlur={() => setTimeout(settle, 120)}
         onKeyDown={(e) => {
-          if (e.key === 'ArrowDown') (e.preventDefault(), setActive((a) => Math.min(a + 1, matches.length - 1)));
+          if (e.key === 'ArrowDown')
+            (e.preventDefault(), setActive((a) => Math.min(a + 1, matches.length - 1)));
           else if (e.key === 'ArrowUp') (e.preventDefault(), setActive((a) => Math.max(a - 1, 0)));
-          else if (e.key === 'Enter' && open && matches[active]) (e.preventDefault(), pick(matches[active]!));
+          else if (e.key === 'Enter' && open && matches[active])
+            (e.preventDefault(), pick(matches[active]!));
           else if (e.key === 'Escape') setOpen(false);
         }}
       />
       {open && matches.length > 0 && (
-        <ul id={`${id}-list`} role="listbox" className="absolute z-20 mt-1 max-h-64 w-full overflow-auto rounded-md border border-rule dark:border-night-rule bg-panel dark:bg-night-panel shadow-lg">
+        <ul
+          id={`${id}-list`}
+          role="listbox"
+          className="absolute z-20 mt-1 max-h-64 w-full overflow-auto rounded-md border border-rule dark:border-night-rule bg-panel dark:bg-night-panel shadow-lg"
+        >
           {matches.map((t, i) => (
             <li
               key={t.id}
@@ -135,7 +159,9 @@ export default function TermInput({ path, title, kinds, className = '' }: { path
       )}
       {unknown && !open && (
         <div className="mt-1 text-sm">
-          <p className="text-copper dark:text-night-copper">“{text}” is not in the vocabulary; choose a term from the list.</p>
+          <p className="text-copper dark:text-night-copper">
+            “{text}” is not in the vocabulary; choose a term from the list.
+          </p>
           <button type="button" className={`${buttonQuiet} mt-1`} onClick={propose}>
             Propose “{text.trim()}” as a new {kinds[0]?.replace('-', ' ')}
           </button>

@@ -21,19 +21,35 @@ export function errorAt(errors: unknown, path: string): string | undefined {
 }
 
 /** A message and curator notes under a control; a group's foot (`exact`) leaves its fields' notes to them. */
-export function FieldFoot({ path, id, exact = false }: { path: string; id: string; exact?: boolean }) {
+export function FieldFoot({
+  path,
+  id,
+  exact = false,
+}: {
+  path: string;
+  id: string;
+  exact?: boolean;
+}) {
   const { formState } = useFormContext<FormValues>();
   const error = errorAt(formState.errors, path);
   const notes = useNotes(path, exact);
   return (
     <>
       {error && (
-        <p id={`${id}-err`} className="mt-1 text-sm text-copper dark:text-night-copper" role="alert">
+        <p
+          id={`${id}-err`}
+          className="mt-1 text-sm text-copper dark:text-night-copper"
+          role="alert"
+        >
           {error}
         </p>
       )}
       {notes.map((t) => (
-        <p key={t} className="mt-1 rounded border-l-4 border-cobalt bg-cobalt/10 px-2 py-1 text-sm" data-testid="curator-note">
+        <p
+          key={t}
+          className="mt-1 rounded border-l-4 border-cobalt bg-cobalt/10 px-2 py-1 text-sm"
+          data-testid="curator-note"
+        >
           <span className="font-semibold">Curator:</span> {t}
         </p>
       ))}
@@ -41,7 +57,8 @@ export function FieldFoot({ path, id, exact = false }: { path: string; id: strin
   );
 }
 
-const asNumber = (v: unknown) => (v === '' || v === null || v === undefined ? undefined : Number(String(v).replace(',', '.')));
+const asNumber = (v: unknown) =>
+  v === '' || v === null || v === undefined ? undefined : Number(String(v).replace(',', '.'));
 
 interface FieldProps {
   path: string;
@@ -55,7 +72,16 @@ interface FieldProps {
 }
 
 /** A text, number or date input bound to the form. Numbers accept a decimal comma. */
-export function Field({ path, label, hint, type = 'text', step, unit, className = '', placeholder }: FieldProps) {
+export function Field({
+  path,
+  label,
+  hint,
+  type = 'text',
+  step,
+  unit,
+  className = '',
+  placeholder,
+}: FieldProps) {
   const id = useId();
   const { register, formState } = useFormContext<FormValues>();
   const opts: RegisterOptions<FormValues> = type === 'number' ? { setValueAs: asNumber } : {};
@@ -88,7 +114,19 @@ export function Field({ path, label, hint, type = 'text', step, unit, className 
 }
 
 /** A select bound to the form. */
-export function Choice({ path, label, options, className = '', hint }: { path: string; label: string; options: readonly (string | [string, string])[]; className?: string; hint?: string }) {
+export function Choice({
+  path,
+  label,
+  options,
+  className = '',
+  hint,
+}: {
+  path: string;
+  label: string;
+  options: readonly (string | [string, string])[];
+  className?: string;
+  hint?: string;
+}) {
   const id = useId();
   const { register } = useFormContext<FormValues>();
   return (
@@ -113,7 +151,15 @@ export function Choice({ path, label, options, className = '', hint }: { path: s
 }
 
 /** A titled group of fields. */
-export function Group({ title, children, note }: { title: string; children: ReactNode; note?: ReactNode }) {
+export function Group({
+  title,
+  children,
+  note,
+}: {
+  title: string;
+  children: ReactNode;
+  note?: ReactNode;
+}) {
   return (
     <fieldset className="mt-6 first:mt-0">
       <legend className="text-base font-semibold">{title}</legend>

@@ -1,4 +1,9 @@
-import { CELL_VOLTAGE, recordContentSchema, type RecordContent, type RecordContentInput } from '../../lib/shared/record.ts';
+import {
+  CELL_VOLTAGE,
+  recordContentSchema,
+  type RecordContent,
+  type RecordContentInput,
+} from '../../lib/shared/record.ts';
 
 // The contribute form's values and their way to and from record content. The form keeps empty
 // strings and blank numbers while the contributor types; `toContent` drops them, derives the
@@ -10,7 +15,10 @@ export interface FormValues {
   title: string;
   electrolyte: {
     solvents: { term: string; fraction: Num; fractionBasis: 'volume' | 'mass' | 'mole' }[];
-    salts: { term: string; concentration: { value: Num; basis: 'mol/L' | 'mol/kg' | 'mole fraction' | 'mass fraction' } }[];
+    salts: {
+      term: string;
+      concentration: { value: Num; basis: 'mol/L' | 'mol/kg' | 'mole fraction' | 'mass fraction' };
+    }[];
     additives: { term: string }[];
     waterContentPpm: Num;
     pH: Num;
@@ -20,8 +28,18 @@ export interface FormValues {
   counterElectrode: { material: string };
   referenceElectrode: string;
   cellType: 'three-electrode' | 'two-electrode';
-  method: { kind: 'cv-window-opening' | 'lsv' | 'potentiostatic-holds'; scanRateMVs: Num; vertexStepMV: Num; stepMV: Num; holdTimeS: Num };
-  criterion: { kind: '' | 's-value' | 'ce' | 'j-area' | 'j-mass' | 'hold-leakage'; threshold: Num; per: 'area' | 'mass' };
+  method: {
+    kind: 'cv-window-opening' | 'lsv' | 'potentiostatic-holds';
+    scanRateMVs: Num;
+    vertexStepMV: Num;
+    stepMV: Num;
+    holdTimeS: Num;
+  };
+  criterion: {
+    kind: '' | 's-value' | 'ce' | 'j-area' | 'j-mass' | 'hold-leakage';
+    threshold: Num;
+    per: 'area' | 'mass';
+  };
   reportedLimits: { cathodic: { valueV: Num }; anodic: { valueV: Num } };
   source: {
     kind: '' | 'published' | 'unpublished';
@@ -45,16 +63,45 @@ export interface FormValues {
 export function emptyForm(labName = ''): FormValues {
   return {
     title: '',
-    electrolyte: { solvents: [{ term: '', fraction: 1, fractionBasis: 'volume' }], salts: [{ term: '', concentration: { value: undefined, basis: 'mol/L' } }], additives: [], waterContentPpm: undefined, pH: undefined },
+    electrolyte: {
+      solvents: [{ term: '', fraction: 1, fractionBasis: 'volume' }],
+      salts: [{ term: '', concentration: { value: undefined, basis: 'mol/L' } }],
+      additives: [],
+      waterContentPpm: undefined,
+      pH: undefined,
+    },
     temperatureC: 25,
-    workingElectrode: { material: '', form: '', geometricAreaCm2: undefined, activeMassMg: undefined },
+    workingElectrode: {
+      material: '',
+      form: '',
+      geometricAreaCm2: undefined,
+      activeMassMg: undefined,
+    },
     counterElectrode: { material: '' },
     referenceElectrode: '',
     cellType: 'three-electrode',
-    method: { kind: 'cv-window-opening', scanRateMVs: 5, vertexStepMV: 100, stepMV: 50, holdTimeS: 1200 },
+    method: {
+      kind: 'cv-window-opening',
+      scanRateMVs: 5,
+      vertexStepMV: 100,
+      stepMV: 50,
+      holdTimeS: 1200,
+    },
     criterion: { kind: 's-value', threshold: 0.1, per: 'mass' },
     reportedLimits: { cathodic: { valueV: undefined }, anodic: { valueV: undefined } },
-    source: { kind: 'published', doi: '', title: '', authors: [{ family: '', given: '' }], containerTitle: '', year: undefined, volume: '', pages: '', measuredBy: labName, measuredOn: '', note: '' },
+    source: {
+      kind: 'published',
+      doi: '',
+      title: '',
+      authors: [{ family: '', given: '' }],
+      containerTitle: '',
+      year: undefined,
+      volume: '',
+      pages: '',
+      measuredBy: labName,
+      measuredOn: '',
+      note: '',
+    },
     licence: 'CC-BY-4.0',
     visibility: 'public',
     embargoUntil: '',
@@ -68,7 +115,12 @@ const n = (v: Num) => (typeof v === 'number' && Number.isFinite(v) ? v : undefin
 /** Removes undefined values so strict schemas see only what was given. */
 function prune<T>(v: T): T {
   if (Array.isArray(v)) return v.map(prune) as T;
-  if (v && typeof v === 'object') return Object.fromEntries(Object.entries(v).filter(([, x]) => x !== undefined).map(([k, x]) => [k, prune(x)])) as T;
+  if (v && typeof v === 'object')
+    return Object.fromEntries(
+      Object.entries(v)
+        .filter(([, x]) => x !== undefined)
+        .map(([k, x]) => [k, prune(x)]),
+    ) as T;
   return v;
 }
 
@@ -77,7 +129,8 @@ export function toContent(f: FormValues): RecordContentInput {
   const e = f.electrolyte;
   const two = f.cellType === 'two-electrode';
   const ref = two ? CELL_VOLTAGE : s(f.referenceElectrode);
-  const limit = (v: Num) => (n(v) === undefined ? undefined : { valueV: n(v)!, reference: ref ?? '' });
+  const limit = (v: Num) =>
+    n(v) === undefined ? undefined : { valueV: n(v)!, reference: ref ?? '' };
   const m = f.method;
   const method =
     m.kind === 'cv-window-opening'
@@ -86,10 +139,28 @@ export function toContent(f: FormValues): RecordContentInput {
         ? { kind: m.kind, scanRateMVs: n(m.scanRateMVs) }
         : { kind: m.kind, stepMV: n(m.stepMV), holdTimeS: n(m.holdTimeS) };
   const c = f.criterion;
-  const criterion = c.kind ? { kind: c.kind, threshold: n(c.threshold), ...(c.kind === 'hold-leakage' ? { per: c.per } : {}) } : undefined;
+  const criterion = c.kind
+    ? {
+        kind: c.kind,
+        threshold: n(c.threshold),
+        ...(c.kind === 'hold-leakage' ? { per: c.per } : {}),
+      }
+    : undefined;
   const src = f.source;
   // A publication or measurement with nothing typed yet is no source (yet), not an invalid one.
-  const blank = src.kind === 'published' ? ![src.doi, src.title, src.containerTitle, src.volume, src.pages, ...src.authors.flatMap((a) => [a.family, a.given])].some(s) && n(src.year) === undefined : src.kind === 'unpublished' ? !s(src.measuredBy) && !s(src.note) : true;
+  const blank =
+    src.kind === 'published'
+      ? ![
+          src.doi,
+          src.title,
+          src.containerTitle,
+          src.volume,
+          src.pages,
+          ...src.authors.flatMap((a) => [a.family, a.given]),
+        ].some(s) && n(src.year) === undefined
+      : src.kind === 'unpublished'
+        ? !s(src.measuredBy) && !s(src.note)
+        : true;
   const source = blank
     ? undefined
     : src.kind === 'published'
@@ -97,32 +168,60 @@ export function toContent(f: FormValues): RecordContentInput {
           kind: src.kind,
           doi: s(src.doi),
           title: s(src.title),
-          authors: src.authors.filter((a) => s(a.family) || s(a.given)).map((a) => ({ family: s(a.family) ?? '', given: s(a.given) })),
+          authors: src.authors
+            .filter((a) => s(a.family) || s(a.given))
+            .map((a) => ({ family: s(a.family) ?? '', given: s(a.given) })),
           containerTitle: s(src.containerTitle),
           year: n(src.year),
           volume: s(src.volume),
           pages: s(src.pages),
         }
       : src.kind === 'unpublished'
-        ? { kind: src.kind, measuredBy: s(src.measuredBy), measuredOn: s(src.measuredOn), note: s(src.note) }
+        ? {
+            kind: src.kind,
+            measuredBy: s(src.measuredBy),
+            measuredOn: s(src.measuredOn),
+            note: s(src.note),
+          }
         : undefined;
   return prune({
     title: s(f.title),
     electrolyte: {
-      solvents: e.solvents.filter((x) => s(x.term) || n(x.fraction) !== undefined).map((x) => ({ term: s(x.term) ?? '', fraction: n(x.fraction), fractionBasis: x.fractionBasis })),
-      salts: e.salts.filter((x) => s(x.term) || n(x.concentration.value) !== undefined).map((x) => ({ term: s(x.term) ?? '', concentration: { value: n(x.concentration.value), basis: x.concentration.basis } })),
+      solvents: e.solvents
+        .filter((x) => s(x.term) || n(x.fraction) !== undefined)
+        .map((x) => ({
+          term: s(x.term) ?? '',
+          fraction: n(x.fraction),
+          fractionBasis: x.fractionBasis,
+        })),
+      salts: e.salts
+        .filter((x) => s(x.term) || n(x.concentration.value) !== undefined)
+        .map((x) => ({
+          term: s(x.term) ?? '',
+          concentration: { value: n(x.concentration.value), basis: x.concentration.basis },
+        })),
       additives: e.additives.filter((x) => s(x.term)).map((x) => ({ term: s(x.term)! })),
       waterContentPpm: n(e.waterContentPpm),
       pH: n(e.pH),
     },
     temperatureC: n(f.temperatureC),
-    workingElectrode: { material: s(f.workingElectrode.material) ?? '', form: s(f.workingElectrode.form), geometricAreaCm2: n(f.workingElectrode.geometricAreaCm2), activeMassMg: n(f.workingElectrode.activeMassMg) },
-    counterElectrode: s(f.counterElectrode.material) ? { material: s(f.counterElectrode.material)! } : undefined,
+    workingElectrode: {
+      material: s(f.workingElectrode.material) ?? '',
+      form: s(f.workingElectrode.form),
+      geometricAreaCm2: n(f.workingElectrode.geometricAreaCm2),
+      activeMassMg: n(f.workingElectrode.activeMassMg),
+    },
+    counterElectrode: s(f.counterElectrode.material)
+      ? { material: s(f.counterElectrode.material)! }
+      : undefined,
     referenceElectrode: two ? undefined : s(f.referenceElectrode),
     cellType: f.cellType,
     method,
     criterion,
-    reportedLimits: { cathodic: limit(f.reportedLimits.cathodic.valueV), anodic: limit(f.reportedLimits.anodic.valueV) },
+    reportedLimits: {
+      cathodic: limit(f.reportedLimits.cathodic.valueV),
+      anodic: limit(f.reportedLimits.anodic.valueV),
+    },
     source,
     licence: f.licence,
     visibility: f.visibility,
@@ -137,26 +236,58 @@ export function toForm(c: RecordContent, labName = ''): FormValues {
   const e = c.electrolyte;
   f.title = c.title ?? '';
   f.electrolyte = {
-    solvents: e.solvents.length ? e.solvents.map((x) => ({ term: x.term, fraction: x.fraction, fractionBasis: x.fractionBasis })) : f.electrolyte.solvents,
-    salts: e.salts.length ? e.salts.map((x) => ({ term: x.term, concentration: { ...x.concentration } })) : [],
+    solvents: e.solvents.length
+      ? e.solvents.map((x) => ({
+          term: x.term,
+          fraction: x.fraction,
+          fractionBasis: x.fractionBasis,
+        }))
+      : f.electrolyte.solvents,
+    salts: e.salts.length
+      ? e.salts.map((x) => ({ term: x.term, concentration: { ...x.concentration } }))
+      : [],
     additives: e.additives.map((x) => ({ term: x.term })),
     waterContentPpm: e.waterContentPpm,
     pH: e.pH,
   };
   f.temperatureC = c.temperatureC;
-  f.workingElectrode = { material: c.workingElectrode.material, form: c.workingElectrode.form ?? '', geometricAreaCm2: c.workingElectrode.geometricAreaCm2, activeMassMg: c.workingElectrode.activeMassMg };
+  f.workingElectrode = {
+    material: c.workingElectrode.material,
+    form: c.workingElectrode.form ?? '',
+    geometricAreaCm2: c.workingElectrode.geometricAreaCm2,
+    activeMassMg: c.workingElectrode.activeMassMg,
+  };
   f.counterElectrode = { material: c.counterElectrode?.material ?? '' };
   f.referenceElectrode = c.referenceElectrode ?? '';
   f.cellType = c.cellType;
   f.method = { ...f.method, ...c.method } as FormValues['method'];
-  f.criterion = c.criterion ? { per: 'mass', ...c.criterion } : { kind: '', threshold: undefined, per: 'mass' };
-  f.reportedLimits = { cathodic: { valueV: c.reportedLimits.cathodic?.valueV }, anodic: { valueV: c.reportedLimits.anodic?.valueV } };
+  f.criterion = c.criterion
+    ? { per: 'mass', ...c.criterion }
+    : { kind: '', threshold: undefined, per: 'mass' };
+  f.reportedLimits = {
+    cathodic: { valueV: c.reportedLimits.cathodic?.valueV },
+    anodic: { valueV: c.reportedLimits.anodic?.valueV },
+  };
   const src = c.source;
   if (!src) f.source.kind = '';
   else if (src.kind === 'published') {
-    Object.assign(f.source, { kind: 'published', doi: src.doi ?? '', title: src.title, containerTitle: src.containerTitle ?? '', year: src.year, volume: src.volume ?? '', pages: src.pages ?? '' });
+    Object.assign(f.source, {
+      kind: 'published',
+      doi: src.doi ?? '',
+      title: src.title,
+      containerTitle: src.containerTitle ?? '',
+      year: src.year,
+      volume: src.volume ?? '',
+      pages: src.pages ?? '',
+    });
     f.source.authors = src.authors.map((a) => ({ family: a.family, given: a.given ?? '' }));
-  } else Object.assign(f.source, { kind: 'unpublished', measuredBy: src.measuredBy, measuredOn: src.measuredOn ?? '', note: src.note ?? '' });
+  } else
+    Object.assign(f.source, {
+      kind: 'unpublished',
+      measuredBy: src.measuredBy,
+      measuredOn: src.measuredOn ?? '',
+      note: src.note ?? '',
+    });
   f.licence = c.licence;
   f.visibility = c.visibility;
   f.embargoUntil = c.embargoUntil ?? '';
@@ -171,9 +302,17 @@ export function checkContent(f: FormValues) {
 
 export const STEPS = [
   { id: 'electrolyte', title: 'Electrolyte', fields: ['title', 'electrolyte', 'temperatureC'] },
-  { id: 'cell', title: 'Electrode & cell', fields: ['workingElectrode', 'counterElectrode', 'referenceElectrode', 'cellType'] },
+  {
+    id: 'cell',
+    title: 'Electrode & cell',
+    fields: ['workingElectrode', 'counterElectrode', 'referenceElectrode', 'cellType'],
+  },
   { id: 'method', title: 'Method & criterion', fields: ['method', 'criterion', 'reportedLimits'] },
-  { id: 'source', title: 'Source & licence', fields: ['source', 'licence', 'visibility', 'embargoUntil', 'notes'] },
+  {
+    id: 'source',
+    title: 'Source & licence',
+    fields: ['source', 'licence', 'visibility', 'embargoUntil', 'notes'],
+  },
   { id: 'files', title: 'Raw files', fields: [] },
   { id: 'analysis', title: 'Analysis preview', fields: [] },
   { id: 'submit', title: 'Review & submit', fields: [] },

@@ -12,7 +12,14 @@ const KINDS = [
   { kind: 'leak-m', label: 'hold leakage ≤', unit: 'mA g⁻¹', prefix: 'leak:', fallback: '10' },
   { kind: 'leak-a', label: 'hold leakage ≤', unit: 'µA cm⁻²', prefix: 'leak:', fallback: '10' },
 ] as const;
-const SUFFIX: Record<string, string> = { ce: '%', j: 'uA/cm2', jm: 'mA/g', 'leak-m': 'mA/g', 'leak-a': 'uA/cm2', s: '' };
+const SUFFIX: Record<string, string> = {
+  ce: '%',
+  j: 'uA/cm2',
+  jm: 'mA/g',
+  'leak-m': 'mA/g',
+  'leak-a': 'uA/cm2',
+  s: '',
+};
 
 /** Splits "ce:99%" into the chooser's kind and threshold. */
 export function parseCommon(text: string | undefined): { kind: string; value: string } {
@@ -31,7 +38,13 @@ export function commonText(kind: string, value: string): string {
 }
 
 /** The common criterion applied to every raw-backed record. */
-export function CriterionChooser({ value, onChange }: { value: string | undefined; onChange: (text: string) => void }) {
+export function CriterionChooser({
+  value,
+  onChange,
+}: {
+  value: string | undefined;
+  onChange: (text: string) => void;
+}) {
   const id = useId();
   const parsed = parseCommon(value);
   const [kind, setKind] = useState(parsed.kind);
@@ -92,14 +105,25 @@ export const SCALE_OPTIONS = [
 ];
 
 /** The reference scale limits are shown on. */
-export function ScaleChooser({ value, onChange }: { value: string | undefined; onChange: (scale: string) => void }) {
+export function ScaleChooser({
+  value,
+  onChange,
+}: {
+  value: string | undefined;
+  onChange: (scale: string) => void;
+}) {
   const id = useId();
   return (
     <div className="grid gap-1">
       <label htmlFor={id} className="text-sm font-semibold">
         Reference scale
       </label>
-      <select id={id} value={value ?? 'SHE'} onChange={(e) => onChange(e.target.value === 'SHE' ? '' : e.target.value)} className={`${input} text-sm`}>
+      <select
+        id={id}
+        value={value ?? 'SHE'}
+        onChange={(e) => onChange(e.target.value === 'SHE' ? '' : e.target.value)}
+        className={`${input} text-sm`}
+      >
         {SCALE_OPTIONS.map((s) => (
           <option key={s.id} value={s.id}>
             {s.label}

@@ -16,7 +16,15 @@ import {
 import { buttonQuiet, input, muted } from '../ui.tsx';
 
 type ListKey = 'component' | 'electrode' | 'method' | 'criterionKind' | 'cellType' | 'evidence';
-type TextKey = 'concentrationMin' | 'concentrationMax' | 'concentrationBasis' | 'scanRateMin' | 'scanRateMax' | 'temperatureMin' | 'temperatureMax' | 'q';
+type TextKey =
+  | 'concentrationMin'
+  | 'concentrationMax'
+  | 'concentrationBasis'
+  | 'scanRateMin'
+  | 'scanRateMax'
+  | 'temperatureMin'
+  | 'temperatureMax'
+  | 'q';
 
 interface Props {
   query: RecordQuery;
@@ -28,7 +36,21 @@ interface Props {
 }
 
 /** A text field that reports its value when the reader leaves it or presses Enter. */
-function CommitField({ id, value, onCommit, className, inputMode, placeholder }: { id: string; value: string; onCommit: (v: string) => void; className: string; inputMode?: 'decimal' | 'search'; placeholder?: string }) {
+function CommitField({
+  id,
+  value,
+  onCommit,
+  className,
+  inputMode,
+  placeholder,
+}: {
+  id: string;
+  value: string;
+  onCommit: (v: string) => void;
+  className: string;
+  inputMode?: 'decimal' | 'search';
+  placeholder?: string;
+}) {
   const [draft, setDraft] = useState(value);
   useEffect(() => setDraft(value), [value]);
   return (
@@ -51,7 +73,21 @@ function CommitField({ id, value, onCommit, className, inputMode, placeholder }:
   );
 }
 
-function Checks({ legend, options, selected, onChange, counts, label }: { legend: string; options: readonly string[]; selected: string[]; onChange: (v: string[]) => void; counts?: Map<string, number>; label: (v: string) => string }) {
+function Checks({
+  legend,
+  options,
+  selected,
+  onChange,
+  counts,
+  label,
+}: {
+  legend: string;
+  options: readonly string[];
+  selected: string[];
+  onChange: (v: string[]) => void;
+  counts?: Map<string, number>;
+  label: (v: string) => string;
+}) {
   const id = useId();
   return (
     <fieldset className="grid gap-1">
@@ -60,7 +96,13 @@ function Checks({ legend, options, selected, onChange, counts, label }: { legend
         const on = selected.includes(o);
         return (
           <label key={o} htmlFor={`${id}-${i}`} className="flex items-center gap-2 text-sm">
-            <input id={`${id}-${i}`} type="checkbox" checked={on} onChange={() => onChange(on ? selected.filter((s) => s !== o) : [...selected, o])} className="size-4 accent-cobalt" />
+            <input
+              id={`${id}-${i}`}
+              type="checkbox"
+              checked={on}
+              onChange={() => onChange(on ? selected.filter((s) => s !== o) : [...selected, o])}
+              className="size-4 accent-cobalt"
+            />
             <span>{label(o)}</span>
             {counts && <span className={`ml-auto num text-xs ${muted}`}>{counts.get(o) ?? 0}</span>}
           </label>
@@ -70,7 +112,21 @@ function Checks({ legend, options, selected, onChange, counts, label }: { legend
   );
 }
 
-function Range({ legend, unit, min, max, onMin, onMax }: { legend: string; unit: string; min: string; max: string; onMin: (v: string) => void; onMax: (v: string) => void }) {
+function Range({
+  legend,
+  unit,
+  min,
+  max,
+  onMin,
+  onMax,
+}: {
+  legend: string;
+  unit: string;
+  min: string;
+  max: string;
+  onMin: (v: string) => void;
+  onMax: (v: string) => void;
+}) {
   const id = useId();
   return (
     <fieldset>
@@ -79,10 +135,24 @@ function Range({ legend, unit, min, max, onMin, onMax }: { legend: string; unit:
       </legend>
       <div className="flex items-center gap-2">
         <label htmlFor={`${id}-lo`} className="sr-only">{`${legend} from (${unit})`}</label>
-        <CommitField id={`${id}-lo`} value={min} onCommit={onMin} inputMode="decimal" placeholder="from" className={`${input} num w-full min-w-0 text-sm`} />
+        <CommitField
+          id={`${id}-lo`}
+          value={min}
+          onCommit={onMin}
+          inputMode="decimal"
+          placeholder="from"
+          className={`${input} num w-full min-w-0 text-sm`}
+        />
         <span aria-hidden="true">–</span>
         <label htmlFor={`${id}-hi`} className="sr-only">{`${legend} to (${unit})`}</label>
-        <CommitField id={`${id}-hi`} value={max} onCommit={onMax} inputMode="decimal" placeholder="to" className={`${input} num w-full min-w-0 text-sm`} />
+        <CommitField
+          id={`${id}-hi`}
+          value={max}
+          onCommit={onMax}
+          inputMode="decimal"
+          placeholder="to"
+          className={`${input} num w-full min-w-0 text-sm`}
+        />
       </div>
     </fieldset>
   );
@@ -92,17 +162,31 @@ function Range({ legend, unit, min, max, onMin, onMax }: { legend: string; unit:
 export default function FilterPanel({ query, facets, terms, onList, onText, onClear }: Props) {
   const id = useId();
   const [component, setComponent] = useState('');
-  const counts = (name: FacetName) => new Map((facets?.[name] ?? []).map((f) => [f.value, f.count]));
+  const counts = (name: FacetName) =>
+    new Map((facets?.[name] ?? []).map((f) => [f.value, f.count]));
   const electrodeCounts = counts('electrode');
-  const electrodes = [...new Set([...(facets?.electrode ?? []).map((f) => f.value), ...(query.electrode ?? [])])];
-  const componentTerms = terms ? [...terms.values()].filter((t) => t.kind === 'salt' || t.kind === 'solvent' || t.kind === 'additive') : [];
+  const electrodes = [
+    ...new Set([...(facets?.electrode ?? []).map((f) => f.value), ...(query.electrode ?? [])]),
+  ];
+  const componentTerms = terms
+    ? [...terms.values()].filter(
+        (t) => t.kind === 'salt' || t.kind === 'solvent' || t.kind === 'additive',
+      )
+    : [];
   const addComponent = () => {
     const v = component.trim();
     if (!v) return;
     const lower = v.toLowerCase();
-    const hit = componentTerms.find((t) => t.id === lower || t.name.toLowerCase() === lower || t.abbreviations.some((a) => a.toLowerCase() === lower) || t.synonyms.some((s) => s.toLowerCase() === lower));
+    const hit = componentTerms.find(
+      (t) =>
+        t.id === lower ||
+        t.name.toLowerCase() === lower ||
+        t.abbreviations.some((a) => a.toLowerCase() === lower) ||
+        t.synonyms.some((s) => s.toLowerCase() === lower),
+    );
     const value = hit?.id ?? v;
-    if (!(query.component ?? []).includes(value)) onList('component', [...(query.component ?? []), value]);
+    if (!(query.component ?? []).includes(value))
+      onList('component', [...(query.component ?? []), value]);
     setComponent('');
   };
 
@@ -112,7 +196,14 @@ export default function FilterPanel({ query, facets, terms, onList, onText, onCl
         <label htmlFor={`${id}-q`} className="text-sm font-semibold">
           Words
         </label>
-        <CommitField id={`${id}-q`} value={query.q ?? ''} onCommit={(v) => onText('q', v)} inputMode="search" placeholder="title, source, name…" className={`${input} text-sm`} />
+        <CommitField
+          id={`${id}-q`}
+          value={query.q ?? ''}
+          onCommit={(v) => onText('q', v)}
+          inputMode="search"
+          placeholder="title, source, name…"
+          className={`${input} text-sm`}
+        />
       </div>
 
       <div className="grid gap-1">
@@ -152,7 +243,12 @@ export default function FilterPanel({ query, facets, terms, onList, onText, onCl
               <li key={c}>
                 <button
                   type="button"
-                  onClick={() => onList('component', (query.component ?? []).filter((x) => x !== c))}
+                  onClick={() =>
+                    onList(
+                      'component',
+                      (query.component ?? []).filter((x) => x !== c),
+                    )
+                  }
                   className="rounded-full border border-cobalt/50 dark:border-night-cobalt/50 px-2 py-0.5 text-sm"
                   title={`Remove ${longName(terms, c)}`}
                 >
@@ -177,7 +273,12 @@ export default function FilterPanel({ query, facets, terms, onList, onText, onCl
         <label htmlFor={`${id}-basis`} className="sr-only">
           Concentration basis
         </label>
-        <select id={`${id}-basis`} value={query.concentrationBasis ?? ''} onChange={(e) => onText('concentrationBasis', e.target.value)} className={`${input} text-sm`}>
+        <select
+          id={`${id}-basis`}
+          value={query.concentrationBasis ?? ''}
+          onChange={(e) => onText('concentrationBasis', e.target.value)}
+          className={`${input} text-sm`}
+        >
           <option value="">any basis</option>
           {CONCENTRATION_BASES.map((b) => (
             <option key={b} value={b}>
@@ -188,11 +289,39 @@ export default function FilterPanel({ query, facets, terms, onList, onText, onCl
       </div>
 
       {electrodes.length > 0 && (
-        <Checks legend="Working electrode" options={electrodes} selected={query.electrode ?? []} onChange={(v) => onList('electrode', v)} counts={electrodeCounts} label={(v) => longName(terms, v)} />
+        <Checks
+          legend="Working electrode"
+          options={electrodes}
+          selected={query.electrode ?? []}
+          onChange={(v) => onList('electrode', v)}
+          counts={electrodeCounts}
+          label={(v) => longName(terms, v)}
+        />
       )}
-      <Checks legend="Method" options={METHOD_KINDS} selected={query.method ?? []} onChange={(v) => onList('method', v)} counts={counts('method')} label={(v) => METHOD_NAMES[v as keyof typeof METHOD_NAMES]} />
-      <Range legend="Scan rate" unit="mV s⁻¹" min={query.scanRateMin ?? ''} max={query.scanRateMax ?? ''} onMin={(v) => onText('scanRateMin', v)} onMax={(v) => onText('scanRateMax', v)} />
-      <Range legend="Temperature" unit="°C" min={query.temperatureMin ?? ''} max={query.temperatureMax ?? ''} onMin={(v) => onText('temperatureMin', v)} onMax={(v) => onText('temperatureMax', v)} />
+      <Checks
+        legend="Method"
+        options={METHOD_KINDS}
+        selected={query.method ?? []}
+        onChange={(v) => onList('method', v)}
+        counts={counts('method')}
+        label={(v) => METHOD_NAMES[v as keyof typeof METHOD_NAMES]}
+      />
+      <Range
+        legend="Scan rate"
+        unit="mV s⁻¹"
+        min={query.scanRateMin ?? ''}
+        max={query.scanRateMax ?? ''}
+        onMin={(v) => onText('scanRateMin', v)}
+        onMax={(v) => onText('scanRateMax', v)}
+      />
+      <Range
+        legend="Temperature"
+        unit="°C"
+        min={query.temperatureMin ?? ''}
+        max={query.temperatureMax ?? ''}
+        onMin={(v) => onText('temperatureMin', v)}
+        onMax={(v) => onText('temperatureMax', v)}
+      />
       <Checks
         legend="Record's own criterion"
         options={CRITERION_KINDS}
@@ -201,8 +330,22 @@ export default function FilterPanel({ query, facets, terms, onList, onText, onCl
         counts={counts('criterionKind')}
         label={(v) => CRITERION_NAMES[v as keyof typeof CRITERION_NAMES]}
       />
-      <Checks legend="Cell" options={CELL_TYPES} selected={query.cellType ?? []} onChange={(v) => onList('cellType', v)} counts={counts('cellType')} label={(v) => v} />
-      <Checks legend="Evidence" options={EVIDENCE_LEVELS} selected={query.evidence ?? []} onChange={(v) => onList('evidence', v)} counts={counts('evidence')} label={(v) => v} />
+      <Checks
+        legend="Cell"
+        options={CELL_TYPES}
+        selected={query.cellType ?? []}
+        onChange={(v) => onList('cellType', v)}
+        counts={counts('cellType')}
+        label={(v) => v}
+      />
+      <Checks
+        legend="Evidence"
+        options={EVIDENCE_LEVELS}
+        selected={query.evidence ?? []}
+        onChange={(v) => onList('evidence', v)}
+        counts={counts('evidence')}
+        label={(v) => v}
+      />
       <button type="button" onClick={onClear} className={buttonQuiet}>
         Clear all filters
       </button>

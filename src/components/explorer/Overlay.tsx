@@ -3,7 +3,14 @@ import { useMemo } from 'react';
 import type { AnalysisOptions, AnalysisResult } from '../../lib/analysis/analyze.ts';
 import { errorMessage } from '../../lib/client/api.ts';
 import { queryClient } from '../../lib/client/query.ts';
-import { electrolyteText, longName, rawFileQueries, recordQueries, vocabularyQueries, type RecordDetail } from '../../lib/client/records.ts';
+import {
+  electrolyteText,
+  longName,
+  rawFileQueries,
+  recordQueries,
+  vocabularyQueries,
+  type RecordDetail,
+} from '../../lib/client/records.ts';
 import { MAX_OVERLAY, pickedHandles } from '../../lib/client/overlay.ts';
 import { useSearchState } from '../../lib/client/url-state.ts';
 import CurveChart, { type Curve } from '../charts/CurveChart.tsx';
@@ -32,16 +39,30 @@ function jobsOf(r: RecordDetail, colour: string): FileJob[] {
     const file = r.rawFiles.find((f) => f.id === a.rawFileId);
     if (!file) continue;
     const stored = a.result as AnalysisResult;
-    out.push({ handle: r.handle, colour, fileId: file.id, name: file.name, direction: a.direction, params: a.parameters as AnalysisOptions, toSheV: r.limitKind === 'cell-voltage' ? null : (stored.reference?.fromVsSheV ?? null) });
+    out.push({
+      handle: r.handle,
+      colour,
+      fileId: file.id,
+      name: file.name,
+      direction: a.direction,
+      params: a.parameters as AnalysisOptions,
+      toSheV: r.limitKind === 'cell-voltage' ? null : (stored.reference?.fromVsSheV ?? null),
+    });
   }
   return out;
 }
 
 function OverlayView({ initialSearch }: { initialSearch: string }) {
   const [search, navigate] = useSearchState(initialSearch);
-  const handles = useMemo(() => pickedHandles(new URLSearchParams(search).get('records')), [search]);
+  const handles = useMemo(
+    () => pickedHandles(new URLSearchParams(search).get('records')),
+    [search],
+  );
   const vocab = useQuery(vocabularyQueries.all());
-  const terms = useMemo(() => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined), [vocab.data]);
+  const terms = useMemo(
+    () => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined),
+    [vocab.data],
+  );
   const details = useQueries({ queries: handles.map((h) => recordQueries.detail(h)) });
   const jobs = details.flatMap((d, i) => (d.data ? jobsOf(d.data, seriesColour(i)) : []));
   const texts = useQueries({ queries: jobs.map((j) => rawFileQueries.text(j.fileId)) });
@@ -61,7 +82,10 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
         return;
       }
       if (j.toSheV === null) {
-        note(j.handle, `${j.name} is not on a scale that converts to SHE (a cell voltage or ferrocene), so it is not drawn with electrode potentials`);
+        note(
+          j.handle,
+          `${j.name} is not on a scale that converts to SHE (a cell voltage or ferrocene), so it is not drawn with electrode potentials`,
+        );
         return;
       }
       try {
@@ -69,7 +93,12 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
         const d = details.find((x) => x.data?.handle === j.handle)?.data;
         const several = jobs.filter((x) => x.handle === j.handle).length > 1;
         const shift = j.toSheV;
-        curves.push({ label: `${j.handle} · ${d ? electrode(d) : ''}${several ? ` (${j.direction})` : ''}`, x: s.potential.map((v) => v + shift), y: s.current, colour: j.colour });
+        curves.push({
+          label: `${j.handle} · ${d ? electrode(d) : ''}${several ? ` (${j.direction})` : ''}`,
+          x: s.potential.map((v) => v + shift),
+          y: s.current,
+          colour: j.colour,
+        });
       } catch (e) {
         note(j.handle, `${j.name}: ${errorMessage(e)}`);
       }
@@ -115,11 +144,18 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
             const r = d.data;
             const fileJobs = jobs.filter((j) => j.handle === h);
             return (
-              <li key={h} data-handle={h} className="flex flex-wrap items-center gap-x-3 gap-y-1 border-b border-rule/60 dark:border-night-rule/60 pb-2 text-sm">
+              <li
+                key={h}
+                data-handle={h}
+                className="flex flex-wrap items-center gap-x-3 gap-y-1 border-b border-rule/60 dark:border-night-rule/60 pb-2 text-sm"
+              >
                 <svg width="24" height="6" aria-hidden="true" className="shrink-0">
                   <rect width="24" height="4" y="1" rx="2" fill={seriesColour(i)} />
                 </svg>
-                <a href={`/windows/${h}`} className="num font-semibold text-cobalt dark:text-night-cobalt hover:underline">
+                <a
+                  href={`/windows/${h}`}
+                  className="num font-semibold text-cobalt dark:text-night-cobalt hover:underline"
+                >
                   {h}
                 </a>
                 {r && (
@@ -131,13 +167,20 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
                 )}
                 <span className="basis-full sm:basis-auto sm:ml-auto flex items-center gap-2">
                   {d.isError ? (
-                    <span className="text-copper dark:text-night-copper">{errorMessage(d.error)}</span>
+                    <span className="text-copper dark:text-night-copper">
+                      {errorMessage(d.error)}
+                    </span>
                   ) : r && fileJobs.length === 0 ? (
                     <span className={muted} data-testid="no-raw">
                       no raw data: nothing to draw
                     </span>
                   ) : null}
-                  <button type="button" className={buttonQuiet} onClick={() => remove(h)} aria-label={`Remove ${h} from the overlay`}>
+                  <button
+                    type="button"
+                    className={buttonQuiet}
+                    onClick={() => remove(h)}
+                    aria-label={`Remove ${h} from the overlay`}
+                  >
                     Remove
                   </button>
                 </span>
@@ -156,16 +199,28 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
         <h2 id="overlay-plot" className="text-lg font-semibold">
           Raw curves
         </h2>
-        <p className={`text-sm ${muted} mb-2`}>Current against potential as recorded, every file moved to SHE with its record’s reference value. One colour per record.</p>
+        <p className={`text-sm ${muted} mb-2`}>
+          Current against potential as recorded, every file moved to SHE with its record’s reference
+          value. One colour per record.
+        </p>
         {details.find((d) => d.isError) && curves.length === 0 ? (
-          <Failed error={details.find((d) => d.isError)!.error} retry={() => details.forEach((d) => void d.refetch())} what="the selected records" />
+          <Failed
+            error={details.find((d) => d.isError)!.error}
+            retry={() => details.forEach((d) => void d.refetch())}
+            what="the selected records"
+          />
         ) : loadingRecords || loadingFiles ? (
           <Loading what="the raw curves" />
         ) : curves.length === 0 ? (
           <Empty>None of the selected records carries raw data that can be drawn on SHE.</Empty>
         ) : (
           <div data-testid="overlay-chart">
-            <CurveChart curves={curves} xLabel="E / V vs SHE" figureName={`edgewise-overlay-${handles.join('-')}`} height={400} />
+            <CurveChart
+              curves={curves}
+              xLabel="E / V vs SHE"
+              figureName={`edgewise-overlay-${handles.join('-')}`}
+              height={400}
+            />
           </div>
         )}
       </section>

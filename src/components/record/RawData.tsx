@@ -1,6 +1,10 @@
 import { useQuery } from '@tanstack/react-query';
 import { useMemo, useState } from 'react';
-import { analyzeText, type AnalysisOptions, type AnalysisResult } from '../../lib/analysis/analyze.ts';
+import {
+  analyzeText,
+  type AnalysisOptions,
+  type AnalysisResult,
+} from '../../lib/analysis/analyze.ts';
 import { sFromCe } from '../../lib/analysis/cv.ts';
 import { parseCriterion } from '../../lib/analysis/limits.ts';
 import { normalise } from '../../lib/analysis/normalise.ts';
@@ -13,7 +17,12 @@ import { CriterionChooser } from '../explorer/Choosers.tsx';
 import { Empty, Failed, Loading, muted, panel } from '../ui.tsx';
 
 /** Points, cutoff and labels of the judged quantity, from an analysis result. */
-export function criterionSeries(res: AnalysisResult): { points: CriterionPoint[]; cutoff: number; label: string; cutoffLabel: string } {
+export function criterionSeries(res: AnalysisResult): {
+  points: CriterionPoint[];
+  cutoff: number;
+  label: string;
+  cutoffLabel: string;
+} {
   const c = res.criterion;
   if (res.cycles) {
     const cutoff = c.kind === 'ce' ? sFromCe(c.value) : c.value;
@@ -21,13 +30,24 @@ export function criterionSeries(res: AnalysisResult): { points: CriterionPoint[]
       points: res.cycles.map((x) => ({ potentialV: x.vertexV, value: x.sValue })),
       cutoff,
       label: 'S-value',
-      cutoffLabel: c.kind === 'ce' ? `CE ≥ ${+(c.value * 100).toPrecision(4)} % (S ≤ ${cutoff.toPrecision(3)})` : `S ≤ ${c.value}`,
+      cutoffLabel:
+        c.kind === 'ce'
+          ? `CE ≥ ${+(c.value * 100).toPrecision(4)} % (S ≤ ${cutoff.toPrecision(3)})`
+          : `S ≤ ${c.value}`,
     };
   }
-  const unit = c.unit === 'A/g' ? { f: 1e3, u: 'mA g⁻¹' } : c.unit === 'A/cm2' ? { f: 1e6, u: 'µA cm⁻²' } : { f: 1e6, u: 'µA' };
+  const unit =
+    c.unit === 'A/g'
+      ? { f: 1e3, u: 'mA g⁻¹' }
+      : c.unit === 'A/cm2'
+        ? { f: 1e6, u: 'µA cm⁻²' }
+        : { f: 1e6, u: 'µA' };
   const sign = res.direction === 'anodic' ? 1 : -1;
   return {
-    points: (res.steps ?? []).map((s) => ({ potentialV: s.potentialV, value: sign * s.endCurrentDensity * unit.f })),
+    points: (res.steps ?? []).map((s) => ({
+      potentialV: s.potentialV,
+      value: sign * s.endCurrentDensity * unit.f,
+    })),
     cutoff: c.value * unit.f,
     label: `leakage / ${unit.u}`,
     cutoffLabel: `${+(c.value * unit.f).toPrecision(4)} ${unit.u}`,
@@ -35,14 +55,21 @@ export function criterionSeries(res: AnalysisResult): { points: CriterionPoint[]
 }
 
 /** A raw file's samples as the engine reads them for its analysis: volts and amperes, IUPAC sign, on the file's own scale. */
-export function rawSamples(text: string, params: AnalysisOptions): { potential: Float64Array; current: Float64Array } {
-  const s = normalise(readTable(text, params.columns ? { columns: params.columns } : {}), params.sign ?? 'iupac');
+export function rawSamples(
+  text: string,
+  params: AnalysisOptions,
+): { potential: Float64Array; current: Float64Array } {
+  const s = normalise(
+    readTable(text, params.columns ? { columns: params.columns } : {}),
+    params.sign ?? 'iupac',
+  );
   return { potential: s.potential, current: s.current };
 }
 
 function limitLine(res: AnalysisResult, ref: string): string {
   const l = res.limit;
-  if (l.status === 'not-reached') return `not reached: stable to at least ${l.lastPassingV?.toFixed(3)} V vs ${ref}`;
+  if (l.status === 'not-reached')
+    return `not reached: stable to at least ${l.lastPassingV?.toFixed(3)} V vs ${ref}`;
   if (l.status === 'exceeded-at-first') return 'exceeded already at the first point';
   return `${l.interpolatedV?.toFixed(3)} V vs ${ref} (last passing ${l.lastPassingV?.toFixed(3)} V)`;
 }
@@ -84,10 +111,14 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
   const recompute = setCriterion;
 
   return (
-    <section className={`${panel} p-4 grid gap-4`} aria-label={`Analysis of ${file?.name ?? 'a raw file'} (${a.direction})`}>
+    <section
+      className={`${panel} p-4 grid gap-4`}
+      aria-label={`Analysis of ${file?.name ?? 'a raw file'} (${a.direction})`}
+    >
       <div className="flex flex-wrap items-baseline gap-3">
         <h3 className="font-semibold">
-          {a.direction === 'anodic' ? 'Anodic' : 'Cathodic'} side · <span className="num text-sm">{file?.name}</span>
+          {a.direction === 'anodic' ? 'Anodic' : 'Cathodic'} side ·{' '}
+          <span className="num text-sm">{file?.name}</span>
         </h3>
         <span className={`text-xs ${muted}`}>
           {a.engineVersion}, criterion {stored.criterion.text}
@@ -102,7 +133,11 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
         ) : 'error' in curves ? (
           <p className="text-sm">{curves.error}</p>
         ) : (
-          <CurveChart curves={curves} xLabel={`E / V vs ${ref}`} figureName={`${r.handle}-${a.direction}`} />
+          <CurveChart
+            curves={curves}
+            xLabel={`E / V vs ${ref}`}
+            figureName={`${r.handle}-${a.direction}`}
+          />
         )}
       </div>
       <div className="grid gap-2">
@@ -117,11 +152,16 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
           lastPassingV={shown.limit.lastPassingV}
         />
         <p className="text-sm" data-testid={`limit-${a.direction}`}>
-          <span className="font-semibold">{recomputed?.result ? `Recomputed at ${criterion}:` : `At ${stored.criterion.text}:`}</span> {limitLine(shown, ref)}
+          <span className="font-semibold">
+            {recomputed?.result ? `Recomputed at ${criterion}:` : `At ${stored.criterion.text}:`}
+          </span>{' '}
+          {limitLine(shown, ref)}
         </p>
       </div>
       <div className="grid gap-1 border-t border-rule dark:border-night-rule pt-3">
-        <p className={`text-sm ${muted}`}>Recompute this side at another criterion (in your browser, from the raw file):</p>
+        <p className={`text-sm ${muted}`}>
+          Recompute this side at another criterion (in your browser, from the raw file):
+        </p>
         <CriterionChooser value={criterion} onChange={recompute} />
         {recomputed?.error && (
           <p role="alert" className="text-sm text-copper dark:text-night-copper">
@@ -141,7 +181,9 @@ export default function RawData({ r }: { r: RecordDetail }) {
         Raw data and analysis
       </h2>
       {r.analyses.length === 0 ? (
-        <Empty>No raw data is attached: the limits are as reported, judged by the record’s own criterion.</Empty>
+        <Empty>
+          No raw data is attached: the limits are as reported, judged by the record’s own criterion.
+        </Empty>
       ) : (
         r.analyses.map((a) => <AnalysisBlock key={a.id} a={a} r={r} />)
       )}

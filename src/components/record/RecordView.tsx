@@ -3,9 +3,27 @@ import { useId, useMemo, useState } from 'react';
 import { referenceConversion, REFERENCE_ELECTRODES } from '../../lib/analysis/references.ts';
 import { sendJson, errorMessage } from '../../lib/client/api.ts';
 import { queryClient } from '../../lib/client/query.ts';
-import { criterionText, electrolyteText, longName, METHOD_NAMES, recordQueries, vocabularyQueries, type IndexTerm, type RecordDetail } from '../../lib/client/records.ts';
+import {
+  criterionText,
+  electrolyteText,
+  longName,
+  METHOD_NAMES,
+  recordQueries,
+  vocabularyQueries,
+  type IndexTerm,
+  type RecordDetail,
+} from '../../lib/client/records.ts';
 import { CAUTION_AUTHORITY, cautionsFor, GAS_CAUTION } from '../../lib/shared/cautions.ts';
-import { buttonPrimary, buttonQuiet, EvidenceBadge, Failed, input, Loading, muted, panel } from '../ui.tsx';
+import {
+  buttonPrimary,
+  buttonQuiet,
+  EvidenceBadge,
+  Failed,
+  input,
+  Loading,
+  muted,
+  panel,
+} from '../ui.tsx';
 import RawData from './RawData.tsx';
 import Versions from './Versions.tsx';
 
@@ -17,21 +35,45 @@ function Conditions({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTer
   const we = c.workingElectrode;
   const rows: [string, string][] = [
     ['Electrolyte', electrolyteText(c, terms)],
-    ...(c.electrolyte.waterContentPpm !== undefined ? [['Water content', `${c.electrolyte.waterContentPpm} ppm`] as [string, string]] : []),
-    ...(c.electrolyte.pH !== undefined ? [['pH', String(c.electrolyte.pH)] as [string, string]] : []),
+    ...(c.electrolyte.waterContentPpm !== undefined
+      ? [['Water content', `${c.electrolyte.waterContentPpm} ppm`] as [string, string]]
+      : []),
+    ...(c.electrolyte.pH !== undefined
+      ? [['pH', String(c.electrolyte.pH)] as [string, string]]
+      : []),
     ['Temperature', c.temperatureC !== undefined ? `${c.temperatureC} °C` : 'not stated'],
-    ['Working electrode', [longName(terms, we.material), we.form, we.geometricAreaCm2 !== undefined ? `${we.geometricAreaCm2} cm²` : '', we.activeMassMg !== undefined ? `${we.activeMassMg} mg active mass` : ''].filter(Boolean).join(', ')],
-    ...(c.counterElectrode ? [['Counter electrode', longName(terms, c.counterElectrode.material)] as [string, string]] : []),
-    ...(c.referenceElectrode ? [['Reference electrode', longName(terms, c.referenceElectrode)] as [string, string]] : []),
+    [
+      'Working electrode',
+      [
+        longName(terms, we.material),
+        we.form,
+        we.geometricAreaCm2 !== undefined ? `${we.geometricAreaCm2} cm²` : '',
+        we.activeMassMg !== undefined ? `${we.activeMassMg} mg active mass` : '',
+      ]
+        .filter(Boolean)
+        .join(', '),
+    ],
+    ...(c.counterElectrode
+      ? [['Counter electrode', longName(terms, c.counterElectrode.material)] as [string, string]]
+      : []),
+    ...(c.referenceElectrode
+      ? [['Reference electrode', longName(terms, c.referenceElectrode)] as [string, string]]
+      : []),
     ['Cell', c.cellType],
     [
       'Method',
       [
         METHOD_NAMES[m.kind],
-        m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined ? `${m.scanRateMVs} mV s⁻¹` : '',
-        m.kind === 'cv-window-opening' && m.vertexStepMV !== undefined ? `vertex step ${m.vertexStepMV} mV` : '',
+        m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined
+          ? `${m.scanRateMVs} mV s⁻¹`
+          : '',
+        m.kind === 'cv-window-opening' && m.vertexStepMV !== undefined
+          ? `vertex step ${m.vertexStepMV} mV`
+          : '',
         m.kind === 'potentiostatic-holds' && m.stepMV !== undefined ? `step ${m.stepMV} mV` : '',
-        m.kind === 'potentiostatic-holds' && m.holdTimeS !== undefined ? `hold ${m.holdTimeS} s` : '',
+        m.kind === 'potentiostatic-holds' && m.holdTimeS !== undefined
+          ? `hold ${m.holdTimeS} s`
+          : '',
       ]
         .filter(Boolean)
         .join(', '),
@@ -39,7 +81,10 @@ function Conditions({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTer
     ['Criterion', criterionText(c.criterion)],
   ];
   return (
-    <dl className="grid grid-cols-1 sm:grid-cols-[12rem_1fr] gap-x-4 gap-y-1 text-sm" data-testid="conditions">
+    <dl
+      className="grid grid-cols-1 sm:grid-cols-[12rem_1fr] gap-x-4 gap-y-1 text-sm"
+      data-testid="conditions"
+    >
       {rows.map(([k, v]) => (
         <div key={k} className="contents">
           <dt className={muted}>{k}</dt>
@@ -50,30 +95,54 @@ function Conditions({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTer
   );
 }
 
-const SCALES = [...REFERENCE_ELECTRODES.map((r) => ({ id: r.id, label: r.id === 'SHE' ? 'SHE' : r.name })), { id: 'RHE', label: 'RHE' }];
+const SCALES = [
+  ...REFERENCE_ELECTRODES.map((r) => ({ id: r.id, label: r.id === 'SHE' ? 'SHE' : r.name })),
+  { id: 'RHE', label: 'RHE' },
+];
 
 function Limits({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTerm> | undefined }) {
   const id = useId();
   const [scale, setScale] = useState('SHE');
   const cell = r.limitKind === 'cell-voltage';
   const pH = r.content.electrolyte.pH;
-  const temperatureK = r.content.temperatureC !== undefined ? r.content.temperatureC + 273.15 : undefined;
+  const temperatureK =
+    r.content.temperatureC !== undefined ? r.content.temperatureC + 273.15 : undefined;
   let offset: number | null = 0;
   let note = '';
   if (!cell) {
     try {
-      offset = referenceConversion('SHE', scale, { ...(pH !== undefined ? { pH } : {}), ...(temperatureK !== undefined ? { temperatureK } : {}) }).offsetV;
+      offset = referenceConversion('SHE', scale, {
+        ...(pH !== undefined ? { pH } : {}),
+        ...(temperatureK !== undefined ? { temperatureK } : {}),
+      }).offsetV;
     } catch (e) {
       offset = null;
       note = errorMessage(e);
     }
   }
-  const approx = r.limits.cathodic?.approximate || r.limits.anodic?.approximate || (REFERENCE_ELECTRODES.find((x) => x.id === scale)?.metalIon ?? false);
-  const on = (she: number | null | undefined) => (she === null || she === undefined || offset === null ? null : she + offset);
-  const f = (v: number | null | undefined) => (v === null || v === undefined ? '—' : `${v.toFixed(3).replace(/^-/, '−')} V`);
+  const approx =
+    r.limits.cathodic?.approximate ||
+    r.limits.anodic?.approximate ||
+    (REFERENCE_ELECTRODES.find((x) => x.id === scale)?.metalIon ?? false);
+  const on = (she: number | null | undefined) =>
+    she === null || she === undefined || offset === null ? null : she + offset;
+  const f = (v: number | null | undefined) =>
+    v === null || v === undefined ? '—' : `${v.toFixed(3).replace(/^-/, '−')} V`;
   const sides = [
-    { side: 'Cathodic', cls: 'text-cobalt dark:text-night-cobalt', rep: r.limits.cathodic, comp: r.computed.cathodicV, compShe: r.computed.cathodicSheV },
-    { side: 'Anodic', cls: 'text-copper dark:text-night-copper', rep: r.limits.anodic, comp: r.computed.anodicV, compShe: r.computed.anodicSheV },
+    {
+      side: 'Cathodic',
+      cls: 'text-cobalt dark:text-night-cobalt',
+      rep: r.limits.cathodic,
+      comp: r.computed.cathodicV,
+      compShe: r.computed.cathodicSheV,
+    },
+    {
+      side: 'Anodic',
+      cls: 'text-copper dark:text-night-copper',
+      rep: r.limits.anodic,
+      comp: r.computed.anodicV,
+      compShe: r.computed.anodicSheV,
+    },
   ];
   return (
     <div>
@@ -82,7 +151,12 @@ function Limits({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTerm> |
           <label htmlFor={id} className="text-sm font-semibold">
             Show on
           </label>
-          <select id={id} value={scale} onChange={(e) => setScale(e.target.value)} className={`${input} text-sm`}>
+          <select
+            id={id}
+            value={scale}
+            onChange={(e) => setScale(e.target.value)}
+            className={`${input} text-sm`}
+          >
             {SCALES.map((s) => (
               <option key={s.id} value={s.id}>
                 {s.label}
@@ -115,7 +189,11 @@ function Limits({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTerm> |
                 <th scope="row" className={`py-1 pr-3 text-left font-semibold ${s.cls}`}>
                   {s.side}
                 </th>
-                <td className="py-1 pr-3 num">{s.rep ? `${f(s.rep.valueV)} vs ${s.rep.reference === 'cell' ? 'cell' : longName(terms, s.rep.reference)}` : '—'}</td>
+                <td className="py-1 pr-3 num">
+                  {s.rep
+                    ? `${f(s.rep.valueV)} vs ${s.rep.reference === 'cell' ? 'cell' : longName(terms, s.rep.reference)}`
+                    : '—'}
+                </td>
                 <td className="py-1 pr-3 num">{cell ? f(s.rep?.valueV) : f(on(s.rep?.sheV))}</td>
                 <td className="py-1 pr-3 num">{cell ? f(s.comp) : f(on(s.compShe))}</td>
               </tr>
@@ -124,8 +202,18 @@ function Limits({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTerm> |
         </table>
       </div>
       {note && <p className={`mt-2 text-sm ${muted}`}>{note}</p>}
-      {!cell && approx && <p className={`mt-2 text-sm ${muted}`}>Approximate: metal/ion scales in non-aqueous electrolytes differ from their aqueous standard values.</p>}
-      {cell && <p className={`mt-2 text-sm ${muted}`}>A two-electrode cell: these are cell voltages, not electrode potentials, and no reference scale applies.</p>}
+      {!cell && approx && (
+        <p className={`mt-2 text-sm ${muted}`}>
+          Approximate: metal/ion scales in non-aqueous electrolytes differ from their aqueous
+          standard values.
+        </p>
+      )}
+      {cell && (
+        <p className={`mt-2 text-sm ${muted}`}>
+          A two-electrode cell: these are cell voltages, not electrode potentials, and no reference
+          scale applies.
+        </p>
+      )}
     </div>
   );
 }
@@ -136,12 +224,18 @@ function Provenance({ r }: { r: RecordDetail }) {
     <div className="grid gap-3 text-sm">
       {s?.kind === 'published' ? (
         <p>
-          {s.authors.map((a) => (a.given ? `${a.given} ${a.family}` : a.family)).join(', ')} ({s.year}). {s.title}.{' '}
-          {s.containerTitle && <em>{s.containerTitle}</em>} {s.volume} {s.pages && `, ${s.pages}`}
+          {s.authors.map((a) => (a.given ? `${a.given} ${a.family}` : a.family)).join(', ')} (
+          {s.year}). {s.title}. {s.containerTitle && <em>{s.containerTitle}</em>} {s.volume}{' '}
+          {s.pages && `, ${s.pages}`}
           {s.doi && (
             <>
               {' '}
-              <a href={`https://doi.org/${s.doi}`} className="underline text-cobalt dark:text-night-cobalt" rel="noopener noreferrer" data-testid="doi-link">
+              <a
+                href={`https://doi.org/${s.doi}`}
+                className="underline text-cobalt dark:text-night-cobalt"
+                rel="noopener noreferrer"
+                data-testid="doi-link"
+              >
                 doi:{s.doi}
               </a>
             </>
@@ -157,7 +251,15 @@ function Provenance({ r }: { r: RecordDetail }) {
       )}
       <dl className="grid grid-cols-[8rem_1fr] gap-x-4 gap-y-1">
         <dt className={muted}>Lab</dt>
-        <dd>{r.lab ? <a href={`/labs/${r.lab.slug}`} className="underline">{r.lab.name}</a> : '—'}</dd>
+        <dd>
+          {r.lab ? (
+            <a href={`/labs/${r.lab.slug}`} className="underline">
+              {r.lab.name}
+            </a>
+          ) : (
+            '—'
+          )}
+        </dd>
         <dt className={muted}>Licence</dt>
         <dd>{r.content.licence}</dd>
         <dt className={muted}>Published</dt>
@@ -184,11 +286,19 @@ function Provenance({ r }: { r: RecordDetail }) {
               {r.rawFiles.map((f) => (
                 <tr key={f.id} className="border-b border-rule/60 dark:border-night-rule/60">
                   <td className="py-1 pr-3">
-                    <a href={f.downloadUrl} download={f.name} className="underline text-cobalt dark:text-night-cobalt">
+                    <a
+                      href={f.downloadUrl}
+                      download={f.name}
+                      className="underline text-cobalt dark:text-night-cobalt"
+                    >
                       {f.name}
                     </a>
                   </td>
-                  <td className="py-1 pr-3 text-right num whitespace-nowrap">{f.bytes >= 1e6 ? `${(f.bytes / 1e6).toFixed(1)} MB` : `${(f.bytes / 1e3).toFixed(1)} kB`}</td>
+                  <td className="py-1 pr-3 text-right num whitespace-nowrap">
+                    {f.bytes >= 1e6
+                      ? `${(f.bytes / 1e6).toFixed(1)} MB`
+                      : `${(f.bytes / 1e3).toFixed(1)} kB`}
+                  </td>
                   <td className="py-1 pr-3 num text-xs break-all">{f.sha256}</td>
                 </tr>
               ))}
@@ -208,7 +318,17 @@ function CiteBox({ r, origin }: { r: RecordDetail; origin: string }) {
   const text = `Edgewise window record ${r.handle}, version ${r.version} (${year}). ${title}. ${url}`;
   const bib = `@misc{${r.handle.replace('-', '')}v${r.version},\n  title = {{${title}}},\n  howpublished = {Edgewise window record ${r.handle}, version ${r.version}},\n  year = {${year}},\n  url = {${url}},\n  note = {Licence ${r.content.licence}${r.content.source?.kind === 'published' && r.content.source.doi ? `; source doi:${r.content.source.doi}` : ''}}\n}`;
   const csl = JSON.stringify(
-    [{ id: `${r.handle}v${r.version}`, type: 'dataset', title, publisher: 'Edgewise', version: String(r.version), URL: url, issued: { 'date-parts': [[Number(year)]] } }],
+    [
+      {
+        id: `${r.handle}v${r.version}`,
+        type: 'dataset',
+        title,
+        publisher: 'Edgewise',
+        version: String(r.version),
+        URL: url,
+        issued: { 'date-parts': [[Number(year)]] },
+      },
+    ],
     null,
     2,
   );
@@ -223,15 +343,28 @@ function CiteBox({ r, origin }: { r: RecordDetail; origin: string }) {
             ['csl', 'CSL-JSON'],
           ] as const
         ).map(([k, l]) => (
-          <button key={k} type="button" aria-pressed={tab === k} onClick={() => setTab(k)} className={tab === k ? buttonPrimary : buttonQuiet}>
+          <button
+            key={k}
+            type="button"
+            aria-pressed={tab === k}
+            onClick={() => setTab(k)}
+            className={tab === k ? buttonPrimary : buttonQuiet}
+          >
             {l}
           </button>
         ))}
-        <button type="button" className={`${buttonQuiet} ml-auto`} onClick={() => void navigator.clipboard?.writeText(body)}>
+        <button
+          type="button"
+          className={`${buttonQuiet} ml-auto`}
+          onClick={() => void navigator.clipboard?.writeText(body)}
+        >
           Copy
         </button>
       </div>
-      <pre className="num text-xs whitespace-pre-wrap break-all rounded-md bg-paper dark:bg-night p-3 border border-rule dark:border-night-rule" data-testid="cite">
+      <pre
+        className="num text-xs whitespace-pre-wrap break-all rounded-md bg-paper dark:bg-night p-3 border border-rule dark:border-night-rule"
+        data-testid="cite"
+      >
         {body}
       </pre>
     </div>
@@ -247,14 +380,22 @@ function Flag({ r, signedIn }: { r: RecordDetail; signedIn: boolean }) {
   if (!signedIn) {
     return (
       <p className="text-sm">
-        <a href={`/signin?next=${encodeURIComponent(`/windows/${r.handle}`)}`} className="underline">
+        <a
+          href={`/signin?next=${encodeURIComponent(`/windows/${r.handle}`)}`}
+          className="underline"
+        >
           Sign in
         </a>{' '}
         to report a problem with this record.
       </p>
     );
   }
-  if (state.done) return <p className="text-sm" role="status">Thank you: the curators will look at your report.</p>;
+  if (state.done)
+    return (
+      <p className="text-sm" role="status">
+        Thank you: the curators will look at your report.
+      </p>
+    );
   if (!r.allowedActions.includes('flag')) return null;
   if (!open)
     return (
@@ -269,7 +410,11 @@ function Flag({ r, signedIn }: { r: RecordDetail; signedIn: boolean }) {
         e.preventDefault();
         setState({ busy: true });
         try {
-          await sendJson(`/api/v1/records/${r.handle}/transitions`, { action: 'flag', version: r.version, reason });
+          await sendJson(`/api/v1/records/${r.handle}/transitions`, {
+            action: 'flag',
+            version: r.version,
+            reason,
+          });
           await qc.invalidateQueries({ queryKey: recordQueries.detail(r.handle).queryKey });
           setState({ done: true });
         } catch (err) {
@@ -280,7 +425,15 @@ function Flag({ r, signedIn }: { r: RecordDetail; signedIn: boolean }) {
       <label htmlFor={id} className="text-sm font-semibold">
         What is wrong with this record?
       </label>
-      <textarea id={id} required maxLength={2000} rows={3} value={reason} onChange={(e) => setReason(e.target.value)} className={`${input} text-sm`} />
+      <textarea
+        id={id}
+        required
+        maxLength={2000}
+        rows={3}
+        value={reason}
+        onChange={(e) => setReason(e.target.value)}
+        className={`${input} text-sm`}
+      />
       {state.error && (
         <p role="alert" className="text-sm text-copper dark:text-night-copper">
           {state.error}
@@ -310,7 +463,11 @@ function Cautions({ r }: { r: RecordDetail }) {
   ];
   const found = cautionsFor(ids);
   return (
-    <aside className="rounded-lg border border-copper/50 bg-copper-soft/40 dark:bg-copper/10 p-4 text-sm" aria-labelledby="cautions-title" data-testid="cautions">
+    <aside
+      className="rounded-lg border border-copper/50 bg-copper-soft/40 dark:bg-copper/10 p-4 text-sm"
+      aria-labelledby="cautions-title"
+      data-testid="cautions"
+    >
       <h2 id="cautions-title" className="font-semibold">
         Before you repeat this measurement
       </h2>
@@ -328,7 +485,10 @@ function Cautions({ r }: { r: RecordDetail }) {
 function View({ handle, signedIn, origin }: { handle: string; signedIn: boolean; origin: string }) {
   const q = useQuery(recordQueries.detail(handle));
   const vocab = useQuery(vocabularyQueries.all());
-  const terms = useMemo(() => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined), [vocab.data]);
+  const terms = useMemo(
+    () => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined),
+    [vocab.data],
+  );
   if (q.isPending) return <Loading what="the record" />;
   if (q.isError) return <Failed error={q.error} retry={() => void q.refetch()} what="the record" />;
   const r = q.data;
@@ -340,12 +500,23 @@ function View({ handle, signedIn, origin }: { handle: string; signedIn: boolean;
             {r.handle} v{r.version}
           </span>
           <EvidenceBadge level={r.evidenceLevel} />
-          <span className={`rounded border border-rule dark:border-night-rule px-1.5 py-px text-xs ${muted}`}>{r.status.replace('_', ' ')}</span>
+          <span
+            className={`rounded border border-rule dark:border-night-rule px-1.5 py-px text-xs ${muted}`}
+          >
+            {r.status.replace('_', ' ')}
+          </span>
         </p>
-        <h1 className="text-2xl font-bold tracking-tight">{r.title ?? `${electrolyteText(r.content, terms)} on ${longName(terms, r.content.workingElectrode.material)}`}</h1>
+        <h1 className="text-2xl font-bold tracking-tight">
+          {r.title ??
+            `${electrolyteText(r.content, terms)} on ${longName(terms, r.content.workingElectrode.material)}`}
+        </h1>
         {r.status === 'flagged' && (
-          <p role="note" className="rounded-md border border-copper/50 bg-copper-soft/50 dark:bg-copper/15 p-3 text-sm">
-            A reader has reported a problem with this record; curators are checking it. The numbers stay visible meanwhile.
+          <p
+            role="note"
+            className="rounded-md border border-copper/50 bg-copper-soft/50 dark:bg-copper/15 p-3 text-sm"
+          >
+            A reader has reported a problem with this record; curators are checking it. The numbers
+            stay visible meanwhile.
           </p>
         )}
       </header>
@@ -386,7 +557,15 @@ function View({ handle, signedIn, origin }: { handle: string; signedIn: boolean;
 }
 
 /** The record page: every section reads the record through the query cache. */
-export default function RecordView({ handle, signedIn = false, origin = '' }: { handle: string; signedIn?: boolean; origin?: string }) {
+export default function RecordView({
+  handle,
+  signedIn = false,
+  origin = '',
+}: {
+  handle: string;
+  signedIn?: boolean;
+  origin?: string;
+}) {
   return (
     <QueryClientProvider client={queryClient}>
       <View handle={handle} signedIn={signedIn} origin={origin} />

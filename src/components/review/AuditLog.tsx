@@ -13,18 +13,30 @@ function Log() {
   const field = (k: keyof AuditFilters, label: string, type = 'text', placeholder = '') => (
     <label className="text-sm flex flex-col gap-1">
       {label}
-      <input className={input} type={type} placeholder={placeholder} value={(draft[k] as string | undefined) ?? ''} onChange={(e) => setDraft({ ...draft, [k]: e.target.value.trim() || undefined })} />
+      <input
+        className={input}
+        type={type}
+        placeholder={placeholder}
+        value={(draft[k] as string | undefined) ?? ''}
+        onChange={(e) => setDraft({ ...draft, [k]: e.target.value.trim() || undefined })}
+      />
     </label>
   );
   return (
     <div className="space-y-4">
-      <form className={`${panel} p-4 grid gap-3 sm:grid-cols-3 lg:grid-cols-6 items-end`} onSubmit={(e) => (e.preventDefault(), setFilters({ ...draft, offset: 0 }))} aria-label="Filter the audit log">
+      <form
+        className={`${panel} p-4 grid gap-3 sm:grid-cols-3 lg:grid-cols-6 items-end`}
+        onSubmit={(e) => (e.preventDefault(), setFilters({ ...draft, offset: 0 }))}
+        aria-label="Filter the audit log"
+      >
         {field('actor', 'Actor (e-mail or id)')}
         {field('record', 'Record', 'text', 'EW-000123')}
         {field('action', 'Action', 'text', 'record.publish or review.')}
         {field('from', 'From', 'date')}
         {field('to', 'To', 'date')}
-        <button type="submit" className={buttonPrimary}>Show</button>
+        <button type="submit" className={buttonPrimary}>
+          Show
+        </button>
       </form>
       {q.isPending ? (
         <Loading what="the audit log" />
@@ -37,21 +49,48 @@ function Log() {
           <table className="w-full text-sm" data-testid="audit">
             <thead>
               <tr className="text-left border-b border-rule dark:border-night-rule">
-                <th scope="col" className="p-2">When (UTC)</th>
-                <th scope="col" className="p-2">Actor</th>
-                <th scope="col" className="p-2">Action</th>
-                <th scope="col" className="p-2">Subject</th>
-                <th scope="col" className="p-2">Details</th>
+                <th scope="col" className="p-2">
+                  When (UTC)
+                </th>
+                <th scope="col" className="p-2">
+                  Actor
+                </th>
+                <th scope="col" className="p-2">
+                  Action
+                </th>
+                <th scope="col" className="p-2">
+                  Subject
+                </th>
+                <th scope="col" className="p-2">
+                  Details
+                </th>
               </tr>
             </thead>
             <tbody>
               {q.data.items.map((e) => (
-                <tr key={e.id} className="border-b border-rule/60 dark:border-night-rule/60 align-top">
-                  <td className="p-2 num text-xs whitespace-nowrap">{e.at.slice(0, 19).replace('T', ' ')}</td>
-                  <td className="p-2">{e.actor ? (e.actor.name ?? e.actor.email) : <span className={muted}>system</span>}</td>
+                <tr
+                  key={e.id}
+                  className="border-b border-rule/60 dark:border-night-rule/60 align-top"
+                >
+                  <td className="p-2 num text-xs whitespace-nowrap">
+                    {e.at.slice(0, 19).replace('T', ' ')}
+                  </td>
+                  <td className="p-2">
+                    {e.actor ? (
+                      (e.actor.name ?? e.actor.email)
+                    ) : (
+                      <span className={muted}>system</span>
+                    )}
+                  </td>
                   <td className="p-2 num text-xs">{e.action}</td>
                   <td className="p-2 num text-xs">
-                    {e.subjectType === 'record' ? <a className="underline" href={`/review/${e.subjectId}`}>{e.subjectId}</a> : `${e.subjectType} ${e.subjectId}`}
+                    {e.subjectType === 'record' ? (
+                      <a className="underline" href={`/review/${e.subjectId}`}>
+                        {e.subjectId}
+                      </a>
+                    ) : (
+                      `${e.subjectType} ${e.subjectId}`
+                    )}
                   </td>
                   <td className="p-2 num text-xs break-all">{JSON.stringify(e.details)}</td>
                 </tr>
@@ -59,10 +98,28 @@ function Log() {
             </tbody>
           </table>
           <div className="flex items-center justify-between p-2 text-sm">
-            <span className={muted}>{q.data.offset + 1}–{q.data.offset + q.data.items.length} of {q.data.total}</span>
+            <span className={muted}>
+              {q.data.offset + 1}–{q.data.offset + q.data.items.length} of {q.data.total}
+            </span>
             <span className="flex gap-2">
-              <button type="button" className={buttonQuiet} disabled={q.data.offset === 0} onClick={() => setFilters({ ...filters, offset: Math.max(0, (filters.offset ?? 0) - 50) })}>Newer</button>
-              <button type="button" className={buttonQuiet} disabled={q.data.offset + q.data.items.length >= q.data.total} onClick={() => setFilters({ ...filters, offset: (filters.offset ?? 0) + 50 })}>Older</button>
+              <button
+                type="button"
+                className={buttonQuiet}
+                disabled={q.data.offset === 0}
+                onClick={() =>
+                  setFilters({ ...filters, offset: Math.max(0, (filters.offset ?? 0) - 50) })
+                }
+              >
+                Newer
+              </button>
+              <button
+                type="button"
+                className={buttonQuiet}
+                disabled={q.data.offset + q.data.items.length >= q.data.total}
+                onClick={() => setFilters({ ...filters, offset: (filters.offset ?? 0) + 50 })}
+              >
+                Older
+              </button>
             </span>
           </div>
         </div>

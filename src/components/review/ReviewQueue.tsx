@@ -4,7 +4,17 @@ import { errorMessage, queryClient } from '../../lib/client/query.ts';
 import { METHOD_NAMES, METHOD_KINDS, EVIDENCE_LEVELS } from '../../lib/client/records.ts';
 import { reviewActions, reviewQueries, type QueueFilters } from '../../lib/client/review.ts';
 import type { QueueItem } from '../../lib/shared/curation.ts';
-import { buttonPrimary, buttonQuiet, Empty, EvidenceBadge, Failed, input, Loading, muted, panel } from '../ui.tsx';
+import {
+  buttonPrimary,
+  buttonQuiet,
+  Empty,
+  EvidenceBadge,
+  Failed,
+  input,
+  Loading,
+  muted,
+  panel,
+} from '../ui.tsx';
 
 // The curator's queue: submitted records oldest first, filters kept in the address, counts per
 // state, and a claim button so two curators do not work the same record.
@@ -34,7 +44,8 @@ function readFilters(search: string): QueueFilters {
 
 function writeFilters(f: QueueFilters) {
   const p = new URLSearchParams();
-  for (const [k, v] of Object.entries(f)) if (v !== undefined && v !== '' && v !== 0) p.set(k, String(v));
+  for (const [k, v] of Object.entries(f))
+    if (v !== undefined && v !== '' && v !== 0) p.set(k, String(v));
   const s = p.toString();
   history.replaceState(null, '', s ? `?${s}` : location.pathname);
 }
@@ -43,7 +54,10 @@ const mv = (v: number | null) => (v === null ? '—' : `${Math.round(v * 1000)} 
 const when = (iso: string) => new Date(iso).toISOString().slice(0, 16).replace('T', ' ');
 
 function ClaimCell({ item, onDone }: { item: QueueItem; onDone: () => void }) {
-  const claim = useMutation({ mutationFn: () => reviewActions.claim(item.handle), onSuccess: onDone });
+  const claim = useMutation({
+    mutationFn: () => reviewActions.claim(item.handle),
+    onSuccess: onDone,
+  });
   if (item.own) return <span className={`text-sm ${muted}`}>your own record</span>;
   if (item.claim && !item.claim.mine) {
     return (
@@ -56,11 +70,22 @@ function ClaimCell({ item, onDone }: { item: QueueItem; onDone: () => void }) {
   return (
     <div className="flex flex-col items-start gap-1">
       {item.claim?.mine ? (
-        <a href={`/review/${item.handle}`} className="text-sm font-semibold underline" data-testid={`mine-${item.handle}`}>
+        <a
+          href={`/review/${item.handle}`}
+          className="text-sm font-semibold underline"
+          data-testid={`mine-${item.handle}`}
+        >
           yours — open
         </a>
       ) : (
-        <button type="button" className={buttonQuiet} disabled={claim.isPending} onClick={() => claim.mutate()} data-testid={`claim-${item.handle}`} aria-label={`Claim ${item.handle}`}>
+        <button
+          type="button"
+          className={buttonQuiet}
+          disabled={claim.isPending}
+          onClick={() => claim.mutate()}
+          data-testid={`claim-${item.handle}`}
+          aria-label={`Claim ${item.handle}`}
+        >
           Claim
         </button>
       )}
@@ -77,56 +102,92 @@ function Queue({ initialSearch }: { initialSearch: string }) {
   const [filters, setFilters] = useState<QueueFilters>(() => readFilters(initialSearch));
   useEffect(() => writeFilters(filters), [filters]);
   const q = useQuery(reviewQueries.queue(filters));
-  const set = (k: keyof QueueFilters, v: string) => setFilters((f) => ({ ...f, [k]: v, offset: 0 }));
+  const set = (k: keyof QueueFilters, v: string) =>
+    setFilters((f) => ({ ...f, [k]: v, offset: 0 }));
   const refresh = () => void queryClient.invalidateQueries({ queryKey: ['review', 'queue'] });
 
   return (
     <div className="space-y-6">
       {q.data && (
-        <ul className="grid grid-cols-2 sm:grid-cols-4 lg:grid-cols-8 gap-2" aria-label="Records per state" data-testid="state-counts">
+        <ul
+          className="grid grid-cols-2 sm:grid-cols-4 lg:grid-cols-8 gap-2"
+          aria-label="Records per state"
+          data-testid="state-counts"
+        >
           {STATE_LABELS.map(([key, label]) => (
             <li key={key} className={`${panel} px-3 py-2`}>
               <span className={`block text-xs ${muted}`}>{label}</span>
-              <span className="num text-lg font-semibold" data-count={key}>{q.data.counts[key as keyof typeof q.data.counts] ?? 0}</span>
+              <span className="num text-lg font-semibold" data-count={key}>
+                {q.data.counts[key as keyof typeof q.data.counts] ?? 0}
+              </span>
             </li>
           ))}
           <li className={`${panel} px-3 py-2`}>
-            <a href="/review/flags" className={`block text-xs underline ${muted}`}>Open flags</a>
+            <a href="/review/flags" className={`block text-xs underline ${muted}`}>
+              Open flags
+            </a>
             <span className="num text-lg font-semibold">{q.data.counts.openFlags}</span>
           </li>
           <li className={`${panel} px-3 py-2`}>
-            <a href="/review/vocabulary" className={`block text-xs underline ${muted}`}>Proposed terms</a>
+            <a href="/review/vocabulary" className={`block text-xs underline ${muted}`}>
+              Proposed terms
+            </a>
             <span className="num text-lg font-semibold">{q.data.counts.proposals}</span>
           </li>
         </ul>
       )}
 
-      <form className={`${panel} p-4 grid gap-3 sm:grid-cols-3 lg:grid-cols-6`} aria-label="Filter the queue" onSubmit={(e) => e.preventDefault()}>
+      <form
+        className={`${panel} p-4 grid gap-3 sm:grid-cols-3 lg:grid-cols-6`}
+        aria-label="Filter the queue"
+        onSubmit={(e) => e.preventDefault()}
+      >
         <label className="text-sm flex flex-col gap-1">
           Lab (slug)
-          <input className={input} value={filters.lab ?? ''} onChange={(e) => set('lab', e.target.value.trim())} placeholder="any" />
+          <input
+            className={input}
+            value={filters.lab ?? ''}
+            onChange={(e) => set('lab', e.target.value.trim())}
+            placeholder="any"
+          />
         </label>
         <label className="text-sm flex flex-col gap-1">
           Method
-          <select className={input} value={filters.method ?? ''} onChange={(e) => set('method', e.target.value)}>
+          <select
+            className={input}
+            value={filters.method ?? ''}
+            onChange={(e) => set('method', e.target.value)}
+          >
             <option value="">any</option>
             {METHOD_KINDS.map((m) => (
-              <option key={m} value={m}>{METHOD_NAMES[m]}</option>
+              <option key={m} value={m}>
+                {METHOD_NAMES[m]}
+              </option>
             ))}
           </select>
         </label>
         <label className="text-sm flex flex-col gap-1">
           Evidence
-          <select className={input} value={filters.evidence ?? ''} onChange={(e) => set('evidence', e.target.value)}>
+          <select
+            className={input}
+            value={filters.evidence ?? ''}
+            onChange={(e) => set('evidence', e.target.value)}
+          >
             <option value="">any</option>
             {EVIDENCE_LEVELS.map((m) => (
-              <option key={m} value={m}>{m}</option>
+              <option key={m} value={m}>
+                {m}
+              </option>
             ))}
           </select>
         </label>
         <label className="text-sm flex flex-col gap-1">
           Raw data
-          <select className={input} value={filters.hasRaw ?? ''} onChange={(e) => set('hasRaw', e.target.value)}>
+          <select
+            className={input}
+            value={filters.hasRaw ?? ''}
+            onChange={(e) => set('hasRaw', e.target.value)}
+          >
             <option value="">either</option>
             <option value="true">attached</option>
             <option value="false">none</option>
@@ -134,7 +195,12 @@ function Queue({ initialSearch }: { initialSearch: string }) {
         </label>
         <label className="text-sm flex flex-col gap-1">
           Reported vs computed
-          <select className={input} value={filters.disagreement ?? ''} onChange={(e) => set('disagreement', e.target.value)} data-testid="filter-disagreement">
+          <select
+            className={input}
+            value={filters.disagreement ?? ''}
+            onChange={(e) => set('disagreement', e.target.value)}
+            data-testid="filter-disagreement"
+          >
             <option value="">either</option>
             <option value="true">disagree (&gt; 50 mV)</option>
             <option value="false">agree or not computed</option>
@@ -142,7 +208,11 @@ function Queue({ initialSearch }: { initialSearch: string }) {
         </label>
         <label className="text-sm flex flex-col gap-1">
           Claims
-          <select className={input} value={filters.claimed ?? ''} onChange={(e) => set('claimed', e.target.value)}>
+          <select
+            className={input}
+            value={filters.claimed ?? ''}
+            onChange={(e) => set('claimed', e.target.value)}
+          >
             <option value="">all</option>
             <option value="none">unclaimed</option>
             <option value="mine">mine</option>
@@ -163,19 +233,37 @@ function Queue({ initialSearch }: { initialSearch: string }) {
             <caption className="sr-only">Submitted records, oldest first</caption>
             <thead>
               <tr className="text-left border-b border-rule dark:border-night-rule">
-                <th scope="col" className="p-2">Record</th>
-                <th scope="col" className="p-2">Contributor</th>
-                <th scope="col" className="p-2">Method · evidence</th>
-                <th scope="col" className="p-2">Reported vs computed</th>
-                <th scope="col" className="p-2">Waiting since</th>
-                <th scope="col" className="p-2">Claim</th>
+                <th scope="col" className="p-2">
+                  Record
+                </th>
+                <th scope="col" className="p-2">
+                  Contributor
+                </th>
+                <th scope="col" className="p-2">
+                  Method · evidence
+                </th>
+                <th scope="col" className="p-2">
+                  Reported vs computed
+                </th>
+                <th scope="col" className="p-2">
+                  Waiting since
+                </th>
+                <th scope="col" className="p-2">
+                  Claim
+                </th>
               </tr>
             </thead>
             <tbody>
               {q.data.items.map((i) => (
-                <tr key={i.handle} className="border-b border-rule/60 dark:border-night-rule/60 align-top" data-handle={i.handle}>
+                <tr
+                  key={i.handle}
+                  className="border-b border-rule/60 dark:border-night-rule/60 align-top"
+                  data-handle={i.handle}
+                >
                   <td className="p-2">
-                    <a href={`/review/${i.handle}`} className="num font-semibold underline">{i.handle}</a>
+                    <a href={`/review/${i.handle}`} className="num font-semibold underline">
+                      {i.handle}
+                    </a>
                     <span className={`ml-1 text-xs ${muted}`}>v{i.version}</span>
                     <span className="block">{i.title ?? 'Untitled window'}</span>
                     <span className={`block text-xs ${muted}`}>{i.summary}</span>
@@ -186,13 +274,20 @@ function Queue({ initialSearch }: { initialSearch: string }) {
                   </td>
                   <td className="p-2">
                     {METHOD_NAMES[i.method]} <EvidenceBadge level={i.evidenceLevel} />
-                    <span className={`block text-xs ${muted}`}>{i.hasRaw ? 'raw data attached' : 'no raw data'}</span>
+                    <span className={`block text-xs ${muted}`}>
+                      {i.hasRaw ? 'raw data attached' : 'no raw data'}
+                    </span>
                   </td>
                   <td className="p-2 num">
                     {i.disagreementV === null ? (
                       <span className={muted}>not computed</span>
                     ) : i.disagreementV > 0.05 ? (
-                      <span className="font-semibold text-copper dark:text-night-copper" data-testid={`disagrees-${i.handle}`}>differ by {mv(i.disagreementV)}</span>
+                      <span
+                        className="font-semibold text-copper dark:text-night-copper"
+                        data-testid={`disagrees-${i.handle}`}
+                      >
+                        differ by {mv(i.disagreementV)}
+                      </span>
                     ) : (
                       <span>agree ({mv(i.disagreementV)})</span>
                     )}
@@ -210,10 +305,22 @@ function Queue({ initialSearch }: { initialSearch: string }) {
               {q.data.offset + 1}–{q.data.offset + q.data.items.length} of {q.data.total}
             </span>
             <span className="flex gap-2">
-              <button type="button" className={buttonQuiet} disabled={q.data.offset === 0} onClick={() => setFilters((f) => ({ ...f, offset: Math.max(0, (f.offset ?? 0) - 50) }))}>
+              <button
+                type="button"
+                className={buttonQuiet}
+                disabled={q.data.offset === 0}
+                onClick={() =>
+                  setFilters((f) => ({ ...f, offset: Math.max(0, (f.offset ?? 0) - 50) }))
+                }
+              >
                 Earlier
               </button>
-              <button type="button" className={buttonPrimary} disabled={q.data.offset + q.data.items.length >= q.data.total} onClick={() => setFilters((f) => ({ ...f, offset: (f.offset ?? 0) + 50 }))}>
+              <button
+                type="button"
+                className={buttonPrimary}
+                disabled={q.data.offset + q.data.items.length >= q.data.total}
+                onClick={() => setFilters((f) => ({ ...f, offset: (f.offset ?? 0) + 50 }))}
+              >
                 Later
               </button>
             </span>

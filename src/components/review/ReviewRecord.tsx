@@ -4,7 +4,16 @@ import { errorMessage, queryClient } from '../../lib/client/query.ts';
 import { reviewActions, reviewQueries } from '../../lib/client/review.ts';
 import type { Decision, FieldComment, ReviewDetail } from '../../lib/shared/curation.ts';
 import type { RecordContent } from '../../lib/shared/record.ts';
-import { buttonPrimary, buttonQuiet, EvidenceBadge, Failed, input, Loading, muted, panel } from '../ui.tsx';
+import {
+  buttonPrimary,
+  buttonQuiet,
+  EvidenceBadge,
+  Failed,
+  input,
+  Loading,
+  muted,
+  panel,
+} from '../ui.tsx';
 
 // One record under review: what it states and what is missing, reported beside computed limits,
 // possible duplicates side by side, what changed since last time, and the decision with comments
@@ -27,39 +36,107 @@ function conditionRows(c: RecordContent): { path: string; label: string; value: 
   const e = c.electrolyte;
   return [
     { path: 'title', label: 'Title', value: show(c.title) },
-    { path: 'electrolyte.solvents', label: 'Solvents', value: e.solvents.map((s) => `${s.term} (${s.fraction} ${s.fractionBasis})`).join(', ') || '—' },
-    { path: 'electrolyte.salts', label: 'Salts', value: e.salts.map((s) => `${s.term} ${s.concentration.value} ${s.concentration.basis}`).join(', ') || '—' },
-    { path: 'electrolyte.additives', label: 'Additives', value: e.additives.map((s) => s.term).join(', ') || '—' },
-    { path: 'electrolyte.waterContentPpm', label: 'Water content', value: e.waterContentPpm === undefined ? '—' : `${e.waterContentPpm} ppm` },
+    {
+      path: 'electrolyte.solvents',
+      label: 'Solvents',
+      value:
+        e.solvents.map((s) => `${s.term} (${s.fraction} ${s.fractionBasis})`).join(', ') || '—',
+    },
+    {
+      path: 'electrolyte.salts',
+      label: 'Salts',
+      value:
+        e.salts
+          .map((s) => `${s.term} ${s.concentration.value} ${s.concentration.basis}`)
+          .join(', ') || '—',
+    },
+    {
+      path: 'electrolyte.additives',
+      label: 'Additives',
+      value: e.additives.map((s) => s.term).join(', ') || '—',
+    },
+    {
+      path: 'electrolyte.waterContentPpm',
+      label: 'Water content',
+      value: e.waterContentPpm === undefined ? '—' : `${e.waterContentPpm} ppm`,
+    },
     { path: 'electrolyte.pH', label: 'pH', value: show(e.pH) },
-    { path: 'temperatureC', label: 'Temperature', value: c.temperatureC === undefined ? '—' : `${c.temperatureC} °C` },
+    {
+      path: 'temperatureC',
+      label: 'Temperature',
+      value: c.temperatureC === undefined ? '—' : `${c.temperatureC} °C`,
+    },
     { path: 'workingElectrode', label: 'Working electrode', value: show(c.workingElectrode) },
-    { path: 'counterElectrode', label: 'Counter electrode', value: show(c.counterElectrode?.material) },
+    {
+      path: 'counterElectrode',
+      label: 'Counter electrode',
+      value: show(c.counterElectrode?.material),
+    },
     { path: 'referenceElectrode', label: 'Reference electrode', value: show(c.referenceElectrode) },
     { path: 'cellType', label: 'Cell', value: c.cellType },
     { path: 'method', label: 'Method', value: show(c.method) },
     { path: 'criterion', label: 'Criterion', value: show(c.criterion) },
-    { path: 'reportedLimits.cathodic', label: 'Reported cathodic limit', value: c.reportedLimits.cathodic ? `${volts(c.reportedLimits.cathodic.valueV)} vs ${c.reportedLimits.cathodic.reference}` : '—' },
-    { path: 'reportedLimits.anodic', label: 'Reported anodic limit', value: c.reportedLimits.anodic ? `${volts(c.reportedLimits.anodic.valueV)} vs ${c.reportedLimits.anodic.reference}` : '—' },
-    { path: 'source', label: 'Source', value: c.source ? (c.source.kind === 'published' ? `${c.source.title} (${c.source.year})${c.source.doi ? `, doi:${c.source.doi}` : ''}` : `unpublished, measured by ${c.source.measuredBy}`) : '—' },
+    {
+      path: 'reportedLimits.cathodic',
+      label: 'Reported cathodic limit',
+      value: c.reportedLimits.cathodic
+        ? `${volts(c.reportedLimits.cathodic.valueV)} vs ${c.reportedLimits.cathodic.reference}`
+        : '—',
+    },
+    {
+      path: 'reportedLimits.anodic',
+      label: 'Reported anodic limit',
+      value: c.reportedLimits.anodic
+        ? `${volts(c.reportedLimits.anodic.valueV)} vs ${c.reportedLimits.anodic.reference}`
+        : '—',
+    },
+    {
+      path: 'source',
+      label: 'Source',
+      value: c.source
+        ? c.source.kind === 'published'
+          ? `${c.source.title} (${c.source.year})${c.source.doi ? `, doi:${c.source.doi}` : ''}`
+          : `unpublished, measured by ${c.source.measuredBy}`
+        : '—',
+    },
     { path: 'licence', label: 'Licence', value: c.licence },
-    { path: 'visibility', label: 'Visibility', value: `${c.visibility}${c.embargoUntil ? ` until ${c.embargoUntil}` : ''}` },
+    {
+      path: 'visibility',
+      label: 'Visibility',
+      value: `${c.visibility}${c.embargoUntil ? ` until ${c.embargoUntil}` : ''}`,
+    },
     { path: 'notes', label: 'Notes', value: show(c.notes) },
   ];
 }
 
-function Section({ title, children, id }: { title: string; children: React.ReactNode; id: string }) {
+function Section({
+  title,
+  children,
+  id,
+}: {
+  title: string;
+  children: React.ReactNode;
+  id: string;
+}) {
   return (
     <section className={`${panel} p-4`} aria-labelledby={id}>
-      <h2 id={id} className="text-lg font-semibold mb-3">{title}</h2>
+      <h2 id={id} className="text-lg font-semibold mb-3">
+        {title}
+      </h2>
       {children}
     </section>
   );
 }
 
 function ClaimBox({ r, refresh }: { r: ReviewDetail; refresh: () => void }) {
-  const claim = useMutation({ mutationFn: () => reviewActions.claim(r.handle), onSettled: refresh });
-  const release = useMutation({ mutationFn: () => reviewActions.release(r.handle), onSettled: refresh });
+  const claim = useMutation({
+    mutationFn: () => reviewActions.claim(r.handle),
+    onSettled: refresh,
+  });
+  const release = useMutation({
+    mutationFn: () => reviewActions.release(r.handle),
+    onSettled: refresh,
+  });
   const err = claim.error ?? release.error;
   return (
     <div className="text-sm" data-testid="claim-box">
@@ -74,23 +151,44 @@ function ClaimBox({ r, refresh }: { r: ReviewDetail; refresh: () => void }) {
       {r.status === 'submitted' && !r.own && (
         <div className="mt-2 flex gap-2">
           {(!r.claim || r.claim.mine) && (
-            <button type="button" className={buttonQuiet} onClick={() => claim.mutate()} disabled={claim.isPending}>
+            <button
+              type="button"
+              className={buttonQuiet}
+              onClick={() => claim.mutate()}
+              disabled={claim.isPending}
+            >
               {r.claim?.mine ? 'Extend claim' : 'Claim'}
             </button>
           )}
           {r.claim?.mine && (
-            <button type="button" className={buttonQuiet} onClick={() => release.mutate()} disabled={release.isPending}>
+            <button
+              type="button"
+              className={buttonQuiet}
+              onClick={() => release.mutate()}
+              disabled={release.isPending}
+            >
               Release
             </button>
           )}
         </div>
       )}
-      {err && <p role="alert" className="mt-1 text-copper dark:text-night-copper">{errorMessage(err)}</p>}
+      {err && (
+        <p role="alert" className="mt-1 text-copper dark:text-night-copper">
+          {errorMessage(err)}
+        </p>
+      )}
     </div>
   );
 }
 
-function Decide({ r, comments, setComments, draftPath, setDraftPath, messageRef }: {
+function Decide({
+  r,
+  comments,
+  setComments,
+  draftPath,
+  setDraftPath,
+  messageRef,
+}: {
   r: ReviewDetail;
   comments: FieldComment[];
   setComments: (c: FieldComment[]) => void;
@@ -115,7 +213,9 @@ function Decide({ r, comments, setComments, draftPath, setDraftPath, messageRef 
       void queryClient.invalidateQueries({ queryKey: ['review'] });
     },
   });
-  const paths = conditionRows(r.content).map((x) => x.path).concat(['rawFiles']);
+  const paths = conditionRows(r.content)
+    .map((x) => x.path)
+    .concat(['rawFiles']);
   const add = () => {
     if (!message.trim()) return;
     setComments([...comments, { path: draftPath, message: message.trim() }]);
@@ -124,8 +224,16 @@ function Decide({ r, comments, setComments, draftPath, setDraftPath, messageRef 
   if (!r.canDecide) {
     return (
       <div className="space-y-2">
-        {done && <p role="status" className="text-sm font-semibold" data-testid="decision-done">{done}</p>}
-        <p className={muted}>{r.own ? 'You contributed this record; another curator decides on it.' : `This record is ${r.status.replace('_', ' ')}; there is nothing to decide.`}</p>
+        {done && (
+          <p role="status" className="text-sm font-semibold" data-testid="decision-done">
+            {done}
+          </p>
+        )}
+        <p className={muted}>
+          {r.own
+            ? 'You contributed this record; another curator decides on it.'
+            : `This record is ${r.status.replace('_', ' ')}; there is nothing to decide.`}
+        </p>
       </div>
     );
   }
@@ -134,14 +242,23 @@ function Decide({ r, comments, setComments, draftPath, setDraftPath, messageRef 
       <div>
         <h3 className="font-semibold">Comments on fields</h3>
         {comments.length === 0 ? (
-          <p className={`text-sm ${muted}`}>None yet. Use “Comment” beside a field, or pick one here.</p>
+          <p className={`text-sm ${muted}`}>
+            None yet. Use “Comment” beside a field, or pick one here.
+          </p>
         ) : (
           <ul className="mt-1 space-y-1 text-sm" data-testid="draft-comments">
             {comments.map((c, i) => (
               <li key={`${c.path}-${i}`} className="flex gap-2 items-start">
-                <span className="num text-xs rounded border border-rule dark:border-night-rule px-1">{c.path}</span>
+                <span className="num text-xs rounded border border-rule dark:border-night-rule px-1">
+                  {c.path}
+                </span>
                 <span className="flex-1">{c.message}</span>
-                <button type="button" className="text-xs underline" onClick={() => setComments(comments.filter((_, j) => j !== i))} aria-label={`Remove the comment on ${c.path}`}>
+                <button
+                  type="button"
+                  className="text-xs underline"
+                  onClick={() => setComments(comments.filter((_, j) => j !== i))}
+                  aria-label={`Remove the comment on ${c.path}`}
+                >
                   remove
                 </button>
               </li>
@@ -151,15 +268,29 @@ function Decide({ r, comments, setComments, draftPath, setDraftPath, messageRef 
         <div className="mt-2 grid gap-2 sm:grid-cols-[14rem_1fr_auto] items-end">
           <label className="text-sm flex flex-col gap-1">
             Field
-            <select className={input} value={draftPath} onChange={(e) => setDraftPath(e.target.value)} data-testid="comment-path">
+            <select
+              className={input}
+              value={draftPath}
+              onChange={(e) => setDraftPath(e.target.value)}
+              data-testid="comment-path"
+            >
               {paths.map((p) => (
-                <option key={p} value={p}>{p}</option>
+                <option key={p} value={p}>
+                  {p}
+                </option>
               ))}
             </select>
           </label>
           <label className="text-sm flex flex-col gap-1">
             What should change
-            <textarea ref={messageRef} className={input} rows={2} value={message} onChange={(e) => setMessage(e.target.value)} data-testid="comment-message" />
+            <textarea
+              ref={messageRef}
+              className={input}
+              rows={2}
+              value={message}
+              onChange={(e) => setMessage(e.target.value)}
+              data-testid="comment-message"
+            />
           </label>
           <button type="button" className={buttonQuiet} onClick={add} data-testid="add-comment">
             Add comment
@@ -168,26 +299,63 @@ function Decide({ r, comments, setComments, draftPath, setDraftPath, messageRef 
       </div>
       <label className="text-sm flex flex-col gap-1">
         Reason (required to decline; sent to the contributor)
-        <textarea className={input} rows={2} value={reason} onChange={(e) => setReason(e.target.value)} data-testid="decision-reason" />
+        <textarea
+          className={input}
+          rows={2}
+          value={reason}
+          onChange={(e) => setReason(e.target.value)}
+          data-testid="decision-reason"
+        />
       </label>
       <div className="flex flex-wrap gap-2">
-        <button type="button" className={buttonPrimary} disabled={decide.isPending || comments.length > 0} onClick={() => decide.mutate('publish')} data-testid="publish">
+        <button
+          type="button"
+          className={buttonPrimary}
+          disabled={decide.isPending || comments.length > 0}
+          onClick={() => decide.mutate('publish')}
+          data-testid="publish"
+        >
           Publish
         </button>
-        <button type="button" className={buttonQuiet} disabled={decide.isPending || (comments.length === 0 && !reason.trim())} onClick={() => decide.mutate('request-changes')} data-testid="request-changes">
-          Request changes{comments.length ? ` (${comments.length} comment${comments.length > 1 ? 's' : ''})` : ''}
+        <button
+          type="button"
+          className={buttonQuiet}
+          disabled={decide.isPending || (comments.length === 0 && !reason.trim())}
+          onClick={() => decide.mutate('request-changes')}
+          data-testid="request-changes"
+        >
+          Request changes
+          {comments.length ? ` (${comments.length} comment${comments.length > 1 ? 's' : ''})` : ''}
         </button>
-        <button type="button" className={buttonQuiet} disabled={decide.isPending || !reason.trim() || comments.length > 0} onClick={() => decide.mutate('decline')} data-testid="decline">
+        <button
+          type="button"
+          className={buttonQuiet}
+          disabled={decide.isPending || !reason.trim() || comments.length > 0}
+          onClick={() => decide.mutate('decline')}
+          data-testid="decline"
+        >
           Decline
         </button>
       </div>
-      {comments.length > 0 && <p className={`text-xs ${muted}`}>Comments go with a request for changes; remove them to publish or decline.</p>}
+      {comments.length > 0 && (
+        <p className={`text-xs ${muted}`}>
+          Comments go with a request for changes; remove them to publish or decline.
+        </p>
+      )}
       {decide.isError && (
-        <p role="alert" className="rounded-md border border-copper/50 bg-copper-soft/60 dark:bg-copper/15 p-2 text-sm" data-testid="decision-error">
+        <p
+          role="alert"
+          className="rounded-md border border-copper/50 bg-copper-soft/60 dark:bg-copper/15 p-2 text-sm"
+          data-testid="decision-error"
+        >
           {errorMessage(decide.error)}
         </p>
       )}
-      {done && <p role="status" className="text-sm font-semibold" data-testid="decision-done">{done}</p>}
+      {done && (
+        <p role="status" className="text-sm font-semibold" data-testid="decision-done">
+          {done}
+        </p>
+      )}
     </div>
   );
 }
@@ -212,33 +380,57 @@ function Review({ handle }: { handle: string }) {
       <header className="flex flex-wrap items-start justify-between gap-4">
         <div>
           <p className="num text-sm font-semibold">
-            {r.handle} v{r.version} · <span data-testid="review-status">{r.status.replace('_', ' ')}</span>
+            {r.handle} v{r.version} ·{' '}
+            <span data-testid="review-status">{r.status.replace('_', ' ')}</span>
           </p>
           <h1 className="text-2xl font-bold tracking-tight">{r.title ?? 'Untitled window'}</h1>
           <p className={muted}>
             by {r.contributor.name}
-            {r.contributor.lab ? `, ${r.contributor.lab}` : ''} · <EvidenceBadge level={r.evidenceLevel} />
+            {r.contributor.lab ? `, ${r.contributor.lab}` : ''} ·{' '}
+            <EvidenceBadge level={r.evidenceLevel} />
           </p>
         </div>
         <ClaimBox r={r} refresh={refresh} />
       </header>
 
       {r.openFlags.length > 0 && (
-        <div role="note" className="rounded-md border border-copper/50 bg-copper-soft/60 dark:bg-copper/15 p-3 text-sm">
-          Open flags: {r.openFlags.map((f) => f.reason).join(' · ')} — <a className="underline" href="/review/flags">resolve on the flags page</a>
+        <div
+          role="note"
+          className="rounded-md border border-copper/50 bg-copper-soft/60 dark:bg-copper/15 p-3 text-sm"
+        >
+          Open flags: {r.openFlags.map((f) => f.reason).join(' · ')} —{' '}
+          <a className="underline" href="/review/flags">
+            resolve on the flags page
+          </a>
         </div>
       )}
 
       <div className="grid gap-6 lg:grid-cols-2">
-        <Section title={`Completeness (${missing === 0 ? 'all stated' : `${missing} missing`})`} id="checklist">
+        <Section
+          title={`Completeness (${missing === 0 ? 'all stated' : `${missing} missing`})`}
+          id="checklist"
+        >
           <ul className="space-y-1 text-sm" data-testid="checklist">
             {r.checklist.map((c) => (
               <li key={c.key} className="flex items-center gap-2" data-ok={c.ok}>
-                <span aria-hidden="true" className={c.ok ? 'text-cobalt dark:text-night-cobalt' : 'text-copper dark:text-night-copper'}>{c.ok ? '✓' : '✗'}</span>
+                <span
+                  aria-hidden="true"
+                  className={
+                    c.ok
+                      ? 'text-cobalt dark:text-night-cobalt'
+                      : 'text-copper dark:text-night-copper'
+                  }
+                >
+                  {c.ok ? '✓' : '✗'}
+                </span>
                 <span className="sr-only">{c.ok ? 'stated:' : 'missing:'}</span>
                 <span className="flex-1">{c.label}</span>
                 {!c.ok && r.canDecide && (
-                  <button type="button" className="text-xs underline" onClick={() => commentOn(c.path)}>
+                  <button
+                    type="button"
+                    className="text-xs underline"
+                    onClick={() => commentOn(c.path)}
+                  >
                     ask for it
                   </button>
                 )}
@@ -249,26 +441,44 @@ function Review({ handle }: { handle: string }) {
 
         <Section title="Reported vs computed" id="agreement">
           {r.disagreement.length === 0 ? (
-            <p className={`text-sm ${muted}`}>{r.rawFiles.length ? 'The raw data gave no limit to compare.' : 'No raw data: nothing was recomputed.'}</p>
+            <p className={`text-sm ${muted}`}>
+              {r.rawFiles.length
+                ? 'The raw data gave no limit to compare.'
+                : 'No raw data: nothing was recomputed.'}
+            </p>
           ) : (
             <table className="w-full text-sm" data-testid="disagreement">
               <thead>
                 <tr className="text-left border-b border-rule dark:border-night-rule">
-                  <th scope="col" className="py-1">Limit</th>
-                  <th scope="col" className="py-1">Reported</th>
-                  <th scope="col" className="py-1">Computed</th>
-                  <th scope="col" className="py-1">Difference</th>
+                  <th scope="col" className="py-1">
+                    Limit
+                  </th>
+                  <th scope="col" className="py-1">
+                    Reported
+                  </th>
+                  <th scope="col" className="py-1">
+                    Computed
+                  </th>
+                  <th scope="col" className="py-1">
+                    Difference
+                  </th>
                 </tr>
               </thead>
               <tbody>
                 {r.disagreement.map((d) => (
                   <tr key={d.side} className="border-b border-rule/60 dark:border-night-rule/60">
-                    <th scope="row" className="py-1 text-left font-normal">{d.side} <span className={`text-xs ${muted}`}>vs {d.scale}</span></th>
+                    <th scope="row" className="py-1 text-left font-normal">
+                      {d.side} <span className={`text-xs ${muted}`}>vs {d.scale}</span>
+                    </th>
                     <td className="py-1 num">{volts(d.reportedV)}</td>
                     <td className="py-1 num">{volts(d.computedV)}</td>
-                    <td className={`py-1 num ${d.disagrees ? 'font-semibold text-copper dark:text-night-copper' : ''}`} data-disagrees={d.disagrees}>
+                    <td
+                      className={`py-1 num ${d.disagrees ? 'font-semibold text-copper dark:text-night-copper' : ''}`}
+                      data-disagrees={d.disagrees}
+                    >
                       {d.differenceV >= 0 ? '+' : '−'}
-                      {Math.round(Math.abs(d.differenceV) * 1000)} mV {d.disagrees ? '— disagrees' : '— agrees'}
+                      {Math.round(Math.abs(d.differenceV) * 1000)} mV{' '}
+                      {d.disagrees ? '— disagrees' : '— agrees'}
                     </td>
                   </tr>
                 ))}
@@ -279,16 +489,22 @@ function Review({ handle }: { handle: string }) {
             <ul className={`mt-3 text-xs ${muted}`}>
               {r.rawFiles.map((f) => (
                 <li key={f.id}>
-                  <a className="underline" href={`/api/v1/raw-files/${f.id}`}>{f.name}</a> · {f.bytes} B · <span className="num">sha256 {f.sha256.slice(0, 12)}…</span>
+                  <a className="underline" href={`/api/v1/raw-files/${f.id}`}>
+                    {f.name}
+                  </a>{' '}
+                  · {f.bytes} B · <span className="num">sha256 {f.sha256.slice(0, 12)}…</span>
                 </li>
               ))}
             </ul>
           )}
-          {r.referenceValues.filter((x) => x.newer).map((x) => (
-            <p key={x.term} className="mt-2 text-xs">
-              Computed with {x.termName} at {volts(x.usedOffsetV)} vs SHE; the vocabulary now gives {volts(x.currentV)} ({x.currentSource ?? 'no source'}).
-            </p>
-          ))}
+          {r.referenceValues
+            .filter((x) => x.newer)
+            .map((x) => (
+              <p key={x.term} className="mt-2 text-xs">
+                Computed with {x.termName} at {volts(x.usedOffsetV)} vs SHE; the vocabulary now
+                gives {volts(x.currentV)} ({x.currentSource ?? 'no source'}).
+              </p>
+            ))}
         </Section>
       </div>
 
@@ -296,12 +512,23 @@ function Review({ handle }: { handle: string }) {
         <table className="w-full text-sm" data-testid="conditions">
           <tbody>
             {conditionRows(r.content).map((row) => (
-              <tr key={row.path} className="border-b border-rule/60 dark:border-night-rule/60 align-top">
-                <th scope="row" className="py-1 pr-3 text-left font-normal w-48">{row.label}</th>
+              <tr
+                key={row.path}
+                className="border-b border-rule/60 dark:border-night-rule/60 align-top"
+              >
+                <th scope="row" className="py-1 pr-3 text-left font-normal w-48">
+                  {row.label}
+                </th>
                 <td className="py-1 pr-3 break-words">{row.value}</td>
                 <td className="py-1 text-right">
                   {r.canDecide && (
-                    <button type="button" className="text-xs underline" onClick={() => commentOn(row.path)} aria-label={`Comment on ${row.label}`} data-testid={`comment-on-${row.path}`}>
+                    <button
+                      type="button"
+                      className="text-xs underline"
+                      onClick={() => commentOn(row.path)}
+                      aria-label={`Comment on ${row.label}`}
+                      data-testid={`comment-on-${row.path}`}
+                    >
                       Comment
                     </button>
                   )}
@@ -314,27 +541,44 @@ function Review({ handle }: { handle: string }) {
 
       <Section title={`Possible duplicates (${r.duplicates.length})`} id="duplicates">
         {r.duplicates.length === 0 ? (
-          <p className={`text-sm ${muted}`}>No other record cites the same DOI or was measured under the same conditions.</p>
+          <p className={`text-sm ${muted}`}>
+            No other record cites the same DOI or was measured under the same conditions.
+          </p>
         ) : (
           <div className="space-y-4" data-testid="duplicates">
             {r.duplicates.map((d) => (
               <div key={d.handle} data-duplicate={d.handle}>
                 <p className="text-sm">
-                  <a href={`/windows/${d.handle}`} className="num font-semibold underline">{d.handle}</a> v{d.version} ({d.status.replace('_', ' ')}) — {d.reasons.join('; ')}
+                  <a href={`/windows/${d.handle}`} className="num font-semibold underline">
+                    {d.handle}
+                  </a>{' '}
+                  v{d.version} ({d.status.replace('_', ' ')}) — {d.reasons.join('; ')}
                 </p>
                 <div className="overflow-x-auto">
                   <table className="mt-1 w-full text-xs">
                     <thead>
                       <tr className="text-left border-b border-rule dark:border-night-rule">
-                        <th scope="col" className="py-1 pr-2">Field</th>
-                        <th scope="col" className="py-1 pr-2">{r.handle} (this record)</th>
-                        <th scope="col" className="py-1">{d.handle}</th>
+                        <th scope="col" className="py-1 pr-2">
+                          Field
+                        </th>
+                        <th scope="col" className="py-1 pr-2">
+                          {r.handle} (this record)
+                        </th>
+                        <th scope="col" className="py-1">
+                          {d.handle}
+                        </th>
                       </tr>
                     </thead>
                     <tbody>
                       {d.fields.map((f) => (
-                        <tr key={f.label} className={`border-b border-rule/60 dark:border-night-rule/60 ${f.same ? '' : 'font-semibold'}`}>
-                          <th scope="row" className="py-1 pr-2 text-left font-normal">{f.label}{f.same ? '' : ' ≠'}</th>
+                        <tr
+                          key={f.label}
+                          className={`border-b border-rule/60 dark:border-night-rule/60 ${f.same ? '' : 'font-semibold'}`}
+                        >
+                          <th scope="row" className="py-1 pr-2 text-left font-normal">
+                            {f.label}
+                            {f.same ? '' : ' ≠'}
+                          </th>
                           <td className="py-1 pr-2 num">{f.mine}</td>
                           <td className="py-1 num">{f.theirs}</td>
                         </tr>
@@ -353,12 +597,16 @@ function Review({ handle }: { handle: string }) {
           <ol className="space-y-1 text-sm" data-testid="change-notes">
             {r.changeNotes.map((n) => (
               <li key={n.version}>
-                <span className="num text-xs">v{n.version}</span> {n.note ?? <span className={muted}>(no note)</span>}
+                <span className="num text-xs">v{n.version}</span>{' '}
+                {n.note ?? <span className={muted}>(no note)</span>}
               </li>
             ))}
           </ol>
         </Section>
-        <Section title={r.previousVersion ? `Changes since v${r.previousVersion}` : 'Changes'} id="diff">
+        <Section
+          title={r.previousVersion ? `Changes since v${r.previousVersion}` : 'Changes'}
+          id="diff"
+        >
           {r.previousVersion === null ? (
             <p className={`text-sm ${muted}`}>This is the first version.</p>
           ) : r.diff.length === 0 ? (
@@ -367,9 +615,16 @@ function Review({ handle }: { handle: string }) {
             <table className="w-full text-xs" data-testid="diff">
               <tbody>
                 {r.diff.map((c) => (
-                  <tr key={c.path} className="border-b border-rule/60 dark:border-night-rule/60 align-top">
-                    <th scope="row" className="py-1 pr-2 text-left font-normal num">{c.path}</th>
-                    <td className="py-1 pr-2 num break-all line-through decoration-copper/60">{show(c.before)}</td>
+                  <tr
+                    key={c.path}
+                    className="border-b border-rule/60 dark:border-night-rule/60 align-top"
+                  >
+                    <th scope="row" className="py-1 pr-2 text-left font-normal num">
+                      {c.path}
+                    </th>
+                    <td className="py-1 pr-2 num break-all line-through decoration-copper/60">
+                      {show(c.before)}
+                    </td>
                     <td className="py-1 num break-all">{show(c.after)}</td>
                   </tr>
                 ))}
@@ -384,7 +639,8 @@ function Review({ handle }: { handle: string }) {
           <ol className="space-y-2 text-sm">
             {r.history.map((h, i) => (
               <li key={i}>
-                <span className="num text-xs">v{h.version}</span> <strong>{h.decision}</strong> by {h.reviewer ?? 'a curator'} on {h.at.slice(0, 10)}
+                <span className="num text-xs">v{h.version}</span> <strong>{h.decision}</strong> by{' '}
+                {h.reviewer ?? 'a curator'} on {h.at.slice(0, 10)}
                 {h.reason && <span> — {h.reason}</span>}
                 {h.comments.length > 0 && (
                   <ul className="ml-6 list-disc">
@@ -402,7 +658,14 @@ function Review({ handle }: { handle: string }) {
       )}
 
       <Section title="Decision" id="decision">
-        <Decide r={r} comments={comments} setComments={setComments} draftPath={draftPath} setDraftPath={setDraftPath} messageRef={messageRef} />
+        <Decide
+          r={r}
+          comments={comments}
+          setComments={setComments}
+          draftPath={draftPath}
+          setDraftPath={setDraftPath}
+          messageRef={messageRef}
+        />
       </Section>
     </div>
   );

@@ -14,7 +14,8 @@ export interface Summary {
 export function quantileSorted(sorted: ArrayLike<number>, p: number): number {
   const n = sorted.length;
   if (n === 0) throw new AnalysisError('too-few-points', 'quantile of an empty set');
-  if (!(p >= 0 && p <= 1)) throw new AnalysisError('bad-option', `quantile must lie in [0, 1], not ${p}`);
+  if (!(p >= 0 && p <= 1))
+    throw new AnalysisError('bad-option', `quantile must lie in [0, 1], not ${p}`);
   const h = (n - 1) * p;
   const lo = Math.floor(h);
   const hi = Math.min(n - 1, lo + 1);
@@ -41,7 +42,11 @@ export function summarize(values: ArrayLike<number | null | undefined>): Summary
 }
 
 /** Summaries of `value(item)` grouped by `key(item)` (e.g. electrode, scan rate, criterion); groups in first-seen order. */
-export function summarizeBy<T>(items: readonly T[], key: (item: T) => string, value: (item: T) => number | null | undefined): Map<string, Summary> {
+export function summarizeBy<T>(
+  items: readonly T[],
+  key: (item: T) => string,
+  value: (item: T) => number | null | undefined,
+): Map<string, Summary> {
   const groups = new Map<string, (number | null | undefined)[]>();
   for (const it of items) {
     const k = key(it);

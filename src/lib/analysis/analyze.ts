@@ -1,12 +1,30 @@
-import { analyzeCycles, directionFromVertices, extremes, lastCyclePerVertex, type Direction } from './cv';
+import {
+  analyzeCycles,
+  directionFromVertices,
+  extremes,
+  lastCyclePerVertex,
+  type Direction,
+} from './cv';
 import { AnalysisError } from './errors';
 import { holdDirection, holdLimit, holdSteps } from './hold';
 import { limitAt, parseCriterion, sCutoff, type Criterion, type Limit } from './limits';
 import { lsvLimit, type LsvEnvelope } from './lsv';
 import { normalise, type Samples, type SignConvention } from './normalise';
 import { readTable, type ColumnMap } from './read';
-import { referenceConversion, referenceWarnings, type ReferenceInfo, type ScaleContext } from './references';
-import { cyclesFromColumn, cyclesFromTurningPoints, holdStepsFromPotential, stepsFromColumn, turningPoints, turnThresholdV } from './segment';
+import {
+  referenceConversion,
+  referenceWarnings,
+  type ReferenceInfo,
+  type ScaleContext,
+} from './references';
+import {
+  cyclesFromColumn,
+  cyclesFromTurningPoints,
+  holdStepsFromPotential,
+  stepsFromColumn,
+  turningPoints,
+  turnThresholdV,
+} from './segment';
 import { parseQuantity } from './units';
 
 /** Kind of experiment in the file. */
@@ -99,7 +117,11 @@ export const DEFAULT_CRITERIA = {
 
 const METHODS: Method[] = ['cv', 'lsv', 'hold'];
 
-function quantity(v: number | string | undefined, dim: 'scanRate' | 'area' | 'mass', what: string): number | undefined {
+function quantity(
+  v: number | string | undefined,
+  dim: 'scanRate' | 'area' | 'mass',
+  what: string,
+): number | undefined {
   if (v === undefined || v === null || v === '') return undefined;
   const x = typeof v === 'number' ? v : parseQuantity(v, dim, what);
   if (!(x > 0) || !Number.isFinite(x)) throw new AnalysisError('bad-option', `${what} must be > 0`);
@@ -111,19 +133,34 @@ function finite(x: number): number | null {
 }
 
 function checkOptions(o: AnalysisOptions): void {
-  if (!o || typeof o !== 'object') throw new AnalysisError('bad-option', 'options are required (at least the method)');
-  if (!METHODS.includes(o.method)) throw new AnalysisError('bad-option', `method must be one of ${METHODS.join(', ')}, not "${String(o.method)}"`);
+  if (!o || typeof o !== 'object')
+    throw new AnalysisError('bad-option', 'options are required (at least the method)');
+  if (!METHODS.includes(o.method))
+    throw new AnalysisError(
+      'bad-option',
+      `method must be one of ${METHODS.join(', ')}, not "${String(o.method)}"`,
+    );
   if (o.direction !== undefined && o.direction !== 'anodic' && o.direction !== 'cathodic') {
-    throw new AnalysisError('bad-option', `direction must be "anodic" or "cathodic", not "${String(o.direction)}"`);
+    throw new AnalysisError(
+      'bad-option',
+      `direction must be "anodic" or "cathodic", not "${String(o.direction)}"`,
+    );
   }
-  if (o.toRef !== undefined && o.fromRef === undefined) throw new AnalysisError('bad-option', 'a target reference needs the reference the file was measured against');
+  if (o.toRef !== undefined && o.fromRef === undefined)
+    throw new AnalysisError(
+      'bad-option',
+      'a target reference needs the reference the file was measured against',
+    );
 }
 
 /** Analyse an export given as text; the result is the object the command line prints. */
 export function analyzeText(text: string, options: AnalysisOptions): AnalysisResult {
   checkOptions(options);
   if (options.sign !== undefined && options.sign !== 'iupac' && options.sign !== 'opposite') {
-    throw new AnalysisError('bad-option', `sign convention must be "iupac" or "opposite", not "${String(options.sign)}"`);
+    throw new AnalysisError(
+      'bad-option',
+      `sign convention must be "iupac" or "opposite", not "${String(options.sign)}"`,
+    );
   }
   const table = readTable(text, options.columns ? { columns: options.columns } : {});
   const samples = normalise(table, options.sign ?? 'iupac');
@@ -146,7 +183,10 @@ export function analyzeSamples(samples: Samples, options: AnalysisOptions): Anal
   if (options.pH !== undefined) ctx.pH = options.pH;
   if (options.temperatureK !== undefined) ctx.temperatureK = options.temperatureK;
   if (options.ferrocene !== undefined) ctx.ferrocene = options.ferrocene;
-  const reference = options.fromRef !== undefined ? referenceConversion(options.fromRef, options.toRef ?? options.fromRef, ctx) : null;
+  const reference =
+    options.fromRef !== undefined
+      ? referenceConversion(options.fromRef, options.toRef ?? options.fromRef, ctx)
+      : null;
   const shift = reference ? reference.offsetV : 0;
   const warnings: string[] = reference ? referenceWarnings(reference) : [];
 
@@ -159,12 +199,22 @@ export function analyzeSamples(samples: Samples, options: AnalysisOptions): Anal
     method: options.method,
     direction: out.direction,
     criterion: out.criterion,
-    ...(out.cycles ? { cycles: out.cycles.map((c) => ({ ...c, vertexV: c.vertexV + shift })) } : {}),
-    ...(out.steps ? { steps: out.steps.map((s) => ({ ...s, potentialV: s.potentialV + shift })) } : {}),
-    limit: { lastPassingV: moved(out.limit.lastPassingV), interpolatedV: moved(out.limit.interpolatedV), status: out.limit.status },
+    ...(out.cycles
+      ? { cycles: out.cycles.map((c) => ({ ...c, vertexV: c.vertexV + shift })) }
+      : {}),
+    ...(out.steps
+      ? { steps: out.steps.map((s) => ({ ...s, potentialV: s.potentialV + shift })) }
+      : {}),
+    limit: {
+      lastPassingV: moved(out.limit.lastPassingV),
+      interpolatedV: moved(out.limit.interpolatedV),
+      status: out.limit.status,
+    },
     reference,
     warnings,
-    ...(out.envelope !== undefined ? { envelope: out.envelope && { ...out.envelope, offsetV: out.envelope.offsetV + shift } } : {}),
+    ...(out.envelope !== undefined
+      ? { envelope: out.envelope && { ...out.envelope, offsetV: out.envelope.offsetV + shift } }
+      : {}),
   };
   return result;
 }
@@ -178,10 +228,17 @@ function runCv(s: Samples, o: AnalysisOptions, scanRate: number | undefined, war
   const cutoff = sCutoff(criterion);
   if (!o.criterion) warnings.push(`no criterion given; the default ${DEFAULT_CRITERIA.cv} is used`);
   if (!s.time && scanRate === undefined) {
-    throw new AnalysisError('missing-column', 'the file has no time column; give the scan rate (e.g. 5mV/s) so that dt = |dE|/scan rate');
+    throw new AnalysisError(
+      'missing-column',
+      'the file has no time column; give the scan rate (e.g. 5mV/s) so that dt = |dE|/scan rate',
+    );
   }
   if (!s.time) warnings.push('no time column: dt is taken as |ΔE| / scan rate');
-  if (s.potential.length < 3) throw new AnalysisError('too-few-points', `a cycle needs at least 3 samples, found ${s.potential.length}`);
+  if (s.potential.length < 3)
+    throw new AnalysisError(
+      'too-few-points',
+      `a cycle needs at least 3 samples, found ${s.potential.length}`,
+    );
 
   let segments;
   if (s.cycle) {
@@ -190,7 +247,8 @@ function runCv(s: Samples, o: AnalysisOptions, scanRate: number | undefined, war
     const thr = o.turnThresholdV ?? turnThresholdV(s.potential);
     segments = cyclesFromTurningPoints(s.potential, turningPoints(s.potential, thr));
   }
-  if (segments.length === 0) throw new AnalysisError('no-cycles', 'no cycles found: the potential never reverses');
+  if (segments.length === 0)
+    throw new AnalysisError('no-cycles', 'no cycles found: the potential never reverses');
 
   const ext = segments.map((seg) => extremes(s.potential, seg));
   let direction = o.direction ?? directionFromVertices(ext, o.vertexToleranceV ?? 0.005);
@@ -199,7 +257,10 @@ function runCv(s: Samples, o: AnalysisOptions, scanRate: number | undefined, war
     const first = segments[0]!;
     const e0 = s.potential[first.start]!;
     direction = ext[0]!.maxV - e0 >= e0 - ext[0]!.minV ? 'anodic' : 'cathodic';
-    if (!o.direction) warnings.push(`direction not given and the vertices do not tell it; taken as ${direction} from the first sweep`);
+    if (!o.direction)
+      warnings.push(
+        `direction not given and the vertices do not tell it; taken as ${direction} from the first sweep`,
+      );
   }
   const cycles = analyzeCycles(s.time, s.potential, s.current, segments, direction, scanRate);
   const { chosen, notes } = lastCyclePerVertex(cycles, direction, o.vertexToleranceV ?? 0.002);
@@ -212,39 +273,79 @@ function runCv(s: Samples, o: AnalysisOptions, scanRate: number | undefined, war
     'log',
   );
   warnings.push(...w);
-  if (limit.status === 'not-reached') warnings.push(`limit not reached: stable to at least ${limit.lastPassingV!.toFixed(3)} V (file scale)`);
-  if (limit.status === 'exceeded-at-first') warnings.push('the criterion is exceeded already at the first vertex');
+  if (limit.status === 'not-reached')
+    warnings.push(
+      `limit not reached: stable to at least ${limit.lastPassingV!.toFixed(3)} V (file scale)`,
+    );
+  if (limit.status === 'exceeded-at-first')
+    warnings.push('the criterion is exceeded already at the first vertex');
   return {
     direction,
     criterion: criterionResult(criterion),
-    cycles: cycles.map((c) => ({ index: c.index, vertexV: c.vertexV, qPosC: c.qPosC, qNegC: c.qNegC, sValue: finite(c.sValue), ce: finite(c.ce) })),
+    cycles: cycles.map((c) => ({
+      index: c.index,
+      vertexV: c.vertexV,
+      qPosC: c.qPosC,
+      qNegC: c.qNegC,
+      sValue: finite(c.sValue),
+      ce: finite(c.ce),
+    })),
     limit,
   };
 }
 
-function currentCriterion(o: AnalysisOptions, area: number | undefined, mass: number | undefined, warnings: string[]): { criterion: Criterion; divisor: number } {
+function currentCriterion(
+  o: AnalysisOptions,
+  area: number | undefined,
+  mass: number | undefined,
+  warnings: string[],
+): { criterion: Criterion; divisor: number } {
   let text = o.criterion;
   if (!text) {
-    const m = o.method === 'lsv' ? (mass !== undefined ? DEFAULT_CRITERIA.lsvPerMass : DEFAULT_CRITERIA.lsvPerArea) : mass !== undefined ? DEFAULT_CRITERIA.holdPerMass : DEFAULT_CRITERIA.holdPerArea;
+    const m =
+      o.method === 'lsv'
+        ? mass !== undefined
+          ? DEFAULT_CRITERIA.lsvPerMass
+          : DEFAULT_CRITERIA.lsvPerArea
+        : mass !== undefined
+          ? DEFAULT_CRITERIA.holdPerMass
+          : DEFAULT_CRITERIA.holdPerArea;
     text = m;
     warnings.push(`no criterion given; the default ${m} is used`);
   }
   const criterion = parseCriterion(text);
   if (criterion.kind === 's' || criterion.kind === 'ce') {
-    throw new AnalysisError('bad-criterion', `criterion "${criterion.text}" applies to cyclic voltammetry; ${o.method === 'lsv' ? 'a linear sweep' : 'holds'} need a current cutoff (e.g. j:10uA/cm2 or jm:10mA/g)`);
+    throw new AnalysisError(
+      'bad-criterion',
+      `criterion "${criterion.text}" applies to cyclic voltammetry; ${o.method === 'lsv' ? 'a linear sweep' : 'holds'} need a current cutoff (e.g. j:10uA/cm2 or jm:10mA/g)`,
+    );
   }
   if (criterion.kind === 'j') {
-    if (area === undefined) throw new AnalysisError('bad-option', `criterion "${criterion.text}" is per area: give the electrode area (e.g. 0.07cm2)`);
+    if (area === undefined)
+      throw new AnalysisError(
+        'bad-option',
+        `criterion "${criterion.text}" is per area: give the electrode area (e.g. 0.07cm2)`,
+      );
     return { criterion, divisor: area };
   }
   if (criterion.kind === 'jm') {
-    if (mass === undefined) throw new AnalysisError('bad-option', `criterion "${criterion.text}" is per mass: give the active mass (e.g. 2mg)`);
+    if (mass === undefined)
+      throw new AnalysisError(
+        'bad-option',
+        `criterion "${criterion.text}" is per mass: give the active mass (e.g. 2mg)`,
+      );
     return { criterion, divisor: mass };
   }
   return { criterion, divisor: 1 };
 }
 
-function runCurrentMethod(s: Samples, o: AnalysisOptions, area: number | undefined, mass: number | undefined, warnings: string[]) {
+function runCurrentMethod(
+  s: Samples,
+  o: AnalysisOptions,
+  area: number | undefined,
+  mass: number | undefined,
+  warnings: string[],
+) {
   const { criterion, divisor } = currentCriterion(o, area, mass, warnings);
   if (o.method === 'lsv') {
     const r = lsvLimit(s.potential, s.current, {
@@ -254,11 +355,21 @@ function runCurrentMethod(s: Samples, o: AnalysisOptions, area: number | undefin
       ...(o.baselineV ? { baselineV: o.baselineV } : {}),
     });
     warnings.push(...r.warnings);
-    return { direction: r.direction, criterion: criterionResult(criterion), limit: r.limit, envelope: r.envelope };
+    return {
+      direction: r.direction,
+      criterion: criterionResult(criterion),
+      limit: r.limit,
+      envelope: r.envelope,
+    };
   }
-  const segments = s.step ? stepsFromColumn(s.step) : holdStepsFromPotential(s.potential, o.plateauToleranceV ?? 0.005);
+  const segments = s.step
+    ? stepsFromColumn(s.step)
+    : holdStepsFromPotential(s.potential, o.plateauToleranceV ?? 0.005);
   if (segments.length === 0) throw new AnalysisError('no-steps', 'no potential holds found');
-  if (!s.time) warnings.push('no time column: the end-of-hold mean is taken over the last samples, not the last part of the time');
+  if (!s.time)
+    warnings.push(
+      'no time column: the end-of-hold mean is taken over the last samples, not the last part of the time',
+    );
   const steps = holdSteps(s.time, s.potential, s.current, segments, o.holdTailFraction ?? 0.1);
   let direction = o.direction ?? holdDirection(steps);
   if (!direction) {
@@ -270,7 +381,11 @@ function runCurrentMethod(s: Samples, o: AnalysisOptions, area: number | undefin
   return {
     direction,
     criterion: criterionResult(criterion),
-    steps: steps.map((st, k) => ({ potentialV: st.potentialV, endCurrentA: st.endCurrentA, endCurrentDensity: r.densities[k]! })),
+    steps: steps.map((st, k) => ({
+      potentialV: st.potentialV,
+      endCurrentA: st.endCurrentA,
+      endCurrentDensity: r.densities[k]!,
+    })),
     limit: r.limit,
   };
 }

@@ -24,7 +24,10 @@ export function chargeSplit(
   scanRateVPerS?: number,
 ): ChargePair {
   if (!time && !(scanRateVPerS !== undefined && scanRateVPerS > 0)) {
-    throw new AnalysisError('bad-option', 'without a time column the scan rate is needed (e.g. 5mV/s)');
+    throw new AnalysisError(
+      'bad-option',
+      'without a time column the scan rate is needed (e.g. 5mV/s)',
+    );
   }
   let qPos = 0;
   let qNeg = 0;
@@ -96,7 +99,10 @@ export function extremes(potential: Float64Array, seg: Segment): { maxV: number;
  * Direction of window opening from the vertices: the side whose per-cycle extremes spread more
  * (V) is the one being opened. Null when both spread alike (one cycle, or all vertices equal).
  */
-export function directionFromVertices(ext: { maxV: number; minV: number }[], toleranceV = 0.005): Direction | null {
+export function directionFromVertices(
+  ext: { maxV: number; minV: number }[],
+  toleranceV = 0.005,
+): Direction | null {
   if (ext.length < 2) return null;
   let hiMax = -Infinity;
   let hiMin = Infinity;
@@ -144,7 +150,11 @@ export function analyzeCycles(
  * group's first vertex share it, and the last of them (the electrode in its latest state) is used.
  * Returns the chosen cycles and a note for each vertex that had several.
  */
-export function lastCyclePerVertex(cycles: CycleCharge[], direction: Direction, toleranceV = 0.002): { chosen: CycleCharge[]; notes: string[] } {
+export function lastCyclePerVertex(
+  cycles: CycleCharge[],
+  direction: Direction,
+  toleranceV = 0.002,
+): { chosen: CycleCharge[]; notes: string[] } {
   const groups: { vertexV: number; members: CycleCharge[] }[] = [];
   for (const c of cycles) {
     const g = groups.find((x) => Math.abs(x.vertexV - c.vertexV) <= toleranceV);

@@ -8,7 +8,8 @@ export interface Thinned {
 }
 
 function checkXY(x: Float64Array, y: Float64Array): void {
-  if (x.length !== y.length) throw new AnalysisError('bad-option', `x has ${x.length} points but y has ${y.length}`);
+  if (x.length !== y.length)
+    throw new AnalysisError('bad-option', `x has ${x.length} points but y has ${y.length}`);
 }
 
 function pick(x: Float64Array, y: Float64Array, idx: number[]): Thinned {
@@ -29,8 +30,14 @@ function pick(x: Float64Array, y: Float64Array, idx: number[]): Thinned {
 export function decimateMinMax(x: Float64Array, y: Float64Array, buckets: number): Thinned {
   checkXY(x, y);
   const n = y.length;
-  if (!(buckets >= 1) || !Number.isInteger(buckets)) throw new AnalysisError('bad-option', `buckets must be a positive integer, not ${buckets}`);
-  if (n <= 2 * buckets + 2) return pick(x, y, Array.from({ length: n }, (_, i) => i));
+  if (!(buckets >= 1) || !Number.isInteger(buckets))
+    throw new AnalysisError('bad-option', `buckets must be a positive integer, not ${buckets}`);
+  if (n <= 2 * buckets + 2)
+    return pick(
+      x,
+      y,
+      Array.from({ length: n }, (_, i) => i),
+    );
   const idx: number[] = [0];
   for (let b = 0; b < buckets; b++) {
     const a = 1 + Math.floor((b * (n - 2)) / buckets);
@@ -55,8 +62,14 @@ export function decimateMinMax(x: Float64Array, y: Float64Array, buckets: number
 export function decimateLttb(x: Float64Array, y: Float64Array, threshold: number): Thinned {
   checkXY(x, y);
   const n = y.length;
-  if (!(threshold >= 3) || !Number.isInteger(threshold)) throw new AnalysisError('bad-option', `threshold must be an integer ≥ 3, not ${threshold}`);
-  if (n <= threshold) return pick(x, y, Array.from({ length: n }, (_, i) => i));
+  if (!(threshold >= 3) || !Number.isInteger(threshold))
+    throw new AnalysisError('bad-option', `threshold must be an integer ≥ 3, not ${threshold}`);
+  if (n <= threshold)
+    return pick(
+      x,
+      y,
+      Array.from({ length: n }, (_, i) => i),
+    );
   const idx: number[] = [0];
   const every = (n - 2) / (threshold - 2);
   let a = 0;

@@ -1,7 +1,8 @@
 import { AnalysisError } from './errors';
 
 function positive(v: number, what: string): number {
-  if (!(v > 0) || !Number.isFinite(v)) throw new AnalysisError('bad-option', `${what} must be a positive number, not ${v}`);
+  if (!(v > 0) || !Number.isFinite(v))
+    throw new AnalysisError('bad-option', `${what} must be a positive number, not ${v}`);
   return v;
 }
 
@@ -23,7 +24,11 @@ export function specificEnergyWhPerKg(cellFPerG: number, voltageV: number): numb
 }
 
 /** Ratio of stored energy after a window change from v1 to v2 (V): (v2/v1)² for a capacitor, v2/v1 for a battery. */
-export function energyRatio(v1: number, v2: number, kind: 'capacitor' | 'battery' = 'capacitor'): number {
+export function energyRatio(
+  v1: number,
+  v2: number,
+  kind: 'capacitor' | 'battery' = 'capacitor',
+): number {
   const r = positive(v2, 'new voltage') / positive(v1, 'old voltage');
   return kind === 'capacitor' ? r * r : r;
 }

@@ -21,7 +21,11 @@ export class AnalysisError extends Error {
   readonly line?: number;
   readonly column?: number;
 
-  constructor(code: AnalysisErrorCode, message: string, where: { line?: number; column?: number } = {}) {
+  constructor(
+    code: AnalysisErrorCode,
+    message: string,
+    where: { line?: number; column?: number } = {},
+  ) {
     super(message);
     this.name = 'AnalysisError';
     this.code = code;

@@ -18,8 +18,18 @@ export interface HoldStep {
  * Mean current (A) over the last `tailFraction` of a hold: time-weighted by trapezoids when time
  * (s) is known, else the plain mean of the last samples. A fraction of 0 takes the last sample.
  */
-export function tailMean(time: Float64Array | null, current: Float64Array, seg: Segment, tailFraction: number, centre = 1): number {
-  if (!(tailFraction >= 0 && tailFraction <= 1)) throw new AnalysisError('bad-option', `hold tail fraction must lie in [0, 1], not ${tailFraction}`);
+export function tailMean(
+  time: Float64Array | null,
+  current: Float64Array,
+  seg: Segment,
+  tailFraction: number,
+  centre = 1,
+): number {
+  if (!(tailFraction >= 0 && tailFraction <= 1))
+    throw new AnalysisError(
+      'bad-option',
+      `hold tail fraction must lie in [0, 1], not ${tailFraction}`,
+    );
   const { start, end } = seg;
   if (time) {
     const t0 = time[start]!;
@@ -68,7 +78,13 @@ function indexAtTime(time: Float64Array, start: number, end: number, t: number):
 }
 
 /** End-of-hold current per step. */
-export function holdSteps(time: Float64Array | null, potential: Float64Array, current: Float64Array, segments: Segment[], tailFraction = 0.1): HoldStep[] {
+export function holdSteps(
+  time: Float64Array | null,
+  potential: Float64Array,
+  current: Float64Array,
+  segments: Segment[],
+  tailFraction = 0.1,
+): HoldStep[] {
   return segments.map((seg) => {
     // Mean as offsets from the first sample, so a constant potential comes back exactly.
     const e0 = potential[seg.start]!;
@@ -115,7 +131,10 @@ export function holdLimit(
     cutoff,
     'log',
   );
-  const flat = steps.filter((s) => sign * s.midCurrentA > 0 && (sign * s.endCurrentA) / (sign * s.midCurrentA) >= plateauRatio);
+  const flat = steps.filter(
+    (s) =>
+      sign * s.midCurrentA > 0 && (sign * s.endCurrentA) / (sign * s.midCurrentA) >= plateauRatio,
+  );
   if (flat.length > 0) {
     warnings.push(
       `current levels off instead of decaying during the hold at ${flat.map((s) => `${s.potentialV.toFixed(3)} V`).join(', ')} (end ≥ ${Math.round(plateauRatio * 100)} % of mid-hold): a sustained reaction`,

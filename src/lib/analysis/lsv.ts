@@ -73,7 +73,14 @@ export interface LsvResult {
 }
 
 /** Least-squares line I = a + b·E (A, V) over samples whose E lies in [lo, hi]. */
-export function fitBaseline(potential: Float64Array, current: Float64Array, start: number, end: number, lo: number, hi: number): { a: number; b: number; points: number } {
+export function fitBaseline(
+  potential: Float64Array,
+  current: Float64Array,
+  start: number,
+  end: number,
+  lo: number,
+  hi: number,
+): { a: number; b: number; points: number } {
   let n = 0;
   let se = 0;
   let si = 0;
@@ -89,7 +96,11 @@ export function fitBaseline(potential: Float64Array, current: Float64Array, star
     see += e * e;
     sei += e * i;
   }
-  if (n < 2) throw new AnalysisError('too-few-points', `baseline range ${lo}…${hi} V holds ${n} sample(s); need at least 2`);
+  if (n < 2)
+    throw new AnalysisError(
+      'too-few-points',
+      `baseline range ${lo}…${hi} V holds ${n} sample(s); need at least 2`,
+    );
   const den = n * see - se * se;
   const b = den === 0 ? 0 : (n * sei - se * si) / den;
   return { a: (si - b * se) / n, b, points: n };
@@ -100,20 +111,35 @@ export function fitBaseline(potential: Float64Array, current: Float64Array, star
  * sweep (start to first turning point), interpolated linearly between the two samples around it;
  * with the envelope from which the crossing of any other cutoff can be found later.
  */
-export function lsvLimit(potential: Float64Array, current: Float64Array, options: LsvOptions): LsvResult {
+export function lsvLimit(
+  potential: Float64Array,
+  current: Float64Array,
+  options: LsvOptions,
+): LsvResult {
   const n = potential.length;
-  if (n < 2) throw new AnalysisError('too-few-points', `a linear sweep needs at least 2 samples, found ${n}`);
-  if (!(options.cutoff > 0)) throw new AnalysisError('bad-option', 'the current cutoff must be > 0');
+  if (n < 2)
+    throw new AnalysisError(
+      'too-few-points',
+      `a linear sweep needs at least 2 samples, found ${n}`,
+    );
+  if (!(options.cutoff > 0))
+    throw new AnalysisError('bad-option', 'the current cutoff must be > 0');
   if (!(options.divisor > 0)) throw new AnalysisError('bad-option', 'the area or mass must be > 0');
   const warnings: string[] = [];
   const tps = turningPoints(potential);
   const end = tps.length > 0 ? tps[0]!.index : n - 1;
-  if (tps.length > 0) warnings.push(`the file holds more than one sweep; only the first (to ${potential[end]!.toFixed(3)} V) is analysed`);
+  if (tps.length > 0)
+    warnings.push(
+      `the file holds more than one sweep; only the first (to ${potential[end]!.toFixed(3)} V) is analysed`,
+    );
   const up = potential[end]! >= potential[0]!;
   const sweepDir: Direction = up ? 'anodic' : 'cathodic';
   const direction = options.direction ?? sweepDir;
   if (direction !== sweepDir) {
-    throw new AnalysisError('bad-option', `the sweep runs toward ${up ? 'positive' : 'negative'} potentials but the direction given is ${direction}`);
+    throw new AnalysisError(
+      'bad-option',
+      `the sweep runs toward ${up ? 'positive' : 'negative'} potentials but the direction given is ${direction}`,
+    );
   }
   let a = 0;
   let b = 0;
@@ -131,7 +157,8 @@ export function lsvLimit(potential: Float64Array, current: Float64Array, options
   let limit: Limit | null = null;
   let crossing = -1;
   let prev = signed[0]! / divisor;
-  if (prev >= cutoff) limit = { lastPassingV: null, interpolatedV: null, status: 'exceeded-at-first' };
+  if (prev >= cutoff)
+    limit = { lastPassingV: null, interpolatedV: null, status: 'exceeded-at-first' };
   for (let k = 1; limit === null && k <= end; k++) {
     const j = signed[k]! / divisor;
     if (j >= cutoff) {
@@ -144,7 +171,14 @@ export function lsvLimit(potential: Float64Array, current: Float64Array, options
   }
   limit ??= { lastPassingV: potential[end]!, interpolatedV: null, status: 'not-reached' };
   const maxRows = Math.max(16, Math.floor(options.envelopeMaxRows ?? LSV_ENVELOPE_MAX_ROWS));
-  return { direction, limit, start: 0, end, envelope: lsvEnvelope(potential, signed, end, sign, crossing, maxRows), warnings };
+  return {
+    direction,
+    limit,
+    start: 0,
+    end,
+    envelope: lsvEnvelope(potential, signed, end, sign, crossing, maxRows),
+    warnings,
+  };
 }
 
 /** How the new maxima are thinned: ratio of current and step of potential (V) between kept rows. */
@@ -154,7 +188,16 @@ interface Thinning {
 }
 
 /** Count (and with `out`, the positions in `rec`) of the new maxima kept at a thinning. */
-function thin(potential: Float64Array, signed: Float64Array, rec: Int32Array, nrec: number, sign: number, by: Thinning, forced: number, out: Int32Array | null): number {
+function thin(
+  potential: Float64Array,
+  signed: Float64Array,
+  rec: Int32Array,
+  nrec: number,
+  sign: number,
+  by: Thinning,
+  forced: number,
+  out: Int32Array | null,
+): number {
   let last = signed[0]!;
   let lastE = potential[0]!;
   let count = 0;
@@ -164,7 +207,12 @@ function thin(potential: Float64Array, signed: Float64Array, rec: Int32Array, nr
     // Cutoffs are positive: a maximum ≤ 0 never decides a crossing. While the last kept value is
     // ≤ 0, factor × last ≤ last < v, so the first positive maximum is always kept.
     if (v <= 0) continue;
-    if (v >= by.factor * last || sign * (potential[k]! - lastE) >= by.stepV || k === forced || j === nrec - 1) {
+    if (
+      v >= by.factor * last ||
+      sign * (potential[k]! - lastE) >= by.stepV ||
+      k === forced ||
+      j === nrec - 1
+    ) {
       if (out) out[count] = j;
       count++;
       last = v;
@@ -175,7 +223,14 @@ function thin(potential: Float64Array, signed: Float64Array, rec: Int32Array, nr
 }
 
 /** The envelope of samples 0…end of a signed current (A) along a sweep in direction `sign`; `forced` is a sample always kept (−1 for none). */
-function lsvEnvelope(potential: Float64Array, signed: Float64Array, end: number, sign: number, forced: number, maxRows: number): LsvEnvelope | null {
+function lsvEnvelope(
+  potential: Float64Array,
+  signed: Float64Array,
+  end: number,
+  sign: number,
+  forced: number,
+  maxRows: number,
+): LsvEnvelope | null {
   let lowE = Infinity;
   let highE = -Infinity;
   for (let k = 0; k <= end; k++) {
@@ -227,10 +282,25 @@ function lsvEnvelope(potential: Float64Array, signed: Float64Array, end: number,
     const m = j > 0 ? rec[j - 1]! : 0; // the running maximum before k
     if (k - 1 === previous) rows.push([potential[k]!, signed[k]!]);
     else if (k - 1 === m) rows.push([potential[k]!, signed[k]!, potential[m]!, signed[m]!]);
-    else rows.push([potential[k]!, signed[k]!, potential[k - 1]!, signed[k - 1]!, potential[m]!, signed[m]!]);
+    else
+      rows.push([
+        potential[k]!,
+        signed[k]!,
+        potential[k - 1]!,
+        signed[k - 1]!,
+        potential[m]!,
+        signed[m]!,
+      ]);
     previous = k;
   }
-  return { offsetV: 0, factor, stepV: Number.isFinite(stepV) ? stepV : null, first: [potential[0]!, signed[0]!], endV: potential[end]!, rows };
+  return {
+    offsetV: 0,
+    factor,
+    stepV: Number.isFinite(stepV) ? stepV : null,
+    first: [potential[0]!, signed[0]!],
+    endV: potential[end]!,
+    rows,
+  };
 }
 
 /**
@@ -239,11 +309,16 @@ function lsvEnvelope(potential: Float64Array, signed: Float64Array, end: number,
  * curve. `cutoff` is in the unit of current ÷ `divisor` (A/cm² with the area in cm², A/g with
  * the mass in g, A with 1).
  */
-export function lsvLimitFromEnvelope(envelope: LsvEnvelope, cutoff: number, divisor: number): Limit {
+export function lsvLimitFromEnvelope(
+  envelope: LsvEnvelope,
+  cutoff: number,
+  divisor: number,
+): Limit {
   if (!(cutoff > 0)) throw new AnalysisError('bad-option', 'the current cutoff must be > 0');
   if (!(divisor > 0)) throw new AnalysisError('bad-option', 'the area or mass must be > 0');
   const { rows, first, offsetV } = envelope;
-  if (first[1] / divisor >= cutoff) return { lastPassingV: null, interpolatedV: null, status: 'exceeded-at-first' };
+  if (first[1] / divisor >= cutoff)
+    return { lastPassingV: null, interpolatedV: null, status: 'exceeded-at-first' };
   // The first row at or above the cutoff (currents increase along the rows).
   let lo = 0;
   let hi = rows.length;
@@ -252,7 +327,8 @@ export function lsvLimitFromEnvelope(envelope: LsvEnvelope, cutoff: number, divi
     if (rows[mid]![1]! / divisor >= cutoff) hi = mid;
     else lo = mid + 1;
   }
-  if (lo === rows.length) return { lastPassingV: envelope.endV + offsetV, interpolatedV: null, status: 'not-reached' };
+  if (lo === rows.length)
+    return { lastPassingV: envelope.endV + offsetV, interpolatedV: null, status: 'not-reached' };
   const row = rows[lo]!;
   const [ea, ia] = lo > 0 ? (rows[lo - 1] as [number, number]) : first;
   const [e0, i0] = row.length > 2 ? [row[2]!, row[3]!] : [ea, ia];
@@ -262,12 +338,23 @@ export function lsvLimitFromEnvelope(envelope: LsvEnvelope, cutoff: number, divi
     // Every sample before this row stays below the cutoff: the engine's own crossing.
     const j0 = i0 / divisor;
     const x = (cutoff - j0) / (j1 - j0);
-    return { lastPassingV: e0 + offsetV, interpolatedV: e0 + x * (row[0]! - e0) + offsetV, status: 'reached' };
+    return {
+      lastPassingV: e0 + offsetV,
+      interpolatedV: e0 + x * (row[0]! - e0) + offsetV,
+      status: 'reached',
+    };
   }
   // The crossing lies among dropped maxima between the previous row and the running maximum
   // before this one; their current grows roughly exponentially, so interpolate in log10.
   const ja = ia / divisor;
   const jm = im / divisor;
-  const x = ja > 0 ? (Math.log10(cutoff) - Math.log10(ja)) / (Math.log10(jm) - Math.log10(ja)) : (cutoff - ja) / (jm - ja);
-  return { lastPassingV: ea + offsetV, interpolatedV: ea + x * (em - ea) + offsetV, status: 'reached' };
+  const x =
+    ja > 0
+      ? (Math.log10(cutoff) - Math.log10(ja)) / (Math.log10(jm) - Math.log10(ja))
+      : (cutoff - ja) / (jm - ja);
+  return {
+    lastPassingV: ea + offsetV,
+    interpolatedV: ea + x * (em - ea) + offsetV,
+    status: 'reached',
+  };
 }

@@ -29,7 +29,10 @@ export function scaleInPlace(values: Float64Array, factor: number): Float64Array
 /** Current in A converted to IUPAC sign (anodic positive), in place. */
 export function toIupacSign(current: Float64Array, sign: SignConvention): Float64Array {
   if (sign !== 'iupac' && sign !== 'opposite') {
-    throw new AnalysisError('bad-option', `sign convention must be "iupac" or "opposite", not "${String(sign)}"`);
+    throw new AnalysisError(
+      'bad-option',
+      `sign convention must be "iupac" or "opposite", not "${String(sign)}"`,
+    );
   }
   return sign === 'opposite' ? scaleInPlace(current, -1) : current;
 }

@@ -55,13 +55,25 @@ export function windowOpeningPlan(p: PlanInput): DirectionPlan {
     check(Number.isFinite(v), `${what} must be a number, not ${v}`);
   check(p.stepV > 0, `vertex step must be positive, not ${p.stepV} V`);
   check(p.scanRateVPerS > 0, `scan rate must be positive, not ${p.scanRateVPerS} V/s`);
-  check(p.beyondV >= 0, `margin beyond the expected limit must not be negative, not ${p.beyondV} V`);
-  check(Number.isInteger(p.cyclesPerVertex) && p.cyclesPerVertex >= 1, `cycles per vertex must be a whole number of at least 1, not ${p.cyclesPerVertex}`);
+  check(
+    p.beyondV >= 0,
+    `margin beyond the expected limit must not be negative, not ${p.beyondV} V`,
+  );
+  check(
+    Number.isInteger(p.cyclesPerVertex) && p.cyclesPerVertex >= 1,
+    `cycles per vertex must be a whole number of at least 1, not ${p.cyclesPerVertex}`,
+  );
   const sign = p.direction === 'anodic' ? 1 : -1;
-  check(sign * (p.guessV - p.startV) > 0, `the expected ${p.direction} limit must lie ${sign > 0 ? 'above' : 'below'} the start potential`);
+  check(
+    sign * (p.guessV - p.startV) > 0,
+    `the expected ${p.direction} limit must lie ${sign > 0 ? 'above' : 'below'} the start potential`,
+  );
   const end = p.guessV + sign * p.beyondV;
   const count = Math.ceil(Math.abs(end - p.startV) / p.stepV - 1e-9);
-  check(count <= MAX_STEPS, `${count} steps is too many: use a larger step or a closer guess (at most ${MAX_STEPS})`);
+  check(
+    count <= MAX_STEPS,
+    `${count} steps is too many: use a larger step or a closer guess (at most ${MAX_STEPS})`,
+  );
   const steps: PlanStep[] = [];
   let elapsed = 0;
   for (let i = 1; i <= count; i++) {

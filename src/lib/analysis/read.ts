@@ -68,7 +68,10 @@ export function decodeText(bytes: Uint8Array): string {
 // ---------------------------------------------------------------------------------------------
 // Number parsing over the string, without slicing cells. Results go through `numEnd`.
 
-const POW10 = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
+const POW10 = [
+  1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17,
+  1e18, 1e19, 1e20, 1e21, 1e22,
+];
 
 /** Position just after the last number read by `readNumber`. */
 let numEnd = 0;
@@ -254,7 +257,9 @@ interface Detected {
 function detect(s: string, lines: LineRef[]): Detected | null {
   let best: Detected | null = null;
   for (const d of DIALECTS) {
-    const shapes = lines.map((l, idx) => ({ idx, ...shape(s.slice(l.start, l.end), d) })).filter((x) => x.cells > 0);
+    const shapes = lines
+      .map((l, idx) => ({ idx, ...shape(s.slice(l.start, l.end), d) }))
+      .filter((x) => x.cells > 0);
     for (let k = 0; k < shapes.length; k++) {
       const here = shapes[k]!;
       if (here.numeric < 2) continue;
@@ -265,11 +270,19 @@ function detect(s: string, lines: LineRef[]): Detected | null {
       const likeNext = !next || (next.cells === here.cells && next.mask === here.mask);
       const namesAbove = prev !== undefined && prev.cells === here.cells && prev.numeric === 0;
       if (!likeNext && !namesAbove) continue;
-      const cand: Detected = { dialect: d, dataIndex: here.idx, fields: here.cells, allNumeric: here.numeric === here.cells, numeric: here.numeric };
+      const cand: Detected = {
+        dialect: d,
+        dataIndex: here.idx,
+        fields: here.cells,
+        allNumeric: here.numeric === here.cells,
+        numeric: here.numeric,
+      };
       if (
         !best ||
         (cand.allNumeric && !best.allNumeric) ||
-        (cand.allNumeric === best.allNumeric && (cand.numeric > best.numeric || (cand.numeric === best.numeric && cand.dataIndex < best.dataIndex)))
+        (cand.allNumeric === best.allNumeric &&
+          (cand.numeric > best.numeric ||
+            (cand.numeric === best.numeric && cand.dataIndex < best.dataIndex)))
       ) {
         best = cand;
       }
@@ -297,7 +310,8 @@ export function splitHeaderName(cell: string): { label: string; unit: string } {
     // "I/mA/cm2" is rare; take the part after the first slash when the whole tail is a unit.
     const first = text.indexOf('/');
     const tail = text.slice(first + 1).trim();
-    if (first !== slash && describeUnit(tail)) return { label: text.slice(0, first).trim(), unit: tail };
+    if (first !== slash && describeUnit(tail))
+      return { label: text.slice(0, first).trim(), unit: tail };
     return { label: text.slice(0, slash).trim(), unit: text.slice(slash + 1).trim() };
   }
   return { label: text, unit: '' };
@@ -305,17 +319,50 @@ export function splitHeaderName(cell: string): { label: string; unit: string } {
 
 const NAME_WORDS: Record<Quantity, (label: string) => number> = {
   // 2 = a usual name for the quantity, 1 = a name that merely mentions it.
-  time: (l) => (['t', 'time', 'elapsed time', 'test time', 'total time', 'time elapsed'].includes(l) ? 2 : l.includes('time') ? 1 : 0),
+  time: (l) =>
+    ['t', 'time', 'elapsed time', 'test time', 'total time', 'time elapsed'].includes(l)
+      ? 2
+      : l.includes('time')
+        ? 1
+        : 0,
   potential: (l) =>
-    ['e', 'ewe', 'e we', 'e_we', 'we', 'potential', 'voltage', 'u', 'v', 'ecell', 'ucell', 'cell voltage', 'working electrode potential'].includes(l)
+    [
+      'e',
+      'ewe',
+      'e we',
+      'e_we',
+      'we',
+      'potential',
+      'voltage',
+      'u',
+      'v',
+      'ecell',
+      'ucell',
+      'cell voltage',
+      'working electrode potential',
+    ].includes(l)
       ? 2
       : l.includes('potential') || l.includes('voltage')
         ? 1
         : 0,
   current: (l) =>
-    ['i', '<i>', 'im', 'iwe', 'current', 'i_we', 'working electrode current'].includes(l) ? 2 : l.includes('current') ? 1 : 0,
-  cycle: (l) => (['cycle', 'cycle number', 'cycle no', 'cycle no.', 'cycle index', 'cycles'].includes(l) ? 2 : l.includes('cycle') ? 1 : 0),
-  step: (l) => (['step', 'step number', 'step no', 'step no.', 'step index'].includes(l) ? 2 : /^step\b/.test(l) && !l.includes('time') ? 1 : 0),
+    ['i', '<i>', 'im', 'iwe', 'current', 'i_we', 'working electrode current'].includes(l)
+      ? 2
+      : l.includes('current')
+        ? 1
+        : 0,
+  cycle: (l) =>
+    ['cycle', 'cycle number', 'cycle no', 'cycle no.', 'cycle index', 'cycles'].includes(l)
+      ? 2
+      : l.includes('cycle')
+        ? 1
+        : 0,
+  step: (l) =>
+    ['step', 'step number', 'step no', 'step no.', 'step index'].includes(l)
+      ? 2
+      : /^step\b/.test(l) && !l.includes('time')
+        ? 1
+        : 0,
 };
 
 const UNIT_DIM: Partial<Record<Quantity, 'time' | 'potential' | 'current'>> = {
@@ -340,7 +387,13 @@ function scoreColumn(q: Quantity, label: string, unit: string): number {
 
 const ORDER: Quantity[] = ['cycle', 'step', 'time', 'potential', 'current'];
 
-function resolveColumns(names: string[] | null, fields: number, map: ColumnMap, headerLine: number | null, warnings: string[]): ColumnInfo[] {
+function resolveColumns(
+  names: string[] | null,
+  fields: number,
+  map: ColumnMap,
+  headerLine: number | null,
+  warnings: string[],
+): ColumnInfo[] {
   const used = new Set<number>();
   const out: ColumnInfo[] = [];
   const parsed = names ? names.map(splitHeaderName) : null;
@@ -353,15 +406,24 @@ function resolveColumns(names: string[] | null, fields: number, map: ColumnMap, 
     if (typeof choice.column === 'number') {
       index = choice.column;
       if (!Number.isInteger(index) || index < 0 || index >= fields) {
-        throw new AnalysisError('missing-column', `mapping for ${q}: column index ${choice.column} is outside 0…${fields - 1}`);
+        throw new AnalysisError(
+          'missing-column',
+          `mapping for ${q}: column index ${choice.column} is outside 0…${fields - 1}`,
+        );
       }
     } else {
       const want = choice.column.trim();
       index = names ? names.findIndex((n) => n.trim() === want) : -1;
-      if (index < 0 && names) index = names.findIndex((n) => n.trim().toLowerCase() === want.toLowerCase());
+      if (index < 0 && names)
+        index = names.findIndex((n) => n.trim().toLowerCase() === want.toLowerCase());
       if (index < 0) {
-        const avail = names ? names.map((n) => `"${n}"`).join(', ') : 'none (the file has no header)';
-        throw new AnalysisError('missing-column', `mapping for ${q}: no column named "${want}"; columns are ${avail}`);
+        const avail = names
+          ? names.map((n) => `"${n}"`).join(', ')
+          : 'none (the file has no header)';
+        throw new AnalysisError(
+          'missing-column',
+          `mapping for ${q}: no column named "${want}"; columns are ${avail}`,
+        );
       }
     }
     const unit = choice.unit ?? (parsed ? parsed[index]!.unit : '');
@@ -387,7 +449,9 @@ function resolveColumns(names: string[] | null, fields: number, map: ColumnMap, 
         const unit = parsed[best]!.unit;
         out.push({ quantity: q, index: best, name: display(best), unit });
         if (unit === '' && UNIT_DIM[q]) {
-          warnings.push(`column "${display(best)}" has no unit; taken as ${q === 'time' ? 's' : q === 'potential' ? 'V' : 'A'}`);
+          warnings.push(
+            `column "${display(best)}" has no unit; taken as ${q === 'time' ? 's' : q === 'potential' ? 'V' : 'A'}`,
+          );
         }
       }
     }
@@ -396,7 +460,10 @@ function resolveColumns(names: string[] | null, fields: number, map: ColumnMap, 
   for (const q of ['potential', 'current'] as const) {
     if (!out.some((c) => c.quantity === q)) {
       if (!names) {
-        throw new AnalysisError('no-header', `no header line names the columns; map them explicitly (at least which columns hold potential and current, with units)`);
+        throw new AnalysisError(
+          'no-header',
+          `no header line names the columns; map them explicitly (at least which columns hold potential and current, with units)`,
+        );
       }
       throw new AnalysisError(
         'missing-column',
@@ -413,7 +480,8 @@ function resolveColumns(names: string[] | null, fields: number, map: ColumnMap, 
 
 /** Read a delimited text export into typed arrays of the needed columns (units as written). */
 export function readTable(text: string, options: ReadOptions = {}): RawTable {
-  if (typeof text !== 'string') throw new AnalysisError('bad-option', 'the file content must be text');
+  if (typeof text !== 'string')
+    throw new AnalysisError('bad-option', 'the file content must be text');
   let from = 0;
   if (text.charCodeAt(0) === 0xfeff) from = 1;
   if (onlyWhitespace(text, from)) throw new AnalysisError('empty-input', 'the file is empty');
@@ -439,7 +507,11 @@ export function readTable(text: string, options: ReadOptions = {}): RawTable {
     let cells = splitCells(raw, dialect);
     if (dialect.separator === 'whitespace' && cells.length !== fields) {
       // Names with spaces ("t (min)  Potential (mV)"): split on tabs or runs of two or more spaces.
-      const alt = raw.trim().split(/\t+| {2,}/).map((c) => c.trim()).filter((c) => c !== '');
+      const alt = raw
+        .trim()
+        .split(/\t+| {2,}/)
+        .map((c) => c.trim())
+        .filter((c) => c !== '');
       if (alt.length === fields) cells = alt;
     }
     if (cells.length === fields) {
@@ -468,7 +540,8 @@ export function readTable(text: string, options: ReadOptions = {}): RawTable {
 
   // Capacity from a count of line feeds (fast, native); grown if the file uses bare CR.
   let capacity = 16;
-  for (let i = text.indexOf('\n', dataLine.start); i >= 0; i = text.indexOf('\n', i + 1)) capacity++;
+  for (let i = text.indexOf('\n', dataLine.start); i >= 0; i = text.indexOf('\n', i + 1))
+    capacity++;
   let cols: Float64Array[] = [];
   for (let k = 0; k < nSlots; k++) cols.push(new Float64Array(capacity));
 
@@ -520,7 +593,8 @@ export function readTable(text: string, options: ReadOptions = {}): RawTable {
       } else {
         // Skip a cell we do not need.
         if (ws) {
-          while (c === c && c !== SPACE && c !== TAB && c !== LF && c !== CR) c = text.charCodeAt(++pos);
+          while (c === c && c !== SPACE && c !== TAB && c !== LF && c !== CR)
+            c = text.charCodeAt(++pos);
         } else {
           while (c === c && c !== sepCode && c !== LF && c !== CR) c = text.charCodeAt(++pos);
         }
@@ -591,13 +665,24 @@ function lineIsEmpty(s: string, a: number, sepCode: number): boolean {
 }
 
 /** Precise message for a refused row: which cell, and why. */
-function rowError(line: string, lineNo: number, d: Dialect, fields: number, slotOf: Int32Array, columns: ColumnInfo[]): AnalysisError {
+function rowError(
+  line: string,
+  lineNo: number,
+  d: Dialect,
+  fields: number,
+  slotOf: Int32Array,
+  columns: ColumnInfo[],
+): AnalysisError {
   const cells = splitCells(line, d);
   if (cells.length !== fields) {
-    return new AnalysisError('bad-row', `line ${lineNo}: expected ${fields} values, found ${cells.length}`, {
-      line: lineNo,
-      column: Math.min(cells.length, fields) + 1,
-    });
+    return new AnalysisError(
+      'bad-row',
+      `line ${lineNo}: expected ${fields} values, found ${cells.length}`,
+      {
+        line: lineNo,
+        column: Math.min(cells.length, fields) + 1,
+      },
+    );
   }
   const dec = d.decimal === '.' ? 46 : 44;
   for (let f = 0; f < cells.length; f++) {
@@ -605,7 +690,10 @@ function rowError(line: string, lineNo: number, d: Dialect, fields: number, slot
     if (!isNumberCell(cells[f]!, dec)) {
       const col = columns.find((c) => c.index === f)!;
       const shown = cells[f]!.length > 40 ? `${cells[f]!.slice(0, 40)}…` : cells[f]!;
-      const hint = d.decimal === '.' && /^[+-]?\d+,\d+$/.test(cells[f]!) ? ' (decimal comma in a file read with decimal point?)' : '';
+      const hint =
+        d.decimal === '.' && /^[+-]?\d+,\d+$/.test(cells[f]!)
+          ? ' (decimal comma in a file read with decimal point?)'
+          : '';
       return new AnalysisError(
         'bad-number',
         `line ${lineNo}, column ${f + 1} (${col.name}): "${shown}" is not a number${hint}`,

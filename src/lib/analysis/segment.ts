@@ -47,8 +47,15 @@ export function turnThresholdV(potential: Float64Array): number {
  * Turning points of a potential trace (V): a running extreme counts once the potential has moved
  * back from it by more than `thresholdV`. Among repeated extreme samples the first is taken.
  */
-export function turningPoints(potential: Float64Array, thresholdV = turnThresholdV(potential)): TurningPoint[] {
-  if (!(thresholdV > 0)) throw new AnalysisError('bad-option', `turning-point threshold must be > 0 V, not ${thresholdV}`);
+export function turningPoints(
+  potential: Float64Array,
+  thresholdV = turnThresholdV(potential),
+): TurningPoint[] {
+  if (!(thresholdV > 0))
+    throw new AnalysisError(
+      'bad-option',
+      `turning-point threshold must be > 0 V, not ${thresholdV}`,
+    );
   const n = potential.length;
   const out: TurningPoint[] = [];
   if (n < 3) return out;
@@ -156,8 +163,13 @@ export function cyclesFromTurningPoints(potential: Float64Array, tps: TurningPoi
  * current step by more than `toleranceV`; runs shorter than `minFraction` of the longest run
  * (ramps and transients between holds) are dropped.
  */
-export function holdStepsFromPotential(potential: Float64Array, toleranceV = 0.005, minFraction = 0.1): Segment[] {
-  if (!(toleranceV > 0)) throw new AnalysisError('bad-option', `plateau tolerance must be > 0 V, not ${toleranceV}`);
+export function holdStepsFromPotential(
+  potential: Float64Array,
+  toleranceV = 0.005,
+  minFraction = 0.1,
+): Segment[] {
+  if (!(toleranceV > 0))
+    throw new AnalysisError('bad-option', `plateau tolerance must be > 0 V, not ${toleranceV}`);
   const n = potential.length;
   const runs: Segment[] = [];
   if (n === 0) return runs;

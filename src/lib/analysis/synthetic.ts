@@ -80,7 +80,9 @@ function addNoise(s: ModelSamples, noise: Noise | undefined): ModelSamples {
 
 function tafelCurrent(t: Tafel | null, e: number, dir: Direction): number {
   if (!t) return 0;
-  return dir === 'anodic' ? t.i0A * 10 ** ((e - t.onsetV) / t.slopeVPerDecade) : -t.i0A * 10 ** ((t.onsetV - e) / t.slopeVPerDecade);
+  return dir === 'anodic'
+    ? t.i0A * 10 ** ((e - t.onsetV) / t.slopeVPerDecade)
+    : -t.i0A * 10 ** ((t.onsetV - e) / t.slopeVPerDecade);
 }
 
 /** Window-opening CV: a capacitor plus an irreversible Tafel current (METHODS.md §8 A by default). */
@@ -106,10 +108,17 @@ export function cvWindowOpeningSamples(model: CvModel = {}): ModelSamples {
   const start = model.startV ?? 0;
   const vertices = model.verticesV ?? [0.7, 0.8, 0.9, 1.0, 1.1];
   const repeats = model.cyclesPerVertex ?? 1;
-  const tafel = model.faradaic === undefined ? { i0A: 1e-5, onsetV: 1.0, slopeVPerDecade: 0.15 } : model.faradaic;
+  const tafel =
+    model.faradaic === undefined
+      ? { i0A: 1e-5, onsetV: 1.0, slopeVPerDecade: 0.15 }
+      : model.faradaic;
   const dt = model.sampleIntervalS ?? 0.2;
   const double = model.doubleReversals ?? true;
-  if (!(v > 0) || !(dt > 0) || !(c >= 0)) throw new AnalysisError('bad-option', 'scan rate and sample interval must be > 0, capacitance ≥ 0');
+  if (!(v > 0) || !(dt > 0) || !(c >= 0))
+    throw new AnalysisError(
+      'bad-option',
+      'scan rate and sample interval must be > 0, capacitance ≥ 0',
+    );
   const t: number[] = [];
   const e: number[] = [];
   const i: number[] = [];
@@ -142,7 +151,13 @@ export function cvWindowOpeningSamples(model: CvModel = {}): ModelSamples {
     }
   }
   return addNoise(
-    { time: Float64Array.from(t), potential: Float64Array.from(e), current: Float64Array.from(i), cycle: Float64Array.from(cyc), step: null },
+    {
+      time: Float64Array.from(t),
+      potential: Float64Array.from(e),
+      current: Float64Array.from(i),
+      cycle: Float64Array.from(cyc),
+      step: null,
+    },
     model.noise,
   );
 }
@@ -152,9 +167,15 @@ export function cvModelS(vertexV: number, model: CvModel = {}): number {
   const c = model.capacitanceF ?? 0.01;
   const v = model.scanRateVPerS ?? 0.005;
   const start = model.startV ?? 0;
-  const t = model.faradaic === undefined ? { i0A: 1e-5, onsetV: 1.0, slopeVPerDecade: 0.15 } : model.faradaic;
+  const t =
+    model.faradaic === undefined
+      ? { i0A: 1e-5, onsetV: 1.0, slopeVPerDecade: 0.15 }
+      : model.faradaic;
   if (!t) return 0;
-  const phi = ((t.i0A * t.slopeVPerDecade) / (v * Math.LN10)) * (10 ** ((vertexV - t.onsetV) / t.slopeVPerDecade) - 10 ** ((start - t.onsetV) / t.slopeVPerDecade));
+  const phi =
+    ((t.i0A * t.slopeVPerDecade) / (v * Math.LN10)) *
+    (10 ** ((vertexV - t.onsetV) / t.slopeVPerDecade) -
+      10 ** ((start - t.onsetV) / t.slopeVPerDecade));
   const qPos = c * (vertexV - start) + phi;
   const qNeg = c * (vertexV - start) - phi;
   return qPos / qNeg - 1;
@@ -176,12 +197,21 @@ export function holdSamples(model: HoldModel = {}): ModelSamples {
   const steps = model.stepsV ?? [0.8, 0.85, 0.9, 0.95, 1.0];
   const hold = model.holdS ?? 1200;
   const dt = model.sampleIntervalS ?? 1;
-  const tafel = model.faradaic === undefined ? { i0A: 1e-6, onsetV: 0.8, slopeVPerDecade: 0.1 } : model.faradaic;
+  const tafel =
+    model.faradaic === undefined
+      ? { i0A: 1e-6, onsetV: 0.8, slopeVPerDecade: 0.1 }
+      : model.faradaic;
   const a = model.decayAs ?? 2e-4;
   const per = Math.round(hold / dt);
   if (!(per >= 2)) throw new AnalysisError('bad-option', 'a hold needs at least two samples');
   const n = steps.length * per;
-  const s: ModelSamples = { time: new Float64Array(n), potential: new Float64Array(n), current: new Float64Array(n), cycle: null, step: new Float64Array(n) };
+  const s: ModelSamples = {
+    time: new Float64Array(n),
+    potential: new Float64Array(n),
+    current: new Float64Array(n),
+    cycle: null,
+    step: new Float64Array(n),
+  };
   let k = 0;
   steps.forEach((ev, idx) => {
     for (let j = 1; j <= per; j++) {
@@ -213,12 +243,21 @@ export function lsvSamples(model: LsvModel = {}): ModelSamples {
   const end = model.endV ?? 1.5;
   const v = model.scanRateVPerS ?? 0.005;
   const c = model.capacitanceF ?? 1e-4;
-  const tafel = model.faradaic === undefined ? { i0A: 1e-6, onsetV: 1.0, slopeVPerDecade: 0.12 } : model.faradaic;
+  const tafel =
+    model.faradaic === undefined
+      ? { i0A: 1e-6, onsetV: 1.0, slopeVPerDecade: 0.12 }
+      : model.faradaic;
   const dt = model.sampleIntervalS ?? 0.2;
   const dir: Direction = end >= start ? 'anodic' : 'cathodic';
   const sgn = dir === 'anodic' ? 1 : -1;
   const steps = Math.max(1, Math.round(Math.abs(end - start) / (v * dt)));
-  const s: ModelSamples = { time: new Float64Array(steps + 1), potential: new Float64Array(steps + 1), current: new Float64Array(steps + 1), cycle: null, step: null };
+  const s: ModelSamples = {
+    time: new Float64Array(steps + 1),
+    potential: new Float64Array(steps + 1),
+    current: new Float64Array(steps + 1),
+    cycle: null,
+    step: null,
+  };
   for (let k = 0; k <= steps; k++) {
     const e = start + ((end - start) * k) / steps;
     s.time[k] = (Math.abs(end - start) * k) / steps / v;
@@ -247,15 +286,28 @@ export interface ExportFormat {
   header?: boolean;
 }
 
-const DEFAULT_NAMES: Record<Quantity, string> = { time: 'time', potential: 'E', current: 'I', cycle: 'cycle', step: 'step' };
+const DEFAULT_NAMES: Record<Quantity, string> = {
+  time: 'time',
+  potential: 'E',
+  current: 'I',
+  cycle: 'cycle',
+  step: 'step',
+};
 
 /** Write samples as export text in the given shape. */
 export function formatExport(s: ModelSamples, f: ExportFormat = {}): string {
   const sep = f.separator ?? ',';
   const dec = f.decimalComma ?? false;
-  if (dec && sep === ',') throw new AnalysisError('bad-option', 'decimal comma needs another separator than comma');
-  const cols = f.columns ?? (['time', 'potential', 'current', 'cycle', 'step'] as Quantity[]).filter((q) => s[q] !== null);
-  const unit = { time: f.units?.time ?? 's', potential: f.units?.potential ?? 'V', current: f.units?.current ?? 'A' };
+  if (dec && sep === ',')
+    throw new AnalysisError('bad-option', 'decimal comma needs another separator than comma');
+  const cols =
+    f.columns ??
+    (['time', 'potential', 'current', 'cycle', 'step'] as Quantity[]).filter((q) => s[q] !== null);
+  const unit = {
+    time: f.units?.time ?? 's',
+    potential: f.units?.potential ?? 'V',
+    current: f.units?.current ?? 'A',
+  };
   const factor: Record<Quantity, number> = { time: 1, potential: 1, current: 1, cycle: 1, step: 1 };
   for (const q of ['time', 'potential', 'current'] as const) {
     const k = unitFactor(unit[q], q);
@@ -270,7 +322,11 @@ export function formatExport(s: ModelSamples, f: ExportFormat = {}): string {
     const base = f.names?.[q] ?? DEFAULT_NAMES[q];
     if (q === 'cycle' || q === 'step') return base;
     const u = unit[q];
-    return style === 'slash' ? `${base}/${u}` : style === 'paren' ? `${base} (${u})` : `${base} [${u}]`;
+    return style === 'slash'
+      ? `${base}/${u}`
+      : style === 'paren'
+        ? `${base} (${u})`
+        : `${base} [${u}]`;
   };
   const arrays = cols.map((q) => {
     const a = s[q];

@@ -19,7 +19,9 @@ export type Dimension =
 const PREFIX: Record<string, number> = { '': 1, p: 1e-12, n: 1e-9, u: 1e-6, m: 1e-3, k: 1e3 };
 
 /** Factor of a simple unit (no '/') to the internal unit of its dimension, or null. */
-function simpleFactor(unit: string): { dim: 'time' | 'potential' | 'current' | 'mass' | 'area'; factor: number } | null {
+function simpleFactor(
+  unit: string,
+): { dim: 'time' | 'potential' | 'current' | 'mass' | 'area'; factor: number } | null {
   switch (unit) {
     case 's':
     case 'sec':
@@ -54,10 +56,18 @@ function simpleFactor(unit: string): { dim: 'time' | 'potential' | 'current' | '
 
 /** Canonical spelling: µ/μ → u, ² → 2, spaces dropped, "A cm-2" → "A/cm2". */
 export function canonicalUnit(unit: string): string {
-  let u = unit.trim().replace(/[µμ]/g, 'u').replace(/²/g, '2').replace(/⁻¹/g, '-1').replace(/⁻²/g, '-2');
+  let u = unit
+    .trim()
+    .replace(/[µμ]/g, 'u')
+    .replace(/²/g, '2')
+    .replace(/⁻¹/g, '-1')
+    .replace(/⁻²/g, '-2');
   u = u.replace(/\^/g, '');
   // "mA cm-2" or "mA·cm-2" or "mA g-1": a negative power becomes a division.
-  u = u.replace(/[\s·*.]*([a-zA-Z]+)-([12])$/, (_m, base: string, pow: string) => `/${base}${pow === '2' ? '2' : ''}`);
+  u = u.replace(
+    /[\s·*.]*([a-zA-Z]+)-([12])$/,
+    (_m, base: string, pow: string) => `/${base}${pow === '2' ? '2' : ''}`,
+  );
   u = u.replace(/\s+/g, '');
   return u;
 }
@@ -71,9 +81,12 @@ export function describeUnit(unit: string): { dim: Dimension; factor: number } |
   const num = simpleFactor(u.slice(0, slash));
   const den = simpleFactor(u.slice(slash + 1));
   if (!num || !den) return null;
-  if (num.dim === 'potential' && den.dim === 'time') return { dim: 'scanRate', factor: num.factor / den.factor };
-  if (num.dim === 'current' && den.dim === 'area') return { dim: 'currentPerArea', factor: num.factor / den.factor };
-  if (num.dim === 'current' && den.dim === 'mass') return { dim: 'currentPerMass', factor: num.factor / den.factor };
+  if (num.dim === 'potential' && den.dim === 'time')
+    return { dim: 'scanRate', factor: num.factor / den.factor };
+  if (num.dim === 'current' && den.dim === 'area')
+    return { dim: 'currentPerArea', factor: num.factor / den.factor };
+  if (num.dim === 'current' && den.dim === 'mass')
+    return { dim: 'currentPerMass', factor: num.factor / den.factor };
   return null;
 }
 
@@ -119,14 +132,23 @@ export function splitQuantity(text: string): { value: number; unit: string } | n
 export function parseQuantity(text: string, dim: Dimension, what: string): number {
   const q = splitQuantity(text);
   if (!q) {
-    throw new AnalysisError('bad-unit', `${what}: "${text}" is not a number with a unit (e.g. ${UNIT_EXAMPLE[dim]})`);
+    throw new AnalysisError(
+      'bad-unit',
+      `${what}: "${text}" is not a number with a unit (e.g. ${UNIT_EXAMPLE[dim]})`,
+    );
   }
   if (q.unit === '') {
-    throw new AnalysisError('bad-unit', `${what}: "${text}" has no unit (e.g. ${UNIT_EXAMPLE[dim]})`);
+    throw new AnalysisError(
+      'bad-unit',
+      `${what}: "${text}" has no unit (e.g. ${UNIT_EXAMPLE[dim]})`,
+    );
   }
   const f = unitFactor(q.unit, dim);
   if (f === null) {
-    throw new AnalysisError('bad-unit', `${what}: unit "${q.unit}" is not a ${describeDimension(dim)} unit (e.g. ${UNIT_EXAMPLE[dim]})`);
+    throw new AnalysisError(
+      'bad-unit',
+      `${what}: unit "${q.unit}" is not a ${describeDimension(dim)} unit (e.g. ${UNIT_EXAMPLE[dim]})`,
+    );
   }
   return applyFactor(q.value, f);
 }

@@ -13,7 +13,8 @@ export const WATER_E0_SLOPE_V_PER_K = -0.000846;
 
 /** Nernst slope ln10·RT/F (V per pH unit or per decade) at temperature T (K). */
 export function nernstSlopeV(temperatureK = STANDARD_TEMPERATURE_K): number {
-  if (!(temperatureK > 0)) throw new AnalysisError('bad-option', `temperature must be > 0 K, not ${temperatureK}`);
+  if (!(temperatureK > 0))
+    throw new AnalysisError('bad-option', `temperature must be > 0 K, not ${temperatureK}`);
   return (Math.LN10 * GAS_CONSTANT_J_PER_MOL_K * temperatureK) / FARADAY_C_PER_MOL;
 }
 

@@ -30,7 +30,9 @@ async function toError(res: Response): Promise<ApiError> {
     try {
       const body = (await res.json()) as { title?: unknown; detail?: unknown; errors?: unknown };
       const errors = Array.isArray(body.errors)
-        ? body.errors.filter((e): e is FieldProblem => typeof e?.path === 'string' && typeof e?.message === 'string')
+        ? body.errors.filter(
+            (e): e is FieldProblem => typeof e?.path === 'string' && typeof e?.message === 'string',
+          )
         : [];
       return new ApiError(
         res.status,
@@ -46,7 +48,13 @@ async function toError(res: Response): Promise<ApiError> {
 }
 
 /** Builds `/api/v1/...?a=1&b=2` from a path and parameters; empty values are left out, arrays repeat the key. */
-export function apiPath(path: string, params: Record<string, string | number | boolean | readonly (string | number)[] | null | undefined> = {}): string {
+export function apiPath(
+  path: string,
+  params: Record<
+    string,
+    string | number | boolean | readonly (string | number)[] | null | undefined
+  > = {},
+): string {
   const q = new URLSearchParams();
   for (const [k, v] of Object.entries(params)) {
     if (v === undefined || v === null || v === '') continue;
@@ -59,13 +67,21 @@ export function apiPath(path: string, params: Record<string, string | number | b
 
 /** GET JSON from the API; a non-2xx answer throws an ApiError. */
 export async function getJson<T>(path: string, signal?: AbortSignal): Promise<T> {
-  const res = await fetch(path, { headers: { accept: 'application/json' }, credentials: 'same-origin', ...(signal ? { signal } : {}) });
+  const res = await fetch(path, {
+    headers: { accept: 'application/json' },
+    credentials: 'same-origin',
+    ...(signal ? { signal } : {}),
+  });
   if (!res.ok) throw await toError(res);
   return (await res.json()) as T;
 }
 
 /** POST (or another method) JSON to the API; a non-2xx answer throws an ApiError. */
-export async function sendJson<T>(path: string, body: unknown, method: 'POST' | 'PUT' | 'PATCH' | 'DELETE' = 'POST'): Promise<T> {
+export async function sendJson<T>(
+  path: string,
+  body: unknown,
+  method: 'POST' | 'PUT' | 'PATCH' | 'DELETE' = 'POST',
+): Promise<T> {
   const res = await fetch(path, {
     method,
     headers: { 'content-type': 'application/json', accept: 'application/json' },
@@ -78,7 +94,10 @@ export async function sendJson<T>(path: string, body: unknown, method: 'POST' | 
 }
 
 /** GET a file from the API as a Blob with its suggested name (for exports). */
-export async function getFile(path: string, signal?: AbortSignal): Promise<{ blob: Blob; name: string | null }> {
+export async function getFile(
+  path: string,
+  signal?: AbortSignal,
+): Promise<{ blob: Blob; name: string | null }> {
   const res = await fetch(path, { credentials: 'same-origin', ...(signal ? { signal } : {}) });
   if (!res.ok) throw await toError(res);
   const disposition = res.headers.get('content-disposition') ?? '';

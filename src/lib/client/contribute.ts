@@ -7,7 +7,12 @@ import { engineCriterion, type RecordDetail } from './records.ts';
 // straight to storage (with progress and cancel), bulk import.
 
 export type Mapping = {
-  columns?: Partial<Record<'time' | 'potential' | 'current' | 'cycle' | 'step', { column: string | number; unit?: string }>>;
+  columns?: Partial<
+    Record<
+      'time' | 'potential' | 'current' | 'cycle' | 'step',
+      { column: string | number; unit?: string }
+    >
+  >;
   sign: 'iupac' | 'opposite';
   direction?: 'anodic' | 'cathodic';
 };
@@ -22,23 +27,52 @@ export interface UploadTicket {
 
 export interface UploadDone {
   rawFile: { id: string; name: string; bytes: number; sha256: string };
-  analysis: { id: string; direction: 'anodic' | 'cathodic'; limitV: number | null; limitStatus: string; warnings: string[] };
+  analysis: {
+    id: string;
+    direction: 'anodic' | 'cathodic';
+    limitV: number | null;
+    limitStatus: string;
+    warnings: string[];
+  };
   record: { handle: string; version: number; evidenceLevel: string };
 }
 
 export const createDraft = (content: RecordContentInput, lab?: string) =>
-  sendJson<RecordDetail>('/api/v1/records', { content, ...(lab ? { lab } : {}), changeNote: 'Draft started' });
+  sendJson<RecordDetail>('/api/v1/records', {
+    content,
+    ...(lab ? { lab } : {}),
+    changeNote: 'Draft started',
+  });
 
-export const saveDraft = (handle: string, version: number, content: RecordContentInput, changeNote: string) =>
-  sendJson<RecordDetail>(`/api/v1/records/${encodeURIComponent(handle)}`, { version, content, changeNote }, 'PUT');
+export const saveDraft = (
+  handle: string,
+  version: number,
+  content: RecordContentInput,
+  changeNote: string,
+) =>
+  sendJson<RecordDetail>(
+    `/api/v1/records/${encodeURIComponent(handle)}`,
+    { version, content, changeNote },
+    'PUT',
+  );
 
 export const submitRecord = (handle: string, version: number) =>
-  sendJson<RecordDetail>(`/api/v1/records/${encodeURIComponent(handle)}/transitions`, { action: 'submit', version });
+  sendJson<RecordDetail>(`/api/v1/records/${encodeURIComponent(handle)}/transitions`, {
+    action: 'submit',
+    version,
+  });
 
-export const declareUpload = (body: { record: string; name: string; size: number; sha256: string; mediaType: string; mapping: Mapping }) =>
-  sendJson<UploadTicket>('/api/v1/uploads', body);
+export const declareUpload = (body: {
+  record: string;
+  name: string;
+  size: number;
+  sha256: string;
+  mediaType: string;
+  mapping: Mapping;
+}) => sendJson<UploadTicket>('/api/v1/uploads', body);
 
-export const completeUpload = (id: string) => sendJson<UploadDone>(`/api/v1/uploads/${encodeURIComponent(id)}/complete`, {});
+export const completeUpload = (id: string) =>
+  sendJson<UploadDone>(`/api/v1/uploads/${encodeURIComponent(id)}/complete`, {});
 
 /** The version a 409 answer says the record is at, if it says. */
 export function conflictVersion(err: unknown): number | null {
@@ -65,13 +99,21 @@ export class UploadCancelled extends Error {
  * PUTs a body to a presigned URL with XMLHttpRequest, which reports upload progress (fetch does
  * not); `signal` aborts it.
  */
-export function putWithProgress(ticket: UploadTicket, body: Blob, onProgress: (sent: number, total: number) => void, signal: AbortSignal): Promise<void> {
+export function putWithProgress(
+  ticket: UploadTicket,
+  body: Blob,
+  onProgress: (sent: number, total: number) => void,
+  signal: AbortSignal,
+): Promise<void> {
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest();
     xhr.open(ticket.method, ticket.url);
     for (const [k, v] of Object.entries(ticket.headers)) xhr.setRequestHeader(k, v);
     xhr.upload.onprogress = (e) => onProgress(e.loaded, e.lengthComputable ? e.total : body.size);
-    xhr.onload = () => (xhr.status >= 200 && xhr.status < 300 ? resolve() : reject(new Error(`storage refused the file (HTTP ${xhr.status})`)));
+    xhr.onload = () =>
+      xhr.status >= 200 && xhr.status < 300
+        ? resolve()
+        : reject(new Error(`storage refused the file (HTTP ${xhr.status})`));
     xhr.onerror = () => reject(new Error('the connection to storage failed'));
     xhr.onabort = () => reject(new UploadCancelled());
     if (signal.aborted) return reject(new UploadCancelled());
@@ -80,7 +122,11 @@ export function putWithProgress(ticket: UploadTicket, body: Blob, onProgress: (s
   });
 }
 
-const ENGINE_METHOD = { 'cv-window-opening': 'cv', lsv: 'lsv', 'potentiostatic-holds': 'hold' } as const;
+const ENGINE_METHOD = {
+  'cv-window-opening': 'cv',
+  lsv: 'lsv',
+  'potentiostatic-holds': 'hold',
+} as const;
 
 /** Engine options for previewing a file of this record in the browser (limits stay on the file's own scale). */
 export function previewOptions(content: RecordContent, mapping: Mapping): AnalysisOptions {
@@ -88,9 +134,12 @@ export function previewOptions(content: RecordContent, mapping: Mapping): Analys
   const o: AnalysisOptions = { method: ENGINE_METHOD[m.kind], sign: mapping.sign };
   const criterion = engineCriterion(content.criterion);
   if (criterion) o.criterion = criterion;
-  if (m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined) o.scanRate = m.scanRateMVs / 1000;
-  if (content.workingElectrode.geometricAreaCm2 !== undefined) o.area = content.workingElectrode.geometricAreaCm2;
-  if (content.workingElectrode.activeMassMg !== undefined) o.mass = content.workingElectrode.activeMassMg / 1000;
+  if (m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined)
+    o.scanRate = m.scanRateMVs / 1000;
+  if (content.workingElectrode.geometricAreaCm2 !== undefined)
+    o.area = content.workingElectrode.geometricAreaCm2;
+  if (content.workingElectrode.activeMassMg !== undefined)
+    o.mass = content.workingElectrode.activeMassMg / 1000;
   if (mapping.columns && Object.keys(mapping.columns).length) o.columns = mapping.columns;
   if (mapping.direction) o.direction = mapping.direction;
   return o;
@@ -103,7 +152,12 @@ export interface ImportAnswer {
 
 /** Sends a CSV file to the bulk import; problems come back as an ApiError with line-numbered paths. */
 export async function importCsv(csv: string): Promise<ImportAnswer> {
-  const res = await fetch('/api/v1/imports', { method: 'POST', headers: { 'content-type': 'text/csv', accept: 'application/json' }, credentials: 'same-origin', body: csv });
+  const res = await fetch('/api/v1/imports', {
+    method: 'POST',
+    headers: { 'content-type': 'text/csv', accept: 'application/json' },
+    credentials: 'same-origin',
+    body: csv,
+  });
   if (res.ok) return (await res.json()) as ImportAnswer;
   let body: { title?: string; detail?: string; errors?: { path: string; message: string }[] } = {};
   try {
@@ -111,5 +165,10 @@ export async function importCsv(csv: string): Promise<ImportAnswer> {
   } catch {
     // not JSON: the status line says enough
   }
-  throw new ApiError(res.status, body.title ?? `HTTP ${res.status}`, body.detail, body.errors ?? []);
+  throw new ApiError(
+    res.status,
+    body.title ?? `HTTP ${res.status}`,
+    body.detail,
+    body.errors ?? [],
+  );
 }

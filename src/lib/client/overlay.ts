@@ -7,7 +7,14 @@ const HANDLE = /^EW-\d{6,}$/;
 
 /** Handles from a comma-separated address parameter: valid, unique, at most MAX_OVERLAY. */
 export function pickedHandles(value: string | null): string[] {
-  return [...new Set((value ?? '').split(',').map((h) => h.trim().toUpperCase()).filter((h) => HANDLE.test(h)))].slice(0, MAX_OVERLAY);
+  return [
+    ...new Set(
+      (value ?? '')
+        .split(',')
+        .map((h) => h.trim().toUpperCase())
+        .filter((h) => HANDLE.test(h)),
+    ),
+  ].slice(0, MAX_OVERLAY);
 }
 
 /** The overlay of `picked`, remembering the comparison it was opened from (its filters and page). */

@@ -1,10 +1,33 @@
 import { keepPreviousData, queryOptions } from '@tanstack/react-query';
-import type { CellType, CriterionKind, EvidenceLevel, MethodKind, RecordContent, RecordStatus } from '../shared/record.ts';
+import type {
+  CellType,
+  CriterionKind,
+  EvidenceLevel,
+  MethodKind,
+  RecordContent,
+  RecordStatus,
+} from '../shared/record.ts';
 import type { VocabularyKind, VocabularyTerm } from '../shared/vocabulary.ts';
 import { apiPath, getJson } from './api.ts';
 import { engineCriterion } from '../shared/criteria.ts';
-import type { CommonCriterionResult, FacetName, LimitView, RecordDetail, RecordSummary, SearchItem, SearchResult } from '../shared/record-views.ts';
-export type { CommonCriterionResult, FacetName, LimitView, RecordDetail, RecordSummary, SearchItem, SearchResult };
+import type {
+  CommonCriterionResult,
+  FacetName,
+  LimitView,
+  RecordDetail,
+  RecordSummary,
+  SearchItem,
+  SearchResult,
+} from '../shared/record-views.ts';
+export type {
+  CommonCriterionResult,
+  FacetName,
+  LimitView,
+  RecordDetail,
+  RecordSummary,
+  SearchItem,
+  SearchResult,
+};
 
 export { engineCriterion };
 
@@ -12,12 +35,39 @@ export { engineCriterion };
 // queryOptions factory per request with every input in its key. Types only from src/lib/shared
 // (a value import would pull the zod schemas into every island).
 
-export const METHOD_KINDS = ['cv-window-opening', 'lsv', 'potentiostatic-holds'] as const satisfies readonly MethodKind[];
-export const CRITERION_KINDS = ['s-value', 'ce', 'j-area', 'j-mass', 'hold-leakage'] as const satisfies readonly CriterionKind[];
-export const CELL_TYPES = ['three-electrode', 'two-electrode'] as const satisfies readonly CellType[];
-export const EVIDENCE_LEVELS = ['stated', 'documented', 'recomputed', 'confirmed'] as const satisfies readonly EvidenceLevel[];
+export const METHOD_KINDS = [
+  'cv-window-opening',
+  'lsv',
+  'potentiostatic-holds',
+] as const satisfies readonly MethodKind[];
+export const CRITERION_KINDS = [
+  's-value',
+  'ce',
+  'j-area',
+  'j-mass',
+  'hold-leakage',
+] as const satisfies readonly CriterionKind[];
+export const CELL_TYPES = [
+  'three-electrode',
+  'two-electrode',
+] as const satisfies readonly CellType[];
+export const EVIDENCE_LEVELS = [
+  'stated',
+  'documented',
+  'recomputed',
+  'confirmed',
+] as const satisfies readonly EvidenceLevel[];
 export const CONCENTRATION_BASES = ['mol/L', 'mol/kg', 'mole fraction', 'mass fraction'] as const;
-export const SORT_KEYS = ['handle', 'updated', 'anodic', 'cathodic', 'width', 'scanRate', 'temperature', 'concentration'] as const;
+export const SORT_KEYS = [
+  'handle',
+  'updated',
+  'anodic',
+  'cathodic',
+  'width',
+  'scanRate',
+  'temperature',
+  'concentration',
+] as const;
 export type SortKey = (typeof SORT_KEYS)[number];
 
 export const METHOD_NAMES: Record<MethodKind, string> = {
@@ -32,10 +82,6 @@ export const CRITERION_NAMES: Record<CriterionKind, string> = {
   'j-mass': 'current per mass',
   'hold-leakage': 'hold leakage',
 };
-
-
-
-
 
 export type { AnalysisView, RawFileView } from '../shared/record-views.ts';
 
@@ -77,7 +123,14 @@ export interface RecordQuery {
   offset?: number;
 }
 
-export const LIST_PARAMS = ['component', 'electrode', 'method', 'criterionKind', 'cellType', 'evidence'] as const;
+export const LIST_PARAMS = [
+  'component',
+  'electrode',
+  'method',
+  'criterionKind',
+  'cellType',
+  'evidence',
+] as const;
 export const TEXT_PARAMS = [
   'q',
   'concentrationMin',
@@ -127,7 +180,8 @@ export const recordQueries = {
   list: (q: RecordQuery) =>
     queryOptions({
       queryKey: ['records', 'list', normaliseQuery(q)] as const,
-      queryFn: ({ signal }) => getJson<SearchResult>(apiPath('/api/v1/records', normaliseQuery(q)), signal),
+      queryFn: ({ signal }) =>
+        getJson<SearchResult>(apiPath('/api/v1/records', normaliseQuery(q)), signal),
       placeholderData: keepPreviousData,
     }),
   /** Up to 200 matches without facets, for the spread summary. */
@@ -144,28 +198,56 @@ export const recordQueries = {
   recent: (limit: number) =>
     queryOptions({
       queryKey: ['records', 'recent', limit] as const,
-      queryFn: ({ signal }) => getJson<SearchResult>(apiPath('/api/v1/records', { sort: '-updated', limit, status: 'published', facets: 'false' }), signal),
+      queryFn: ({ signal }) =>
+        getJson<SearchResult>(
+          apiPath('/api/v1/records', {
+            sort: '-updated',
+            limit,
+            status: 'published',
+            facets: 'false',
+          }),
+          signal,
+        ),
     }),
   /** Published records in water (up to 200), limits on SHE: the water tool places them at their pH. */
   aqueous: () =>
     queryOptions({
       queryKey: ['records', 'aqueous'] as const,
-      queryFn: ({ signal }) => getJson<SearchResult>(apiPath('/api/v1/records', { component: 'water', status: 'published', scale: 'SHE', limit: 200, facets: 'false' }), signal),
+      queryFn: ({ signal }) =>
+        getJson<SearchResult>(
+          apiPath('/api/v1/records', {
+            component: 'water',
+            status: 'published',
+            scale: 'SHE',
+            limit: 200,
+            facets: 'false',
+          }),
+          signal,
+        ),
     }),
   detail: (handle: string) =>
     queryOptions({
       queryKey: ['records', 'detail', handle] as const,
-      queryFn: ({ signal }) => getJson<RecordDetail>(`/api/v1/records/${encodeURIComponent(handle)}`, signal),
+      queryFn: ({ signal }) =>
+        getJson<RecordDetail>(`/api/v1/records/${encodeURIComponent(handle)}`, signal),
     }),
   versions: (handle: string) =>
     queryOptions({
       queryKey: ['records', 'versions', handle] as const,
-      queryFn: ({ signal }) => getJson<{ versions: VersionSummary[] }>(`/api/v1/records/${encodeURIComponent(handle)}/versions`, signal),
+      queryFn: ({ signal }) =>
+        getJson<{ versions: VersionSummary[] }>(
+          `/api/v1/records/${encodeURIComponent(handle)}/versions`,
+          signal,
+        ),
     }),
   diff: (handle: string, from: number, to: number) =>
     queryOptions({
       queryKey: ['records', 'diff', handle, from, to] as const,
-      queryFn: ({ signal }) => getJson<{ from: number; to: number; changes: Change[] }>(apiPath(`/api/v1/records/${encodeURIComponent(handle)}/diff`, { from, to }), signal),
+      queryFn: ({ signal }) =>
+        getJson<{ from: number; to: number; changes: Change[] }>(
+          apiPath(`/api/v1/records/${encodeURIComponent(handle)}/diff`, { from, to }),
+          signal,
+        ),
     }),
 };
 
@@ -175,7 +257,10 @@ export const rawFileQueries = {
     queryOptions({
       queryKey: ['raw-files', id, 'text'] as const,
       queryFn: async ({ signal }) => {
-        const res = await fetch(`/api/v1/raw-files/${encodeURIComponent(id)}`, { credentials: 'same-origin', signal });
+        const res = await fetch(`/api/v1/raw-files/${encodeURIComponent(id)}`, {
+          credentials: 'same-origin',
+          signal,
+        });
         if (!res.ok) throw new Error(`the raw file could not be read (HTTP ${res.status})`);
         return res.text();
       },
@@ -199,7 +284,15 @@ export const vocabularyQueries = {
       queryKey: ['vocabulary'] as const,
       queryFn: async ({ signal }) => {
         const { terms } = await getJson<{ terms: VocabularyTerm[] }>('/api/v1/vocabulary', signal);
-        return terms.filter((t) => !t.mergedInto).map<IndexTerm>((t) => ({ id: t.id, kind: t.kind, name: t.name, abbreviations: t.abbreviations, synonyms: t.synonyms }));
+        return terms
+          .filter((t) => !t.mergedInto)
+          .map<IndexTerm>((t) => ({
+            id: t.id,
+            kind: t.kind,
+            name: t.name,
+            abbreviations: t.abbreviations,
+            synonyms: t.synonyms,
+          }));
       },
       staleTime: 10 * 60_000,
     }),
@@ -217,11 +310,27 @@ export function longName(terms: Map<string, IndexTerm> | undefined, id: string):
 }
 
 /** "1 mol/L LiPF6 in PC" from a record's electrolyte. */
-export function electrolyteText(c: RecordContent, terms: Map<string, IndexTerm> | undefined): string {
+export function electrolyteText(
+  c: RecordContent,
+  terms: Map<string, IndexTerm> | undefined,
+): string {
   const e = c.electrolyte;
-  const salts = e.salts.map((s) => `${+s.concentration.value.toPrecision(4)} ${s.concentration.basis} ${shortName(terms, s.term)}`).join(' + ');
-  const solvents = e.solvents.map((s) => (e.solvents.length > 1 ? `${shortName(terms, s.term)} ${Math.round(s.fraction * 100)}%` : shortName(terms, s.term))).join(':');
-  const additives = e.additives.length ? ` + ${e.additives.map((a) => shortName(terms, a.term)).join(', ')}` : '';
+  const salts = e.salts
+    .map(
+      (s) =>
+        `${+s.concentration.value.toPrecision(4)} ${s.concentration.basis} ${shortName(terms, s.term)}`,
+    )
+    .join(' + ');
+  const solvents = e.solvents
+    .map((s) =>
+      e.solvents.length > 1
+        ? `${shortName(terms, s.term)} ${Math.round(s.fraction * 100)}%`
+        : shortName(terms, s.term),
+    )
+    .join(':');
+  const additives = e.additives.length
+    ? ` + ${e.additives.map((a) => shortName(terms, a.term)).join(', ')}`
+    : '';
   return [salts, solvents].filter(Boolean).join(' in ') + additives;
 }
 
@@ -242,7 +351,6 @@ export function criterionText(c: RecordContent['criterion']): string {
   }
 }
 
-
 /**
  * A common-criterion limit moved from the record's own reference to the chosen scale: the
  * record's own offset to SHE, then the shift the API applied to its reported SHE values.
@@ -255,7 +363,8 @@ export function commonOnScale(item: SearchItem, side: 'cathodic' | 'anodic'): nu
   for (const s of [side, side === 'cathodic' ? 'anodic' : 'cathodic'] as const) {
     const lim = item.limits[s];
     const shown = item.onScale[s];
-    if (lim && lim.offsetV !== null && lim.sheV !== null && shown !== null) return v + lim.offsetV + (shown - lim.sheV);
+    if (lim && lim.offsetV !== null && lim.sheV !== null && shown !== null)
+      return v + lim.offsetV + (shown - lim.sheV);
   }
   return null;
 }

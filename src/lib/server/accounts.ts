@@ -2,9 +2,30 @@ import type { Db } from './db/index.ts';
 import { UnauthorizedError, ValidationError } from './errors.ts';
 import { authorize } from './policy.ts';
 import { insertAuditEvent } from './repositories/audit.ts';
-import { consumeAccountToken, expireAccountTokens, insertAccountToken, accountTokenIsUsable } from './repositories/auth-tokens.ts';
-import { bumpSessionVersion, findPasswordHash, findUserByEmail, findUserById, insertUser, markEmailVerified, setPasswordHash, updateUserProfile, type UserRecord } from './repositories/users.ts';
-import { deliver, mailAlreadyRegistered, mailConfirmAddress, mailPasswordChanged, mailPasswordReset } from './auth/mails.ts';
+import {
+  consumeAccountToken,
+  expireAccountTokens,
+  insertAccountToken,
+  accountTokenIsUsable,
+} from './repositories/auth-tokens.ts';
+import {
+  bumpSessionVersion,
+  findPasswordHash,
+  findUserByEmail,
+  findUserById,
+  insertUser,
+  markEmailVerified,
+  setPasswordHash,
+  updateUserProfile,
+  type UserRecord,
+} from './repositories/users.ts';
+import {
+  deliver,
+  mailAlreadyRegistered,
+  mailConfirmAddress,
+  mailPasswordChanged,
+  mailPasswordReset,
+} from './auth/mails.ts';
 import { assertMailRequestAllowed, mayMail } from './auth/mail-limits.ts';
 import { hashPassword, passwordProblem, verifyPassword } from './auth/passwords.ts';
 import { hashSecret, randomSecret } from './auth/secrets.ts';
@@ -47,30 +68,49 @@ export const toProfile = (u: UserRecord): Profile => ({
 });
 
 /** Creates an unconfirmed reader account and mails a confirmation link (or a notice, if taken). */
-export async function signUp(db: Db, input: { email: string; password: string; name?: string | undefined }, clientAddress: string): Promise<void> {
+export async function signUp(
+  db: Db,
+  input: { email: string; password: string; name?: string | undefined },
+  clientAddress: string,
+): Promise<void> {
   checkPassword(input.password, input.email);
   await assertMailRequestAllowed(db, clientAddress);
   // Hashed before the lookup so a taken address answers no faster than a new one.
   const hash = await hashPassword(input.password);
   const existing = await findUserByEmail(db, input.email);
   if (existing) {
-    if (await mayMail(db, 'signup', existing.email)) await deliver(() => mailAlreadyRegistered(existing.email));
+    if (await mayMail(db, 'signup', existing.email))
+      await deliver(() => mailAlreadyRegistered(existing.email));
     return;
   }
   const token = randomSecret();
   const created = await db.transaction().execute(async (trx) => {
     // A concurrent sign-up for the same address loses on the unique index; treat it as taken.
-    const user = await insertUser(trx, { email: input.email.toLowerCase(), name: input.name || null }).catch((err) => {
+    const user = await insertUser(trx, {
+      email: input.email.toLowerCase(),
+      name: input.name || null,
+    }).catch((err) => {
       if ((err as { code?: string }).code === '23505') return null;
       throw err;
     });
     if (!user) return null;
     await setPasswordHash(trx, user.id, hash);
-    await insertAccountToken(trx, { tokenHash: hashSecret(token), userId: user.id, purpose: 'confirm_email', expiresAt: new Date(Date.now() + CONFIRM_SECONDS * 1000) });
-    await insertAuditEvent(trx, { actorId: user.id, action: 'account.signup', subjectType: 'user', subjectId: user.id });
+    await insertAccountToken(trx, {
+      tokenHash: hashSecret(token),
+      userId: user.id,
+      purpose: 'confirm_email',
+      expiresAt: new Date(Date.now() + CONFIRM_SECONDS * 1000),
+    });
+    await insertAuditEvent(trx, {
+      actorId: user.id,
+      action: 'account.signup',
+      subjectType: 'user',
+      subjectId: user.id,
+    });
     return user;
   });
-  if (created && (await mayMail(db, 'signup', created.email))) await deliver(() => mailConfirmAddress(created.email, token));
+  if (created && (await mayMail(db, 'signup', created.email)))
+    await deliver(() => mailConfirmAddress(created.email, token));
 }
 
 /** Confirms the address the link was sent to; false when the link is unknown, used or expired. */
@@ -79,12 +119,21 @@ export async function confirmEmail(db: Db, token: string): Promise<boolean> {
     const userId = await consumeAccountToken(trx, hashSecret(token), 'confirm_email');
     if (!userId) return false;
     await markEmailVerified(trx, userId);
-    await insertAuditEvent(trx, { actorId: userId, action: 'account.email_confirmed', subjectType: 'user', subjectId: userId });
+    await insertAuditEvent(trx, {
+      actorId: userId,
+      action: 'account.email_confirmed',
+      subjectType: 'user',
+      subjectId: userId,
+    });
     return true;
   });
 }
 
-export async function requestPasswordReset(db: Db, email: string, clientAddress: string): Promise<void> {
+export async function requestPasswordReset(
+  db: Db,
+  email: string,
+  clientAddress: string,
+): Promise<void> {
   await assertMailRequestAllowed(db, clientAddress);
   const user = await findUserByEmail(db, email);
   if (!user || user.disabledAt) return;
@@ -93,7 +142,12 @@ export async function requestPasswordReset(db: Db, email: string, clientAddress:
   const token = randomSecret();
   await db.transaction().execute(async (trx) => {
     await expireAccountTokens(trx, user.id, 'reset_password');
-    await insertAccountToken(trx, { tokenHash: hashSecret(token), userId: user.id, purpose: 'reset_password', expiresAt: new Date(Date.now() + RESET_SECONDS * 1000) });
+    await insertAccountToken(trx, {
+      tokenHash: hashSecret(token),
+      userId: user.id,
+      purpose: 'reset_password',
+      expiresAt: new Date(Date.now() + RESET_SECONDS * 1000),
+    });
   });
   await deliver(() => mailPasswordReset(user.email, token));
 }
@@ -103,7 +157,10 @@ export async function resetLinkIsUsable(db: Db, token: string): Promise<boolean>
 }
 
 /** Sets a new password from a reset link; the address counts as confirmed; all sessions end. */
-export async function resetPassword(db: Db, input: { token: string; password: string }): Promise<boolean> {
+export async function resetPassword(
+  db: Db,
+  input: { token: string; password: string },
+): Promise<boolean> {
   const tokenHash = hashSecret(input.token);
   if (!(await accountTokenIsUsable(db, tokenHash, 'reset_password'))) return false;
   const user = await db.transaction().execute(async (trx) => {
@@ -114,7 +171,12 @@ export async function resetPassword(db: Db, input: { token: string; password: st
     await setPasswordHash(trx, u.id, await hashPassword(input.password));
     await markEmailVerified(trx, u.id);
     await bumpSessionVersion(trx, u.id);
-    await insertAuditEvent(trx, { actorId: u.id, action: 'account.password_reset', subjectType: 'user', subjectId: u.id });
+    await insertAuditEvent(trx, {
+      actorId: u.id,
+      action: 'account.password_reset',
+      subjectType: 'user',
+      subjectId: u.id,
+    });
     return u;
   });
   if (!user) return false;
@@ -130,32 +192,60 @@ export async function getProfile(db: Db, principal: Principal): Promise<Profile>
   return toProfile(u);
 }
 
-export async function updateProfile(db: Db, principal: Principal, changes: { name?: string | null | undefined; affiliation?: string | null | undefined; orcid?: string | null | undefined }): Promise<Profile> {
+export async function updateProfile(
+  db: Db,
+  principal: Principal,
+  changes: {
+    name?: string | null | undefined;
+    affiliation?: string | null | undefined;
+    orcid?: string | null | undefined;
+  },
+): Promise<Profile> {
   if (principal.kind !== 'user') throw new UnauthorizedError();
   authorize(principal, 'account.update', { type: 'user', userId: principal.id });
   const set = Object.fromEntries(Object.entries(changes).filter(([, v]) => v !== undefined));
   return db.transaction().execute(async (trx) => {
-    const u = Object.keys(set).length ? await updateUserProfile(trx, principal.id, set) : await findUserById(trx, principal.id);
+    const u = Object.keys(set).length
+      ? await updateUserProfile(trx, principal.id, set)
+      : await findUserById(trx, principal.id);
     if (!u) throw new UnauthorizedError();
-    if (Object.keys(set).length) await insertAuditEvent(trx, { actorId: principal.id, action: 'account.profile_updated', subjectType: 'user', subjectId: principal.id, details: { fields: Object.keys(set) } });
+    if (Object.keys(set).length)
+      await insertAuditEvent(trx, {
+        actorId: principal.id,
+        action: 'account.profile_updated',
+        subjectType: 'user',
+        subjectId: principal.id,
+        details: { fields: Object.keys(set) },
+      });
     return toProfile(u);
   });
 }
 
 /** Changes the password after checking the current one; every session (this one too) ends. */
-export async function changePassword(db: Db, principal: Principal, input: { currentPassword: string; newPassword: string }): Promise<void> {
+export async function changePassword(
+  db: Db,
+  principal: Principal,
+  input: { currentPassword: string; newPassword: string },
+): Promise<void> {
   if (principal.kind !== 'user') throw new UnauthorizedError();
   authorize(principal, 'account.update', { type: 'user', userId: principal.id });
   const hash = await findPasswordHash(db, principal.id);
   if (hash && !(await verifyPassword(input.currentPassword, hash))) {
-    throw new ValidationError([{ path: 'currentPassword', message: 'is not your current password' }]);
+    throw new ValidationError([
+      { path: 'currentPassword', message: 'is not your current password' },
+    ]);
   }
   checkPassword(input.newPassword, principal.email, 'newPassword');
   const newHash = await hashPassword(input.newPassword);
   await db.transaction().execute(async (trx) => {
     await setPasswordHash(trx, principal.id, newHash);
     await bumpSessionVersion(trx, principal.id);
-    await insertAuditEvent(trx, { actorId: principal.id, action: 'account.password_changed', subjectType: 'user', subjectId: principal.id });
+    await insertAuditEvent(trx, {
+      actorId: principal.id,
+      action: 'account.password_changed',
+      subjectType: 'user',
+      subjectId: principal.id,
+    });
   });
   await deliver(() => mailPasswordChanged(principal.email));
 }

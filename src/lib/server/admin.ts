@@ -22,13 +22,26 @@ export const accountsQuerySchema = z.strictObject({
   offset: z.coerce.number().int().min(0).default(0),
 });
 
-export async function listAccounts(db: Db, principal: Principal, opts: { q?: string | undefined; limit: number; offset: number }): Promise<{ users: AdminUserView[]; total: number }> {
+export async function listAccounts(
+  db: Db,
+  principal: Principal,
+  opts: { q?: string | undefined; limit: number; offset: number },
+): Promise<{ users: AdminUserView[]; total: number }> {
   authorize(principal, 'user.list', null);
-  const { users, total } = await listUsers(db, { limit: opts.limit, offset: opts.offset, ...(opts.q ? { q: opts.q } : {}) });
+  const { users, total } = await listUsers(db, {
+    limit: opts.limit,
+    offset: opts.offset,
+    ...(opts.q ? { q: opts.q } : {}),
+  });
   return { users: users.map((u) => ({ ...toProfile(u), disabled: u.disabledAt !== null })), total };
 }
 
-export async function changeAccount(db: Db, principal: Principal, userId: string, change: { role?: Role | undefined; disabled?: boolean | undefined }): Promise<AdminUserView> {
+export async function changeAccount(
+  db: Db,
+  principal: Principal,
+  userId: string,
+  change: { role?: Role | undefined; disabled?: boolean | undefined },
+): Promise<AdminUserView> {
   const actor = requireUser(principal);
   const target = await findUserById(db, userId);
   // Only admins may see other accounts at all: anyone else gets the same 404 as for a missing id.
@@ -41,21 +54,42 @@ export async function changeAccount(db: Db, principal: Principal, userId: string
   const updated = await db.transaction().execute(async (trx) => {
     if (change.role !== undefined && change.role !== target.role) {
       await setUserRole(trx, target.id, change.role);
-      await insertAuditEvent(trx, { actorId: actor.id, action: 'user.role_changed', subjectType: 'user', subjectId: target.id, details: { from: target.role, to: change.role } });
-      mails.push(['Your Edgewise role has changed', `An administrator changed your role from ${target.role} to ${change.role}.`]);
+      await insertAuditEvent(trx, {
+        actorId: actor.id,
+        action: 'user.role_changed',
+        subjectType: 'user',
+        subjectId: target.id,
+        details: { from: target.role, to: change.role },
+      });
+      mails.push([
+        'Your Edgewise role has changed',
+        `An administrator changed your role from ${target.role} to ${change.role}.`,
+      ]);
     }
     const isDisabled = target.disabledAt !== null;
     if (change.disabled !== undefined && change.disabled !== isDisabled) {
       await setUserDisabled(trx, target.id, change.disabled);
-      await insertAuditEvent(trx, { actorId: actor.id, action: change.disabled ? 'user.disabled' : 'user.enabled', subjectType: 'user', subjectId: target.id });
+      await insertAuditEvent(trx, {
+        actorId: actor.id,
+        action: change.disabled ? 'user.disabled' : 'user.enabled',
+        subjectType: 'user',
+        subjectId: target.id,
+      });
       mails.push(
         change.disabled
-          ? ['Your Edgewise account was disabled', 'An administrator disabled your account; you have been signed out. Reply to this message if you think this is a mistake.']
-          : ['Your Edgewise account is enabled again', 'An administrator enabled your account again; you can sign in.'],
+          ? [
+              'Your Edgewise account was disabled',
+              'An administrator disabled your account; you have been signed out. Reply to this message if you think this is a mistake.',
+            ]
+          : [
+              'Your Edgewise account is enabled again',
+              'An administrator enabled your account again; you can sign in.',
+            ],
       );
     }
     return findUserById(trx, target.id);
   });
-  for (const [subject, text] of mails) await deliver(() => mailAccountChange(target.email, subject, text));
+  for (const [subject, text] of mails)
+    await deliver(() => mailAccountChange(target.email, subject, text));
   return { ...toProfile(updated!), disabled: updated!.disabledAt !== null };
 }

@@ -16,7 +16,10 @@ let pool: Piscina<AnalysisTask, AnalysisOutcome> | undefined;
 function workerLocation(): { filename: string; execArgv: string[] } {
   const here = fileURLToPath(import.meta.url);
   if (here.endsWith('.ts')) {
-    return { filename: pathToFileURL(path.join(path.dirname(here), 'analysis-worker.ts')).href, execArgv: ['--import', 'tsx'] };
+    return {
+      filename: pathToFileURL(path.join(path.dirname(here), 'analysis-worker.ts')).href,
+      execArgv: ['--import', 'tsx'],
+    };
   }
   for (let dir = path.dirname(here); dir !== path.dirname(dir); dir = path.dirname(dir)) {
     const candidate = path.join(dir, 'analysis-worker.mjs');
@@ -29,7 +32,14 @@ function analysisPool() {
   if (!pool) {
     const { filename, execArgv } = workerLocation();
     const threads = Math.max(1, Math.min(4, availableParallelism() - 1));
-    pool = new Piscina({ filename, execArgv, minThreads: 1, maxThreads: threads, maxQueue: 64, idleTimeout: 60_000 });
+    pool = new Piscina({
+      filename,
+      execArgv,
+      minThreads: 1,
+      maxThreads: threads,
+      maxQueue: 64,
+      idleTimeout: 60_000,
+    });
   }
   return pool;
 }
@@ -37,7 +47,10 @@ function analysisPool() {
 /** The engine refused the file: 422 with the line and column of the problem. */
 export class AnalysisRefused extends AppError {
   constructor(e: { code: string; message: string; line?: number; column?: number }) {
-    const where = e.line !== undefined ? `line ${e.line}${e.column !== undefined ? `, column ${e.column}` : ''}` : 'file';
+    const where =
+      e.line !== undefined
+        ? `line ${e.line}${e.column !== undefined ? `, column ${e.column}` : ''}`
+        : 'file';
     super(422, 'File could not be analysed', `The file could not be analysed: ${e.message}`, {
       code: e.code,
       errors: [{ path: where, message: e.message }],
@@ -51,7 +64,8 @@ export async function analyzeInWorker(bytes: Uint8Array, options: AnalysisOption
   try {
     outcome = await analysisPool().run({ bytes, options });
   } catch (err) {
-    if ((err as Error).message?.includes('queue is full')) throw new UnavailableError('The analysis queue is full; try again shortly.');
+    if ((err as Error).message?.includes('queue is full'))
+      throw new UnavailableError('The analysis queue is full; try again shortly.');
     throw err;
   }
   if (outcome.ok) return outcome.result;

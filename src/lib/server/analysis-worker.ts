@@ -1,6 +1,12 @@
 // Runs in a worker thread: the engine on one file, so requests are answered meanwhile.
 // Built into <outDir>/server/analysis-worker.mjs by the integration in astro.config.mjs.
-import { AnalysisError, analyzeText, decodeText, type AnalysisOptions, type AnalysisResult } from '../analysis/index.ts';
+import {
+  AnalysisError,
+  analyzeText,
+  decodeText,
+  type AnalysisOptions,
+  type AnalysisResult,
+} from '../analysis/index.ts';
 
 export interface AnalysisTask {
   bytes: Uint8Array;

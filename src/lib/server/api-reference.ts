@@ -64,11 +64,21 @@ export function typeText(schema: Json, doc: Json): string {
     if (texts.length === 2 && texts[1] === `array of ${texts[0]}`) return `${texts[0]}, repeatable`;
     return texts.join(' or ');
   }
-  const t = Array.isArray(s.type) ? (s.type as string[]).join(' or ') : (s.type as string | undefined);
+  const t = Array.isArray(s.type)
+    ? (s.type as string[]).join(' or ')
+    : (s.type as string | undefined);
   if (t === 'array') return `array of ${s.items ? typeText(s.items as Json, doc) : 'anything'}`;
   const range = [
-    s.minimum !== undefined ? `≥ ${s.minimum}` : s.exclusiveMinimum !== undefined ? `> ${s.exclusiveMinimum}` : '',
-    s.maximum !== undefined ? `≤ ${s.maximum}` : s.exclusiveMaximum !== undefined ? `< ${s.exclusiveMaximum}` : '',
+    s.minimum !== undefined
+      ? `≥ ${s.minimum}`
+      : s.exclusiveMinimum !== undefined
+        ? `> ${s.exclusiveMinimum}`
+        : '',
+    s.maximum !== undefined
+      ? `≤ ${s.maximum}`
+      : s.exclusiveMaximum !== undefined
+        ? `< ${s.exclusiveMaximum}`
+        : '',
   ].filter(Boolean);
   const bounds = [
     range.join(' and '),
@@ -92,11 +102,19 @@ export function fieldRows(schema: Json, doc: Json, prefix = '', depth = 0): Fiel
       seen.add(path);
       const field = resolve(raw, doc);
       const description = (raw.description ?? field.description) as string | undefined;
-      rows.push({ path, type: typeText(raw, doc), required: required.has(name), ...(description ? { description } : {}) });
+      rows.push({
+        path,
+        type: typeText(raw, doc),
+        required: required.has(name),
+        ...(description ? { description } : {}),
+      });
       if (depth >= MAX_DEPTH) continue;
-      const items = field.type === 'array' && field.items ? resolve(field.items as Json, doc) : null;
-      if (items && (items.properties || variants(items).some((v) => resolve(v, doc).properties))) rows.push(...fieldRows(items, doc, `${path}[]`, depth + 1));
-      else if (field.properties || variants(field).some((v) => resolve(v, doc).properties)) rows.push(...fieldRows(field, doc, path, depth + 1));
+      const items =
+        field.type === 'array' && field.items ? resolve(field.items as Json, doc) : null;
+      if (items && (items.properties || variants(items).some((v) => resolve(v, doc).properties)))
+        rows.push(...fieldRows(items, doc, `${path}[]`, depth + 1));
+      else if (field.properties || variants(field).some((v) => resolve(v, doc).properties))
+        rows.push(...fieldRows(field, doc, path, depth + 1));
     }
   }
   return rows;
@@ -105,14 +123,22 @@ export function fieldRows(schema: Json, doc: Json, prefix = '', depth = 0): Fiel
 /** The document's operations by tag, in the document's tag order (untagged ones last). */
 export function apiReference(doc: Json): TagView[] {
   const tags = new Map<string, TagView>();
-  for (const t of (doc.tags as { name: string; description?: string }[] | undefined) ?? []) tags.set(t.name, { name: t.name, ...(t.description ? { description: t.description } : {}), operations: [] });
+  for (const t of (doc.tags as { name: string; description?: string }[] | undefined) ?? [])
+    tags.set(t.name, {
+      name: t.name,
+      ...(t.description ? { description: t.description } : {}),
+      operations: [],
+    });
   for (const [path, item] of Object.entries((doc.paths ?? {}) as Record<string, Json>)) {
     const shared = (item.parameters as Json[] | undefined) ?? [];
     for (const method of METHODS) {
       const op = item[method] as Json | undefined;
       if (!op) continue;
-      const params = [...shared, ...((op.parameters as Json[] | undefined) ?? [])].map((p) => resolve(p, doc));
-      const content = ((resolve((op.requestBody as Json | undefined) ?? {}, doc).content ?? {}) as Record<string, Json>);
+      const params = [...shared, ...((op.parameters as Json[] | undefined) ?? [])].map((p) =>
+        resolve(p, doc),
+      );
+      const content = (resolve((op.requestBody as Json | undefined) ?? {}, doc).content ??
+        {}) as Record<string, Json>;
       const [mediaType, media] = Object.entries(content)[0] ?? [];
       const view: OperationView = {
         id: (op.operationId as string | undefined) ?? `${method}-${path}`,
@@ -127,8 +153,20 @@ export function apiReference(doc: Json): TagView[] {
           required: p.required === true,
           ...(p.description ? { description: p.description as string } : {}),
         })),
-        ...(mediaType ? { body: { mediaType, fields: media?.schema ? fieldRows(media.schema as Json, doc) : [] } } : {}),
-        responses: Object.entries((op.responses ?? {}) as Record<string, Json>).map(([status, r]) => ({ status, description: (resolve(r, doc).description as string | undefined) ?? '' })),
+        ...(mediaType
+          ? {
+              body: {
+                mediaType,
+                fields: media?.schema ? fieldRows(media.schema as Json, doc) : [],
+              },
+            }
+          : {}),
+        responses: Object.entries((op.responses ?? {}) as Record<string, Json>).map(
+          ([status, r]) => ({
+            status,
+            description: (resolve(r, doc).description as string | undefined) ?? '',
+          }),
+        ),
       };
       const tag = ((op.tags as string[] | undefined) ?? [])[0] ?? 'Other';
       if (!tags.has(tag)) tags.set(tag, { name: tag, operations: [] });
@@ -140,5 +178,8 @@ export function apiReference(doc: Json): TagView[] {
 
 /** Text with `code` spans (as the document writes them) split into plain and code pieces. */
 export function inlineCode(text: string): { code: boolean; text: string }[] {
-  return text.split('`').map((piece, i) => ({ code: i % 2 === 1, text: piece })).filter((p) => p.text !== '');
+  return text
+    .split('`')
+    .map((piece, i) => ({ code: i % 2 === 1, text: piece }))
+    .filter((p) => p.text !== '');
 }

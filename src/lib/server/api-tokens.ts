@@ -2,7 +2,13 @@ import type { Db } from './db/index.ts';
 import { NotFoundError } from './errors.ts';
 import { authorize, requireUser } from './policy.ts';
 import { insertAuditEvent } from './repositories/audit.ts';
-import { findApiTokenOwner, insertApiToken, listApiTokens, revokeApiToken, type ApiTokenInfo } from './repositories/auth-tokens.ts';
+import {
+  findApiTokenOwner,
+  insertApiToken,
+  listApiTokens,
+  revokeApiToken,
+  type ApiTokenInfo,
+} from './repositories/auth-tokens.ts';
 import { isUuid } from './repositories/users.ts';
 import { hashSecret, newApiToken } from './auth/secrets.ts';
 import type { Principal, Scope } from '../shared/principal.ts';
@@ -40,7 +46,11 @@ export async function listTokens(db: Db, principal: Principal): Promise<ApiToken
 }
 
 /** Creates a token; the secret is in the answer and nowhere else, ever. */
-export async function createToken(db: Db, principal: Principal, input: { name: string; scopes: Scope[]; expiresInDays: number }): Promise<{ token: string; info: ApiTokenView }> {
+export async function createToken(
+  db: Db,
+  principal: Principal,
+  input: { name: string; scopes: Scope[]; expiresInDays: number },
+): Promise<{ token: string; info: ApiTokenView }> {
   const user = requireUser(principal);
   authorize(user, 'token.create', null);
   const token = newApiToken();
@@ -53,7 +63,13 @@ export async function createToken(db: Db, principal: Principal, input: { name: s
       scopes: input.scopes,
       expiresAt: new Date(Date.now() + input.expiresInDays * 86_400_000),
     });
-    await insertAuditEvent(trx, { actorId: user.id, action: 'token.created', subjectType: 'api_token', subjectId: t.id, details: { name: t.name, scopes: t.scopes, expiresAt: t.expiresAt.toISOString() } });
+    await insertAuditEvent(trx, {
+      actorId: user.id,
+      action: 'token.created',
+      subjectType: 'api_token',
+      subjectId: t.id,
+      details: { name: t.name, scopes: t.scopes, expiresAt: t.expiresAt.toISOString() },
+    });
     return t;
   });
   return { token, info: view(info) };
@@ -67,6 +83,11 @@ export async function revokeToken(db: Db, principal: Principal, tokenId: string)
   if (owner.revokedAt) return;
   await db.transaction().execute(async (trx) => {
     await revokeApiToken(trx, tokenId);
-    await insertAuditEvent(trx, { actorId: user.id, action: 'token.revoked', subjectType: 'api_token', subjectId: tokenId });
+    await insertAuditEvent(trx, {
+      actorId: user.id,
+      action: 'token.revoked',
+      subjectType: 'api_token',
+      subjectId: tokenId,
+    });
   });
 }

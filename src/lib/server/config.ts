@@ -10,7 +10,10 @@ const schema = z.object({
   AUTH_SECRET: z.string().min(32, 'must be at least 32 characters'),
   S3_ENDPOINT: z.url().default('http://127.0.0.1:4580'),
   S3_REGION: z.string().default('us-east-1'),
-  S3_BUCKET: z.string().regex(/^[a-z0-9][a-z0-9.-]{2,62}$/, 'must be a valid bucket name').default('edgewise-raw'),
+  S3_BUCKET: z
+    .string()
+    .regex(/^[a-z0-9][a-z0-9.-]{2,62}$/, 'must be a valid bucket name')
+    .default('edgewise-raw'),
   S3_ACCESS_KEY_ID: z.string().default('S3RVER'),
   S3_SECRET_ACCESS_KEY: z.string().default('S3RVER'),
   SMTP_HOST: z.string().default('127.0.0.1'),
@@ -22,9 +25,17 @@ const schema = z.object({
   TRUST_PROXY: z.stringbool().default(false),
   /** Requests that send e-mail (sign-up, password reset, sign-in link) per client address per hour. */
   MAIL_LIMIT_PER_CLIENT: z.coerce.number().int().positive().default(20),
-  MAX_UPLOAD_BYTES: z.coerce.number().int().positive().default(200 * 1024 * 1024),
+  MAX_UPLOAD_BYTES: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(200 * 1024 * 1024),
   /** Largest file POST /api/v1/analyses takes in one request (bigger files go through uploads). */
-  MAX_ANALYSIS_BYTES: z.coerce.number().int().positive().default(64 * 1024 * 1024),
+  MAX_ANALYSIS_BYTES: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(64 * 1024 * 1024),
 });
 
 export type Config = z.infer<typeof schema>;

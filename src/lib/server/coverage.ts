@@ -11,7 +11,8 @@ import type { Coverage, CoverageCell, CoverageRow } from '../shared/coverage-vie
 // counts behind /coverage, limited to what the principal may read (private lab records stay out
 // for everyone outside the lab).
 
-const many = <T extends z.ZodType>(item: T) => z.union([item, z.array(item)]).transform((v) => (Array.isArray(v) ? v : [v]) as z.infer<T>[]);
+const many = <T extends z.ZodType>(item: T) =>
+  z.union([item, z.array(item)]).transform((v) => (Array.isArray(v) ? v : [v]) as z.infer<T>[]);
 
 /** Query parameters of GET /api/v1/coverage. */
 export const coverageQuerySchema = z.strictObject({
@@ -23,8 +24,16 @@ export type CoverageQuery = z.infer<typeof coverageQuerySchema>;
 export type { Coverage, CoverageCell, CoverageRow };
 
 /** The coverage matrix over listed (published or flagged) records the principal may read. */
-export async function coverageMatrix(db: Db, principal: Principal, q: CoverageQuery): Promise<Coverage> {
-  const counts = await coverageCounts(db, readScope(principal), { statuses: LISTED, ...(q.method ? { methods: q.method } : {}), ...(q.cellType ? { cellTypes: q.cellType } : {}) });
+export async function coverageMatrix(
+  db: Db,
+  principal: Principal,
+  q: CoverageQuery,
+): Promise<Coverage> {
+  const counts = await coverageCounts(db, readScope(principal), {
+    statuses: LISTED,
+    ...(q.method ? { methods: q.method } : {}),
+    ...(q.cellType ? { cellTypes: q.cellType } : {}),
+  });
   const rows = new Map<string, CoverageRow>();
   const electrodeTotals = new Map<string, number>();
   for (const c of counts) {
@@ -39,7 +48,11 @@ export async function coverageMatrix(db: Db, principal: Principal, q: CoverageQu
     row.total += c.n;
     electrodeTotals.set(c.electrode, (electrodeTotals.get(c.electrode) ?? 0) + c.n);
   }
-  const electrodes = [...electrodeTotals].map(([id, total]) => ({ id, total })).sort((a, b) => b.total - a.total || a.id.localeCompare(b.id));
-  const sorted = [...rows.values()].sort((a, b) => b.total - a.total || `${a.salt}/${a.solvent}`.localeCompare(`${b.salt}/${b.solvent}`));
+  const electrodes = [...electrodeTotals]
+    .map(([id, total]) => ({ id, total }))
+    .sort((a, b) => b.total - a.total || a.id.localeCompare(b.id));
+  const sorted = [...rows.values()].sort(
+    (a, b) => b.total - a.total || `${a.salt}/${a.solvent}`.localeCompare(`${b.salt}/${b.solvent}`),
+  );
   return { electrodes, rows: sorted, evidenceLevels: EVIDENCE_LEVELS };
 }

@@ -3,13 +3,22 @@ import type { Db } from './db/index.ts';
 import { authorize, requireUser, type Principal } from './policy.ts';
 import { listAuditEvents, mailTo, type AuditFilter } from './repositories/curation.ts';
 import { findUserByEmail, isUuid } from './repositories/users.ts';
-import type { AuditEventView, NotificationView, auditQuery, notificationsQuery } from '../shared/curation.ts';
+import type {
+  AuditEventView,
+  NotificationView,
+  auditQuery,
+  notificationsQuery,
+} from '../shared/curation.ts';
 
 // Reading what happened: the audit log (curators and admins) and a user's own notifications
 // (the messages the outbox holds for their address).
 
 /** Audit events filtered by actor (id or e-mail), record, action (or a prefix ending in "."), and dates; newest first. */
-export async function auditLog(db: Db, principal: Principal, q: z.output<typeof auditQuery>): Promise<{ total: number; limit: number; offset: number; items: AuditEventView[] }> {
+export async function auditLog(
+  db: Db,
+  principal: Principal,
+  q: z.output<typeof auditQuery>,
+): Promise<{ total: number; limit: number; offset: number; items: AuditEventView[] }> {
   authorize(principal, 'audit.read', null);
   const f: AuditFilter = {};
   if (q.actor) {
@@ -46,12 +55,26 @@ export async function auditLog(db: Db, principal: Principal, q: z.output<typeof 
 export const NOTIFICATION_KINDS = ['review.', 'flag.', 'vocabulary.'] as const;
 
 /** The signed-in user's notifications, newest first. */
-export async function listNotifications(db: Db, principal: Principal, q: z.output<typeof notificationsQuery>): Promise<{ total: number; items: NotificationView[] }> {
+export async function listNotifications(
+  db: Db,
+  principal: Principal,
+  q: z.output<typeof notificationsQuery>,
+): Promise<{ total: number; items: NotificationView[] }> {
   authorize(principal, 'notification.list', null);
   const user = requireUser(principal);
-  const { rows, total } = await mailTo(db, user.email, NOTIFICATION_KINDS, { limit: q.limit, offset: q.offset });
+  const { rows, total } = await mailTo(db, user.email, NOTIFICATION_KINDS, {
+    limit: q.limit,
+    offset: q.offset,
+  });
   return {
     total,
-    items: rows.map((r) => ({ id: r.id, kind: r.kind, subject: r.subject, text: r.text_body, createdAt: r.created_at.toISOString(), delivered: r.status === 'sent' })),
+    items: rows.map((r) => ({
+      id: r.id,
+      kind: r.kind,
+      subject: r.subject,
+      text: r.text_body,
+      createdAt: r.created_at.toISOString(),
+      delivered: r.status === 'sent',
+    })),
   };
 }

@@ -11,7 +11,11 @@ export class AppError extends Error {
     readonly status: number,
     readonly title: string,
     detail?: string,
-    readonly extra: { errors?: FieldError[]; retryAfterSeconds?: number; [k: string]: unknown } = {},
+    readonly extra: {
+      errors?: FieldError[];
+      retryAfterSeconds?: number;
+      [k: string]: unknown;
+    } = {},
   ) {
     super(detail ?? title);
   }

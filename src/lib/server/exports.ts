@@ -1,6 +1,11 @@
 import type { Principal } from '../shared/principal.ts';
 import type { Db } from './db/index.ts';
-import { eachRecord, recordQuerySchema, type RecordQuery, type SearchItem } from './record-search.ts';
+import {
+  eachRecord,
+  recordQuerySchema,
+  type RecordQuery,
+  type SearchItem,
+} from './record-search.ts';
 import { config } from './config.ts';
 import { z } from 'zod';
 
@@ -20,11 +25,43 @@ export const EXPORT_TYPES: Record<ExportFormat, { type: string; ext: string }> =
 };
 
 const CSV_COLUMNS = [
-  'handle', 'version', 'url', 'status', 'evidence_level', 'limit_kind', 'solvents', 'salts', 'additives', 'salt_concentration', 'salt_basis',
-  'water_ppm', 'ph', 'temperature_c', 'working_electrode', 'electrode_form', 'reference_electrode', 'cell_type', 'method',
-  'scan_rate_mv_s', 'criterion', 'cathodic_reported_v', 'cathodic_reference', 'anodic_reported_v', 'anodic_reference',
-  'scale', 'cathodic_on_scale_v', 'anodic_on_scale_v', 'cathodic_computed_v', 'anodic_computed_v',
-  'common_criterion', 'common_applied', 'common_cathodic_v', 'common_anodic_v', 'licence', 'doi', 'citation',
+  'handle',
+  'version',
+  'url',
+  'status',
+  'evidence_level',
+  'limit_kind',
+  'solvents',
+  'salts',
+  'additives',
+  'salt_concentration',
+  'salt_basis',
+  'water_ppm',
+  'ph',
+  'temperature_c',
+  'working_electrode',
+  'electrode_form',
+  'reference_electrode',
+  'cell_type',
+  'method',
+  'scan_rate_mv_s',
+  'criterion',
+  'cathodic_reported_v',
+  'cathodic_reference',
+  'anodic_reported_v',
+  'anodic_reference',
+  'scale',
+  'cathodic_on_scale_v',
+  'anodic_on_scale_v',
+  'cathodic_computed_v',
+  'anodic_computed_v',
+  'common_criterion',
+  'common_applied',
+  'common_cathodic_v',
+  'common_anodic_v',
+  'licence',
+  'doi',
+  'citation',
 ] as const;
 
 function csvCell(v: unknown): string {
@@ -39,9 +76,15 @@ function csvCell(v: unknown): string {
 export function citationText(c: SearchItem['content']): string {
   const s = c.source;
   if (!s) return '';
-  if (s.kind === 'unpublished') return `Unpublished measurement, ${s.measuredBy}${s.measuredOn ? `, ${s.measuredOn}` : ''}`;
+  if (s.kind === 'unpublished')
+    return `Unpublished measurement, ${s.measuredBy}${s.measuredOn ? `, ${s.measuredOn}` : ''}`;
   const authors = s.authors.map((a) => (a.given ? `${a.family}, ${a.given}` : a.family)).join('; ');
-  return [`${authors} (${s.year})`, s.title, [s.containerTitle, s.volume, s.pages].filter(Boolean).join(' '), s.doi ? `doi:${s.doi}` : '']
+  return [
+    `${authors} (${s.year})`,
+    s.title,
+    [s.containerTitle, s.volume, s.pages].filter(Boolean).join(' '),
+    s.doi ? `doi:${s.doi}` : '',
+  ]
     .filter(Boolean)
     .join('. ');
 }
@@ -72,7 +115,9 @@ function csvRow(r: SearchItem, origin: string): string {
     evidence_level: r.evidenceLevel,
     limit_kind: r.limitKind,
     solvents: e.solvents.map((s) => `${s.term}:${s.fraction}`).join(' '),
-    salts: e.salts.map((s) => `${s.term}:${s.concentration.value} ${s.concentration.basis}`).join(' '),
+    salts: e.salts
+      .map((s) => `${s.term}:${s.concentration.value} ${s.concentration.basis}`)
+      .join(' '),
     additives: e.additives.map((s) => s.term).join(' '),
     salt_concentration: e.salts[0]?.concentration.value,
     salt_basis: e.salts[0]?.concentration.basis,
@@ -124,7 +169,12 @@ function bibEntry(r: SearchItem, origin: string): string {
   let type = 'misc';
   if (s?.kind === 'published') {
     type = s.containerTitle ? 'article' : 'misc';
-    fields.push(['author', s.authors.map((a) => (a.given ? `${bib(a.family)}, ${bib(a.given)}` : `{${bib(a.family)}}`)).join(' and ')]);
+    fields.push([
+      'author',
+      s.authors
+        .map((a) => (a.given ? `${bib(a.family)}, ${bib(a.given)}` : `{${bib(a.family)}}`))
+        .join(' and '),
+    ]);
     fields.push(['title', `{${bib(s.title)}}`]);
     if (s.containerTitle) fields.push(['journal', bib(s.containerTitle)]);
     fields.push(['year', String(s.year)]);
@@ -155,7 +205,9 @@ export function cslItem(r: SearchItem, origin: string): Record<string, unknown> 
     Object.assign(item, {
       type: s.containerTitle ? 'article-journal' : 'document',
       title: s.title,
-      author: s.authors.map((a) => (a.given ? { family: a.family, given: a.given } : { family: a.family })),
+      author: s.authors.map((a) =>
+        a.given ? { family: a.family, given: a.given } : { family: a.family },
+      ),
       issued: { 'date-parts': [[s.year]] },
       ...(s.containerTitle ? { 'container-title': s.containerTitle } : {}),
       ...(s.volume ? { volume: s.volume } : {}),
@@ -178,7 +230,12 @@ export function cslItem(r: SearchItem, origin: string): Record<string, unknown> 
  * The export as a stream of UTF-8 text. The first record is fetched before the stream is
  * returned, so bad parameters fail as a problem response rather than a cut-off download.
  */
-export async function exportStream(db: Db, principal: Principal, q: RecordQuery, format: ExportFormat): Promise<ReadableStream<Uint8Array>> {
+export async function exportStream(
+  db: Db,
+  principal: Principal,
+  q: RecordQuery,
+  format: ExportFormat,
+): Promise<ReadableStream<Uint8Array>> {
   const origin = config().PUBLIC_ORIGIN.replace(/\/$/, '');
   const enc = new TextEncoder();
   const it = eachRecord(db, principal, q);
@@ -203,8 +260,12 @@ export async function exportStream(db: Db, principal: Principal, q: RecordQuery,
         const sep = first ? '' : ',';
         first = false;
         if (format === 'csv') controller.enqueue(enc.encode(csvRow(r, origin)));
-        else if (format === 'json') controller.enqueue(enc.encode(sep + JSON.stringify({ ...r, citation: citationText(r.content) })));
-        else if (format === 'csljson') controller.enqueue(enc.encode(sep + JSON.stringify(cslItem(r, origin))));
+        else if (format === 'json')
+          controller.enqueue(
+            enc.encode(sep + JSON.stringify({ ...r, citation: citationText(r.content) })),
+          );
+        else if (format === 'csljson')
+          controller.enqueue(enc.encode(sep + JSON.stringify(cslItem(r, origin))));
         else controller.enqueue(enc.encode(bibEntry(r, origin)));
       } catch (err) {
         controller.error(err);

@@ -16,8 +16,15 @@ export function startJobs(): void {
   started = true;
   startOutbox();
   const cleanup = () => {
-    void cleanStaleUploads(db()).catch((err) => console.error('[edgewise] upload cleanup failed:', err instanceof Error ? err.message : err));
-    void forgetOldMailRequests(db()).catch((err) => console.error('[edgewise] mail-limit cleanup failed:', err instanceof Error ? err.message : err));
+    void cleanStaleUploads(db()).catch((err) =>
+      console.error('[edgewise] upload cleanup failed:', err instanceof Error ? err.message : err),
+    );
+    void forgetOldMailRequests(db()).catch((err) =>
+      console.error(
+        '[edgewise] mail-limit cleanup failed:',
+        err instanceof Error ? err.message : err,
+      ),
+    );
   };
   setInterval(cleanup, CLEANUP_EVERY_MS).unref();
   setTimeout(cleanup, 30_000).unref();

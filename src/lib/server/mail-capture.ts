@@ -25,7 +25,8 @@ export async function readCapturedMail(directory: string): Promise<CapturedMail[
   return Promise.all(
     files.map(async (file) => {
       const parsed = await simpleParser(await fs.readFile(path.join(directory, file)));
-      const addr = (a: typeof parsed.to) => (Array.isArray(a) ? a.map((x) => x.text).join(', ') : (a?.text ?? ''));
+      const addr = (a: typeof parsed.to) =>
+        Array.isArray(a) ? a.map((x) => x.text).join(', ') : (a?.text ?? '');
       return {
         id: file.replace(/\.eml$/, ''),
         date: parsed.date ?? new Date(0),

@@ -33,7 +33,10 @@ export async function sendMail(message: Message): Promise<void> {
 /** True when the SMTP server answers a handshake. */
 export async function pingMail(): Promise<boolean> {
   try {
-    await Promise.race([mailer().verify(), new Promise((_, reject) => setTimeout(() => reject(new Error('timeout')), 2_000))]);
+    await Promise.race([
+      mailer().verify(),
+      new Promise((_, reject) => setTimeout(() => reject(new Error('timeout')), 2_000)),
+    ]);
     return true;
   } catch {
     return false;

@@ -27,7 +27,13 @@ import {
   queueQuery,
   referenceValueBody,
 } from '../shared/curation.ts';
-import { createRecordBody, createUploadBody, editRecordBody, recordContentSchema, transitionBody } from '../shared/record.ts';
+import {
+  createRecordBody,
+  createUploadBody,
+  editRecordBody,
+  recordContentSchema,
+  transitionBody,
+} from '../shared/record.ts';
 import { vocabularyTermSchema } from '../shared/vocabulary.ts';
 import { MESSAGES_PER_ADDRESS } from './auth/mail-limits.ts';
 import { exportQuerySchema } from './exports.ts';
@@ -53,7 +59,13 @@ function queryParameters(s: z.ZodObject): Json[] {
   return Object.entries(s.shape).map(([name, field]) => {
     const schema = schemaOf(field as z.ZodType);
     const description = (field as z.ZodType).description;
-    return { name, in: 'query', required: !(field as z.ZodType).safeParse(undefined).success, schema, ...(description ? { description } : {}) };
+    return {
+      name,
+      in: 'query',
+      required: !(field as z.ZodType).safeParse(undefined).success,
+      schema,
+      ...(description ? { description } : {}),
+    };
   });
 }
 
@@ -83,7 +95,10 @@ const BODIES = {
   ReferenceValue: referenceValueBody,
 } satisfies Record<string, z.ZodType>;
 
-const body = (name: keyof typeof BODIES): Json => ({ required: true, content: { 'application/json': { schema: { $ref: `#/components/schemas/${name}` } } } });
+const body = (name: keyof typeof BODIES): Json => ({
+  required: true,
+  content: { 'application/json': { schema: { $ref: `#/components/schemas/${name}` } } },
+});
 
 const problem = { $ref: '#/components/schemas/Problem' };
 const ERROR_TEXT: Record<number, string> = {
@@ -102,15 +117,33 @@ const errors = (...codes: (number | [number, string])[]): Json =>
   Object.fromEntries(
     codes.map((c) => {
       const [code, text] = typeof c === 'number' ? [c, ERROR_TEXT[c] ?? 'Error'] : c;
-      return [String(code), { description: text, content: { 'application/problem+json': { schema: problem } } }];
+      return [
+        String(code),
+        { description: text, content: { 'application/problem+json': { schema: problem } } },
+      ];
     }),
   );
-const ok = (description: string, schema: Json = { type: 'object' }, type = 'application/json'): Json => ({ description, content: { [type]: { schema } } });
+const ok = (
+  description: string,
+  schema: Json = { type: 'object' },
+  type = 'application/json',
+): Json => ({ description, content: { [type]: { schema } } });
 const noContent = (description: string): Json => ({ description });
 
-const pathParam = (name: string, schema: Json, description: string): Json => ({ name, in: 'path', required: true, schema, description });
-const handle = pathParam('handle', { type: 'string', pattern: '^EW-[0-9]{6,}$' }, 'The record handle, such as EW-000123');
-const uuid = (description: string, name = 'id'): Json => pathParam(name, { type: 'string', format: 'uuid' }, description);
+const pathParam = (name: string, schema: Json, description: string): Json => ({
+  name,
+  in: 'path',
+  required: true,
+  schema,
+  description,
+});
+const handle = pathParam(
+  'handle',
+  { type: 'string', pattern: '^EW-[0-9]{6,}$' },
+  'The record handle, such as EW-000123',
+);
+const uuid = (description: string, name = 'id'): Json =>
+  pathParam(name, { type: 'string', format: 'uuid' }, description);
 const labSlug = pathParam('slug', { type: 'string' }, 'The lab slug');
 
 /** Operations that need a signed-in user: a browser session or an API token. */
@@ -141,14 +174,37 @@ export function openApiDocument(serverUrl: string): Json {
     },
     servers: [{ url: serverUrl }],
     tags: [
-      { name: 'Records', description: 'Window records: search, read, create, edit, move through review, versions, coverage, bulk import and export.' },
-      { name: 'Files', description: 'Raw measurement files: declare, upload straight to storage, complete, download.' },
+      {
+        name: 'Records',
+        description:
+          'Window records: search, read, create, edit, move through review, versions, coverage, bulk import and export.',
+      },
+      {
+        name: 'Files',
+        description:
+          'Raw measurement files: declare, upload straight to storage, complete, download.',
+      },
       { name: 'Analysis', description: 'Analyse a raw export without storing anything.' },
-      { name: 'Curation', description: 'The curators’ work: the review queue, claims, decisions, flags and the audit log.' },
-      { name: 'Vocabulary', description: 'Names of solvents, salts, additives, materials and reference electrodes; proposals, merges and reference potentials.' },
+      {
+        name: 'Curation',
+        description:
+          'The curators’ work: the review queue, claims, decisions, flags and the audit log.',
+      },
+      {
+        name: 'Vocabulary',
+        description:
+          'Names of solvents, salts, additives, materials and reference electrodes; proposals, merges and reference potentials.',
+      },
       { name: 'Labs', description: 'Labs and their members.' },
-      { name: 'Account', description: 'Your own account: who you are, profile, password, API tokens and notifications; signing up.' },
-      { name: 'Admin', description: 'Accounts as administrators manage them: roles and disabling.' },
+      {
+        name: 'Account',
+        description:
+          'Your own account: who you are, profile, password, API tokens and notifications; signing up.',
+      },
+      {
+        name: 'Admin',
+        description: 'Accounts as administrators manage them: roles and disabling.',
+      },
       { name: 'Meta', description: 'This document.' },
     ],
     components: {
@@ -170,7 +226,14 @@ export function openApiDocument(serverUrl: string): Json {
             status: { type: 'integer' },
             detail: { type: 'string' },
             instance: { type: 'string' },
-            errors: { type: 'array', items: { type: 'object', required: ['path', 'message'], properties: { path: { type: 'string' }, message: { type: 'string' } } } },
+            errors: {
+              type: 'array',
+              items: {
+                type: 'object',
+                required: ['path', 'message'],
+                properties: { path: { type: 'string' }, message: { type: 'string' } },
+              },
+            },
           },
         },
       },
@@ -182,13 +245,19 @@ export function openApiDocument(serverUrl: string): Json {
         get: {
           operationId: 'searchRecords',
           tags: ['Records'],
-          summary: 'Find records (current versions) with filters, facets, a reference scale and a common criterion',
+          summary:
+            'Find records (current versions) with filters, facets, a reference scale and a common criterion',
           description:
             'Answers carry an `ETag`: send it back in `If-None-Match` and an unchanged answer is a 304 without a body. ' +
             'Send `Accept-Encoding: gzip` for a compressed answer. What a search shows depends on who asks.',
           parameters: queryParameters(recordQuerySchema),
           responses: {
-            '200': { ...ok('A page of records with facet counts'), headers: { ETag: { description: 'Entity tag of this answer', schema: { type: 'string' } } } },
+            '200': {
+              ...ok('A page of records with facet counts'),
+              headers: {
+                ETag: { description: 'Entity tag of this answer', schema: { type: 'string' } },
+              },
+            },
             '304': { description: 'Not modified: the answer is the one whose entity tag you sent' },
             ...errors(400),
           },
@@ -204,14 +273,22 @@ export function openApiDocument(serverUrl: string): Json {
       },
       '/records/{handle}': {
         parameters: [handle],
-        get: { operationId: 'getRecord', tags: ['Records'], summary: 'A record with its current version', responses: { '200': ok('The record'), ...errors(404) } },
+        get: {
+          operationId: 'getRecord',
+          tags: ['Records'],
+          summary: 'A record with its current version',
+          responses: { '200': ok('The record'), ...errors(404) },
+        },
         put: {
           operationId: 'editRecord',
           tags: ['Records'],
           summary: 'Edit a record: a new version with a change note; 409 when `version` is stale',
           security: signedIn,
           requestBody: body('EditRecord'),
-          responses: { '200': ok('The record at its new version'), ...errors(400, 401, 403, 404, [409, 'Stale version: the record changed first'], 413) },
+          responses: {
+            '200': ok('The record at its new version'),
+            ...errors(400, 401, 403, 404, [409, 'Stale version: the record changed first'], 413),
+          },
         },
       },
       '/records/{handle}/transitions': {
@@ -222,16 +299,36 @@ export function openApiDocument(serverUrl: string): Json {
           summary: 'Submit, request changes, publish, decline, flag, resolve a flag or withdraw',
           security: signedIn,
           requestBody: body('Transition'),
-          responses: { '200': ok('The record in its new status'), ...errors(400, 401, 403, 404, [409, 'Stale version, a move the status does not allow, or already decided'], 413) },
+          responses: {
+            '200': ok('The record in its new status'),
+            ...errors(
+              400,
+              401,
+              403,
+              404,
+              [409, 'Stale version, a move the status does not allow, or already decided'],
+              413,
+            ),
+          },
         },
       },
       '/records/{handle}/versions': {
         parameters: [handle],
-        get: { operationId: 'listVersions', tags: ['Records'], summary: 'Version history', responses: { '200': ok('Versions, oldest first'), ...errors(404) } },
+        get: {
+          operationId: 'listVersions',
+          tags: ['Records'],
+          summary: 'Version history',
+          responses: { '200': ok('Versions, oldest first'), ...errors(404) },
+        },
       },
       '/records/{handle}/versions/{n}': {
         parameters: [handle, pathParam('n', { type: 'integer', minimum: 1 }, 'The version number')],
-        get: { operationId: 'getVersion', tags: ['Records'], summary: 'One version of a record', responses: { '200': ok('The version'), ...errors(404) } },
+        get: {
+          operationId: 'getVersion',
+          tags: ['Records'],
+          summary: 'One version of a record',
+          responses: { '200': ok('The version'), ...errors(404) },
+        },
       },
       '/records/{handle}/diff': {
         parameters: [handle],
@@ -258,15 +355,20 @@ export function openApiDocument(serverUrl: string): Json {
         get: {
           operationId: 'recordReferenceValues',
           tags: ['Records'],
-          summary: 'The reference potentials the current version was computed with, and whether newer ones exist',
-          responses: { '200': ok('`references`, one per reference electrode used'), ...errors(404) },
+          summary:
+            'The reference potentials the current version was computed with, and whether newer ones exist',
+          responses: {
+            '200': ok('`references`, one per reference electrode used'),
+            ...errors(404),
+          },
         },
       },
       '/coverage': {
         get: {
           operationId: 'coverageMatrix',
           tags: ['Records'],
-          summary: 'Listed records counted per salt, solvent, working electrode and evidence level (what you may read)',
+          summary:
+            'Listed records counted per salt, solvent, working electrode and evidence level (what you may read)',
           parameters: queryParameters(coverageQuerySchema),
           responses: { '200': ok('Electrodes and rows of counts'), ...errors(400) },
         },
@@ -275,12 +377,22 @@ export function openApiDocument(serverUrl: string): Json {
         post: {
           operationId: 'importRecords',
           tags: ['Records'],
-          summary: 'Bulk import of stated records from the CSV template (text/csv): every row checked first, all imported as drafts or none',
+          summary:
+            'Bulk import of stated records from the CSV template (text/csv): every row checked first, all imported as drafts or none',
           security: signedIn,
           requestBody: { required: true, content: { 'text/csv': { schema: { type: 'string' } } } },
           responses: {
             '201': ok('The drafts made, with the line of each'),
-            ...errors(400, 401, 403, [413, 'The file is over 2 MiB'], [422, 'Refused; `errors` gives the line and column of each problem, and nothing was imported']),
+            ...errors(
+              400,
+              401,
+              403,
+              [413, 'The file is over 2 MiB'],
+              [
+                422,
+                'Refused; `errors` gives the line and column of each problem, and nothing was imported',
+              ],
+            ),
           },
         },
       },
@@ -288,8 +400,11 @@ export function openApiDocument(serverUrl: string): Json {
         get: {
           operationId: 'exportRecords',
           tags: ['Records'],
-          summary: 'All matching records as CSV, JSON, BibTeX or CSL-JSON, each with handle, version and citation',
-          parameters: queryParameters(exportQuerySchema).filter((p) => !['limit', 'offset', 'facets', 'sort'].includes(String(p.name))),
+          summary:
+            'All matching records as CSV, JSON, BibTeX or CSL-JSON, each with handle, version and citation',
+          parameters: queryParameters(exportQuerySchema).filter(
+            (p) => !['limit', 'offset', 'facets', 'sort'].includes(String(p.name)),
+          ),
           responses: {
             '200': {
               description: 'The export (streamed)',
@@ -313,12 +428,28 @@ export function openApiDocument(serverUrl: string): Json {
           summary: 'Declare a raw file; returns a short-lived presigned PUT URL',
           security: signedIn,
           requestBody: body('CreateUpload'),
-          responses: { '201': ok('Upload id and URL'), ...errors(400, 401, 403, 404, [413, 'The declared file (or the JSON body) is too large'], 503) },
+          responses: {
+            '201': ok('Upload id and URL'),
+            ...errors(
+              400,
+              401,
+              403,
+              404,
+              [413, 'The declared file (or the JSON body) is too large'],
+              503,
+            ),
+          },
         },
       },
       '/uploads/{id}': {
         parameters: [uuid('The upload id')],
-        get: { operationId: 'getUpload', tags: ['Files'], summary: 'State of one of your uploads', security: signedIn, responses: { '200': ok('The upload'), ...errors(404) } },
+        get: {
+          operationId: 'getUpload',
+          tags: ['Files'],
+          summary: 'State of one of your uploads',
+          security: signedIn,
+          responses: { '200': ok('The upload'), ...errors(404) },
+        },
       },
       '/uploads/{id}/complete': {
         parameters: [uuid('The upload id')],
@@ -329,7 +460,13 @@ export function openApiDocument(serverUrl: string): Json {
           security: signedIn,
           responses: {
             '200': ok('The attached file, its analysis and the record version'),
-            ...errors(403, 404, [409, 'The upload is no longer pending, or the file has not arrived in storage'], [422, 'Wrong size or checksum, or a file the analysis cannot read'], 503),
+            ...errors(
+              403,
+              404,
+              [409, 'The upload is no longer pending, or the file has not arrived in storage'],
+              [422, 'Wrong size or checksum, or a file the analysis cannot read'],
+              503,
+            ),
           },
         },
       },
@@ -339,7 +476,14 @@ export function openApiDocument(serverUrl: string): Json {
           operationId: 'downloadRawFile',
           tags: ['Files'],
           summary: 'Download a raw file as an attachment',
-          responses: { '200': ok('The file', { type: 'string', contentMediaType: 'application/octet-stream' }, 'application/octet-stream'), ...errors(404, 503) },
+          responses: {
+            '200': ok(
+              'The file',
+              { type: 'string', contentMediaType: 'application/octet-stream' },
+              'application/octet-stream',
+            ),
+            ...errors(404, 503),
+          },
         },
       },
 
@@ -349,7 +493,8 @@ export function openApiDocument(serverUrl: string): Json {
           operationId: 'analyseFile',
           tags: ['Analysis'],
           summary: 'Analyse one raw export without storing it',
-          description: 'Send `multipart/form-data` with the file as `file` and the analysis options as JSON text in `options`. The answer is the same object the command line prints.',
+          description:
+            'Send `multipart/form-data` with the file as `file` and the analysis options as JSON text in `options`. The answer is the same object the command line prints.',
           requestBody: {
             required: true,
             content: {
@@ -358,8 +503,17 @@ export function openApiDocument(serverUrl: string): Json {
                   type: 'object',
                   required: ['file', 'options'],
                   properties: {
-                    file: { type: 'string', contentMediaType: 'application/octet-stream', description: 'The raw export' },
-                    options: { type: 'string', contentMediaType: 'application/json', contentSchema: { $ref: '#/components/schemas/AnalysisOptions' }, description: 'The analysis options, as JSON text' },
+                    file: {
+                      type: 'string',
+                      contentMediaType: 'application/octet-stream',
+                      description: 'The raw export',
+                    },
+                    options: {
+                      type: 'string',
+                      contentMediaType: 'application/json',
+                      contentSchema: { $ref: '#/components/schemas/AnalysisOptions' },
+                      description: 'The analysis options, as JSON text',
+                    },
                   },
                 },
                 encoding: { options: { contentType: 'application/json' } },
@@ -368,7 +522,12 @@ export function openApiDocument(serverUrl: string): Json {
           },
           responses: {
             '200': ok('The analysis result'),
-            ...errors(400, [413, 'The file is over the analysis limit'], [422, 'The file could not be analysed; `errors` gives the line and column'], [503, 'The analysis queue is full; retry after the Retry-After delay']),
+            ...errors(
+              400,
+              [413, 'The file is over the analysis limit'],
+              [422, 'The file could not be analysed; `errors` gives the line and column'],
+              [503, 'The analysis queue is full; retry after the Retry-After delay'],
+            ),
           },
         },
       },
@@ -390,7 +549,8 @@ export function openApiDocument(serverUrl: string): Json {
           operationId: 'reviewDetail',
           tags: ['Curation'],
           summary: 'Everything a curator weighs before deciding on a record',
-          description: 'Content, checklist, reported against computed limits, changes since the previous version, history, possible duplicates, claim and open flags.',
+          description:
+            'Content, checklist, reported against computed limits, changes since the previous version, history, possible duplicates, claim and open flags.',
           security: signedIn,
           responses: { '200': ok('The review view of the record'), ...errors(401, 403, 404) },
         },
@@ -404,14 +564,20 @@ export function openApiDocument(serverUrl: string): Json {
           description: 'The claim lasts `minutes` (30 unless given). Send `{}` for the default.',
           security: signedIn,
           requestBody: body('Claim'),
-          responses: { '200': ok('The claim'), ...errors(400, 401, 403, 404, [409, 'Another curator holds the claim'], 413) },
+          responses: {
+            '200': ok('The claim'),
+            ...errors(400, 401, 403, 404, [409, 'Another curator holds the claim'], 413),
+          },
         },
         delete: {
           operationId: 'releaseClaim',
           tags: ['Curation'],
           summary: 'Give up your claim on a record (nothing to do when there is none)',
           security: signedIn,
-          responses: { '204': noContent('Released'), ...errors(401, 403, 404, [409, 'Another curator holds the claim']) },
+          responses: {
+            '204': noContent('Released'),
+            ...errors(401, 403, 404, [409, 'Another curator holds the claim']),
+          },
         },
       },
       '/review/records/{handle}/decision': {
@@ -419,11 +585,25 @@ export function openApiDocument(serverUrl: string): Json {
         post: {
           operationId: 'decideRecord',
           tags: ['Curation'],
-          summary: 'Publish, request changes (with comments on fields) or decline a submitted record',
+          summary:
+            'Publish, request changes (with comments on fields) or decline a submitted record',
           description: 'Give the `version` you looked at. The contributor is told by e-mail.',
           security: signedIn,
           requestBody: body('Decision'),
-          responses: { '200': ok('Handle, new status, version and review id'), ...errors(400, 401, 403, 404, [409, 'Stale version, claimed by another curator, or already decided (`detail` says by whom)'], 413) },
+          responses: {
+            '200': ok('Handle, new status, version and review id'),
+            ...errors(
+              400,
+              401,
+              403,
+              404,
+              [
+                409,
+                'Stale version, claimed by another curator, or already decided (`detail` says by whom)',
+              ],
+              413,
+            ),
+          },
         },
       },
       '/review/records/{handle}/duplicates': {
@@ -433,7 +613,10 @@ export function openApiDocument(serverUrl: string): Json {
           tags: ['Curation'],
           summary: 'Records that may be duplicates of this one, field by field',
           security: signedIn,
-          responses: { '200': ok('`duplicates`, each with its reasons and fields side by side'), ...errors(401, 403, 404) },
+          responses: {
+            '200': ok('`duplicates`, each with its reasons and fields side by side'),
+            ...errors(401, 403, 404),
+          },
         },
       },
       '/review/flags': {
@@ -451,11 +634,22 @@ export function openApiDocument(serverUrl: string): Json {
         post: {
           operationId: 'resolveFlag',
           tags: ['Curation'],
-          summary: 'Resolve a flag: dismiss it, ask the contributor for changes, or withdraw the record',
+          summary:
+            'Resolve a flag: dismiss it, ask the contributor for changes, or withdraw the record',
           description: 'The contributor and everyone who flagged the record are told by e-mail.',
           security: signedIn,
           requestBody: body('FlagResolution'),
-          responses: { '200': ok('Handle, new status, version and review id'), ...errors(400, 401, 403, 404, [409, 'Already resolved, or the record changed first'], 413) },
+          responses: {
+            '200': ok('Handle, new status, version and review id'),
+            ...errors(
+              400,
+              401,
+              403,
+              404,
+              [409, 'Already resolved, or the record changed first'],
+              413,
+            ),
+          },
         },
       },
       '/audit': {
@@ -476,7 +670,15 @@ export function openApiDocument(serverUrl: string): Json {
           tags: ['Vocabulary'],
           summary: 'Vocabulary terms with abbreviations and synonyms',
           parameters: queryParameters(vocabularyQuerySchema),
-          responses: { '200': ok('Terms', { type: 'object', properties: { terms: { type: 'array', items: { $ref: '#/components/schemas/VocabularyTerm' } } } }), ...errors(400) },
+          responses: {
+            '200': ok('Terms', {
+              type: 'object',
+              properties: {
+                terms: { type: 'array', items: { $ref: '#/components/schemas/VocabularyTerm' } },
+              },
+            }),
+            ...errors(400),
+          },
         },
       },
       '/vocabulary/proposals': {
@@ -494,7 +696,16 @@ export function openApiDocument(serverUrl: string): Json {
           summary: 'Propose a new term for curators to accept or reject',
           security: signedIn,
           requestBody: body('TermProposal'),
-          responses: { '201': ok('The proposal'), ...errors(400, 401, 403, [409, 'The vocabulary or an open proposal already has this name'], 413) },
+          responses: {
+            '201': ok('The proposal'),
+            ...errors(
+              400,
+              401,
+              403,
+              [409, 'The vocabulary or an open proposal already has this name'],
+              413,
+            ),
+          },
         },
       },
       '/vocabulary/proposals/{id}/decision': {
@@ -505,7 +716,17 @@ export function openApiDocument(serverUrl: string): Json {
           summary: 'Accept a proposed term (it joins the vocabulary) or reject it with a reason',
           security: signedIn,
           requestBody: body('ProposalDecision'),
-          responses: { '200': ok('The decided proposal'), ...errors(400, 401, 403, 404, [409, 'Already decided, or the name reached the vocabulary meanwhile'], 413) },
+          responses: {
+            '200': ok('The decided proposal'),
+            ...errors(
+              400,
+              401,
+              403,
+              404,
+              [409, 'Already decided, or the name reached the vocabulary meanwhile'],
+              413,
+            ),
+          },
         },
       },
       '/vocabulary/merges': {
@@ -513,10 +734,14 @@ export function openApiDocument(serverUrl: string): Json {
           operationId: 'mergeTerms',
           tags: ['Vocabulary'],
           summary: 'Merge a duplicate term into another of the same kind',
-          description: 'The duplicate’s names become synonyms of the surviving term, and every record naming the duplicate gets a new version naming the survivor.',
+          description:
+            'The duplicate’s names become synonyms of the surviving term, and every record naming the duplicate gets a new version naming the survivor.',
           security: signedIn,
           requestBody: body('TermMerge'),
-          responses: { '200': ok('Both terms and the records that gained a version'), ...errors(400, 401, 403, [409, 'The duplicate was already merged'], 413) },
+          responses: {
+            '200': ok('Both terms and the records that gained a version'),
+            ...errors(400, 401, 403, [409, 'The duplicate was already merged'], 413),
+          },
         },
       },
       '/vocabulary/terms/{id}/reference-values': {
@@ -524,30 +749,50 @@ export function openApiDocument(serverUrl: string): Json {
         get: {
           operationId: 'referenceValueHistory',
           tags: ['Vocabulary'],
-          summary: 'A reference electrode’s potential vs SHE and the values it has had, newest first',
+          summary:
+            'A reference electrode’s potential vs SHE and the values it has had, newest first',
           responses: { '200': ok('The term and its values'), ...errors(404) },
         },
         post: {
           operationId: 'reviseReferenceValue',
           tags: ['Vocabulary'],
           summary: 'Revise a reference electrode’s potential vs SHE, with its source',
-          description: 'New versions are computed with the new value; existing versions keep the value they were computed with and show that a newer one exists.',
+          description:
+            'New versions are computed with the new value; existing versions keep the value they were computed with and show that a newer one exists.',
           security: signedIn,
           requestBody: body('ReferenceValue'),
-          responses: { '201': ok('The term and its values'), ...errors(400, 401, 403, 404, [409, 'The term was merged into another; revise that one'], 413) },
+          responses: {
+            '201': ok('The term and its values'),
+            ...errors(
+              400,
+              401,
+              403,
+              404,
+              [409, 'The term was merged into another; revise that one'],
+              413,
+            ),
+          },
         },
       },
 
       // ---- Labs ----
       '/labs': {
-        get: { operationId: 'listLabs', tags: ['Labs'], summary: 'Every lab’s slug and name', responses: { '200': ok('`labs`') } },
+        get: {
+          operationId: 'listLabs',
+          tags: ['Labs'],
+          summary: 'Every lab’s slug and name',
+          responses: { '200': ok('`labs`') },
+        },
         post: {
           operationId: 'createLab',
           tags: ['Labs'],
           summary: 'Create a lab',
           security: signedIn,
           requestBody: body('CreateLab'),
-          responses: { '201': ok('Slug and name of the new lab'), ...errors(400, 401, 403, [409, 'A lab with this slug exists'], 413) },
+          responses: {
+            '201': ok('Slug and name of the new lab'),
+            ...errors(400, 401, 403, [409, 'A lab with this slug exists'], 413),
+          },
         },
       },
       '/labs/{slug}': {
@@ -571,10 +816,20 @@ export function openApiDocument(serverUrl: string): Json {
         post: {
           operationId: 'addLabMember',
           tags: ['Labs'],
-          summary: 'Add a member by e-mail address, or change the role of someone already in the lab',
+          summary:
+            'Add a member by e-mail address, or change the role of someone already in the lab',
           security: signedIn,
           requestBody: body('AddMember'),
-          responses: { '201': ok('The member'), ...errors([400, 'Invalid request, or no active account has this address'], 401, 403, 404, 413) },
+          responses: {
+            '201': ok('The member'),
+            ...errors(
+              [400, 'Invalid request, or no active account has this address'],
+              401,
+              403,
+              404,
+              413,
+            ),
+          },
         },
       },
       '/labs/{slug}/members/{userId}': {
@@ -602,11 +857,21 @@ export function openApiDocument(serverUrl: string): Json {
           operationId: 'whoAmI',
           tags: ['Account'],
           summary: 'Who the request is from, as the server sees it',
-          responses: { '200': ok('`kind` anonymous, or the user with role, labs, how they came (session or token) and scopes') },
+          responses: {
+            '200': ok(
+              '`kind` anonymous, or the user with role, labs, how they came (session or token) and scopes',
+            ),
+          },
         },
       },
       '/account': {
-        get: { operationId: 'getAccount', tags: ['Account'], summary: 'Your profile', security: signedIn, responses: { '200': ok('The profile'), ...errors(401) } },
+        get: {
+          operationId: 'getAccount',
+          tags: ['Account'],
+          summary: 'Your profile',
+          security: signedIn,
+          responses: { '200': ok('The profile'), ...errors(401) },
+        },
         patch: {
           operationId: 'updateAccount',
           tags: ['Account'],
@@ -626,7 +891,14 @@ export function openApiDocument(serverUrl: string): Json {
             `At most ${MESSAGES_PER_ADDRESS} sign-up messages go to one address per hour (further requests answer 202 and send nothing); ` +
             'a network address that makes too many requests that send e-mail within an hour gets 429.',
           requestBody: body('SignUp'),
-          responses: { '202': ok('Check your e-mail'), ...errors([400, 'Invalid request, or a password that is too weak (`errors` says why)'], 413, 429) },
+          responses: {
+            '202': ok('Check your e-mail'),
+            ...errors(
+              [400, 'Invalid request, or a password that is too weak (`errors` says why)'],
+              413,
+              429,
+            ),
+          },
         },
       },
       '/account/confirm': {
@@ -635,7 +907,10 @@ export function openApiDocument(serverUrl: string): Json {
           tags: ['Account'],
           summary: 'Confirm an e-mail address with the token from the mailed link',
           requestBody: body('EmailToken'),
-          responses: { '200': ok('Confirmed'), ...errors(400, [404, 'The link is unknown, used or expired'], 413) },
+          responses: {
+            '200': ok('Confirmed'),
+            ...errors(400, [404, 'The link is unknown, used or expired'], 413),
+          },
         },
       },
       '/account/password': {
@@ -645,7 +920,14 @@ export function openApiDocument(serverUrl: string): Json {
           summary: 'Change your password; every session of the account ends, this one included',
           security: signedIn,
           requestBody: body('PasswordChange'),
-          responses: { '204': noContent('Changed'), ...errors([400, 'Invalid request, a wrong current password, or a weak new one'], 401, 413) },
+          responses: {
+            '204': noContent('Changed'),
+            ...errors(
+              [400, 'Invalid request, a wrong current password, or a weak new one'],
+              401,
+              413,
+            ),
+          },
         },
       },
       '/account/password/forgot': {
@@ -667,11 +949,24 @@ export function openApiDocument(serverUrl: string): Json {
           tags: ['Account'],
           summary: 'Set a new password with the token from the mailed link; every session ends',
           requestBody: body('PasswordReset'),
-          responses: { '200': ok('Password changed'), ...errors([400, 'Invalid request, or a weak password'], [404, 'The link is unknown, used or expired'], 413) },
+          responses: {
+            '200': ok('Password changed'),
+            ...errors(
+              [400, 'Invalid request, or a weak password'],
+              [404, 'The link is unknown, used or expired'],
+              413,
+            ),
+          },
         },
       },
       '/account/tokens': {
-        get: { operationId: 'listApiTokens', tags: ['Account'], summary: 'Your API tokens (never their secrets)', security: signedIn, responses: { '200': ok('`tokens`, each active, expired or revoked'), ...errors(401) } },
+        get: {
+          operationId: 'listApiTokens',
+          tags: ['Account'],
+          summary: 'Your API tokens (never their secrets)',
+          security: signedIn,
+          responses: { '200': ok('`tokens`, each active, expired or revoked'), ...errors(401) },
+        },
         post: {
           operationId: 'createApiToken',
           tags: ['Account'],
@@ -679,7 +974,10 @@ export function openApiDocument(serverUrl: string): Json {
           description: 'Only a browser session may make tokens: a token cannot make another.',
           security: [{ session: [] }],
           requestBody: body('CreateApiToken'),
-          responses: { '201': ok('The token with its secret'), ...errors(400, 401, [403, 'Tokens are made from a browser session only'], 413) },
+          responses: {
+            '201': ok('The token with its secret'),
+            ...errors(400, 401, [403, 'Tokens are made from a browser session only'], 413),
+          },
         },
       },
       '/account/tokens/{id}': {
@@ -720,7 +1018,8 @@ export function openApiDocument(serverUrl: string): Json {
           operationId: 'changeAccount',
           tags: ['Admin'],
           summary: 'Change an account’s role, or disable or enable it',
-          description: 'The change applies from the person’s next request, and they are told by e-mail. Administrators cannot change or disable themselves.',
+          description:
+            'The change applies from the person’s next request, and they are told by e-mail. Administrators cannot change or disable themselves.',
           security: signedIn,
           requestBody: body('AccountChange'),
           responses: { '200': ok('The account'), ...errors(400, 401, 403, 404, 413) },
@@ -729,7 +1028,12 @@ export function openApiDocument(serverUrl: string): Json {
 
       // ---- Meta ----
       '/openapi.json': {
-        get: { operationId: 'openapi', tags: ['Meta'], summary: 'This document', responses: { '200': ok('OpenAPI 3.1 document') } },
+        get: {
+          operationId: 'openapi',
+          tags: ['Meta'],
+          summary: 'This document',
+          responses: { '200': ok('OpenAPI 3.1 document') },
+        },
       },
     },
   };

@@ -20,7 +20,13 @@ export interface OutgoingMail {
 export async function queueMail(trx: DbOrTrx, m: OutgoingMail): Promise<void> {
   await trx
     .insertInto('mail_outbox')
-    .values({ kind: m.kind, to_address: m.to, subject: m.subject, text_body: m.text, html_body: m.html ?? null })
+    .values({
+      kind: m.kind,
+      to_address: m.to,
+      subject: m.subject,
+      text_body: m.text,
+      html_body: m.html ?? null,
+    })
     .execute();
 }
 
@@ -39,7 +45,14 @@ export interface DeliveryPass {
 
 /** Delivers up to `limit` due messages once. Safe to run from several processes at a time. */
 export async function deliverDueMail(limit = 20): Promise<DeliveryPass> {
-  const claimed = await sql<{ id: string; to_address: string; subject: string; text_body: string; html_body: string | null; attempts: number }>`
+  const claimed = await sql<{
+    id: string;
+    to_address: string;
+    subject: string;
+    text_body: string;
+    html_body: string | null;
+    attempts: number;
+  }>`
     UPDATE mail_outbox SET status = 'sending', attempts = attempts + 1,
            next_attempt_at = now() + make_interval(secs => ${CLAIM_SECONDS})
      WHERE id IN (SELECT id FROM mail_outbox
@@ -49,8 +62,17 @@ export async function deliverDueMail(limit = 20): Promise<DeliveryPass> {
   const pass = { sent: 0, failed: 0 };
   for (const m of claimed.rows) {
     try {
-      await sendMail({ to: m.to_address, subject: m.subject, text: m.text_body, html: m.html_body ?? undefined });
-      await db().updateTable('mail_outbox').set({ status: 'sent', sent_at: new Date(), last_error: null }).where('id', '=', m.id).execute();
+      await sendMail({
+        to: m.to_address,
+        subject: m.subject,
+        text: m.text_body,
+        html: m.html_body ?? undefined,
+      });
+      await db()
+        .updateTable('mail_outbox')
+        .set({ status: 'sent', sent_at: new Date(), last_error: null })
+        .where('id', '=', m.id)
+        .execute();
       pass.sent++;
     } catch (err) {
       await db()

@@ -51,9 +51,24 @@
 import { ForbiddenError, NotFoundError, UnauthorizedError } from './errors.ts';
 import type { Principal, Role, UserPrincipal } from '../shared/principal.ts';
 
-export type { Principal, UserPrincipal, AnonymousPrincipal, Role, LabRole, Scope, LabMembership } from '../shared/principal.ts';
+export type {
+  Principal,
+  UserPrincipal,
+  AnonymousPrincipal,
+  Role,
+  LabRole,
+  Scope,
+  LabMembership,
+} from '../shared/principal.ts';
 
-export type RecordStatus = 'draft' | 'submitted' | 'changes_requested' | 'published' | 'declined' | 'flagged' | 'withdrawn';
+export type RecordStatus =
+  | 'draft'
+  | 'submitted'
+  | 'changes_requested'
+  | 'published'
+  | 'declined'
+  | 'flagged'
+  | 'withdrawn';
 export type Visibility = 'public' | 'lab';
 
 /** What the policy needs to know about a window record (not its content). */
@@ -165,8 +180,10 @@ const READ_ACTIONS = new Set<Action>([
 // ---------------------------------------------------------------------------------------------
 
 const ROLE_RANK: Record<Role, number> = { reader: 0, contributor: 1, curator: 2, admin: 3 };
-const atLeast = (p: Principal, role: Role): p is UserPrincipal => p.kind === 'user' && ROLE_RANK[p.role] >= ROLE_RANK[role];
-const isStaff = (p: Principal): p is UserPrincipal => p.kind === 'user' && (p.role === 'curator' || p.role === 'admin');
+const atLeast = (p: Principal, role: Role): p is UserPrincipal =>
+  p.kind === 'user' && ROLE_RANK[p.role] >= ROLE_RANK[role];
+const isStaff = (p: Principal): p is UserPrincipal =>
+  p.kind === 'user' && (p.role === 'curator' || p.role === 'admin');
 const isAdmin = (p: Principal): p is UserPrincipal => p.kind === 'user' && p.role === 'admin';
 const signedIn = (p: Principal): p is UserPrincipal => p.kind === 'user';
 
@@ -182,7 +199,9 @@ const owns = (p: Principal, ownerId: string) => p.kind === 'user' && p.id === ow
 const insider = (p: Principal, r: RecordObject) => owns(p, r.ownerId) || inLab(p, r.labId);
 
 function underEmbargo(r: RecordObject, now: Date): boolean {
-  return r.visibility === 'lab' && r.embargoUntil !== null && r.embargoUntil.getTime() > now.getTime();
+  return (
+    r.visibility === 'lab' && r.embargoUntil !== null && r.embargoUntil.getTime() > now.getTime()
+  );
 }
 
 function canReadRecord(p: Principal, r: RecordObject, now: Date): boolean {
@@ -213,9 +232,11 @@ const rules: { [A in Action]: Rule<A> } = {
   'record.create': (p) => atLeast(p, 'contributor'),
   'record.update': (p, r) => canEditRecord(p, r),
   'record.submit': (p, r) => canEditRecord(p, r),
-  'record.review': (p, r) => isStaff(p) && (r.status === 'submitted' || r.status === 'flagged') && !owns(p, r.ownerId),
+  'record.review': (p, r) =>
+    isStaff(p) && (r.status === 'submitted' || r.status === 'flagged') && !owns(p, r.ownerId),
   'record.withdraw': (p, r) => isStaff(p) && (r.status === 'published' || r.status === 'flagged'),
-  'record.flag': (p, r, now) => signedIn(p) && (r.status === 'published' || r.status === 'flagged') && canReadRecord(p, r, now),
+  'record.flag': (p, r, now) =>
+    signedIn(p) && (r.status === 'published' || r.status === 'flagged') && canReadRecord(p, r, now),
   'recordVersion.read': (p, v, now) => canReadRecord(p, v.record, now),
   'rawFile.read': (p, f, now) => canReadRecord(p, f.record, now),
   'rawFile.upload': (p, f) => canEditRecord(p, f.record),
@@ -275,7 +296,12 @@ function hasScopeFor(p: Principal, action: Action): boolean {
 }
 
 /** True when the principal may do the action on the object. Never throws. */
-export function can<A extends Action>(principal: Principal, action: A, object: ActionObjects[A], now: Date = new Date()): boolean {
+export function can<A extends Action>(
+  principal: Principal,
+  action: A,
+  object: ActionObjects[A],
+  now: Date = new Date(),
+): boolean {
   const rule = rules[action] as Rule<A> | undefined;
   if (!rule) return false;
   if (!hasScopeFor(principal, action)) return false;
@@ -287,7 +313,11 @@ export function can<A extends Action>(principal: Principal, action: A, object: A
 }
 
 /** Whether the principal may see the object at all (404 otherwise). */
-export function canSee(principal: Principal, object: PolicyObject, now: Date = new Date()): boolean {
+export function canSee(
+  principal: Principal,
+  object: PolicyObject,
+  now: Date = new Date(),
+): boolean {
   const v = visibleAction(object);
   if (!v) return true;
   // Visibility ignores scopes: a read-only token still sees what it may read.
@@ -307,9 +337,11 @@ export function authorize<A extends Action>(
 ): void {
   const now = opts.now ?? new Date();
   if (can(principal, action, object, now)) return;
-  if (object && !canSee(principal, object as PolicyObject, now)) throw new NotFoundError(opts.what ?? (object as PolicyObject).type);
+  if (object && !canSee(principal, object as PolicyObject, now))
+    throw new NotFoundError(opts.what ?? (object as PolicyObject).type);
   if (principal.kind === 'anonymous') throw new UnauthorizedError();
-  if (!hasScopeFor(principal, action)) throw new ForbiddenError('This API token lacks the write scope.');
+  if (!hasScopeFor(principal, action))
+    throw new ForbiddenError('This API token lacks the write scope.');
   throw new ForbiddenError();
 }
 

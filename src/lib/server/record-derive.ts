@@ -19,32 +19,47 @@ export function termRefs(c: RecordContent): TermRef[] {
   const add = (path: string, name: string | undefined, kinds: VocabularyKind[]) => {
     if (name !== undefined) refs.push({ path: `content.${path}`, name, kinds });
   };
-  c.electrolyte.solvents.forEach((s, i) => add(`electrolyte.solvents.${i}.term`, s.term, ['solvent']));
+  c.electrolyte.solvents.forEach((s, i) =>
+    add(`electrolyte.solvents.${i}.term`, s.term, ['solvent']),
+  );
   c.electrolyte.salts.forEach((s, i) => add(`electrolyte.salts.${i}.term`, s.term, ['salt']));
-  c.electrolyte.additives.forEach((s, i) => add(`electrolyte.additives.${i}.term`, s.term, ['additive', 'salt', 'solvent']));
+  c.electrolyte.additives.forEach((s, i) =>
+    add(`electrolyte.additives.${i}.term`, s.term, ['additive', 'salt', 'solvent']),
+  );
   add('workingElectrode.material', c.workingElectrode.material, ['electrode-material']);
   add('counterElectrode.material', c.counterElectrode?.material, ['electrode-material']);
   add('referenceElectrode', c.referenceElectrode, ['reference-electrode']);
   for (const side of ['cathodic', 'anodic'] as const) {
     const l = c.reportedLimits[side];
-    if (l && l.reference !== CELL_VOLTAGE) add(`reportedLimits.${side}.reference`, l.reference, ['reference-electrode']);
+    if (l && l.reference !== CELL_VOLTAGE)
+      add(`reportedLimits.${side}.reference`, l.reference, ['reference-electrode']);
   }
   return refs;
 }
 
 /** The content with every name replaced by its term id. */
-export function canonicalContent(c: RecordContent, terms: Map<string, VocabularyTermRow>): RecordContent {
+export function canonicalContent(
+  c: RecordContent,
+  terms: Map<string, VocabularyTermRow>,
+): RecordContent {
   const id = (path: string, name: string) => terms.get(`content.${path}`)?.id ?? name;
   const out: RecordContent = structuredClone(c);
-  out.electrolyte.solvents.forEach((s, i) => (s.term = id(`electrolyte.solvents.${i}.term`, s.term)));
+  out.electrolyte.solvents.forEach(
+    (s, i) => (s.term = id(`electrolyte.solvents.${i}.term`, s.term)),
+  );
   out.electrolyte.salts.forEach((s, i) => (s.term = id(`electrolyte.salts.${i}.term`, s.term)));
-  out.electrolyte.additives.forEach((s, i) => (s.term = id(`electrolyte.additives.${i}.term`, s.term)));
+  out.electrolyte.additives.forEach(
+    (s, i) => (s.term = id(`electrolyte.additives.${i}.term`, s.term)),
+  );
   out.workingElectrode.material = id('workingElectrode.material', out.workingElectrode.material);
-  if (out.counterElectrode) out.counterElectrode.material = id('counterElectrode.material', out.counterElectrode.material);
-  if (out.referenceElectrode) out.referenceElectrode = id('referenceElectrode', out.referenceElectrode);
+  if (out.counterElectrode)
+    out.counterElectrode.material = id('counterElectrode.material', out.counterElectrode.material);
+  if (out.referenceElectrode)
+    out.referenceElectrode = id('referenceElectrode', out.referenceElectrode);
   for (const side of ['cathodic', 'anodic'] as const) {
     const l = out.reportedLimits[side];
-    if (l && l.reference !== CELL_VOLTAGE) l.reference = id(`reportedLimits.${side}.reference`, l.reference);
+    if (l && l.reference !== CELL_VOLTAGE)
+      l.reference = id(`reportedLimits.${side}.reference`, l.reference);
   }
   return out;
 }
@@ -65,7 +80,10 @@ export function scaleContext(c: RecordContent): ScaleContext {
 }
 
 /** Offset (V) from a scale to SHE with the engine's table, or null where no conversion exists (ferrocene, RHE without pH). */
-export function offsetToShe(scale: string | null, ctx: ScaleContext): { offsetV: number; approximate: boolean } | null {
+export function offsetToShe(
+  scale: string | null,
+  ctx: ScaleContext,
+): { offsetV: number; approximate: boolean } | null {
   if (!scale) return null;
   try {
     const info = referenceConversion(scale, 'SHE', ctx);
@@ -80,14 +98,20 @@ export function offsetToShe(scale: string | null, ctx: ScaleContext): { offsetV:
  * Offset (V) from a reference term to SHE: the term's curated potential when it carries one (a
  * curator may revise it, with its source), else the engine's table. RHE and ferrocene carry none.
  */
-export function termOffsetToShe(term: VocabularyTermRow | undefined, ctx: ScaleContext): { offsetV: number; approximate: boolean } | null {
+export function termOffsetToShe(
+  term: VocabularyTermRow | undefined,
+  ctx: ScaleContext,
+): { offsetV: number; approximate: boolean } | null {
   const off = offsetToShe(term?.scale ?? null, ctx);
   if (!off || !term || term.potential_vs_she_v === null) return off;
   return { offsetV: Number(term.potential_vs_she_v), approximate: off.approximate };
 }
 
-
-export const ENGINE_METHOD = { 'cv-window-opening': 'cv', lsv: 'lsv', 'potentiostatic-holds': 'hold' } as const;
+export const ENGINE_METHOD = {
+  'cv-window-opening': 'cv',
+  lsv: 'lsv',
+  'potentiostatic-holds': 'hold',
+} as const;
 
 /** An analysis attached to a version, as far as the derived columns need it. */
 export interface AttachedAnalysis {
@@ -102,22 +126,38 @@ export interface AttachedAnalysis {
 export interface DerivedLimits {
   cathodic: { reported: number; reference: string; she: SheConversion | null } | null;
   anodic: { reported: number; reference: string; she: SheConversion | null } | null;
-  computed: { cathodic: number | null; anodic: number | null; cathodicShe: number | null; anodicShe: number | null; atOwnCriterion: boolean };
+  computed: {
+    cathodic: number | null;
+    anodic: number | null;
+    cathodicShe: number | null;
+    anodicShe: number | null;
+    atOwnCriterion: boolean;
+  };
 }
 
 /** Limits as reported, on SHE, and as computed from the latest analysis in each direction. */
-export function deriveLimits(c: RecordContent, terms: Map<string, VocabularyTermRow>, analyses: AttachedAnalysis[]): DerivedLimits {
+export function deriveLimits(
+  c: RecordContent,
+  terms: Map<string, VocabularyTermRow>,
+  analyses: AttachedAnalysis[],
+): DerivedLimits {
   const ctx = scaleContext(c);
   const reported = (side: 'cathodic' | 'anodic') => {
     const l = c.reportedLimits[side];
     if (!l) return null;
-    if (l.reference === CELL_VOLTAGE) return { reported: l.valueV, reference: CELL_VOLTAGE, she: null };
+    if (l.reference === CELL_VOLTAGE)
+      return { reported: l.valueV, reference: CELL_VOLTAGE, she: null };
     const term = terms.get(`content.reportedLimits.${side}.reference`);
     const off = termOffsetToShe(term, ctx);
-    return { reported: l.valueV, reference: term?.id ?? l.reference, she: off ? { sheV: l.valueV + off.offsetV, ...off } : null };
+    return {
+      reported: l.valueV,
+      reference: term?.id ?? l.reference,
+      she: off ? { sheV: l.valueV + off.offsetV, ...off } : null,
+    };
   };
   const own = engineCriterion(c.criterion) ?? null;
-  const latest = (dir: 'anodic' | 'cathodic') => [...analyses].reverse().find((a) => a.direction === dir) ?? null;
+  const latest = (dir: 'anodic' | 'cathodic') =>
+    [...analyses].reverse().find((a) => a.direction === dir) ?? null;
   const refTerm = terms.get('content.referenceElectrode');
   const recOffset = c.cellType === 'two-electrode' ? null : termOffsetToShe(refTerm, ctx);
   const cath = latest('cathodic');
@@ -140,9 +180,18 @@ export function deriveLimits(c: RecordContent, terms: Map<string, VocabularyTerm
 export function isDocumented(c: RecordContent): boolean {
   const m = c.method;
   const methodParams =
-    m.kind === 'potentiostatic-holds' ? m.stepMV !== undefined && m.holdTimeS !== undefined : m.scanRateMVs !== undefined;
+    m.kind === 'potentiostatic-holds'
+      ? m.stepMV !== undefined && m.holdTimeS !== undefined
+      : m.scanRateMVs !== undefined;
   const reference = c.cellType === 'two-electrode' || c.referenceElectrode !== undefined;
-  return Boolean(c.source && c.temperatureC !== undefined && c.criterion && methodParams && reference && c.workingElectrode.form);
+  return Boolean(
+    c.source &&
+    c.temperatureC !== undefined &&
+    c.criterion &&
+    methodParams &&
+    reference &&
+    c.workingElectrode.form,
+  );
 }
 
 /**
@@ -161,9 +210,11 @@ export function evidenceLevel(c: RecordContent, limits: DerivedLimits): Evidence
       const computedShe = side === 'cathodic' ? comp.cathodicShe : comp.anodicShe;
       if (!rep || computed === null) continue;
       if (rep.she && computedShe !== null) pairs.push([rep.she.sheV, computedShe]);
-      else if (rep.reference === CELL_VOLTAGE || rep.reference === c.referenceElectrode) pairs.push([rep.reported, computed]);
+      else if (rep.reference === CELL_VOLTAGE || rep.reference === c.referenceElectrode)
+        pairs.push([rep.reported, computed]);
     }
-    const agree = pairs.length > 0 && pairs.every(([a, b]) => Math.abs(a - b) <= CONFIRM_TOLERANCE_V + 1e-9);
+    const agree =
+      pairs.length > 0 && pairs.every(([a, b]) => Math.abs(a - b) <= CONFIRM_TOLERANCE_V + 1e-9);
     return agree ? 'confirmed' : 'recomputed';
   }
   return isDocumented(c) ? 'documented' : 'stated';

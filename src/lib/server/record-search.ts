@@ -1,8 +1,26 @@
 import { createHash } from 'node:crypto';
 import { gzipSync } from 'node:zlib';
 import { z } from 'zod';
-import { lastCyclePerVertex, limitAt, lsvLimitFromEnvelope, parseCriterion, referenceConversion, sCutoff, AnalysisError, type CycleCharge, type LsvEnvelope } from '../analysis/index.ts';
-import { CELL_TYPES, CONCENTRATION_BASES, CRITERION_KINDS, EVIDENCE_LEVELS, METHOD_KINDS, RECORD_STATUSES, type RecordContent } from '../shared/record.ts';
+import {
+  lastCyclePerVertex,
+  limitAt,
+  lsvLimitFromEnvelope,
+  parseCriterion,
+  referenceConversion,
+  sCutoff,
+  AnalysisError,
+  type CycleCharge,
+  type LsvEnvelope,
+} from '../analysis/index.ts';
+import {
+  CELL_TYPES,
+  CONCENTRATION_BASES,
+  CRITERION_KINDS,
+  EVIDENCE_LEVELS,
+  METHOD_KINDS,
+  RECORD_STATUSES,
+  type RecordContent,
+} from '../shared/record.ts';
 import type { Principal } from '../shared/principal.ts';
 import type { Db } from './db/index.ts';
 import { ValidationError } from './errors.ts';
@@ -31,48 +49,129 @@ export type { CommonCriterionResult, SearchItem, SearchResult };
 // Finding records: filters over the denormalised columns of current versions, visibility from the
 // principal, facet counts, a chosen reference scale and a common criterion.
 
-const many = <T extends z.ZodType>(item: T) => z.union([item, z.array(item)]).transform((v) => (Array.isArray(v) ? v : [v]) as z.infer<T>[]);
+const many = <T extends z.ZodType>(item: T) =>
+  z.union([item, z.array(item)]).transform((v) => (Array.isArray(v) ? v : [v]) as z.infer<T>[]);
 const num = z.coerce.number().finite();
 
-export const SORT_KEYS = ['handle', 'updated', 'anodic', 'cathodic', 'width', 'scanRate', 'temperature', 'concentration'] as const;
+export const SORT_KEYS = [
+  'handle',
+  'updated',
+  'anodic',
+  'cathodic',
+  'width',
+  'scanRate',
+  'temperature',
+  'concentration',
+] as const;
 
 /** Query parameters of GET /api/v1/records and /api/v1/exports. */
 export const recordQuerySchema = z.strictObject({
-  component: many(z.string().min(1).max(200)).optional().describe('A salt, solvent or additive by name, abbreviation or synonym (PC, LiPF6, water); repeated: records with all of them'),
-  concentrationMin: num.optional().describe('Lowest salt concentration, in the basis of concentrationBasis'),
-  concentrationMax: num.optional().describe('Highest salt concentration, in the basis of concentrationBasis'),
-  concentrationBasis: z.enum(CONCENTRATION_BASES).optional().describe('Basis the concentration bounds are in'),
-  electrode: many(z.string().min(1).max(200)).optional().describe('Working-electrode material (glassy carbon, Pt, activated carbon); repeated: any of them'),
-  method: many(z.enum(METHOD_KINDS)).optional().describe('How the window was measured; repeated: any of them'),
-  criterionKind: many(z.enum(CRITERION_KINDS)).optional().describe('How the limits were decided; repeated: any of them'),
+  component: many(z.string().min(1).max(200))
+    .optional()
+    .describe(
+      'A salt, solvent or additive by name, abbreviation or synonym (PC, LiPF6, water); repeated: records with all of them',
+    ),
+  concentrationMin: num
+    .optional()
+    .describe('Lowest salt concentration, in the basis of concentrationBasis'),
+  concentrationMax: num
+    .optional()
+    .describe('Highest salt concentration, in the basis of concentrationBasis'),
+  concentrationBasis: z
+    .enum(CONCENTRATION_BASES)
+    .optional()
+    .describe('Basis the concentration bounds are in'),
+  electrode: many(z.string().min(1).max(200))
+    .optional()
+    .describe(
+      'Working-electrode material (glassy carbon, Pt, activated carbon); repeated: any of them',
+    ),
+  method: many(z.enum(METHOD_KINDS))
+    .optional()
+    .describe('How the window was measured; repeated: any of them'),
+  criterionKind: many(z.enum(CRITERION_KINDS))
+    .optional()
+    .describe('How the limits were decided; repeated: any of them'),
   scanRateMin: num.optional().describe('Slowest scan rate, mV/s'),
   scanRateMax: num.optional().describe('Fastest scan rate, mV/s'),
   temperatureMin: num.optional().describe('Lowest temperature, °C'),
   temperatureMax: num.optional().describe('Highest temperature, °C'),
-  cellType: many(z.enum(CELL_TYPES)).optional().describe('Two-electrode records give cell voltages, never mixed with electrode potentials'),
-  evidence: many(z.enum(EVIDENCE_LEVELS)).optional().describe('How much backs the numbers; repeated: any of them'),
-  status: many(z.enum(RECORD_STATUSES)).optional().describe('Record statuses to include (default: published and flagged); you only ever see what you may read'),
-  lab: many(z.string().min(1).max(60)).optional().describe('Lab by its slug; repeated: any of them'),
-  q: z.string().trim().min(1).max(200).optional().describe('Words to find in titles, components, electrodes, notes and sources; "quoted phrases" and -excluded words work'),
-  scale: z.string().trim().min(1).max(60).optional().describe('Reference scale to show limits on: SHE (default), a reference electrode, or RHE (uses each record\'s pH)'),
-  criterion: z.string().trim().min(3).max(40).optional().describe('A common criterion (`s:0.1`, `ce:99%` for window-opening CV; `j:10uA/cm2`, `jm:10mA/g`, `leak:10mA/g` for linear sweeps and holds): limits recomputed from the stored analyses of records with raw data'),
-  sort: z.enum([...SORT_KEYS, ...SORT_KEYS.map((k) => `-${k}` as const)] as [string, ...string[]]).default('handle').describe('Sort key; a leading `-` sorts descending'),
+  cellType: many(z.enum(CELL_TYPES))
+    .optional()
+    .describe('Two-electrode records give cell voltages, never mixed with electrode potentials'),
+  evidence: many(z.enum(EVIDENCE_LEVELS))
+    .optional()
+    .describe('How much backs the numbers; repeated: any of them'),
+  status: many(z.enum(RECORD_STATUSES))
+    .optional()
+    .describe(
+      'Record statuses to include (default: published and flagged); you only ever see what you may read',
+    ),
+  lab: many(z.string().min(1).max(60))
+    .optional()
+    .describe('Lab by its slug; repeated: any of them'),
+  q: z
+    .string()
+    .trim()
+    .min(1)
+    .max(200)
+    .optional()
+    .describe(
+      'Words to find in titles, components, electrodes, notes and sources; "quoted phrases" and -excluded words work',
+    ),
+  scale: z
+    .string()
+    .trim()
+    .min(1)
+    .max(60)
+    .optional()
+    .describe(
+      "Reference scale to show limits on: SHE (default), a reference electrode, or RHE (uses each record's pH)",
+    ),
+  criterion: z
+    .string()
+    .trim()
+    .min(3)
+    .max(40)
+    .optional()
+    .describe(
+      'A common criterion (`s:0.1`, `ce:99%` for window-opening CV; `j:10uA/cm2`, `jm:10mA/g`, `leak:10mA/g` for linear sweeps and holds): limits recomputed from the stored analyses of records with raw data',
+    ),
+  sort: z
+    .enum([...SORT_KEYS, ...SORT_KEYS.map((k) => `-${k}` as const)] as [string, ...string[]])
+    .default('handle')
+    .describe('Sort key; a leading `-` sorts descending'),
   limit: z.coerce.number().int().min(1).max(200).default(50).describe('Records per page'),
   offset: z.coerce.number().int().min(0).max(1_000_000).default(0).describe('Records to skip'),
-  facets: z.enum(['true', 'false']).default('true').describe('Count the matches per value of each filter'),
+  facets: z
+    .enum(['true', 'false'])
+    .default('true')
+    .describe('Count the matches per value of each filter'),
 });
 export type RecordQuery = z.infer<typeof recordQuerySchema>;
 
 /** The policy's record.read rule as data for SQL; held equal to the policy by a test. */
 export function readScope(p: Principal): ReadScope {
   if (p.kind !== 'user') return { userId: null, labIds: [], staff: false };
-  return { userId: p.id, labIds: p.labs.map((l) => l.labId), staff: p.role === 'curator' || p.role === 'admin' };
+  return {
+    userId: p.id,
+    labIds: p.labs.map((l) => l.labId),
+    staff: p.role === 'curator' || p.role === 'admin',
+  };
 }
 
 async function toFilter(db: Db, q: RecordQuery): Promise<RecordFilter> {
   const refs = [
-    ...(q.component ?? []).map((name, i) => ({ path: `component.${i}`, name, kinds: ['solvent', 'salt', 'additive'] as const })),
-    ...(q.electrode ?? []).map((name, i) => ({ path: `electrode.${i}`, name, kinds: ['electrode-material'] as const })),
+    ...(q.component ?? []).map((name, i) => ({
+      path: `component.${i}`,
+      name,
+      kinds: ['solvent', 'salt', 'additive'] as const,
+    })),
+    ...(q.electrode ?? []).map((name, i) => ({
+      path: `electrode.${i}`,
+      name,
+      kinds: ['electrode-material'] as const,
+    })),
   ].map((r) => ({ ...r, kinds: [...r.kinds] }));
   const terms = refs.length ? await resolveTerms(db, refs) : new Map();
   const f: RecordFilter = { statuses: q.status ?? [...LISTED] };
@@ -100,15 +199,14 @@ export interface ScaledLimit {
   scale: string;
 }
 
-
-
 /** Checks the scale and common criterion parameters before any query runs. */
 function checkParams(q: RecordQuery) {
   if (q.scale) {
     try {
       referenceConversion('SHE', q.scale, { pH: 7 });
     } catch (err) {
-      if (err instanceof AnalysisError) throw new ValidationError([{ path: 'scale', message: err.message }]);
+      if (err instanceof AnalysisError)
+        throw new ValidationError([{ path: 'scale', message: err.message }]);
       throw err;
     }
   }
@@ -116,7 +214,8 @@ function checkParams(q: RecordQuery) {
     try {
       parseCriterion(q.criterion);
     } catch (err) {
-      if (err instanceof AnalysisError) throw new ValidationError([{ path: 'criterion', message: err.message }]);
+      if (err instanceof AnalysisError)
+        throw new ValidationError([{ path: 'criterion', message: err.message }]);
       throw err;
     }
   }
@@ -125,58 +224,141 @@ function checkParams(q: RecordQuery) {
 /** Limits of a row on a scale: from their SHE values; cell voltages stay cell voltages. */
 function onScale(row: SearchRow, scale: string | undefined): SearchItem['onScale'] {
   const target = scale ?? 'SHE';
-  if (row.cell_type === 'two-electrode') return { scale: 'cell', cathodic: row.reported_cathodic_v, anodic: row.reported_anodic_v, note: 'cell voltage' };
+  if (row.cell_type === 'two-electrode')
+    return {
+      scale: 'cell',
+      cathodic: row.reported_cathodic_v,
+      anodic: row.reported_anodic_v,
+      note: 'cell voltage',
+    };
   let offset: number;
   try {
-    offset = referenceConversion('SHE', target, scaleContext(row.content as unknown as RecordContent)).offsetV;
+    offset = referenceConversion(
+      'SHE',
+      target,
+      scaleContext(row.content as unknown as RecordContent),
+    ).offsetV;
   } catch (err) {
-    if (err instanceof AnalysisError) return { scale: target, cathodic: null, anodic: null, note: err.message };
+    if (err instanceof AnalysisError)
+      return { scale: target, cathodic: null, anodic: null, note: err.message };
     throw err;
   }
   const move = (v: number | null) => (v === null ? null : v + offset);
   return { scale: target, cathodic: move(row.cathodic_she_v), anodic: move(row.anodic_she_v) };
 }
 
-type StoredCycle = { index: number; vertexV: number; qPosC: number; qNegC: number; sValue: number | null; ce: number | null };
+type StoredCycle = {
+  index: number;
+  vertexV: number;
+  qPosC: number;
+  qNegC: number;
+  sValue: number | null;
+  ce: number | null;
+};
 type StoredStep = { potentialV: number; endCurrentA: number };
 // `envelope`: LSV analyses stored since the engine kept it; absent in older ones, null for a sweep with a non-finite value.
-type StoredResult = { method: 'cv' | 'lsv' | 'hold'; direction: 'anodic' | 'cathodic'; cycles?: StoredCycle[]; steps?: StoredStep[]; envelope?: LsvEnvelope | null; reference: { offsetV: number } | null };
+type StoredResult = {
+  method: 'cv' | 'lsv' | 'hold';
+  direction: 'anodic' | 'cathodic';
+  cycles?: StoredCycle[];
+  steps?: StoredStep[];
+  envelope?: LsvEnvelope | null;
+  reference: { offsetV: number } | null;
+};
 
 /**
  * Limits of a raw-backed record at another criterion, from its stored analyses (no file is read):
  * CV from the per-cycle S-values, holds from the end-of-hold currents, linear sweeps from the
  * envelope of the sweep's current. Returned on the record's own reference scale and on SHE.
  */
-function recompute(row: SearchRow, analysisById: Map<string, AnalysisRow>, criterionText: string): CommonCriterionResult {
+function recompute(
+  row: SearchRow,
+  analysisById: Map<string, AnalysisRow>,
+  criterionText: string,
+): CommonCriterionResult {
   const c = parseCriterion(criterionText);
-  const base: CommonCriterionResult = { criterion: criterionText, applied: false, cathodicV: null, anodicV: null, status: {} };
-  if (row.raw_file_ids.length === 0) return { ...base, reason: 'no raw data: the record keeps its own criterion' };
-  const analyses = row.analysis_ids.map((id) => analysisById.get(id)).filter((a): a is AnalysisRow => a !== undefined);
+  const base: CommonCriterionResult = {
+    criterion: criterionText,
+    applied: false,
+    cathodicV: null,
+    anodicV: null,
+    status: {},
+  };
+  if (row.raw_file_ids.length === 0)
+    return { ...base, reason: 'no raw data: the record keeps its own criterion' };
+  const analyses = row.analysis_ids
+    .map((id) => analysisById.get(id))
+    .filter((a): a is AnalysisRow => a !== undefined);
   const latest = new Map<string, StoredResult>();
   for (const a of analyses) latest.set(a.direction, a.result as unknown as StoredResult);
   const out = { ...base, applied: true };
   for (const [dir, r] of latest) {
     let limit;
     if (r.method === 'cv') {
-      if (c.kind !== 's' && c.kind !== 'ce') return { ...base, reason: `criterion ${criterionText} does not apply to window-opening CV` };
-      const cycles: CycleCharge[] = (r.cycles ?? []).map((x) => ({ index: x.index, vertexV: x.vertexV, qPosC: x.qPosC, qNegC: x.qNegC, sValue: x.sValue ?? Number.NaN, ce: x.ce ?? Number.NaN, segment: { start: 0, end: 0 } }));
+      if (c.kind !== 's' && c.kind !== 'ce')
+        return {
+          ...base,
+          reason: `criterion ${criterionText} does not apply to window-opening CV`,
+        };
+      const cycles: CycleCharge[] = (r.cycles ?? []).map((x) => ({
+        index: x.index,
+        vertexV: x.vertexV,
+        qPosC: x.qPosC,
+        qNegC: x.qNegC,
+        sValue: x.sValue ?? Number.NaN,
+        ce: x.ce ?? Number.NaN,
+        segment: { start: 0, end: 0 },
+      }));
       const { chosen } = lastCyclePerVertex(cycles, r.direction);
-      limit = limitAt(chosen.map((x) => x.vertexV), chosen.map((x) => x.sValue), sCutoff(c), 'log').limit;
+      limit = limitAt(
+        chosen.map((x) => x.vertexV),
+        chosen.map((x) => x.sValue),
+        sCutoff(c),
+        'log',
+      ).limit;
     } else {
       const needs = r.method === 'hold' ? 'holds need' : 'a linear sweep needs';
-      if (c.kind === 's' || c.kind === 'ce') return { ...base, reason: `criterion ${criterionText} applies to window-opening CV; ${needs} a current cutoff (e.g. j:10uA/cm2 or jm:10mA/g)` };
-      const divisor = c.kind === 'j' ? row.area_cm2 : c.kind === 'jm' ? (row.mass_mg === null ? null : row.mass_mg / 1000) : 1;
-      if (divisor === null || !(divisor > 0)) return { ...base, reason: `criterion ${criterionText} needs ${c.kind === 'j' ? 'the electrode area' : 'the active mass'}, which the record does not give` };
+      if (c.kind === 's' || c.kind === 'ce')
+        return {
+          ...base,
+          reason: `criterion ${criterionText} applies to window-opening CV; ${needs} a current cutoff (e.g. j:10uA/cm2 or jm:10mA/g)`,
+        };
+      const divisor =
+        c.kind === 'j'
+          ? row.area_cm2
+          : c.kind === 'jm'
+            ? row.mass_mg === null
+              ? null
+              : row.mass_mg / 1000
+            : 1;
+      if (divisor === null || !(divisor > 0))
+        return {
+          ...base,
+          reason: `criterion ${criterionText} needs ${c.kind === 'j' ? 'the electrode area' : 'the active mass'}, which the record does not give`,
+        };
       if (r.method === 'hold') {
         const sign = r.direction === 'anodic' ? 1 : -1;
         const steps = [...(r.steps ?? [])].sort((a, b) => sign * (a.potentialV - b.potentialV));
-        limit = limitAt(steps.map((s) => s.potentialV), steps.map((s) => (sign * s.endCurrentA) / divisor), c.value, 'log').limit;
+        limit = limitAt(
+          steps.map((s) => s.potentialV),
+          steps.map((s) => (sign * s.endCurrentA) / divisor),
+          c.value,
+          'log',
+        ).limit;
       } else if (r.envelope) {
         limit = lsvLimitFromEnvelope(r.envelope, c.value, divisor);
       } else if (r.envelope === null) {
-        return { ...base, reason: 'the linear sweep holds a non-finite value, so its limit cannot be found at another cutoff; the record keeps its own criterion' };
+        return {
+          ...base,
+          reason:
+            'the linear sweep holds a non-finite value, so its limit cannot be found at another cutoff; the record keeps its own criterion',
+        };
       } else {
-        return { ...base, reason: 'the linear sweep was analysed before Edgewise kept what another cutoff needs, so the record keeps its own criterion; re-run the analysis (edit the record, or upload the file again) to apply a common criterion' };
+        return {
+          ...base,
+          reason:
+            'the linear sweep was analysed before Edgewise kept what another cutoff needs, so the record keeps its own criterion; re-run the analysis (edit the record, or upload the file again) to apply a common criterion',
+        };
       }
     }
     const v = limit.status === 'reached' ? limit.interpolatedV : null;
@@ -188,7 +370,9 @@ function recompute(row: SearchRow, analysisById: Map<string, AnalysisRow>, crite
 }
 
 function parseSort(s: string): { sort: SortKey; desc: boolean } {
-  return s.startsWith('-') ? { sort: s.slice(1) as SortKey, desc: true } : { sort: s as SortKey, desc: false };
+  return s.startsWith('-')
+    ? { sort: s.slice(1) as SortKey, desc: true }
+    : { sort: s as SortKey, desc: false };
 }
 
 /** Summaries of a page; with a common criterion, the analyses of all its raw-backed rows in one query. */
@@ -257,23 +441,43 @@ function cacheKey(scope: ReadScope, entries: object, ...rest: unknown[]): string
 }
 
 /** One page of records visible to the principal, with the total and facet counts over the whole result. */
-export async function searchRecordList(db: Db, principal: Principal, q: RecordQuery): Promise<SearchResult> {
+export async function searchRecordList(
+  db: Db,
+  principal: Principal,
+  q: RecordQuery,
+): Promise<SearchResult> {
   checkParams(q);
   return listAt(db, readScope(principal), q, await currentGeneration(db));
 }
 
 /** searchRecordList for a checked query, at a generation already read. */
-async function listAt(db: Db, scope: ReadScope, q: RecordQuery, generation: string): Promise<SearchResult> {
+async function listAt(
+  db: Db,
+  scope: ReadScope,
+  q: RecordQuery,
+  generation: string,
+): Promise<SearchResult> {
   const filter = await toFilter(db, q);
   const withFacets = q.facets === 'true';
   const page = { ...parseSort(q.sort), limit: q.limit, offset: q.offset };
   const [rows, counted] = await Promise.all([
-    pages.get(generation, cacheKey(scope, filter, page), async () => (await searchRecords(db, filter, scope, page)).rows),
+    pages.get(
+      generation,
+      cacheKey(scope, filter, page),
+      async () => (await searchRecords(db, filter, scope, page)).rows,
+    ),
     summaries.get(generation, cacheKey(scope, filter, withFacets), () =>
-      withFacets ? facetCounts(db, filter, scope) : countRecords(db, filter, scope).then((total) => ({ total })),
+      withFacets
+        ? facetCounts(db, filter, scope)
+        : countRecords(db, filter, scope).then((total) => ({ total })),
     ),
   ]);
-  const result: SearchResult = { total: counted.total, limit: q.limit, offset: q.offset, items: await decorate(db, rows, q) };
+  const result: SearchResult = {
+    total: counted.total,
+    limit: q.limit,
+    offset: q.offset,
+    items: await decorate(db, rows, q),
+  };
   if (counted.facets) result.facets = counted.facets;
   return result;
 }
@@ -291,18 +495,31 @@ export interface SerialisedAnswer {
 const answers = new GenerationCache<SerialisedAnswer>(200);
 
 /** searchRecordList serialised, from the answer cache when nothing changed since. */
-export async function searchRecordAnswer(db: Db, principal: Principal, q: RecordQuery): Promise<SerialisedAnswer> {
+export async function searchRecordAnswer(
+  db: Db,
+  principal: Principal,
+  q: RecordQuery,
+): Promise<SerialisedAnswer> {
   checkParams(q);
   const scope = readScope(principal);
   const generation = await currentGeneration(db);
   return answers.get(generation, cacheKey(scope, q), async () => {
     const body = new TextEncoder().encode(JSON.stringify(await listAt(db, scope, q, generation)));
-    return { body, gzip: new Uint8Array(gzipSync(body)), etag: `"${createHash('sha256').update(body).digest('base64url').slice(0, 32)}"` };
+    return {
+      body,
+      gzip: new Uint8Array(gzipSync(body)),
+      etag: `"${createHash('sha256').update(body).digest('base64url').slice(0, 32)}"`,
+    };
   });
 }
 
 /** Every matching record, a batch at a time (exports stream these). */
-export async function* eachRecord(db: Db, principal: Principal, q: RecordQuery, batch = 200): AsyncGenerator<SearchItem> {
+export async function* eachRecord(
+  db: Db,
+  principal: Principal,
+  q: RecordQuery,
+  batch = 200,
+): AsyncGenerator<SearchItem> {
   checkParams(q);
   const filter = await toFilter(db, q);
   const scope = readScope(principal);

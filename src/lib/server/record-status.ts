@@ -20,13 +20,28 @@ export interface Transition {
 }
 
 export const TRANSITIONS: Readonly<Record<TransitionAction, Transition>> = {
-  submit: { from: ['draft', 'changes_requested'], to: 'submitted', policy: 'record.submit', review: false },
-  'request-changes': { from: ['submitted', 'flagged'], to: 'changes_requested', policy: 'record.review', review: true },
+  submit: {
+    from: ['draft', 'changes_requested'],
+    to: 'submitted',
+    policy: 'record.submit',
+    review: false,
+  },
+  'request-changes': {
+    from: ['submitted', 'flagged'],
+    to: 'changes_requested',
+    policy: 'record.review',
+    review: true,
+  },
   publish: { from: ['submitted'], to: 'published', policy: 'record.review', review: true },
   decline: { from: ['submitted'], to: 'declined', policy: 'record.review', review: true },
   flag: { from: ['published', 'flagged'], to: 'flagged', policy: 'record.flag', review: false },
   'resolve-flag': { from: ['flagged'], to: 'published', policy: 'flag.resolve', review: true },
-  withdraw: { from: ['published', 'flagged'], to: 'withdrawn', policy: 'record.withdraw', review: true },
+  withdraw: {
+    from: ['published', 'flagged'],
+    to: 'withdrawn',
+    policy: 'record.withdraw',
+    review: true,
+  },
 };
 
 /** Statuses in which the content may change (each change is a new version). */
@@ -40,7 +55,9 @@ export function nextStatus(from: RecordStatus, action: TransitionAction): Record
 
 /** Actions possible from a status (before asking who may). */
 export function actionsFrom(from: RecordStatus): TransitionAction[] {
-  return (Object.keys(TRANSITIONS) as TransitionAction[]).filter((a) => TRANSITIONS[a].from.includes(from));
+  return (Object.keys(TRANSITIONS) as TransitionAction[]).filter((a) =>
+    TRANSITIONS[a].from.includes(from),
+  );
 }
 
 /** Statuses in which a record is shown in public lists by default. */

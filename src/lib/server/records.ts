@@ -13,8 +13,24 @@ import { z } from 'zod';
 import { AnalysisRefused, analyzeInWorker } from './analysis-pool.ts';
 import type { Db } from './db/index.ts';
 import { ConflictError, NotFoundError, UnavailableError, ValidationError } from './errors.ts';
-import { authorize, can, canSee, type Principal, type RecordObject, type UserPrincipal } from './policy.ts';
-import { ENGINE_METHOD, canonicalContent, deriveLimits, engineCriterion, evidenceLevel, scaleContext, termRefs, type AttachedAnalysis } from './record-derive.ts';
+import {
+  authorize,
+  can,
+  canSee,
+  type Principal,
+  type RecordObject,
+  type UserPrincipal,
+} from './policy.ts';
+import {
+  ENGINE_METHOD,
+  canonicalContent,
+  deriveLimits,
+  engineCriterion,
+  evidenceLevel,
+  scaleContext,
+  termRefs,
+  type AttachedAnalysis,
+} from './record-derive.ts';
 import { TRANSITIONS, actionsFrom, nextStatus } from './record-status.ts';
 import { insertAuditEvent, type DbOrTrx } from './repositories/audit.ts';
 import {
@@ -44,7 +60,13 @@ import { config } from './config.ts';
 import { queueMail, wakeOutbox, type OutgoingMail } from './outbox.ts';
 import { getObjectBytes } from './storage.ts';
 import { resolveTerms } from './vocabulary.ts';
-import type { AnalysisView, LimitView, RawFileView, RecordDetail, RecordSummary } from '../shared/record-views.ts';
+import type {
+  AnalysisView,
+  LimitView,
+  RawFileView,
+  RecordDetail,
+  RecordSummary,
+} from '../shared/record-views.ts';
 export type { LimitView, RecordSummary };
 
 // Window records: drafts, edits as new versions, the status machine, and the record views the
@@ -53,14 +75,13 @@ export type { LimitView, RecordSummary };
 /** Version of the analysis as stored with each result (bump when the engine's numbers change). */
 export const ENGINE_VERSION = 'edgewise-analysis/1';
 
-
 export type { AnalysisView, RawFileView, RecordDetail } from '../shared/record-views.ts';
-
-
 
 // ---- mapping (rows → domain objects, in one place) ----
 
-export function policyObject(h: Pick<RecordHead, 'status' | 'visibility' | 'embargo_until' | 'lab_id' | 'owner_id'>): RecordObject {
+export function policyObject(
+  h: Pick<RecordHead, 'status' | 'visibility' | 'embargo_until' | 'lab_id' | 'owner_id'>,
+): RecordObject {
   return {
     type: 'record',
     status: h.status as RecordObject['status'],
@@ -71,14 +92,26 @@ export function policyObject(h: Pick<RecordHead, 'status' | 'visibility' | 'emba
   };
 }
 
-function limitView(v: number | null, ref: string | null, she: number | null, offset: number | null, approximate: boolean): LimitView | null {
+function limitView(
+  v: number | null,
+  ref: string | null,
+  she: number | null,
+  offset: number | null,
+  approximate: boolean,
+): LimitView | null {
   if (v === null || ref === null) return null;
   return { valueV: v, reference: ref, sheV: she, offsetV: offset, approximate };
 }
 
 export function toSummary(
   v: VersionRow,
-  head: { handle: string; status: string; lab_slug: string | null; lab_name: string | null; updated_at: Date },
+  head: {
+    handle: string;
+    status: string;
+    lab_slug: string | null;
+    lab_name: string | null;
+    updated_at: Date;
+  },
 ): RecordSummary {
   return {
     handle: head.handle,
@@ -89,10 +122,27 @@ export function toSummary(
     evidenceLevel: v.evidence_level as EvidenceLevel,
     limitKind: v.cell_type === 'two-electrode' ? 'cell-voltage' : 'electrode-potential',
     limits: {
-      cathodic: limitView(v.reported_cathodic_v, v.reported_cathodic_ref, v.cathodic_she_v, v.cathodic_offset_v, v.she_approximate),
-      anodic: limitView(v.reported_anodic_v, v.reported_anodic_ref, v.anodic_she_v, v.anodic_offset_v, v.she_approximate),
+      cathodic: limitView(
+        v.reported_cathodic_v,
+        v.reported_cathodic_ref,
+        v.cathodic_she_v,
+        v.cathodic_offset_v,
+        v.she_approximate,
+      ),
+      anodic: limitView(
+        v.reported_anodic_v,
+        v.reported_anodic_ref,
+        v.anodic_she_v,
+        v.anodic_offset_v,
+        v.she_approximate,
+      ),
     },
-    computed: { cathodicV: v.computed_cathodic_v, anodicV: v.computed_anodic_v, cathodicSheV: v.computed_cathodic_she_v, anodicSheV: v.computed_anodic_she_v },
+    computed: {
+      cathodicV: v.computed_cathodic_v,
+      anodicV: v.computed_anodic_v,
+      cathodicSheV: v.computed_cathodic_she_v,
+      anodicSheV: v.computed_anodic_she_v,
+    },
     content: v.content as unknown as RecordContent,
     updatedAt: head.updated_at.toISOString(),
   };
@@ -130,7 +180,12 @@ export function toAnalysisView(a: AnalysisRow): AnalysisView {
 
 function attached(a: AnalysisRow): AttachedAnalysis {
   const params = a.parameters as { criterion?: string };
-  return { id: a.id, direction: a.direction, limitV: a.limit_v, criterion: params.criterion ?? null };
+  return {
+    id: a.id,
+    direction: a.direction,
+    limitV: a.limit_v,
+    criterion: params.criterion ?? null,
+  };
 }
 
 // ---- building a version ----
@@ -152,8 +207,17 @@ function versionRow(
   const m = content.method;
   const crit = content.criterion;
   const src = content.source;
-  const names = [...terms.values()].flatMap((t) => [t.id, t.name, ...t.abbreviations, ...t.synonyms]);
-  const sourceText = src ? (src.kind === 'published' ? [src.title, src.doi ?? '', src.containerTitle ?? '', ...src.authors.map((a) => a.family)] : [src.measuredBy, src.note ?? '']) : [];
+  const names = [...terms.values()].flatMap((t) => [
+    t.id,
+    t.name,
+    ...t.abbreviations,
+    ...t.synonyms,
+  ]);
+  const sourceText = src
+    ? src.kind === 'published'
+      ? [src.title, src.doi ?? '', src.containerTitle ?? '', ...src.authors.map((a) => a.family)]
+      : [src.measuredBy, src.note ?? '']
+    : [];
   return {
     record_id: recordId,
     version,
@@ -181,7 +245,12 @@ function versionRow(
     cell_type: content.cellType,
     method: m.kind,
     scan_rate_mv_s: m.kind === 'potentiostatic-holds' ? null : (m.scanRateMVs ?? null),
-    step_mv: m.kind === 'potentiostatic-holds' ? (m.stepMV ?? null) : m.kind === 'cv-window-opening' ? (m.vertexStepMV ?? null) : null,
+    step_mv:
+      m.kind === 'potentiostatic-holds'
+        ? (m.stepMV ?? null)
+        : m.kind === 'cv-window-opening'
+          ? (m.vertexStepMV ?? null)
+          : null,
     hold_time_s: m.kind === 'potentiostatic-holds' ? (m.holdTimeS ?? null) : null,
     criterion_kind: crit?.kind ?? null,
     criterion_threshold: crit?.threshold ?? null,
@@ -206,7 +275,9 @@ function versionRow(
     licence: content.licence,
     visibility: content.visibility,
     embargo_until: content.embargoUntil ?? null,
-    searchText: [handle, content.title ?? '', ...names, ...sourceText, content.notes ?? ''].join(' '),
+    searchText: [handle, content.title ?? '', ...names, ...sourceText, content.notes ?? ''].join(
+      ' ',
+    ),
   };
 }
 
@@ -228,16 +299,26 @@ async function termsOf(db: DbOrTrx, content: RecordContent) {
 export function analysisOptions(
   content: RecordContent,
   terms: Map<string, VocabularyTermRow>,
-  mapping: { columns?: AnalysisOptions['columns']; sign?: 'iupac' | 'opposite'; direction?: 'anodic' | 'cathodic' },
+  mapping: {
+    columns?: AnalysisOptions['columns'];
+    sign?: 'iupac' | 'opposite';
+    direction?: 'anodic' | 'cathodic';
+  },
 ): AnalysisOptions {
   const m = content.method;
   const o: AnalysisOptions = { method: ENGINE_METHOD[m.kind] };
   const criterion = engineCriterion(content.criterion);
   if (criterion) o.criterion = criterion;
-  if (m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined) o.scanRate = m.scanRateMVs / 1000;
-  if (content.workingElectrode.geometricAreaCm2 !== undefined) o.area = content.workingElectrode.geometricAreaCm2;
-  if (content.workingElectrode.activeMassMg !== undefined) o.mass = content.workingElectrode.activeMassMg / 1000;
-  const scale = content.cellType === 'three-electrode' ? terms.get('content.referenceElectrode')?.scale : undefined;
+  if (m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined)
+    o.scanRate = m.scanRateMVs / 1000;
+  if (content.workingElectrode.geometricAreaCm2 !== undefined)
+    o.area = content.workingElectrode.geometricAreaCm2;
+  if (content.workingElectrode.activeMassMg !== undefined)
+    o.mass = content.workingElectrode.activeMassMg / 1000;
+  const scale =
+    content.cellType === 'three-electrode'
+      ? terms.get('content.referenceElectrode')?.scale
+      : undefined;
   // Ferrocene needs a measured offset the record does not carry: potentials stay on the file's scale.
   if (scale && scale !== 'Fc+/Fc') {
     o.fromRef = scale;
@@ -252,7 +333,9 @@ export function analysisOptions(
 }
 
 /** Limit (V) an analysis found, or null when the criterion was not crossed. */
-export function analysisLimit(result: { limit: { interpolatedV: number | null; status: string } }): number | null {
+export function analysisLimit(result: {
+  limit: { interpolatedV: number | null; status: string };
+}): number | null {
   return result.limit.status === 'reached' ? result.limit.interpolatedV : null;
 }
 
@@ -273,37 +356,77 @@ export interface PreparedDraft {
 }
 
 /** Checks a new draft (rights, lab, vocabulary names) without writing anything. */
-export async function prepareDraft(db: DbOrTrx, principal: Principal, body: z.infer<typeof createRecordBody>): Promise<PreparedDraft> {
+export async function prepareDraft(
+  db: DbOrTrx,
+  principal: Principal,
+  body: z.infer<typeof createRecordBody>,
+): Promise<PreparedDraft> {
   const user = requireWriter(principal);
   let labId: string | null = null;
   if (body.lab !== undefined) {
     const lab = user.labs.find((l) => l.slug === body.lab);
-    if (!lab) throw new ValidationError([{ path: 'lab', message: `you are not a member of a lab "${body.lab}"` }]);
+    if (!lab)
+      throw new ValidationError([
+        { path: 'lab', message: `you are not a member of a lab "${body.lab}"` },
+      ]);
     labId = lab.labId;
   }
   if (body.content.visibility === 'lab' && !labId) {
-    throw new ValidationError([{ path: 'lab', message: 'a lab-private record needs the lab it belongs to' }]);
+    throw new ValidationError([
+      { path: 'lab', message: 'a lab-private record needs the lab it belongs to' },
+    ]);
   }
   const { content, terms } = await prepareContent(db, body.content);
   return { user, labId, content, terms, changeNote: body.changeNote ?? null };
 }
 
 /** Writes a prepared draft as version 1 inside the caller's transaction; its handle. */
-export async function insertDraft(trx: DbOrTrx, d: PreparedDraft, audit: Record<string, unknown> = {}): Promise<string> {
+export async function insertDraft(
+  trx: DbOrTrx,
+  d: PreparedDraft,
+  audit: Record<string, unknown> = {},
+): Promise<string> {
   const rec = await insertRecord(trx, { ownerId: d.user.id, labId: d.labId });
-  await insertVersion(trx, versionRow(rec.id, 1, rec.handle, d.content, d.terms, { rawFileIds: [], analyses: [] }, d.user.id, d.changeNote));
-  await insertAuditEvent(trx, { actorId: d.user.id, action: 'record.create', subjectType: 'record', subjectId: rec.handle, details: { version: 1, labId: d.labId, ...audit } });
+  await insertVersion(
+    trx,
+    versionRow(
+      rec.id,
+      1,
+      rec.handle,
+      d.content,
+      d.terms,
+      { rawFileIds: [], analyses: [] },
+      d.user.id,
+      d.changeNote,
+    ),
+  );
+  await insertAuditEvent(trx, {
+    actorId: d.user.id,
+    action: 'record.create',
+    subjectType: 'record',
+    subjectId: rec.handle,
+    details: { version: 1, labId: d.labId, ...audit },
+  });
   return rec.handle;
 }
 
 /** Creates a draft (version 1). */
-export async function createRecord(db: Db, principal: Principal, body: z.infer<typeof createRecordBody>): Promise<RecordDetail> {
+export async function createRecord(
+  db: Db,
+  principal: Principal,
+  body: z.infer<typeof createRecordBody>,
+): Promise<RecordDetail> {
   const draft = await prepareDraft(db, principal, body);
   const handle = await db.transaction().execute((trx) => insertDraft(trx, draft));
   return getRecord(db, principal, handle);
 }
 
-async function visibleHead(db: DbOrTrx, principal: Principal, handle: string, opts: { lock?: boolean } = {}): Promise<RecordHead> {
+async function visibleHead(
+  db: DbOrTrx,
+  principal: Principal,
+  handle: string,
+  opts: { lock?: boolean } = {},
+): Promise<RecordHead> {
   if (opts.lock) await lockRecord(db, handle);
   const head = await getRecordHead(db, handle);
   if (!head || !canSee(principal, policyObject(head))) throw new NotFoundError('record');
@@ -323,12 +446,27 @@ async function reanalyse(
   terms: Map<string, VocabularyTermRow>,
   rawFileIds: string[],
   previous: AnalysisRow[],
-): Promise<{ keep: AnalysisRow[]; fresh: { rawFileId: string; options: AnalysisOptions; result: Awaited<ReturnType<typeof analyzeInWorker>> }[] }> {
+): Promise<{
+  keep: AnalysisRow[];
+  fresh: {
+    rawFileId: string;
+    options: AnalysisOptions;
+    result: Awaited<ReturnType<typeof analyzeInWorker>>;
+  }[];
+}> {
   const files = await rawFilesByIds(db, rawFileIds);
   const keep: AnalysisRow[] = [];
-  const fresh: { rawFileId: string; options: AnalysisOptions; result: Awaited<ReturnType<typeof analyzeInWorker>> }[] = [];
+  const fresh: {
+    rawFileId: string;
+    options: AnalysisOptions;
+    result: Awaited<ReturnType<typeof analyzeInWorker>>;
+  }[] = [];
   for (const f of files) {
-    const options = analysisOptions(content, terms, f.mapping as Parameters<typeof analysisOptions>[2]);
+    const options = analysisOptions(
+      content,
+      terms,
+      f.mapping as Parameters<typeof analysisOptions>[2],
+    );
     const last = [...previous].reverse().find((a) => a.raw_file_id === f.id);
     const same = last !== undefined && JSON.stringify(last.parameters) === JSON.stringify(options);
     if (same && !lacksEnvelope(last)) {
@@ -349,22 +487,38 @@ async function reanalyse(
       else keep.push(last);
       continue;
     }
-    if (!bytes) throw new ConflictError(`raw file ${f.original_name} is missing from storage; it cannot be re-analysed`);
+    if (!bytes)
+      throw new ConflictError(
+        `raw file ${f.original_name} is missing from storage; it cannot be re-analysed`,
+      );
     fresh.push({ rawFileId: f.id, options, result: await analyzeInWorker(bytes, options) });
   }
   return { keep, fresh };
 }
 
 /** Saves an edit as a new version; 409 when `version` is not the current one. */
-export async function editRecord(db: Db, principal: Principal, handle: string, body: z.infer<typeof editRecordBody>): Promise<RecordDetail> {
+export async function editRecord(
+  db: Db,
+  principal: Principal,
+  handle: string,
+  body: z.infer<typeof editRecordBody>,
+): Promise<RecordDetail> {
   const head = await visibleHead(db, principal, handle);
   authorize(principal, 'record.update', policyObject(head), { what: 'record' });
   const user = principal as UserPrincipal;
   if (body.version !== head.current_version) {
-    throw new ConflictError(`the record is at version ${head.current_version}, not ${body.version}; reload and edit again`, { currentVersion: head.current_version });
+    throw new ConflictError(
+      `the record is at version ${head.current_version}, not ${body.version}; reload and edit again`,
+      { currentVersion: head.current_version },
+    );
   }
   if (body.content.visibility === 'lab' && !head.lab_id) {
-    throw new ValidationError([{ path: 'content.visibility', message: 'a lab-private record needs a lab; this record has none' }]);
+    throw new ValidationError([
+      {
+        path: 'content.visibility',
+        message: 'a lab-private record needs a lab; this record has none',
+      },
+    ]);
   }
   const { content, terms } = await prepareContent(db, body.content);
   const prev = (await getVersion(db, head.id, head.current_version))!;
@@ -375,8 +529,14 @@ export async function editRecord(db: Db, principal: Principal, handle: string, b
     // Concurrent edits queue on the record's lock; the later one finds the version moved.
     const current = await visibleHead(trx, principal, handle, { lock: true });
     authorize(principal, 'record.update', policyObject(current), { what: 'record' });
-    if (current.current_version !== body.version || !(await advanceVersion(trx, head.id, body.version))) {
-      throw new ConflictError(`the record changed meanwhile; it is no longer at version ${body.version}`, { currentVersion: current.current_version });
+    if (
+      current.current_version !== body.version ||
+      !(await advanceVersion(trx, head.id, body.version))
+    ) {
+      throw new ConflictError(
+        `the record changed meanwhile; it is no longer at version ${body.version}`,
+        { currentVersion: current.current_version },
+      );
     }
     const added: AnalysisRow[] = [];
     for (const f of fresh) {
@@ -392,8 +552,26 @@ export async function editRecord(db: Db, principal: Principal, handle: string, b
       added.push((await analysesByIds(trx, [id]))[0]!);
     }
     const next = body.version + 1;
-    await insertVersion(trx, versionRow(head.id, next, handle, content, terms, { rawFileIds: prev.raw_file_ids, analyses: [...keep, ...added] }, user.id, body.changeNote));
-    await insertAuditEvent(trx, { actorId: user.id, action: 'record.edit', subjectType: 'record', subjectId: handle, details: { version: next, changeNote: body.changeNote, reanalysed: fresh.length } });
+    await insertVersion(
+      trx,
+      versionRow(
+        head.id,
+        next,
+        handle,
+        content,
+        terms,
+        { rawFileIds: prev.raw_file_ids, analyses: [...keep, ...added] },
+        user.id,
+        body.changeNote,
+      ),
+    );
+    await insertAuditEvent(trx, {
+      actorId: user.id,
+      action: 'record.edit',
+      subjectType: 'record',
+      subjectId: handle,
+      details: { version: next, changeNote: body.changeNote, reanalysed: fresh.length },
+    });
   });
   return getRecord(db, principal, handle);
 }
@@ -403,13 +581,27 @@ export async function attachRawFile(
   trx: DbOrTrx,
   principal: Principal,
   recordId: string,
-  file: { rawFileId: string; options: AnalysisOptions; result: Awaited<ReturnType<typeof analyzeInWorker>>; name: string },
+  file: {
+    rawFileId: string;
+    options: AnalysisOptions;
+    result: Awaited<ReturnType<typeof analyzeInWorker>>;
+    name: string;
+  },
 ): Promise<{ handle: string; version: number; evidenceLevel: EvidenceLevel; analysisId: string }> {
   const user = principal as UserPrincipal;
-  const byId = await trx.selectFrom('records').select('handle').where('id', '=', recordId).executeTakeFirstOrThrow();
+  const byId = await trx
+    .selectFrom('records')
+    .select('handle')
+    .where('id', '=', recordId)
+    .executeTakeFirstOrThrow();
   await lockRecord(trx, byId.handle);
   const head = (await getRecordHead(trx, byId.handle))!;
-  authorize(principal, 'rawFile.upload', { type: 'rawFile', record: policyObject(head) }, { what: 'record' });
+  authorize(
+    principal,
+    'rawFile.upload',
+    { type: 'rawFile', record: policyObject(head) },
+    { what: 'record' },
+  );
   const prev = (await getVersion(trx, head.id, head.current_version))!;
   const content = prev.content as unknown as RecordContent;
   const terms = await termsOf(trx, content);
@@ -423,11 +615,27 @@ export async function attachRawFile(
     limitStatus: file.result.limit.status,
   });
   const analyses = await analysesByIds(trx, [...prev.analysis_ids, analysisId]);
-  if (!(await advanceVersion(trx, head.id, head.current_version))) throw new ConflictError('the record changed meanwhile; try again');
+  if (!(await advanceVersion(trx, head.id, head.current_version)))
+    throw new ConflictError('the record changed meanwhile; try again');
   const next = head.current_version + 1;
-  const row = versionRow(head.id, next, head.handle, content, terms, { rawFileIds: [...prev.raw_file_ids, file.rawFileId], analyses }, user.id, `Attached raw file ${file.name}`);
+  const row = versionRow(
+    head.id,
+    next,
+    head.handle,
+    content,
+    terms,
+    { rawFileIds: [...prev.raw_file_ids, file.rawFileId], analyses },
+    user.id,
+    `Attached raw file ${file.name}`,
+  );
   await insertVersion(trx, row);
-  await insertAuditEvent(trx, { actorId: user.id, action: 'record.attach-file', subjectType: 'record', subjectId: head.handle, details: { version: next, rawFileId: file.rawFileId, analysisId } });
+  await insertAuditEvent(trx, {
+    actorId: user.id,
+    action: 'record.attach-file',
+    subjectType: 'record',
+    subjectId: head.handle,
+    details: { version: next, rawFileId: file.rawFileId, analysisId },
+  });
   return { handle: head.handle, version: next, evidenceLevel: row.evidence_level, analysisId };
 }
 
@@ -436,29 +644,66 @@ export async function attachRawFile(
  * saves the result as a new version when any term id changed; files and analyses carry over.
  * Authorised by the caller (vocabulary.edit): every record follows a merge, drafts included.
  */
-export async function refreshRecordTerms(trx: DbOrTrx, actorId: string, recordId: string, changeNote: string): Promise<{ handle: string; version: number } | null> {
-  const byId = await trx.selectFrom('records').select('handle').where('id', '=', recordId).executeTakeFirstOrThrow();
+export async function refreshRecordTerms(
+  trx: DbOrTrx,
+  actorId: string,
+  recordId: string,
+  changeNote: string,
+): Promise<{ handle: string; version: number } | null> {
+  const byId = await trx
+    .selectFrom('records')
+    .select('handle')
+    .where('id', '=', recordId)
+    .executeTakeFirstOrThrow();
   await lockRecord(trx, byId.handle);
   const head = (await getRecordHead(trx, byId.handle))!;
   const prev = (await getVersion(trx, head.id, head.current_version))!;
   const before = prev.content as unknown as RecordContent;
   const { content, terms } = await prepareContent(trx, before);
-  const names = (c: RecordContent) => termRefs(c).map((r) => `${r.path}=${r.name}`).join('|');
+  const names = (c: RecordContent) =>
+    termRefs(c)
+      .map((r) => `${r.path}=${r.name}`)
+      .join('|');
   if (names(before) === names(content)) return null;
   const analyses = await analysesByIds(trx, prev.analysis_ids);
-  if (!(await advanceVersion(trx, head.id, head.current_version))) throw new ConflictError('the record changed meanwhile; try again');
+  if (!(await advanceVersion(trx, head.id, head.current_version)))
+    throw new ConflictError('the record changed meanwhile; try again');
   const next = head.current_version + 1;
-  await insertVersion(trx, versionRow(head.id, next, head.handle, content, terms, { rawFileIds: prev.raw_file_ids, analyses }, actorId, changeNote));
-  await insertAuditEvent(trx, { actorId, action: 'record.vocabulary-update', subjectType: 'record', subjectId: head.handle, details: { version: next, changeNote } });
+  await insertVersion(
+    trx,
+    versionRow(
+      head.id,
+      next,
+      head.handle,
+      content,
+      terms,
+      { rawFileIds: prev.raw_file_ids, analyses },
+      actorId,
+      changeNote,
+    ),
+  );
+  await insertAuditEvent(trx, {
+    actorId,
+    action: 'record.vocabulary-update',
+    subjectType: 'record',
+    subjectId: head.handle,
+    details: { version: next, changeNote },
+  });
   return { handle: head.handle, version: next };
 }
 
 /** Moves a record along the status machine; 409 for a stale version or a move the status does not allow. */
-export async function transitionRecord(db: Db, principal: Principal, handle: string, body: z.infer<typeof transitionBody>): Promise<RecordDetail> {
+export async function transitionRecord(
+  db: Db,
+  principal: Principal,
+  handle: string,
+  body: z.infer<typeof transitionBody>,
+): Promise<RecordDetail> {
   await db.transaction().execute(async (trx) => {
     const applied = await applyTransition(trx, principal, handle, body);
     // The contributor's receipt is written with the move itself: no move, no mail.
-    if (body.action === 'submit') await queueMail(trx, submissionReceipt(principal as UserPrincipal, applied));
+    if (body.action === 'submit')
+      await queueMail(trx, submissionReceipt(principal as UserPrincipal, applied));
   });
   if (body.action === 'submit') wakeOutbox();
   return getRecord(db, principal, handle);
@@ -502,31 +747,66 @@ export interface AppliedTransition {
  * policy, writes the decision, flag and audit event. A curator who comes second is told who
  * decided first.
  */
-export async function applyTransition(trx: DbOrTrx, principal: Principal, handle: string, body: z.infer<typeof transitionBody>): Promise<AppliedTransition> {
+export async function applyTransition(
+  trx: DbOrTrx,
+  principal: Principal,
+  handle: string,
+  body: z.infer<typeof transitionBody>,
+): Promise<AppliedTransition> {
   const t = TRANSITIONS[body.action];
   const head = await visibleHead(trx, principal, handle, { lock: true });
   const obj = policyObject(head);
   if (body.version !== head.current_version) {
     await refuseIfDecided(trx, principal, head, body);
-    throw new ConflictError(`the record is at version ${head.current_version}, not ${body.version}`, { currentVersion: head.current_version });
+    throw new ConflictError(
+      `the record is at version ${head.current_version}, not ${body.version}`,
+      { currentVersion: head.current_version },
+    );
   }
   const to = nextStatus(head.status as RecordStatus, body.action);
   if (!to) {
     await refuseIfDecided(trx, principal, head, body);
-    throw new ConflictError(`a ${head.status.replace('_', ' ')} record cannot be moved by "${body.action}"`, { recordStatus: head.status });
+    throw new ConflictError(
+      `a ${head.status.replace('_', ' ')} record cannot be moved by "${body.action}"`,
+      { recordStatus: head.status },
+    );
   }
-  if (t.policy === 'flag.resolve') authorize(principal, 'flag.resolve', { type: 'flag', reporterId: '', record: obj }, { what: 'record' });
+  if (t.policy === 'flag.resolve')
+    authorize(
+      principal,
+      'flag.resolve',
+      { type: 'flag', reporterId: '', record: obj },
+      { what: 'record' },
+    );
   else authorize(principal, t.policy as 'record.read', obj, { what: 'record' });
   const user = principal as UserPrincipal;
-  if (body.action === 'flag' && !body.reason) throw new ValidationError([{ path: 'reason', message: 'say what is wrong with the record' }]);
+  if (body.action === 'flag' && !body.reason)
+    throw new ValidationError([{ path: 'reason', message: 'say what is wrong with the record' }]);
   if (!(await compareAndSetStatus(trx, head.id, body.version, head.status, to))) {
     throw new ConflictError('someone acted on this record first; reload it');
   }
   let reviewId: string | null = null;
-  if (t.review) reviewId = await insertReview(trx, { recordId: head.id, version: body.version, reviewerId: user.id, decision: body.action, reason: body.reason ?? null });
+  if (t.review)
+    reviewId = await insertReview(trx, {
+      recordId: head.id,
+      version: body.version,
+      reviewerId: user.id,
+      decision: body.action,
+      reason: body.reason ?? null,
+    });
   let flagId: string | null = null;
-  if (body.action === 'flag') flagId = await insertFlag(trx, { recordId: head.id, version: body.version, reporterId: user.id, reason: body.reason! });
-  if (body.action === 'resolve-flag' || body.action === 'withdraw' || (body.action === 'request-changes' && head.status === 'flagged')) {
+  if (body.action === 'flag')
+    flagId = await insertFlag(trx, {
+      recordId: head.id,
+      version: body.version,
+      reporterId: user.id,
+      reason: body.reason!,
+    });
+  if (
+    body.action === 'resolve-flag' ||
+    body.action === 'withdraw' ||
+    (body.action === 'request-changes' && head.status === 'flagged')
+  ) {
     await resolveOpenFlags(trx, head.id, user.id);
   }
   await insertAuditEvent(trx, {
@@ -534,41 +814,80 @@ export async function applyTransition(trx: DbOrTrx, principal: Principal, handle
     action: `record.${body.action}`,
     subjectType: 'record',
     subjectId: handle,
-    details: { from: head.status, to, version: body.version, ...(body.reason ? { reason: body.reason } : {}), ...(flagId ? { flagId } : {}) },
+    details: {
+      from: head.status,
+      to,
+      version: body.version,
+      ...(body.reason ? { reason: body.reason } : {}),
+      ...(flagId ? { flagId } : {}),
+    },
   });
   const v = await getVersion(trx, head.id, body.version);
-  return { recordId: head.id, handle, ownerId: head.owner_id, title: v?.title ?? null, from: head.status as RecordStatus, to, version: body.version, reviewId, flagId };
+  return {
+    recordId: head.id,
+    handle,
+    ownerId: head.owner_id,
+    title: v?.title ?? null,
+    from: head.status as RecordStatus,
+    to,
+    version: body.version,
+    reviewId,
+    flagId,
+  };
 }
 
 /** 409 naming the curator who already decided this version (told to curators only). */
-async function refuseIfDecided(trx: DbOrTrx, principal: Principal, head: RecordHead, body: z.infer<typeof transitionBody>): Promise<void> {
+async function refuseIfDecided(
+  trx: DbOrTrx,
+  principal: Principal,
+  head: RecordHead,
+  body: z.infer<typeof transitionBody>,
+): Promise<void> {
   if (!TRANSITIONS[body.action].review || !can(principal, 'review.queue', null)) return;
   const last = await latestDecision(trx, head.id, body.version);
   if (!last) return;
   const who = last.reviewer_name ?? 'another curator';
-  throw new ConflictError(`already decided by ${who}: "${last.decision}" on version ${last.version} at ${last.created_at.toISOString()}`, {
-    decidedBy: who,
-    decision: last.decision,
-    decidedAt: last.created_at.toISOString(),
-    recordStatus: head.status,
-    currentVersion: head.current_version,
-  });
+  throw new ConflictError(
+    `already decided by ${who}: "${last.decision}" on version ${last.version} at ${last.created_at.toISOString()}`,
+    {
+      decidedBy: who,
+      decision: last.decision,
+      decidedAt: last.created_at.toISOString(),
+      recordStatus: head.status,
+      currentVersion: head.current_version,
+    },
+  );
 }
 
 /** A record with its current version, files, analyses and review history. */
-export async function getRecord(db: DbOrTrx, principal: Principal, handle: string): Promise<RecordDetail> {
+export async function getRecord(
+  db: DbOrTrx,
+  principal: Principal,
+  handle: string,
+): Promise<RecordDetail> {
   const head = await visibleHead(db, principal, handle);
   return detail(db, principal, head, head.current_version);
 }
 
-async function detail(db: DbOrTrx, principal: Principal, head: RecordHead, version: number): Promise<RecordDetail> {
+async function detail(
+  db: DbOrTrx,
+  principal: Principal,
+  head: RecordHead,
+  version: number,
+): Promise<RecordDetail> {
   const v = await getVersion(db, head.id, version);
   if (!v) throw new NotFoundError('version');
   const obj = policyObject(head);
-  const [files, analyses, reviews] = await Promise.all([rawFilesByIds(db, v.raw_file_ids), analysesByIds(db, v.analysis_ids), listReviews(db, head.id)]);
+  const [files, analyses, reviews] = await Promise.all([
+    rawFilesByIds(db, v.raw_file_ids),
+    analysesByIds(db, v.analysis_ids),
+    listReviews(db, head.id),
+  ]);
   const allowed = actionsFrom(head.status as RecordStatus).filter((a) => {
     const t = TRANSITIONS[a];
-    return t.policy === 'flag.resolve' ? can(principal, 'flag.resolve', { type: 'flag', reporterId: '', record: obj }) : can(principal, t.policy as 'record.read', obj);
+    return t.policy === 'flag.resolve'
+      ? can(principal, 'flag.resolve', { type: 'flag', reporterId: '', record: obj })
+      : can(principal, t.policy as 'record.read', obj);
   });
   return {
     ...toSummary(v, head),
@@ -578,7 +897,12 @@ async function detail(db: DbOrTrx, principal: Principal, head: RecordHead, versi
     rawFiles: files.map(toRawFileView),
     analyses: analyses.map(toAnalysisView),
     reviews: can(principal, 'review.read', { type: 'review', record: obj })
-      ? reviews.map((r) => ({ version: r.version, decision: r.decision, reason: r.reason, at: r.created_at.toISOString() }))
+      ? reviews.map((r) => ({
+          version: r.version,
+          decision: r.decision,
+          reason: r.reason,
+          at: r.created_at.toISOString(),
+        }))
       : [],
     allowedActions: allowed,
   };
@@ -593,9 +917,18 @@ export interface VersionSummary {
   rawFileCount: number;
 }
 
-export async function listRecordVersions(db: Db, principal: Principal, handle: string): Promise<VersionSummary[]> {
+export async function listRecordVersions(
+  db: Db,
+  principal: Principal,
+  handle: string,
+): Promise<VersionSummary[]> {
   const head = await visibleHead(db, principal, handle);
-  authorize(principal, 'recordVersion.read', { type: 'recordVersion', record: policyObject(head) }, { what: 'record' });
+  authorize(
+    principal,
+    'recordVersion.read',
+    { type: 'recordVersion', record: policyObject(head) },
+    { what: 'record' },
+  );
   return (await listVersions(db, head.id)).map((v) => ({
     version: v.version,
     createdAt: v.created_at.toISOString(),
@@ -606,9 +939,19 @@ export async function listRecordVersions(db: Db, principal: Principal, handle: s
   }));
 }
 
-export async function getRecordVersion(db: Db, principal: Principal, handle: string, version: number): Promise<RecordDetail> {
+export async function getRecordVersion(
+  db: Db,
+  principal: Principal,
+  handle: string,
+  version: number,
+): Promise<RecordDetail> {
   const head = await visibleHead(db, principal, handle);
-  authorize(principal, 'recordVersion.read', { type: 'recordVersion', record: policyObject(head) }, { what: 'record' });
+  authorize(
+    principal,
+    'recordVersion.read',
+    { type: 'recordVersion', record: policyObject(head) },
+    { what: 'record' },
+  );
   return detail(db, principal, head, version);
 }
 
@@ -621,11 +964,25 @@ export interface Change {
 
 /** Field-by-field differences between two versions of a record. */
 /** Query parameters of GET /api/v1/records/{handle}/diff. */
-export const diffQuerySchema = z.strictObject({ from: z.coerce.number().int().min(1), to: z.coerce.number().int().min(1) });
+export const diffQuerySchema = z.strictObject({
+  from: z.coerce.number().int().min(1),
+  to: z.coerce.number().int().min(1),
+});
 
-export async function diffRecordVersions(db: Db, principal: Principal, handle: string, from: number, to: number): Promise<{ from: number; to: number; changes: Change[] }> {
+export async function diffRecordVersions(
+  db: Db,
+  principal: Principal,
+  handle: string,
+  from: number,
+  to: number,
+): Promise<{ from: number; to: number; changes: Change[] }> {
   const head = await visibleHead(db, principal, handle);
-  authorize(principal, 'recordVersion.read', { type: 'recordVersion', record: policyObject(head) }, { what: 'record' });
+  authorize(
+    principal,
+    'recordVersion.read',
+    { type: 'recordVersion', record: policyObject(head) },
+    { what: 'record' },
+  );
   const [a, b] = await Promise.all([getVersion(db, head.id, from), getVersion(db, head.id, to)]);
   if (!a || !b) throw new NotFoundError('version');
   const changes: Change[] = [];
@@ -633,7 +990,8 @@ export async function diffRecordVersions(db: Db, principal: Principal, handle: s
   const fa = a.raw_file_ids.join(',');
   const fb = b.raw_file_ids.join(',');
   if (fa !== fb) changes.push({ path: 'rawFiles', before: a.raw_file_ids, after: b.raw_file_ids });
-  if (a.evidence_level !== b.evidence_level) changes.push({ path: 'evidenceLevel', before: a.evidence_level, after: b.evidence_level });
+  if (a.evidence_level !== b.evidence_level)
+    changes.push({ path: 'evidenceLevel', before: a.evidence_level, after: b.evidence_level });
   return { from, to, changes };
 }
 
@@ -644,7 +1002,8 @@ function diffValues(path: string, a: unknown, b: unknown, out: Change[]): void {
     for (const k of keys) diffValues(path ? `${path}.${k}` : k, a[k], b[k], out);
     return;
   }
-  if (JSON.stringify(a) !== JSON.stringify(b)) out.push({ path: path || '(content)', before: a ?? null, after: b ?? null });
+  if (JSON.stringify(a) !== JSON.stringify(b))
+    out.push({ path: path || '(content)', before: a ?? null, after: b ?? null });
 }
 
 export { CELL_VOLTAGE };

@@ -7,18 +7,17 @@
  * callers, and each still sees every change committed before it called.
  */
 export function sharedReads<T>(read: () => Promise<T>): () => Promise<T> {
-  let next: { promise: Promise<T>; resolve: (v: T) => void; reject: (e: unknown) => void } | null = null;
+  let next: { promise: Promise<T>; resolve: (v: T) => void; reject: (e: unknown) => void } | null =
+    null;
   let underWay = false;
   const start = () => {
     const batch = next!;
     next = null;
     underWay = true;
-    new Promise<T>((resolve) => resolve(read()))
-      .then(batch.resolve, batch.reject)
-      .finally(() => {
-        underWay = false;
-        if (next) start();
-      });
+    new Promise<T>((resolve) => resolve(read())).then(batch.resolve, batch.reject).finally(() => {
+      underWay = false;
+      if (next) start();
+    });
   };
   return () => {
     if (next) return next.promise;

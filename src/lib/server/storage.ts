@@ -36,15 +36,23 @@ export class StorageUnavailableError extends Error {
 }
 
 function unavailable(err: unknown): never {
-  throw new StorageUnavailableError(`object storage unavailable: ${err instanceof Error ? err.message : String(err)}`);
+  throw new StorageUnavailableError(
+    `object storage unavailable: ${err instanceof Error ? err.message : String(err)}`,
+  );
 }
 
 const bucket = () => config().S3_BUCKET;
 
 /** Stores bytes under a key. */
-export async function putObject(key: string, body: Uint8Array | string, contentType: string): Promise<void> {
+export async function putObject(
+  key: string,
+  body: Uint8Array | string,
+  contentType: string,
+): Promise<void> {
   await s3()
-    .send(new PutObjectCommand({ Bucket: bucket(), Key: key, Body: body, ContentType: contentType }))
+    .send(
+      new PutObjectCommand({ Bucket: bucket(), Key: key, Body: body, ContentType: contentType }),
+    )
     .catch(unavailable);
 }
 
@@ -71,7 +79,9 @@ export async function objectSize(key: string): Promise<number | null> {
 }
 
 export async function deleteObject(key: string): Promise<void> {
-  await s3().send(new DeleteObjectCommand({ Bucket: bucket(), Key: key })).catch(unavailable);
+  await s3()
+    .send(new DeleteObjectCommand({ Bucket: bucket(), Key: key }))
+    .catch(unavailable);
 }
 
 /** Every object under a prefix: key and size (backups, cleanup). */
@@ -80,7 +90,13 @@ export async function listObjects(prefix = ''): Promise<{ key: string; size: num
   let token: string | undefined;
   do {
     const page = await s3()
-      .send(new ListObjectsV2Command({ Bucket: bucket(), Prefix: prefix || undefined, ContinuationToken: token }))
+      .send(
+        new ListObjectsV2Command({
+          Bucket: bucket(),
+          Prefix: prefix || undefined,
+          ContinuationToken: token,
+        }),
+      )
       .catch(unavailable);
     for (const o of page.Contents ?? []) if (o.Key) out.push({ key: o.Key, size: o.Size ?? 0 });
     token = page.IsTruncated ? page.NextContinuationToken : undefined;
@@ -89,11 +105,19 @@ export async function listObjects(prefix = ''): Promise<{ key: string; size: num
 }
 
 /** A short-lived URL the browser can PUT the object to; the content type is part of the signature. */
-export async function presignPut(key: string, contentType: string, expiresInSeconds = 600): Promise<string> {
-  return getSignedUrl(s3(), new PutObjectCommand({ Bucket: bucket(), Key: key, ContentType: contentType }), {
-    expiresIn: expiresInSeconds,
-    signableHeaders: new Set(['content-type']),
-  });
+export async function presignPut(
+  key: string,
+  contentType: string,
+  expiresInSeconds = 600,
+): Promise<string> {
+  return getSignedUrl(
+    s3(),
+    new PutObjectCommand({ Bucket: bucket(), Key: key, ContentType: contentType }),
+    {
+      expiresIn: expiresInSeconds,
+      signableHeaders: new Set(['content-type']),
+    },
+  );
 }
 
 /** Creates the bucket when it is missing (start-up of local and test setups). */
@@ -109,7 +133,9 @@ export async function ensureBucket(): Promise<void> {
 /** True when the bucket answers. */
 export async function pingStorage(): Promise<boolean> {
   try {
-    await s3().send(new HeadBucketCommand({ Bucket: bucket() }), { abortSignal: AbortSignal.timeout(2_000) });
+    await s3().send(new HeadBucketCommand({ Bucket: bucket() }), {
+      abortSignal: AbortSignal.timeout(2_000),
+    });
     return true;
   } catch {
     return false;
@@ -118,5 +144,10 @@ export async function pingStorage(): Promise<boolean> {
 
 function isNotFound(err: unknown): boolean {
   const e = err as { name?: string; $metadata?: { httpStatusCode?: number } };
-  return e?.name === 'NotFound' || e?.name === 'NoSuchKey' || e?.name === 'NoSuchBucket' || e?.$metadata?.httpStatusCode === 404;
+  return (
+    e?.name === 'NotFound' ||
+    e?.name === 'NoSuchKey' ||
+    e?.name === 'NoSuchBucket' ||
+    e?.$metadata?.httpStatusCode === 404
+  );
 }

@@ -5,11 +5,32 @@ import { config } from './config.ts';
 import type { Db } from './db/index.ts';
 import { AppError, ConflictError, NotFoundError, PayloadTooLargeError } from './errors.ts';
 import { authorize, canSee, type Principal, type UserPrincipal } from './policy.ts';
-import { analysisLimit, analysisOptions, attachRawFile, policyObject, toRawFileView, type RawFileView } from './records.ts';
+import {
+  analysisLimit,
+  analysisOptions,
+  attachRawFile,
+  policyObject,
+  toRawFileView,
+  type RawFileView,
+} from './records.ts';
 import { termRefs } from './record-derive.ts';
 import { insertAuditEvent } from './repositories/audit.ts';
-import { getRawFile, getRecordHead, getRecordHeadById, getVersion, insertRawFile } from './repositories/records.ts';
-import { getUpload, insertUpload, markUploadComplete, markUploadExpired, markUploadFailed, stalePendingUploads, type UploadRow } from './repositories/uploads.ts';
+import {
+  getRawFile,
+  getRecordHead,
+  getRecordHeadById,
+  getVersion,
+  insertRawFile,
+} from './repositories/records.ts';
+import {
+  getUpload,
+  insertUpload,
+  markUploadComplete,
+  markUploadExpired,
+  markUploadFailed,
+  stalePendingUploads,
+  type UploadRow,
+} from './repositories/uploads.ts';
 import { deleteObject, getObjectBytes, presignPut } from './storage.ts';
 import { resolveTerms } from './vocabulary.ts';
 
@@ -34,7 +55,13 @@ export interface UploadResult {
   id: string;
   status: 'complete';
   rawFile: RawFileView;
-  analysis: { id: string; direction: 'anodic' | 'cathodic'; limitV: number | null; limitStatus: string; warnings: string[] };
+  analysis: {
+    id: string;
+    direction: 'anodic' | 'cathodic';
+    limitV: number | null;
+    limitStatus: string;
+    warnings: string[];
+  };
   record: { handle: string; version: number; evidenceLevel: string };
 }
 
@@ -47,17 +74,27 @@ export function safeFileName(name: string): string {
     .replace(/[^A-Za-z0-9._-]+/g, '_')
     .replace(/^[._]+/, '')
     .replace(/_+/g, '_');
-  const trimmed = cleaned.length > 120 ? cleaned.slice(cleaned.length - 120).replace(/^[._]+/, '') : cleaned;
+  const trimmed =
+    cleaned.length > 120 ? cleaned.slice(cleaned.length - 120).replace(/^[._]+/, '') : cleaned;
   return trimmed || 'raw-file';
 }
 
 /** Declares an upload: checks the size limit and the right to add files to the record, returns a presigned PUT. */
-export async function declareUpload(db: Db, principal: Principal, body: CreateUploadBody): Promise<UploadTicket> {
+export async function declareUpload(
+  db: Db,
+  principal: Principal,
+  body: CreateUploadBody,
+): Promise<UploadTicket> {
   const limit = config().MAX_UPLOAD_BYTES;
   if (body.size > limit) throw new PayloadTooLargeError(limit);
   const head = await getRecordHead(db, body.record);
   if (!head || !canSee(principal, policyObject(head))) throw new NotFoundError('record');
-  authorize(principal, 'rawFile.upload', { type: 'rawFile', record: policyObject(head) }, { what: 'record' });
+  authorize(
+    principal,
+    'rawFile.upload',
+    { type: 'rawFile', record: policyObject(head) },
+    { what: 'record' },
+  );
   const user = principal as UserPrincipal;
   const id = randomUUID();
   const key = `raw/${id}`;
@@ -76,15 +113,29 @@ export async function declareUpload(db: Db, principal: Principal, body: CreateUp
       mapping: body.mapping,
       expiresAt,
     });
-    await insertAuditEvent(trx, { actorId: user.id, action: 'upload.declare', subjectType: 'upload', subjectId: id, details: { record: head.handle, size: body.size, sha256: body.sha256 } });
+    await insertAuditEvent(trx, {
+      actorId: user.id,
+      action: 'upload.declare',
+      subjectType: 'upload',
+      subjectId: id,
+      details: { record: head.handle, size: body.size, sha256: body.sha256 },
+    });
   });
-  return { id, status: 'pending', url, method: 'PUT', headers: { 'content-type': body.mediaType }, expiresAt: expiresAt.toISOString() };
+  return {
+    id,
+    status: 'pending',
+    url,
+    method: 'PUT',
+    headers: { 'content-type': body.mediaType },
+    expiresAt: expiresAt.toISOString(),
+  };
 }
 
 /** The upload if it is the principal's own; anyone else's (or a missing one) is the same 404. */
 async function ownUpload(db: Db, principal: Principal, id: string): Promise<UploadRow> {
   const u = /^[0-9a-f-]{36}$/.test(id) ? await getUpload(db, id) : undefined;
-  if (!u || principal.kind !== 'user' || u.owner_id !== principal.id) throw new NotFoundError('upload');
+  if (!u || principal.kind !== 'user' || u.owner_id !== principal.id)
+    throw new NotFoundError('upload');
   return u;
 }
 
@@ -92,13 +143,24 @@ async function completedResult(db: Db, u: UploadRow): Promise<UploadResult> {
   const file = (await getRawFile(db, u.raw_file_id!))!;
   const head = (await getRecordHeadById(db, u.record_id))!;
   const v = (await getVersion(db, head.id, head.current_version))!;
-  const analysis = await db.selectFrom('analyses').selectAll().where('raw_file_id', '=', file.id).orderBy('created_at', 'desc').executeTakeFirstOrThrow();
+  const analysis = await db
+    .selectFrom('analyses')
+    .selectAll()
+    .where('raw_file_id', '=', file.id)
+    .orderBy('created_at', 'desc')
+    .executeTakeFirstOrThrow();
   const result = analysis.result as { warnings?: string[] };
   return {
     id: u.id,
     status: 'complete',
     rawFile: toRawFileView(file),
-    analysis: { id: analysis.id, direction: analysis.direction, limitV: analysis.limit_v, limitStatus: analysis.limit_status, warnings: result.warnings ?? [] },
+    analysis: {
+      id: analysis.id,
+      direction: analysis.direction,
+      limitV: analysis.limit_v,
+      limitStatus: analysis.limit_status,
+      warnings: result.warnings ?? [],
+    },
     record: { handle: head.handle, version: head.current_version, evidenceLevel: v.evidence_level },
   };
 }
@@ -114,32 +176,55 @@ class UploadRejected extends AppError {
  * result; an object that has not arrived leaves the upload pending (409); a wrong size or
  * checksum, or a file the engine cannot read, fails the upload for good (422) and removes the object.
  */
-export async function completeUpload(db: Db, principal: Principal, id: string): Promise<UploadResult> {
+export async function completeUpload(
+  db: Db,
+  principal: Principal,
+  id: string,
+): Promise<UploadResult> {
   const u = await ownUpload(db, principal, id);
   if (u.status === 'complete') return completedResult(db, u);
-  if (u.status !== 'pending') throw new ConflictError(`this upload is ${u.status}; declare the file again`, { uploadStatus: u.status });
+  if (u.status !== 'pending')
+    throw new ConflictError(`this upload is ${u.status}; declare the file again`, {
+      uploadStatus: u.status,
+    });
   const headBefore = (await getRecordHeadById(db, u.record_id))!;
-  authorize(principal, 'rawFile.upload', { type: 'rawFile', record: policyObject(headBefore) }, { what: 'record' });
+  authorize(
+    principal,
+    'rawFile.upload',
+    { type: 'rawFile', record: policyObject(headBefore) },
+    { what: 'record' },
+  );
 
   const bytes = await getObjectBytes(u.object_key);
-  if (!bytes) throw new ConflictError('the file has not arrived in storage; PUT it to the upload URL first', { code: 'object-missing' });
+  if (!bytes)
+    throw new ConflictError('the file has not arrived in storage; PUT it to the upload URL first', {
+      code: 'object-missing',
+    });
   const fail = async (detail: string, errors: { path: string; message: string }[]) => {
     await markUploadFailed(db, u.id, { detail, errors });
     await deleteObject(u.object_key).catch(() => {});
     return new UploadRejected(detail, errors);
   };
   if (bytes.byteLength !== Number(u.declared_size)) {
-    throw await fail('The stored file does not have the declared size.', [{ path: 'size', message: `declared ${u.declared_size} bytes, received ${bytes.byteLength}` }]);
+    throw await fail('The stored file does not have the declared size.', [
+      { path: 'size', message: `declared ${u.declared_size} bytes, received ${bytes.byteLength}` },
+    ]);
   }
   const sha = createHash('sha256').update(bytes).digest('hex');
   if (sha !== u.declared_sha256) {
-    throw await fail('The stored file does not match the declared SHA-256.', [{ path: 'sha256', message: `declared ${u.declared_sha256}, received ${sha}` }]);
+    throw await fail('The stored file does not match the declared SHA-256.', [
+      { path: 'sha256', message: `declared ${u.declared_sha256}, received ${sha}` },
+    ]);
   }
 
   const version = (await getVersion(db, headBefore.id, headBefore.current_version))!;
   const content = version.content as unknown as RecordContent;
   const terms = await resolveTerms(db, termRefs(content));
-  const options = analysisOptions(content, terms, u.mapping as Parameters<typeof analysisOptions>[2]);
+  const options = analysisOptions(
+    content,
+    terms,
+    u.mapping as Parameters<typeof analysisOptions>[2],
+  );
   let result;
   try {
     result = await analyzeInWorker(bytes, options);
@@ -174,12 +259,24 @@ export async function completeUpload(db: Db, principal: Principal, id: string): 
       },
       uploadedBy: u.owner_id,
     });
-    await attachRawFile(trx, principal, u.record_id, { rawFileId, options, result, name: safeFileName(u.declared_name) });
+    await attachRawFile(trx, principal, u.record_id, {
+      rawFileId,
+      options,
+      result,
+      name: safeFileName(u.declared_name),
+    });
     await markUploadComplete(trx, u.id, rawFileId);
-    await insertAuditEvent(trx, { actorId: u.owner_id, action: 'upload.complete', subjectType: 'upload', subjectId: u.id, details: { rawFileId, sha256: sha, limitV: analysisLimit(result) } });
+    await insertAuditEvent(trx, {
+      actorId: u.owner_id,
+      action: 'upload.complete',
+      subjectType: 'upload',
+      subjectId: u.id,
+      details: { rawFileId, sha256: sha, limitV: analysisLimit(result) },
+    });
     return 'done';
   });
-  if (outcome === 'gone') throw new ConflictError('this upload was cancelled meanwhile; declare the file again');
+  if (outcome === 'gone')
+    throw new ConflictError('this upload was cancelled meanwhile; declare the file again');
   return completedResult(db, (await getUpload(db, u.id))!);
 }
 
@@ -194,13 +291,22 @@ export async function getUploadStatus(db: Db, principal: Principal, id: string) 
  * The clean-up job: pending uploads whose URL expired more than `graceSeconds` ago are marked
  * expired and their objects (if any arrived) removed. Returns how many were cleaned.
  */
-export async function cleanStaleUploads(db: Db, opts: { now?: Date; graceSeconds?: number; batch?: number } = {}): Promise<number> {
+export async function cleanStaleUploads(
+  db: Db,
+  opts: { now?: Date; graceSeconds?: number; batch?: number } = {},
+): Promise<number> {
   const before = new Date((opts.now ?? new Date()).getTime() - (opts.graceSeconds ?? 3600) * 1000);
   let cleaned = 0;
   for (const u of await stalePendingUploads(db, before, opts.batch ?? 500)) {
     if (!(await markUploadExpired(db, u.id))) continue;
     await deleteObject(u.object_key).catch(() => {});
-    await insertAuditEvent(db, { actorId: null, action: 'upload.expire', subjectType: 'upload', subjectId: u.id, details: { record_id: u.record_id } });
+    await insertAuditEvent(db, {
+      actorId: null,
+      action: 'upload.expire',
+      subjectType: 'upload',
+      subjectId: u.id,
+      details: { record_id: u.record_id },
+    });
     cleaned++;
   }
   return cleaned;
@@ -209,13 +315,26 @@ export async function cleanStaleUploads(db: Db, opts: { now?: Date; graceSeconds
 const INLINE_SAFE_TYPES = new Set(['text/csv', 'text/plain', 'text/tab-separated-values']);
 
 /** A raw file's bytes for download, if the principal may read its record. */
-export async function downloadRawFile(db: Db, principal: Principal, id: string): Promise<{ bytes: Uint8Array; fileName: string; mediaType: string; sha256: string }> {
+export async function downloadRawFile(
+  db: Db,
+  principal: Principal,
+  id: string,
+): Promise<{ bytes: Uint8Array; fileName: string; mediaType: string; sha256: string }> {
   const f = /^[0-9a-f-]{36}$/.test(id) ? await getRawFile(db, id) : undefined;
   const head = f ? await getRecordHeadById(db, f.record_id) : undefined;
   if (!f || !head) throw new NotFoundError('raw file');
-  authorize(principal, 'rawFile.read', { type: 'rawFile', record: policyObject(head) }, { what: 'raw file' });
+  authorize(
+    principal,
+    'rawFile.read',
+    { type: 'rawFile', record: policyObject(head) },
+    { what: 'raw file' },
+  );
   const bytes = await getObjectBytes(f.object_key);
   if (!bytes) throw new NotFoundError('raw file');
-  return { bytes, fileName: f.safe_name, mediaType: INLINE_SAFE_TYPES.has(f.media_type) ? f.media_type : 'application/octet-stream', sha256: f.sha256 };
+  return {
+    bytes,
+    fileName: f.safe_name,
+    mediaType: INLINE_SAFE_TYPES.has(f.media_type) ? f.media_type : 'application/octet-stream',
+    sha256: f.sha256,
+  };
 }
-

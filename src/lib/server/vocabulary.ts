@@ -3,14 +3,34 @@ import { authorize, type Principal } from './policy.ts';
 import { ValidationError, type FieldError } from './errors.ts';
 import type { Db } from './db/index.ts';
 import type { DbOrTrx } from './repositories/audit.ts';
-import { findTermsByKeys, insertMissingTerms, listTerms, toTerm, type VocabularyTermRow } from './repositories/vocabulary.ts';
-import { VOCABULARY_KINDS, lookupKey, termKeys, vocabularyTermSchema, type VocabularyKind, type VocabularyTerm, type VocabularyTermInput } from '../shared/vocabulary.ts';
+import {
+  findTermsByKeys,
+  insertMissingTerms,
+  listTerms,
+  toTerm,
+  type VocabularyTermRow,
+} from './repositories/vocabulary.ts';
+import {
+  VOCABULARY_KINDS,
+  lookupKey,
+  termKeys,
+  vocabularyTermSchema,
+  type VocabularyKind,
+  type VocabularyTerm,
+  type VocabularyTermInput,
+} from '../shared/vocabulary.ts';
 
 /** Adds the terms that are missing (by id); safe to run on every start. Returns how many were added. */
-export async function loadVocabulary(db: Db, terms: readonly VocabularyTermInput[]): Promise<number> {
+export async function loadVocabulary(
+  db: Db,
+  terms: readonly VocabularyTermInput[],
+): Promise<number> {
   const parsed = terms.map((t, i) => {
     const r = vocabularyTermSchema.safeParse(t);
-    if (!r.success) throw new Error(`vocabulary term ${i} (${t.id}): ${r.error.issues.map((x) => `${x.path.join('.')}: ${x.message}`).join('; ')}`);
+    if (!r.success)
+      throw new Error(
+        `vocabulary term ${i} (${t.id}): ${r.error.issues.map((x) => `${x.path.join('.')}: ${x.message}`).join('; ')}`,
+      );
     return r.data;
   });
   return insertMissingTerms(
@@ -35,9 +55,16 @@ export async function loadVocabulary(db: Db, terms: readonly VocabularyTermInput
 
 /** The vocabulary, for pickers and search boxes. */
 /** Query parameters of GET /api/v1/vocabulary. */
-export const vocabularyQuerySchema = z.strictObject({ kind: z.enum(VOCABULARY_KINDS).optional(), q: z.string().trim().min(1).max(200).optional() });
+export const vocabularyQuerySchema = z.strictObject({
+  kind: z.enum(VOCABULARY_KINDS).optional(),
+  q: z.string().trim().min(1).max(200).optional(),
+});
 
-export async function listVocabulary(db: Db, principal: Principal, opts: { kind?: VocabularyKind; q?: string } = {}): Promise<VocabularyTerm[]> {
+export async function listVocabulary(
+  db: Db,
+  principal: Principal,
+  opts: { kind?: VocabularyKind; q?: string } = {},
+): Promise<VocabularyTerm[]> {
   authorize(principal, 'vocabulary.read', null);
   const rows = await listTerms(db, opts.kind ? { kind: opts.kind } : {});
   const q = opts.q ? lookupKey(opts.q) : '';
@@ -55,12 +82,17 @@ export interface TermRef {
  * Resolves names (ids, names, abbreviations or synonyms, any case) to terms, following merges.
  * Each must match exactly one term of an allowed kind; otherwise a ValidationError names the path.
  */
-export async function resolveTerms(db: DbOrTrx, refs: TermRef[]): Promise<Map<string, VocabularyTermRow>> {
+export async function resolveTerms(
+  db: DbOrTrx,
+  refs: TermRef[],
+): Promise<Map<string, VocabularyTermRow>> {
   const keys = [...new Set(refs.map((r) => lookupKey(r.name)))];
   const rows = await findTermsByKeys(db, keys);
   const byId = new Map(rows.map((r) => [r.id, r]));
   // Merged terms point at the term that replaced them; fetch those too.
-  const targets = rows.filter((r) => r.merged_into && !byId.has(r.merged_into)).map((r) => r.merged_into!);
+  const targets = rows
+    .filter((r) => r.merged_into && !byId.has(r.merged_into))
+    .map((r) => r.merged_into!);
   if (targets.length) for (const r of await findTermsByKeys(db, targets)) byId.set(r.id, r);
   const out = new Map<string, VocabularyTermRow>();
   const errors: FieldError[] = [];
@@ -72,8 +104,16 @@ export async function resolveTerms(db: DbOrTrx, refs: TermRef[]): Promise<Map<st
     if (exact) hits = [exact];
     const resolved = [...new Set(hits.map((h) => follow(h, byId)))];
     if (resolved.length === 1) out.set(ref.path, resolved[0]!);
-    else if (resolved.length === 0) errors.push({ path: ref.path, message: `"${ref.name}" is not a known ${ref.kinds.join(' or ')} in the vocabulary` });
-    else errors.push({ path: ref.path, message: `"${ref.name}" is ambiguous: ${resolved.map((r) => r.id).join(', ')}; give the term id` });
+    else if (resolved.length === 0)
+      errors.push({
+        path: ref.path,
+        message: `"${ref.name}" is not a known ${ref.kinds.join(' or ')} in the vocabulary`,
+      });
+    else
+      errors.push({
+        path: ref.path,
+        message: `"${ref.name}" is ambiguous: ${resolved.map((r) => r.id).join(', ')}; give the term id`,
+      });
   }
   if (errors.length) throw new ValidationError(errors, 'Some names are not in the vocabulary.');
   return out;

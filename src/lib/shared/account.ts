@@ -4,7 +4,12 @@ import { normaliseOrcid } from './orcid.ts';
 // Input shapes for accounts, API tokens, administration and lab membership: one schema each,
 // used by the JSON API and the pages' forms alike. Strict: an unknown field is refused by name.
 
-export const email = z.string().trim().toLowerCase().max(320).pipe(z.email({ message: 'must be an e-mail address' }));
+export const email = z
+  .string()
+  .trim()
+  .toLowerCase()
+  .max(320)
+  .pipe(z.email({ message: 'must be an e-mail address' }));
 // Password rules proper (length, common passwords, byte limit) are checked by the server.
 const password = z.string().min(1, 'is required').max(1024);
 
@@ -20,7 +25,10 @@ export const tokenInput = z.strictObject({ token: z.string().min(10).max(200) })
 
 export const resetPasswordInput = z.strictObject({ token: z.string().min(10).max(200), password });
 
-export const changePasswordInput = z.strictObject({ currentPassword: password, newPassword: password });
+export const changePasswordInput = z.strictObject({
+  currentPassword: password,
+  newPassword: password,
+});
 
 const optionalText = (max: number) =>
   z
@@ -44,7 +52,11 @@ export const profileInput = z.strictObject({
       if (s === null || s === '') return null;
       const id = normaliseOrcid(s);
       if (!id) {
-        ctx.addIssue({ code: 'custom', message: 'is not a valid ORCID iD (form 0000-0000-0000-000X, with a correct check character)' });
+        ctx.addIssue({
+          code: 'custom',
+          message:
+            'is not a valid ORCID iD (form 0000-0000-0000-000X, with a correct check character)',
+        });
         return z.NEVER;
       }
       return id;
@@ -54,7 +66,10 @@ export const profileInput = z.strictObject({
 export const MAX_TOKEN_DAYS = 365;
 export const apiTokenInput = z.strictObject({
   name: z.string().trim().min(1, 'is required').max(100),
-  scopes: z.array(z.enum(['read', 'write'])).min(1, 'choose at least one scope').transform((s) => [...new Set(s)]),
+  scopes: z
+    .array(z.enum(['read', 'write']))
+    .min(1, 'choose at least one scope')
+    .transform((s) => [...new Set(s)]),
   expiresInDays: z.coerce.number().int().min(1).max(MAX_TOKEN_DAYS).default(90),
 });
 
@@ -63,7 +78,9 @@ export const userChangeInput = z
     role: z.enum(['reader', 'contributor', 'curator', 'admin']).optional(),
     disabled: z.boolean().optional(),
   })
-  .refine((v) => v.role !== undefined || v.disabled !== undefined, { message: 'give role or disabled' });
+  .refine((v) => v.role !== undefined || v.disabled !== undefined, {
+    message: 'give role or disabled',
+  });
 
 export const memberAddInput = z.strictObject({
   email,
@@ -75,7 +92,10 @@ export const memberChangeInput = z.strictObject({
 });
 
 export const labCreateInput = z.strictObject({
-  slug: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'lower-case letters, digits and single hyphens').max(60),
+  slug: z
+    .string()
+    .regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'lower-case letters, digits and single hyphens')
+    .max(60),
   name: z.string().trim().min(2).max(200),
 });
 

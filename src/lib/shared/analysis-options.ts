@@ -4,7 +4,10 @@ import { z } from 'zod';
 // Mirrors the engine's AnalysisOptions; quantities are numbers in s/V/A/cm²/g or text with a unit.
 
 const quantity = z.union([z.number().positive(), z.string().trim().min(1).max(40)]);
-const column = z.strictObject({ column: z.union([z.string().min(1).max(200), z.number().int().min(0).max(1000)]), unit: z.string().max(20).optional() });
+const column = z.strictObject({
+  column: z.union([z.string().min(1).max(200), z.number().int().min(0).max(1000)]),
+  unit: z.string().max(20).optional(),
+});
 
 export const analysisOptionsSchema = z.strictObject({
   method: z.enum(['cv', 'lsv', 'hold']),
@@ -18,9 +21,17 @@ export const analysisOptionsSchema = z.strictObject({
   toRef: z.string().trim().min(1).max(60).optional(),
   pH: z.number().min(-2).max(16).optional(),
   temperatureK: z.number().min(150).max(600).optional(),
-  ferrocene: z.strictObject({ potentialV: z.number().min(-10).max(10), versus: z.string().min(1).max(60) }).optional(),
+  ferrocene: z
+    .strictObject({ potentialV: z.number().min(-10).max(10), versus: z.string().min(1).max(60) })
+    .optional(),
   columns: z
-    .strictObject({ time: column.optional(), potential: column.optional(), current: column.optional(), cycle: column.optional(), step: column.optional() })
+    .strictObject({
+      time: column.optional(),
+      potential: column.optional(),
+      current: column.optional(),
+      cycle: column.optional(),
+      step: column.optional(),
+    })
     .optional(),
   holdTailFraction: z.number().min(0).max(1).optional(),
   baselineV: z.tuple([z.number(), z.number()]).optional(),

@@ -53,10 +53,12 @@ const RULES: { id: string; test: (id: string) => boolean; text: string }[] = [
 ];
 
 /** Extreme potentials are a hazard in every window experiment. */
-export const GAS_CAUTION = 'Driving an electrolyte past its limits evolves gases (H₂, O₂, Cl₂, CO/CO₂) that can pressurise a sealed cell.';
+export const GAS_CAUTION =
+  'Driving an electrolyte past its limits evolves gases (H₂, O₂, Cl₂, CO/CO₂) that can pressurise a sealed cell.';
 
 /** Where a reader must look before working with these materials. */
-export const CAUTION_AUTHORITY = 'Your local rules, your lab’s safety officer and the safety data sheet of each material govern; these notes are reminders only.';
+export const CAUTION_AUTHORITY =
+  'Your local rules, your lab’s safety officer and the safety data sheet of each material govern; these notes are reminders only.';
 
 /** Cautions raised by a set of vocabulary ids (solvents, salts, additives, electrodes, reference). */
 export function cautionsFor(termIds: readonly string[]): Caution[] {

@@ -1,18 +1,41 @@
 import { z } from 'zod';
-import { EVIDENCE_LEVELS, METHOD_KINDS, type EvidenceLevel, type MethodKind, type RecordContent, type RecordStatus } from './record.ts';
+import {
+  EVIDENCE_LEVELS,
+  METHOD_KINDS,
+  type EvidenceLevel,
+  type MethodKind,
+  type RecordContent,
+  type RecordStatus,
+} from './record.ts';
 import { VOCABULARY_KINDS, type VocabularyKind } from './vocabulary.ts';
 
 // The curator's side of the API: request bodies, query parameters and the shapes answered.
 // Plain zod and types, no server imports (islands import the types only).
 
-const many = <T extends z.ZodType>(item: T) => z.union([item, z.array(item)]).transform((v) => (Array.isArray(v) ? v : [v]) as z.infer<T>[]);
+const many = <T extends z.ZodType>(item: T) =>
+  z.union([item, z.array(item)]).transform((v) => (Array.isArray(v) ? v : [v]) as z.infer<T>[]);
 const flag = z.enum(['true', 'false']).transform((v) => v === 'true');
 const handle = z.string().regex(/^EW-\d{6,}$/, 'a record handle such as EW-000123');
 
 /** Top-level parts of a record a field comment may point into (besides the content's own keys). */
 export const COMMENT_ROOTS = [
-  'title', 'electrolyte', 'temperatureC', 'workingElectrode', 'counterElectrode', 'referenceElectrode', 'cellType', 'method',
-  'criterion', 'reportedLimits', 'source', 'licence', 'visibility', 'embargoUntil', 'notes', 'rawFiles', 'record',
+  'title',
+  'electrolyte',
+  'temperatureC',
+  'workingElectrode',
+  'counterElectrode',
+  'referenceElectrode',
+  'cellType',
+  'method',
+  'criterion',
+  'reportedLimits',
+  'source',
+  'licence',
+  'visibility',
+  'embargoUntil',
+  'notes',
+  'rawFiles',
+  'record',
 ] as const;
 
 /** A dotted path into the record (`electrolyte.waterContentPpm`, `reportedLimits.anodic.valueV`) with a message. */
@@ -21,8 +44,13 @@ export const fieldCommentSchema = z.strictObject({
     .string()
     .trim()
     .max(200)
-    .regex(/^[A-Za-z][A-Za-z0-9]*(\.[A-Za-z0-9]+)*$/, 'a dotted field path such as electrolyte.waterContentPpm')
-    .refine((p) => (COMMENT_ROOTS as readonly string[]).includes(p.split('.')[0]!), { message: `starts with one of ${COMMENT_ROOTS.join(', ')}` }),
+    .regex(
+      /^[A-Za-z][A-Za-z0-9]*(\.[A-Za-z0-9]+)*$/,
+      'a dotted field path such as electrolyte.waterContentPpm',
+    )
+    .refine((p) => (COMMENT_ROOTS as readonly string[]).includes(p.split('.')[0]!), {
+      message: `starts with one of ${COMMENT_ROOTS.join(', ')}`,
+    }),
   message: z.string().trim().min(1, 'say what should change').max(2000),
 });
 export type FieldComment = z.infer<typeof fieldCommentSchema>;
@@ -38,9 +66,18 @@ export const decisionBody = z
     reason: z.string().trim().min(1).max(2000).optional(),
     comments: z.array(fieldCommentSchema).max(50).default([]),
   })
-  .refine((b) => b.decision !== 'decline' || b.reason, { message: 'say why the record is declined', path: ['reason'] })
-  .refine((b) => b.decision !== 'request-changes' || b.reason || b.comments.length > 0, { message: 'say what should change (a reason or field comments)', path: ['comments'] })
-  .refine((b) => b.decision === 'request-changes' || b.comments.length === 0, { message: 'field comments go with a request for changes', path: ['comments'] });
+  .refine((b) => b.decision !== 'decline' || b.reason, {
+    message: 'say why the record is declined',
+    path: ['reason'],
+  })
+  .refine((b) => b.decision !== 'request-changes' || b.reason || b.comments.length > 0, {
+    message: 'say what should change (a reason or field comments)',
+    path: ['comments'],
+  })
+  .refine((b) => b.decision === 'request-changes' || b.comments.length === 0, {
+    message: 'field comments go with a request for changes',
+    path: ['comments'],
+  });
 export type DecisionBody = z.input<typeof decisionBody>;
 
 export const claimBody = z.strictObject({
@@ -98,9 +135,16 @@ export const proposalDecisionBody = z
     decision: z.enum(['accept', 'reject']),
     reason: z.string().trim().min(1).max(2000).optional(),
     /** The new term's id; made from the name when not given. */
-    termId: z.string().regex(/^[a-z0-9][a-z0-9.+-]*$/, 'lower-case letters, digits, dot, plus and hyphen').max(80).optional(),
+    termId: z
+      .string()
+      .regex(/^[a-z0-9][a-z0-9.+-]*$/, 'lower-case letters, digits, dot, plus and hyphen')
+      .max(80)
+      .optional(),
   })
-  .refine((b) => b.decision !== 'reject' || b.reason, { message: 'say why the term is rejected', path: ['reason'] });
+  .refine((b) => b.decision !== 'reject' || b.reason, {
+    message: 'say why the term is rejected',
+    path: ['reason'],
+  });
 
 export const mergeBody = z.strictObject({
   /** The duplicate: it becomes a synonym of `into`. */
@@ -122,7 +166,12 @@ export const auditQuery = z.strictObject({
   actor: z.string().trim().min(1).max(320).optional(),
   record: handle.optional(),
   /** An action (`record.publish`) or a prefix ending in a dot (`vocabulary.`). */
-  action: z.string().trim().regex(/^[a-z][a-z0-9_.-]*$/).max(80).optional(),
+  action: z
+    .string()
+    .trim()
+    .regex(/^[a-z][a-z0-9_.-]*$/)
+    .max(80)
+    .optional(),
   from: z.iso.date().optional(),
   to: z.iso.date().optional(),
   limit: z.coerce.number().int().min(1).max(200).default(50),

@@ -12,7 +12,10 @@ export interface ImportColumn {
 /** Columns in template order. Lists inside a cell are separated by ";"; a solvent's fraction follows ":". */
 export const IMPORT_COLUMNS: readonly ImportColumn[] = [
   { name: 'title', help: 'short title (optional)' },
-  { name: 'solvents', help: 'vocabulary names with fractions, e.g. "EC:0.5; DMC:0.5"; one solvent alone needs no fraction' },
+  {
+    name: 'solvents',
+    help: 'vocabulary names with fractions, e.g. "EC:0.5; DMC:0.5"; one solvent alone needs no fraction',
+  },
   { name: 'solvent_fraction_basis', help: 'volume | mass | mole (default volume)' },
   { name: 'salt', help: 'vocabulary name of the salt' },
   { name: 'salt_concentration', help: 'number' },
@@ -22,11 +25,17 @@ export const IMPORT_COLUMNS: readonly ImportColumn[] = [
   { name: 'ph', help: 'pH' },
   { name: 'temperature_c', help: '°C' },
   { name: 'electrode', help: 'working electrode material (vocabulary name)' },
-  { name: 'electrode_form', help: 'disk | plate | foil | wire | mesh | film | composite | powder | other' },
+  {
+    name: 'electrode_form',
+    help: 'disk | plate | foil | wire | mesh | film | composite | powder | other',
+  },
   { name: 'area_cm2', help: 'geometric area, cm²' },
   { name: 'mass_mg', help: 'active mass, mg' },
   { name: 'counter', help: 'counter electrode material' },
-  { name: 'reference', help: 'reference electrode (three-electrode cells); limits are on this scale' },
+  {
+    name: 'reference',
+    help: 'reference electrode (three-electrode cells); limits are on this scale',
+  },
   { name: 'cell_type', help: 'three-electrode | two-electrode (limits are then cell voltages)' },
   { name: 'method', help: 'cv-window-opening | lsv | potentiostatic-holds' },
   { name: 'scan_rate_mv_s', help: 'mV/s (CV, LSV)' },
@@ -45,7 +54,10 @@ export const IMPORT_COLUMNS: readonly ImportColumn[] = [
   { name: 'volume', help: 'volume' },
   { name: 'pages', help: 'pages' },
   { name: 'measured_by', help: 'for unpublished measurements: who measured it' },
-  { name: 'licence', help: 'CC-BY-4.0 (default) | CC0-1.0 | CC-BY-SA-4.0 | ODbL-1.0 | CC-BY-NC-4.0' },
+  {
+    name: 'licence',
+    help: 'CC-BY-4.0 (default) | CC0-1.0 | CC-BY-SA-4.0 | ODbL-1.0 | CC-BY-NC-4.0',
+  },
   { name: 'visibility', help: 'public (default) | lab' },
   { name: 'embargo_until', help: 'YYYY-MM-DD (lab-private records only)' },
   { name: 'lab', help: 'slug of your lab (needed for lab-private records)' },
@@ -114,7 +126,10 @@ function csvCell(v: string): string {
 
 /** The template file: header, then the two example rows (delete them before importing). */
 export function importTemplateCsv(): string {
-  const lines = [IMPORT_COLUMN_NAMES.join(','), ...EXAMPLES.map((r) => IMPORT_COLUMN_NAMES.map((c) => csvCell(r[c] ?? '')).join(','))];
+  const lines = [
+    IMPORT_COLUMN_NAMES.join(','),
+    ...EXAMPLES.map((r) => IMPORT_COLUMN_NAMES.map((c) => csvCell(r[c] ?? '')).join(',')),
+  ];
   return `${lines.join('\r\n')}\r\n`;
 }
 
@@ -182,7 +197,11 @@ export function columnOfPath(path: string): string {
  * One CSV row → a createRecordBody, or the problems that keep it from being one (each naming
  * its column). Vocabulary names are checked later, by the record service.
  */
-export function rowToBody(row: Row): { ok: true; body: ReturnType<typeof createRecordBody.parse> } | { ok: false; problems: RowProblem[] } {
+export function rowToBody(
+  row: Row,
+):
+  | { ok: true; body: ReturnType<typeof createRecordBody.parse> }
+  | { ok: false; problems: RowProblem[] } {
   const problems: RowProblem[] = [];
   const text = (c: string) => {
     const v = row[c]?.trim();
@@ -192,10 +211,15 @@ export function rowToBody(row: Row): { ok: true; body: ReturnType<typeof createR
     const v = text(c);
     if (v === undefined) return undefined;
     const x = Number(v);
-    if (!Number.isFinite(x)) problems.push({ column: c, message: `"${v}" is not a number (use a decimal point)` });
+    if (!Number.isFinite(x))
+      problems.push({ column: c, message: `"${v}" is not a number (use a decimal point)` });
     return x;
   };
-  const list = (c: string) => (text(c) ?? '').split(';').map((s) => s.trim()).filter(Boolean);
+  const list = (c: string) =>
+    (text(c) ?? '')
+      .split(';')
+      .map((s) => s.trim())
+      .filter(Boolean);
 
   const solventParts = list('solvents');
   const fractionBasis = text('solvent_fraction_basis') ?? 'volume';
@@ -203,16 +227,28 @@ export function rowToBody(row: Row): { ok: true; body: ReturnType<typeof createR
     const m = /^(.*?):\s*([^:]+)$/.exec(part);
     if (!m) return { term: part, fraction: solventParts.length === 1 ? 1 : NaN, fractionBasis };
     const fraction = Number(m[2]);
-    if (!Number.isFinite(fraction)) problems.push({ column: 'solvents', message: `"${m[2]}" is not a fraction` });
+    if (!Number.isFinite(fraction))
+      problems.push({ column: 'solvents', message: `"${m[2]}" is not a fraction` });
     return { term: m[1]!.trim(), fraction, fractionBasis };
   });
   if (solvents.some((s) => Number.isNaN(s.fraction)) && solventParts.length > 1) {
-    problems.push({ column: 'solvents', message: 'give each solvent of a mixture its fraction, as "EC:0.5; DMC:0.5"' });
+    problems.push({
+      column: 'solvents',
+      message: 'give each solvent of a mixture its fraction, as "EC:0.5; DMC:0.5"',
+    });
   }
   const salt = text('salt');
   const saltConc = num('salt_concentration');
-  const salts = salt ? [{ term: salt, concentration: { value: saltConc as number, basis: text('salt_basis') ?? 'mol/L' } }] : [];
-  if (salt && saltConc === undefined) problems.push({ column: 'salt_concentration', message: 'give the salt concentration' });
+  const salts = salt
+    ? [
+        {
+          term: salt,
+          concentration: { value: saltConc as number, basis: text('salt_basis') ?? 'mol/L' },
+        },
+      ]
+    : [];
+  if (salt && saltConc === undefined)
+    problems.push({ column: 'salt_concentration', message: 'give the salt concentration' });
 
   const cellType = text('cell_type') ?? 'three-electrode';
   const reference = cellType === 'two-electrode' ? CELL_VOLTAGE : text('reference');
@@ -220,19 +256,27 @@ export function rowToBody(row: Row): { ok: true; body: ReturnType<typeof createR
     const v = num(c);
     if (v === undefined) return undefined;
     if (!reference) {
-      problems.push({ column: 'reference', message: 'a three-electrode limit needs its reference electrode' });
+      problems.push({
+        column: 'reference',
+        message: 'a three-electrode limit needs its reference electrode',
+      });
       return undefined;
     }
     return { valueV: v, reference };
   };
   const methodKind = text('method') ?? 'cv-window-opening';
   const method: Record<string, unknown> = { kind: methodKind };
-  if (methodKind === 'cv-window-opening') Object.assign(method, { scanRateMVs: num('scan_rate_mv_s'), vertexStepMV: num('step_mv') });
+  if (methodKind === 'cv-window-opening')
+    Object.assign(method, { scanRateMVs: num('scan_rate_mv_s'), vertexStepMV: num('step_mv') });
   else if (methodKind === 'lsv') Object.assign(method, { scanRateMVs: num('scan_rate_mv_s') });
   else Object.assign(method, { stepMV: num('step_mv'), holdTimeS: num('hold_time_s') });
   const criterionKind = text('criterion');
   const criterion = criterionKind
-    ? { kind: criterionKind, threshold: num('criterion_threshold'), ...(criterionKind === 'hold-leakage' ? { per: text('criterion_per') ?? 'area' } : {}) }
+    ? {
+        kind: criterionKind,
+        threshold: num('criterion_threshold'),
+        ...(criterionKind === 'hold-leakage' ? { per: text('criterion_per') ?? 'area' } : {}),
+      }
     : undefined;
 
   let source: Record<string, unknown> | undefined;
@@ -258,9 +302,20 @@ export function rowToBody(row: Row): { ok: true; body: ReturnType<typeof createR
   const counter = text('counter');
   const content: Record<string, unknown> = {
     title: text('title'),
-    electrolyte: { solvents, salts, additives: list('additives').map((term) => ({ term })), waterContentPpm: num('water_ppm'), pH: num('ph') },
+    electrolyte: {
+      solvents,
+      salts,
+      additives: list('additives').map((term) => ({ term })),
+      waterContentPpm: num('water_ppm'),
+      pH: num('ph'),
+    },
     temperatureC: num('temperature_c'),
-    workingElectrode: { material: text('electrode') ?? '', form: text('electrode_form'), geometricAreaCm2: num('area_cm2'), activeMassMg: num('mass_mg') },
+    workingElectrode: {
+      material: text('electrode') ?? '',
+      form: text('electrode_form'),
+      geometricAreaCm2: num('area_cm2'),
+      activeMassMg: num('mass_mg'),
+    },
     counterElectrode: counter ? { material: counter } : undefined,
     referenceElectrode: cellType === 'two-electrode' ? undefined : text('reference'),
     cellType,
@@ -275,9 +330,21 @@ export function rowToBody(row: Row): { ok: true; body: ReturnType<typeof createR
   };
   if (problems.length) return { ok: false, problems: dedupe(problems) };
   const lab = text('lab');
-  const parsed = createRecordBody.safeParse({ content: dropUndefined(content) as RecordContentInput, ...(lab ? { lab } : {}), changeNote: 'Bulk import' });
+  const parsed = createRecordBody.safeParse({
+    content: dropUndefined(content) as RecordContentInput,
+    ...(lab ? { lab } : {}),
+    changeNote: 'Bulk import',
+  });
   if (!parsed.success) {
-    return { ok: false, problems: dedupe(parsed.error.issues.map((i) => ({ column: columnOfPath(i.path.map(String).join('.')), message: i.message }))) };
+    return {
+      ok: false,
+      problems: dedupe(
+        parsed.error.issues.map((i) => ({
+          column: columnOfPath(i.path.map(String).join('.')),
+          message: i.message,
+        })),
+      ),
+    };
   }
   return { ok: true, body: parsed.data };
 }
@@ -296,7 +363,11 @@ function dedupe(ps: RowProblem[]): RowProblem[] {
 function dropUndefined(v: unknown): unknown {
   if (Array.isArray(v)) return v.map(dropUndefined);
   if (v && typeof v === 'object') {
-    return Object.fromEntries(Object.entries(v).filter(([, x]) => x !== undefined).map(([k, x]) => [k, dropUndefined(x)]));
+    return Object.fromEntries(
+      Object.entries(v)
+        .filter(([, x]) => x !== undefined)
+        .map(([k, x]) => [k, dropUndefined(x)]),
+    );
   }
   return v;
 }

@@ -19,7 +19,10 @@ export function orcidCheckCharacter(baseDigits: string): string {
  * `0000-0000-0000-000X`; null when its shape or check character is wrong.
  */
 export function normaliseOrcid(input: string): string | null {
-  const bare = input.trim().replace(/^https?:\/\/(www\.)?orcid\.org\//i, '').toUpperCase();
+  const bare = input
+    .trim()
+    .replace(/^https?:\/\/(www\.)?orcid\.org\//i, '')
+    .toUpperCase();
   const m = SHAPE.exec(bare);
   if (!m) return null;
   const digits = `${m[1]}${m[2]}${m[3]}${m[4]}`;

@@ -39,7 +39,9 @@ export interface UserPrincipal {
 
 export type Principal = AnonymousPrincipal | UserPrincipal;
 
-export const ANONYMOUS: AnonymousPrincipal = Object.freeze({ kind: 'anonymous' }) as AnonymousPrincipal;
+export const ANONYMOUS: AnonymousPrincipal = Object.freeze({
+  kind: 'anonymous',
+}) as AnonymousPrincipal;
 
 export function isUser(p: Principal): p is UserPrincipal {
   return p.kind === 'user';

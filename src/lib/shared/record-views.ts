@@ -46,7 +46,12 @@ export interface RecordSummary {
   /** 'cell-voltage' for two-electrode cells: never mix these with electrode potentials. */
   limitKind: 'electrode-potential' | 'cell-voltage';
   limits: { cathodic: LimitView | null; anodic: LimitView | null };
-  computed: { cathodicV: number | null; anodicV: number | null; cathodicSheV: number | null; anodicSheV: number | null };
+  computed: {
+    cathodicV: number | null;
+    anodicV: number | null;
+    cathodicSheV: number | null;
+    anodicSheV: number | null;
+  };
   content: RecordContent;
   updatedAt: string;
 }
@@ -69,7 +74,18 @@ export interface SearchItem extends RecordSummary {
 }
 
 /** The facets a search counts over its whole result. */
-export type FacetName = 'electrode' | 'method' | 'criterionKind' | 'cellType' | 'evidence' | 'status' | 'lab' | 'concentrationBasis' | 'salt' | 'solvent' | 'additive';
+export type FacetName =
+  | 'electrode'
+  | 'method'
+  | 'criterionKind'
+  | 'cellType'
+  | 'evidence'
+  | 'status'
+  | 'lab'
+  | 'concentrationBasis'
+  | 'salt'
+  | 'solvent'
+  | 'additive';
 
 /** GET /api/v1/records. */
 export interface SearchResult {

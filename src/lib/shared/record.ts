@@ -6,14 +6,38 @@ import { z } from 'zod';
 
 export const CONCENTRATION_BASES = ['mol/L', 'mol/kg', 'mole fraction', 'mass fraction'] as const;
 export const FRACTION_BASES = ['volume', 'mass', 'mole'] as const;
-export const ELECTRODE_FORMS = ['disk', 'plate', 'foil', 'wire', 'mesh', 'film', 'composite', 'powder', 'other'] as const;
+export const ELECTRODE_FORMS = [
+  'disk',
+  'plate',
+  'foil',
+  'wire',
+  'mesh',
+  'film',
+  'composite',
+  'powder',
+  'other',
+] as const;
 export const CELL_TYPES = ['three-electrode', 'two-electrode'] as const;
 export const METHOD_KINDS = ['cv-window-opening', 'lsv', 'potentiostatic-holds'] as const;
 export const CRITERION_KINDS = ['s-value', 'ce', 'j-area', 'j-mass', 'hold-leakage'] as const;
 export const VISIBILITIES = ['public', 'lab'] as const;
-export const LICENCES = ['CC-BY-4.0', 'CC0-1.0', 'CC-BY-SA-4.0', 'ODbL-1.0', 'CC-BY-NC-4.0'] as const;
+export const LICENCES = [
+  'CC-BY-4.0',
+  'CC0-1.0',
+  'CC-BY-SA-4.0',
+  'ODbL-1.0',
+  'CC-BY-NC-4.0',
+] as const;
 export const EVIDENCE_LEVELS = ['stated', 'documented', 'recomputed', 'confirmed'] as const;
-export const RECORD_STATUSES = ['draft', 'submitted', 'changes_requested', 'published', 'declined', 'flagged', 'withdrawn'] as const;
+export const RECORD_STATUSES = [
+  'draft',
+  'submitted',
+  'changes_requested',
+  'published',
+  'declined',
+  'flagged',
+  'withdrawn',
+] as const;
 
 export type ConcentrationBasis = (typeof CONCENTRATION_BASES)[number];
 export type CellType = (typeof CELL_TYPES)[number];
@@ -61,11 +85,19 @@ export const electrolyteSchema = z
     waterContentPpm: z.number().min(0).max(1_000_000).optional(),
     pH: z.number().min(-2).max(16).optional(),
   })
-  .refine((e) => e.solvents.length + e.salts.length > 0, { message: 'name at least one solvent or salt', path: ['solvents'] })
-  .refine((e) => e.solvents.length === 0 || Math.abs(e.solvents.reduce((s, x) => s + x.fraction, 0) - 1) <= 0.011, {
-    message: 'solvent fractions must add up to 1',
+  .refine((e) => e.solvents.length + e.salts.length > 0, {
+    message: 'name at least one solvent or salt',
     path: ['solvents'],
-  });
+  })
+  .refine(
+    (e) =>
+      e.solvents.length === 0 ||
+      Math.abs(e.solvents.reduce((s, x) => s + x.fraction, 0) - 1) <= 0.011,
+    {
+      message: 'solvent fractions must add up to 1',
+      path: ['solvents'],
+    },
+  );
 
 export const workingElectrodeSchema = z.strictObject({
   material: term,
@@ -75,9 +107,17 @@ export const workingElectrodeSchema = z.strictObject({
 });
 
 export const methodSchema = z.discriminatedUnion('kind', [
-  z.strictObject({ kind: z.literal('cv-window-opening'), scanRateMVs: positive('scan rate').optional(), vertexStepMV: positive('vertex step').optional() }),
+  z.strictObject({
+    kind: z.literal('cv-window-opening'),
+    scanRateMVs: positive('scan rate').optional(),
+    vertexStepMV: positive('vertex step').optional(),
+  }),
   z.strictObject({ kind: z.literal('lsv'), scanRateMVs: positive('scan rate').optional() }),
-  z.strictObject({ kind: z.literal('potentiostatic-holds'), stepMV: positive('step').optional(), holdTimeS: positive('hold time').optional() }),
+  z.strictObject({
+    kind: z.literal('potentiostatic-holds'),
+    stepMV: positive('step').optional(),
+    holdTimeS: positive('hold time').optional(),
+  }),
 ]);
 
 /**
@@ -89,7 +129,11 @@ export const criterionSchema = z.discriminatedUnion('kind', [
   z.strictObject({ kind: z.literal('ce'), threshold: z.number().gt(0).lte(100) }),
   z.strictObject({ kind: z.literal('j-area'), threshold: positive('current density') }),
   z.strictObject({ kind: z.literal('j-mass'), threshold: positive('current per mass') }),
-  z.strictObject({ kind: z.literal('hold-leakage'), threshold: positive('leakage'), per: z.enum(['area', 'mass']) }),
+  z.strictObject({
+    kind: z.literal('hold-leakage'),
+    threshold: positive('leakage'),
+    per: z.enum(['area', 'mass']),
+  }),
 ]);
 
 export const limitSchema = z.strictObject({
@@ -100,13 +144,24 @@ export const limitSchema = z.strictObject({
 
 export const reportedLimitsSchema = z
   .strictObject({ cathodic: limitSchema.optional(), anodic: limitSchema.optional() })
-  .refine((l) => l.cathodic || l.anodic, { message: 'give a cathodic or an anodic limit (or both)', path: ['anodic'] })
-  .refine((l) => !(l.cathodic && l.anodic && l.cathodic.reference === l.anodic.reference) || l.cathodic.valueV < l.anodic.valueV, {
-    message: 'the cathodic limit must lie below the anodic limit',
-    path: ['cathodic', 'valueV'],
-  });
+  .refine((l) => l.cathodic || l.anodic, {
+    message: 'give a cathodic or an anodic limit (or both)',
+    path: ['anodic'],
+  })
+  .refine(
+    (l) =>
+      !(l.cathodic && l.anodic && l.cathodic.reference === l.anodic.reference) ||
+      l.cathodic.valueV < l.anodic.valueV,
+    {
+      message: 'the cathodic limit must lie below the anodic limit',
+      path: ['cathodic', 'valueV'],
+    },
+  );
 
-const personSchema = z.strictObject({ family: z.string().trim().min(1).max(200), given: z.string().trim().max(200).optional() });
+const personSchema = z.strictObject({
+  family: z.string().trim().min(1).max(200),
+  given: z.string().trim().max(200).optional(),
+});
 
 export const sourceSchema = z.discriminatedUnion('kind', [
   z.strictObject({
@@ -147,22 +202,44 @@ export const recordContentSchema = z
     embargoUntil: z.iso.date().optional(),
     notes: z.string().trim().max(5000).optional(),
   })
-  .refine((c) => !c.embargoUntil || c.visibility === 'lab', { message: 'an embargo applies to a lab-private record', path: ['embargoUntil'] })
+  .refine((c) => !c.embargoUntil || c.visibility === 'lab', {
+    message: 'an embargo applies to a lab-private record',
+    path: ['embargoUntil'],
+  })
   .refine(
     (c) =>
       c.cellType === 'two-electrode'
-        ? [c.reportedLimits.cathodic, c.reportedLimits.anodic].every((l) => !l || l.reference === CELL_VOLTAGE)
-        : [c.reportedLimits.cathodic, c.reportedLimits.anodic].every((l) => !l || l.reference !== CELL_VOLTAGE),
-    { message: `a two-electrode cell reports cell voltages (reference "${CELL_VOLTAGE}"); a three-electrode cell reports electrode potentials`, path: ['reportedLimits'] },
+        ? [c.reportedLimits.cathodic, c.reportedLimits.anodic].every(
+            (l) => !l || l.reference === CELL_VOLTAGE,
+          )
+        : [c.reportedLimits.cathodic, c.reportedLimits.anodic].every(
+            (l) => !l || l.reference !== CELL_VOLTAGE,
+          ),
+    {
+      message: `a two-electrode cell reports cell voltages (reference "${CELL_VOLTAGE}"); a three-electrode cell reports electrode potentials`,
+      path: ['reportedLimits'],
+    },
   )
   .refine(
-    (c) => !c.criterion || c.method.kind !== 'cv-window-opening' || c.criterion.kind === 's-value' || c.criterion.kind === 'ce' || c.criterion.kind === 'j-area' || c.criterion.kind === 'j-mass',
+    (c) =>
+      !c.criterion ||
+      c.method.kind !== 'cv-window-opening' ||
+      c.criterion.kind === 's-value' ||
+      c.criterion.kind === 'ce' ||
+      c.criterion.kind === 'j-area' ||
+      c.criterion.kind === 'j-mass',
     { message: 'hold leakage applies to potentiostatic holds', path: ['criterion', 'kind'] },
   )
-  .refine((c) => !c.criterion || c.method.kind === 'cv-window-opening' || (c.criterion.kind !== 's-value' && c.criterion.kind !== 'ce'), {
-    message: 'S-value and CE criteria apply to window-opening CV',
-    path: ['criterion', 'kind'],
-  });
+  .refine(
+    (c) =>
+      !c.criterion ||
+      c.method.kind === 'cv-window-opening' ||
+      (c.criterion.kind !== 's-value' && c.criterion.kind !== 'ce'),
+    {
+      message: 'S-value and CE criteria apply to window-opening CV',
+      path: ['criterion', 'kind'],
+    },
+  );
 
 /** What a client sends. */
 export type RecordContentInput = z.input<typeof recordContentSchema>;
@@ -185,7 +262,15 @@ export const editRecordBody = z.strictObject({
   changeNote: z.string().trim().min(1, 'say what changed').max(2000),
 });
 
-export const TRANSITION_ACTIONS = ['submit', 'request-changes', 'publish', 'decline', 'flag', 'resolve-flag', 'withdraw'] as const;
+export const TRANSITION_ACTIONS = [
+  'submit',
+  'request-changes',
+  'publish',
+  'decline',
+  'flag',
+  'resolve-flag',
+  'withdraw',
+] as const;
 export type TransitionAction = (typeof TRANSITION_ACTIONS)[number];
 
 export const transitionBody = z.strictObject({
@@ -218,7 +303,10 @@ export const createUploadBody = z.strictObject({
   name: z.string().min(1).max(1000),
   size: z.number().int().positive(),
   sha256: z.string().toLowerCase().regex(SHA256_PATTERN, '64 hexadecimal digits'),
-  mediaType: z.string().regex(/^[a-z]+\/[a-z0-9.+-]+$/i, 'a media type such as text/csv').max(100),
+  mediaType: z
+    .string()
+    .regex(/^[a-z]+\/[a-z0-9.+-]+$/i, 'a media type such as text/csv')
+    .max(100),
   /** How to read the file. */
   mapping: z
     .strictObject({

@@ -3,18 +3,31 @@ import { z } from 'zod';
 // Vocabulary terms: solvents, salts, additives, electrode materials, reference electrodes,
 // separators. A term is named by its id (a short slug) and found by any of its names.
 
-export const VOCABULARY_KINDS = ['solvent', 'salt', 'additive', 'electrode-material', 'reference-electrode', 'separator'] as const;
+export const VOCABULARY_KINDS = [
+  'solvent',
+  'salt',
+  'additive',
+  'electrode-material',
+  'reference-electrode',
+  'separator',
+] as const;
 export type VocabularyKind = (typeof VOCABULARY_KINDS)[number];
 
 export const vocabularyTermSchema = z.strictObject({
-  id: z.string().regex(/^[a-z0-9][a-z0-9.+-]*$/).max(80),
+  id: z
+    .string()
+    .regex(/^[a-z0-9][a-z0-9.+-]*$/)
+    .max(80),
   kind: z.enum(VOCABULARY_KINDS),
   name: z.string().min(1).max(200),
   abbreviations: z.array(z.string().min(1).max(60)).default([]),
   synonyms: z.array(z.string().min(1).max(200)).default([]),
   formula: z.string().max(100).optional(),
   smiles: z.string().max(500).optional(),
-  inchikey: z.string().regex(/^[A-Z]{14}-[A-Z]{10}-[A-Z]$/).optional(),
+  inchikey: z
+    .string()
+    .regex(/^[A-Z]{14}-[A-Z]{10}-[A-Z]$/)
+    .optional(),
   /** Reference electrodes: the analysis engine's scale id used for conversions. */
   scale: z.string().max(60).optional(),
   /** Reference electrodes: potential vs SHE at 25 °C (V) and where that value comes from. */
@@ -53,7 +66,15 @@ export function lookupKey(name: string): string {
 }
 
 /** Every key a term can be found by. */
-export function termKeys(t: Pick<VocabularyTermInput, 'id' | 'name' | 'abbreviations' | 'synonyms' | 'scale'>): string[] {
-  const all = [t.id, t.name, ...(t.abbreviations ?? []), ...(t.synonyms ?? []), ...(t.scale ? [t.scale] : [])];
+export function termKeys(
+  t: Pick<VocabularyTermInput, 'id' | 'name' | 'abbreviations' | 'synonyms' | 'scale'>,
+): string[] {
+  const all = [
+    t.id,
+    t.name,
+    ...(t.abbreviations ?? []),
+    ...(t.synonyms ?? []),
+    ...(t.scale ? [t.scale] : []),
+  ];
   return [...new Set(all.map(lookupKey))];
 }

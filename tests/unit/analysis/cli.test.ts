@@ -3,7 +3,12 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { cvWindowOpeningSamples, formatExport, holdSamples, lsvSamples } from '../../../src/lib/analysis/index';
+import {
+  cvWindowOpeningSamples,
+  formatExport,
+  holdSamples,
+  lsvSamples,
+} from '../../../src/lib/analysis/index';
 import { expectToDigits } from '../../support/digits';
 
 const root = resolve(__dirname, '../../..');
@@ -11,7 +16,11 @@ const dir = mkdtempSync(join(tmpdir(), 'edgewise-cli-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 function cli(args: string[]) {
-  const r = spawnSync(join(root, 'node_modules', '.bin', 'tsx'), [join(root, 'scripts', 'analyze.ts'), ...args], { encoding: 'utf8', cwd: root });
+  const r = spawnSync(
+    join(root, 'node_modules', '.bin', 'tsx'),
+    [join(root, 'scripts', 'analyze.ts'), ...args],
+    { encoding: 'utf8', cwd: root },
+  );
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -29,12 +38,41 @@ describe('command line', () => {
         units: { potential: 'mV', current: 'µA' },
       }),
     );
-    const r = cli([file, '--method', 'cv', '--criterion', 's:0.1', '--scan-rate', '5mV/s', '--sign', 'opposite', '--from-ref', 'SCE', '--to-ref', 'SHE']);
+    const r = cli([
+      file,
+      '--method',
+      'cv',
+      '--criterion',
+      's:0.1',
+      '--scan-rate',
+      '5mV/s',
+      '--sign',
+      'opposite',
+      '--from-ref',
+      'SCE',
+      '--to-ref',
+      'SHE',
+    ]);
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
     const out = JSON.parse(r.stdout);
-    expect(Object.keys(out)).toEqual(['method', 'direction', 'criterion', 'cycles', 'limit', 'reference', 'warnings']);
-    expect(Object.keys(out.cycles[0])).toEqual(['index', 'vertexV', 'qPosC', 'qNegC', 'sValue', 'ce']);
+    expect(Object.keys(out)).toEqual([
+      'method',
+      'direction',
+      'criterion',
+      'cycles',
+      'limit',
+      'reference',
+      'warnings',
+    ]);
+    expect(Object.keys(out.cycles[0])).toEqual([
+      'index',
+      'vertexV',
+      'qPosC',
+      'qNegC',
+      'sValue',
+      'ce',
+    ]);
     expect(Object.keys(out.limit)).toEqual(['lastPassingV', 'interpolatedV', 'status']);
     expect(out.method).toBe('cv');
     expect(out.direction).toBe('anodic');
@@ -47,10 +85,28 @@ describe('command line', () => {
   it('prints steps for holds (METHODS.md §8 D model)', () => {
     const file = join(dir, 'hold.csv');
     writeFileSync(file, formatExport(holdSamples()));
-    const r = cli([file, '--method', 'hold', '--criterion', 'jm:10mA/g', '--mass', '2mg', '--tail', '0']);
+    const r = cli([
+      file,
+      '--method',
+      'hold',
+      '--criterion',
+      'jm:10mA/g',
+      '--mass',
+      '2mg',
+      '--tail',
+      '0',
+    ]);
     expect(r.status).toBe(0);
     const out = JSON.parse(r.stdout);
-    expect(Object.keys(out)).toEqual(['method', 'direction', 'criterion', 'steps', 'limit', 'reference', 'warnings']);
+    expect(Object.keys(out)).toEqual([
+      'method',
+      'direction',
+      'criterion',
+      'steps',
+      'limit',
+      'reference',
+      'warnings',
+    ]);
     expect(Object.keys(out.steps[0])).toEqual(['potentialV', 'endCurrentA', 'endCurrentDensity']);
     expectToDigits(out.limit.interpolatedV, '0.91375');
     expect(out.reference).toBeNull();
@@ -62,8 +118,23 @@ describe('command line', () => {
     const r = cli([file, '--method', 'lsv', '--criterion', 'j:10uA/cm2', '--area', '0.5cm2']);
     expect(r.status).toBe(0);
     const out = JSON.parse(r.stdout);
-    expect(Object.keys(out)).toEqual(['method', 'direction', 'criterion', 'limit', 'reference', 'warnings', 'envelope']);
-    expect(Object.keys(out.envelope)).toEqual(['offsetV', 'factor', 'stepV', 'first', 'endV', 'rows']);
+    expect(Object.keys(out)).toEqual([
+      'method',
+      'direction',
+      'criterion',
+      'limit',
+      'reference',
+      'warnings',
+      'envelope',
+    ]);
+    expect(Object.keys(out.envelope)).toEqual([
+      'offsetV',
+      'factor',
+      'stepV',
+      'first',
+      'endV',
+      'rows',
+    ]);
     const rowLines = r.stdout.split('\n').filter((l) => /^ {6}\[-?\d/.test(l));
     expect(rowLines).toHaveLength(out.envelope.rows.length);
     expect(r.stdout).toContain(`"first": [${out.envelope.first.join(', ')}]`);
@@ -87,8 +158,15 @@ describe('command line', () => {
   it('runs through npm run -s analyze', () => {
     const file = join(dir, 'one.csv');
     writeFileSync(file, formatExport(cvWindowOpeningSamples({ verticesV: [0.6] })));
-    const r = spawnSync('npm', ['run', '-s', 'analyze', '--', file, '--method', 'cv'], { encoding: 'utf8', cwd: root });
+    const r = spawnSync('npm', ['run', '-s', 'analyze', '--', file, '--method', 'cv'], {
+      encoding: 'utf8',
+      cwd: root,
+    });
     expect(r.status).toBe(0);
-    expect(JSON.parse(r.stdout).limit).toEqual({ lastPassingV: 0.6, interpolatedV: null, status: 'not-reached' });
+    expect(JSON.parse(r.stdout).limit).toEqual({
+      lastPassingV: 0.6,
+      interpolatedV: null,
+      status: 'not-reached',
+    });
   });
 });

@@ -31,9 +31,18 @@ describe('S-value and charges, by hand', () => {
 
   it('takes dt from |dE| / scan rate when there is no time column', () => {
     // 0 → 0.01 → 0 V at 0.01 V/s: two 1 s intervals; +1 A then −1 A.
-    const q = chargeSplit(null, Float64Array.of(0, 0.01, 0.01, 0), Float64Array.of(1, 1, -1, -1), 0, 3, 0.01);
+    const q = chargeSplit(
+      null,
+      Float64Array.of(0, 0.01, 0.01, 0),
+      Float64Array.of(1, 1, -1, -1),
+      0,
+      3,
+      0.01,
+    );
     expect(q).toEqual({ qPosC: 1, qNegC: 1 });
-    expect(() => chargeSplit(null, Float64Array.of(0, 1), Float64Array.of(1, 1))).toThrow('without a time column the scan rate is needed');
+    expect(() => chargeSplit(null, Float64Array.of(0, 1), Float64Array.of(1, 1))).toThrow(
+      'without a time column the scan rate is needed',
+    );
   });
 
   it('defines S by direction and CE = 1/(1 + S)', () => {
@@ -106,20 +115,37 @@ describe('METHODS.md §8 A: window-opening CV generated, written and read back',
   }
 
   it('gives the linear interpolation 1.0818 V for comparison, and the closed form agrees', () => {
-    const r = analyzeText(formatExport(cvWindowOpeningSamples({ sampleIntervalS: FINE })), { method: 'cv' });
-    const lin = limitAt(r.cycles!.map((c) => c.vertexV), r.cycles!.map((c) => c.sValue!), 0.1, 'linear');
+    const r = analyzeText(formatExport(cvWindowOpeningSamples({ sampleIntervalS: FINE })), {
+      method: 'cv',
+    });
+    const lin = limitAt(
+      r.cycles!.map((c) => c.vertexV),
+      r.cycles!.map((c) => c.sValue!),
+      0.1,
+      'linear',
+    );
     expectToDigits(lin.limit.interpolatedV, '1.0818');
     // The reader's path and the closed form of §8 A agree within 1e-5 relative (trapezoids over
     // 0.25 mV steps of an exponential are off by about 2e-6 relative; ten written digits add less).
-    for (const c of r.cycles!) expect(Math.abs(c.sValue! / cvModelS(c.vertexV) - 1)).toBeLessThan(1e-5);
+    for (const c of r.cycles!)
+      expect(Math.abs(c.sValue! / cvModelS(c.vertexV) - 1)).toBeLessThan(1e-5);
   });
 
   it('converges on the continuous root 1.0900 V at 5 mV/s and 1.0420 V at 2.5 mV/s (slower scan, narrower window)', () => {
     // Vertices every 2 mV around the root, so log interpolation error is below 1e-7 V.
-    const vertices = (from: number) => Array.from({ length: 11 }, (_, k) => Math.round((from + 0.002 * k) * 1000) / 1000);
+    const vertices = (from: number) =>
+      Array.from({ length: 11 }, (_, k) => Math.round((from + 0.002 * k) * 1000) / 1000);
     const root = (v: number, from: number) =>
-      analyzeText(formatExport(cvWindowOpeningSamples({ scanRateVPerS: v, sampleIntervalS: 0.00025 / v, verticesV: vertices(from) })), { method: 'cv' }).limit
-        .interpolatedV!;
+      analyzeText(
+        formatExport(
+          cvWindowOpeningSamples({
+            scanRateVPerS: v,
+            sampleIntervalS: 0.00025 / v,
+            verticesV: vertices(from),
+          }),
+        ),
+        { method: 'cv' },
+      ).limit.interpolatedV!;
     const fast = root(0.005, 1.08);
     const slow = root(0.0025, 1.032);
     expectToDigits(fast, '1.0900');
@@ -131,8 +157,14 @@ describe('METHODS.md §8 A: window-opening CV generated, written and read back',
 describe('CV edge cases', () => {
   it('uses the last of several cycles at a vertex and says which', () => {
     // Second cycle at each vertex has an extra anodic current: only it may count.
-    const base = cvWindowOpeningSamples({ verticesV: [0.5, 0.6], cyclesPerVertex: 2, faradaic: null, sampleIntervalS: 0.2 });
-    for (let i = 0; i < base.current.length; i++) if (base.cycle![i] === 2 || base.cycle![i] === 4) base.current[i] = base.current[i]! + 1e-6;
+    const base = cvWindowOpeningSamples({
+      verticesV: [0.5, 0.6],
+      cyclesPerVertex: 2,
+      faradaic: null,
+      sampleIntervalS: 0.2,
+    });
+    for (let i = 0; i < base.current.length; i++)
+      if (base.cycle![i] === 2 || base.cycle![i] === 4) base.current[i] = base.current[i]! + 1e-6;
     const r = analyzeText(formatExport(base), { method: 'cv' });
     expect(r.cycles!.length).toBe(4);
     expect(r.warnings).toContain('vertex 0.500 V has 2 cycles (1, 2); cycle 2 is used');
@@ -142,28 +174,48 @@ describe('CV edge cases', () => {
   });
 
   it('handles one cycle only: not reached, direction from the first sweep', () => {
-    const r = analyzeText(formatExport(cvWindowOpeningSamples({ verticesV: [0.8] })), { method: 'cv' });
+    const r = analyzeText(formatExport(cvWindowOpeningSamples({ verticesV: [0.8] })), {
+      method: 'cv',
+    });
     expect(r.cycles!.length).toBe(1);
     expect(r.limit).toEqual({ lastPassingV: 0.8, interpolatedV: null, status: 'not-reached' });
     expect(r.warnings).toContain('one vertex only: the limit cannot be bracketed');
-    expect(r.warnings.some((w) => w.startsWith('direction not given and the vertices do not tell it; taken as anodic'))).toBe(true);
+    expect(
+      r.warnings.some((w) =>
+        w.startsWith('direction not given and the vertices do not tell it; taken as anodic'),
+      ),
+    ).toBe(true);
   });
 
   it('reports no crossing as not reached, "at least" the last vertex', () => {
-    const r = analyzeText(formatExport(cvWindowOpeningSamples({ verticesV: [0.5, 0.6, 0.7] })), { method: 'cv', criterion: 's:0.1' });
+    const r = analyzeText(formatExport(cvWindowOpeningSamples({ verticesV: [0.5, 0.6, 0.7] })), {
+      method: 'cv',
+      criterion: 's:0.1',
+    });
     expect(r.limit).toEqual({ lastPassingV: 0.7, interpolatedV: null, status: 'not-reached' });
     expect(r.warnings).toContain('limit not reached: stable to at least 0.700 V (file scale)');
   });
 
   it('reports a criterion failed at the first vertex', () => {
-    const r = analyzeText(formatExport(cvWindowOpeningSamples({ verticesV: [1.0, 1.1] })), { method: 'cv', criterion: 's:0.01' });
-    expect(r.limit).toEqual({ lastPassingV: null, interpolatedV: null, status: 'exceeded-at-first' });
+    const r = analyzeText(formatExport(cvWindowOpeningSamples({ verticesV: [1.0, 1.1] })), {
+      method: 'cv',
+      criterion: 's:0.01',
+    });
+    expect(r.limit).toEqual({
+      lastPassingV: null,
+      interpolatedV: null,
+      status: 'exceeded-at-first',
+    });
   });
 
   it('detects a cathodic window from the vertices and mirrors the anodic result', () => {
     // Mirror image of §8 A: start 0, vertices −0.7…−1.1 V, reduction current with the same Tafel law.
     const text = formatExport(
-      cvWindowOpeningSamples({ verticesV: [-0.7, -0.8, -0.9, -1.0, -1.1], faradaic: { i0A: 1e-5, onsetV: -1.0, slopeVPerDecade: 0.15 }, sampleIntervalS: FINE }),
+      cvWindowOpeningSamples({
+        verticesV: [-0.7, -0.8, -0.9, -1.0, -1.1],
+        faradaic: { i0A: 1e-5, onsetV: -1.0, slopeVPerDecade: 0.15 },
+        sampleIntervalS: FINE,
+      }),
     );
     const r = analyzeText(text, { method: 'cv' });
     expect(r.direction).toBe('cathodic');
@@ -173,8 +225,12 @@ describe('CV edge cases', () => {
   });
 
   it('works without a time column when the scan rate is given, and refuses without it', () => {
-    const text = formatExport(cvWindowOpeningSamples({ sampleIntervalS: FINE }), { columns: ['potential', 'current'] });
-    expect(() => analyzeText(text, { method: 'cv' })).toThrow('the file has no time column; give the scan rate (e.g. 5mV/s)');
+    const text = formatExport(cvWindowOpeningSamples({ sampleIntervalS: FINE }), {
+      columns: ['potential', 'current'],
+    });
+    expect(() => analyzeText(text, { method: 'cv' })).toThrow(
+      'the file has no time column; give the scan rate (e.g. 5mV/s)',
+    );
     const r = analyzeText(text, { method: 'cv', scanRate: '5mV/s' });
     expectToDigits(r.cycles![4]!.sValue, '0.1164');
     expectToDigits(r.limit.interpolatedV, '1.0898');
@@ -184,8 +240,15 @@ describe('CV edge cases', () => {
   it('stays near S = 0 for a pure capacitor whose current is noise around zero', () => {
     // C = 1 µF at 5 mV/s: 5 nA of capacitive current under 50 nA of noise. Charges are dominated by
     // noise; S must still be finite and the analysis must not crash or invent a turning point.
-    const s = cvWindowOpeningSamples({ capacitanceF: 1e-6, faradaic: null, verticesV: [0.5, 0.6], noise: { currentA: 5e-8, seed: 3 } });
-    const r = analyzeText(formatExport(s, { columns: ['time', 'potential', 'current'] }), { method: 'cv' });
+    const s = cvWindowOpeningSamples({
+      capacitanceF: 1e-6,
+      faradaic: null,
+      verticesV: [0.5, 0.6],
+      noise: { currentA: 5e-8, seed: 3 },
+    });
+    const r = analyzeText(formatExport(s, { columns: ['time', 'potential', 'current'] }), {
+      method: 'cv',
+    });
     expect(r.cycles!.length).toBe(2);
     for (const c of r.cycles!) {
       expect(Number.isFinite(c.sValue)).toBe(true);
@@ -195,8 +258,13 @@ describe('CV edge cases', () => {
   });
 
   it('finds cycles from turning points despite potential noise and repeated samples', () => {
-    const s = cvWindowOpeningSamples({ sampleIntervalS: FINE, noise: { potentialV: 2e-4, seed: 11 } });
-    const r = analyzeText(formatExport(s, { columns: ['time', 'potential', 'current'] }), { method: 'cv' });
+    const s = cvWindowOpeningSamples({
+      sampleIntervalS: FINE,
+      noise: { potentialV: 2e-4, seed: 11 },
+    });
+    const r = analyzeText(formatExport(s, { columns: ['time', 'potential', 'current'] }), {
+      method: 'cv',
+    });
     expect(r.cycles!.length).toBe(5);
     // Potential noise of 0.2 mV moves the vertex by about that much, S by far less than the digits.
     expectToDigits(r.cycles![4]!.sValue, '0.116');

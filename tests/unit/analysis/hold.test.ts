@@ -1,18 +1,31 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeText, formatExport, holdSamples, holdStepsFromPotential, tailMean } from '../../../src/lib/analysis/index';
+import {
+  analyzeText,
+  formatExport,
+  holdSamples,
+  holdStepsFromPotential,
+  tailMean,
+} from '../../../src/lib/analysis/index';
 import { expectToDigits } from '../../support/digits';
 
 // METHODS.md §8 D: active mass 2.0 mg, 1200 s holds at 0.80…1.00 V in 50 mV steps, current
 // I = 1e-6 A·10^((E − 0.80)/0.100) + 2.0e-4 A·s^½/√t, cutoff 10 mA/g (2.0e-5 A). Leakage at the
 // end of each hold, log-linear interpolation between steps: common practice [cp]; holds as a test
 // of stability: Nunes et al., Scientific Reports 10 (2020), DOI 10.1038/s41598-020-75851-7.
-const THREE_COLUMNS = { columns: ['time', 'potential', 'current'] as ('time' | 'potential' | 'current')[] };
+const THREE_COLUMNS = {
+  columns: ['time', 'potential', 'current'] as ('time' | 'potential' | 'current')[],
+};
 
 describe('METHODS.md §8 D: potentiostatic holds generated, written and read back', () => {
   it('reproduces end-of-hold currents and the limit (end current = last sample, as the check values are)', () => {
     // The §8 D currents are the model at t = 1200 s exactly, so the tail fraction is 0 (last sample).
     const text = formatExport(holdSamples(), { ...THREE_COLUMNS, units: { current: 'uA' } });
-    const r = analyzeText(text, { method: 'hold', mass: '2.0mg', criterion: 'jm:10mA/g', holdTailFraction: 0 });
+    const r = analyzeText(text, {
+      method: 'hold',
+      mass: '2.0mg',
+      criterion: 'jm:10mA/g',
+      holdTailFraction: 0,
+    });
     expect(r.direction).toBe('anodic');
     expect(r.criterion).toEqual({ text: 'jm:10mA/g', kind: 'jm', value: 0.01, unit: 'A/g' });
     const want = ['6.7735e-6', '8.9358e-6', '1.5774e-5', '3.7396e-5', '1.0577e-4'];
@@ -33,9 +46,20 @@ describe('METHODS.md §8 D: potentiostatic holds generated, written and read bac
     const steps = Array.from({ length: 31 }, (_, k) => Math.round((0.9 + 0.001 * k) * 1000) / 1000);
     const text = formatExport(holdSamples({ stepsV: steps, sampleIntervalS: 10 }), THREE_COLUMNS);
     // Steps 1 mV apart need a plateau tolerance below 1 mV (the 5 mV default would merge them).
-    const merged = analyzeText(text, { method: 'hold', mass: '2mg', criterion: 'leak:10mA/g', holdTailFraction: 0 });
+    const merged = analyzeText(text, {
+      method: 'hold',
+      mass: '2mg',
+      criterion: 'leak:10mA/g',
+      holdTailFraction: 0,
+    });
     expect(merged.steps!.length).toBeLessThan(31);
-    const r = analyzeText(text, { method: 'hold', mass: '2mg', criterion: 'leak:10mA/g', holdTailFraction: 0, plateauToleranceV: 0.0004 });
+    const r = analyzeText(text, {
+      method: 'hold',
+      mass: '2mg',
+      criterion: 'leak:10mA/g',
+      holdTailFraction: 0,
+      plateauToleranceV: 0.0004,
+    });
     expect(r.steps!.length).toBe(31);
     expectToDigits(r.limit.interpolatedV, '0.91531');
   });
@@ -55,7 +79,12 @@ describe('METHODS.md §8 D: potentiostatic holds generated, written and read bac
 
   it('uses a step column when there is one, and per-area cutoffs', () => {
     const text = formatExport(holdSamples());
-    const r = analyzeText(text, { method: 'hold', area: '2cm2', criterion: 'j:10uA/cm2', holdTailFraction: 0 });
+    const r = analyzeText(text, {
+      method: 'hold',
+      area: '2cm2',
+      criterion: 'j:10uA/cm2',
+      holdTailFraction: 0,
+    });
     // 10 µA/cm² on 2 cm² is the same 2e-5 A cutoff as 10 mA/g on 2 mg.
     expectToDigits(r.limit.interpolatedV, '0.91375');
     expect(r.criterion.unit).toBe('A/cm2');
@@ -63,7 +92,9 @@ describe('METHODS.md §8 D: potentiostatic holds generated, written and read bac
 
   it('refuses a per-mass criterion without a mass, and a CV criterion', () => {
     const text = formatExport(holdSamples(), THREE_COLUMNS);
-    expect(() => analyzeText(text, { method: 'hold', criterion: 'jm:10mA/g' })).toThrow('criterion "jm:10mA/g" is per mass: give the active mass (e.g. 2mg)');
+    expect(() => analyzeText(text, { method: 'hold', criterion: 'jm:10mA/g' })).toThrow(
+      'criterion "jm:10mA/g" is per mass: give the active mass (e.g. 2mg)',
+    );
     expect(() => analyzeText(text, { method: 'hold', criterion: 's:0.1' })).toThrow(
       'criterion "s:0.1" applies to cyclic voltammetry; holds need a current cutoff (e.g. j:10uA/cm2 or jm:10mA/g)',
     );
@@ -86,6 +117,8 @@ describe('hold pieces', () => {
     expect(tailMean(t, i, { start: 0, end: 5 }, 0.2)).toBe(5);
     expect(tailMean(t, i, { start: 0, end: 5 }, 0)).toBe(10);
     expect(tailMean(null, i, { start: 0, end: 5 }, 0.5)).toBeCloseTo(10 / 3, 15);
-    expect(() => tailMean(t, i, { start: 0, end: 5 }, 2)).toThrow('hold tail fraction must lie in [0, 1], not 2');
+    expect(() => tailMean(t, i, { start: 0, end: 5 }, 2)).toThrow(
+      'hold tail fraction must lie in [0, 1], not 2',
+    );
   });
 });

@@ -22,22 +22,44 @@ describe('units and criteria', () => {
     expect(parseQuantity('10 µA/cm2', 'currentPerArea', 'cutoff')).toBeCloseTo(1e-5, 20);
     expect(parseQuantity('10 uA cm-2', 'currentPerArea', 'cutoff')).toBeCloseTo(1e-5, 20);
     expect(parseQuantity('10 mA g-1', 'currentPerMass', 'cutoff')).toBeCloseTo(0.01, 15);
-    expect(() => parseQuantity('5', 'scanRate', 'scan rate')).toThrow('scan rate: "5" has no unit (e.g. 5mV/s)');
-    expect(() => parseQuantity('5 mA', 'scanRate', 'scan rate')).toThrow('scan rate: unit "mA" is not a scan-rate unit (e.g. 5mV/s)');
-    expect(() => parseQuantity('fast', 'scanRate', 'scan rate')).toThrow('scan rate: "fast" is not a number with a unit (e.g. 5mV/s)');
+    expect(() => parseQuantity('5', 'scanRate', 'scan rate')).toThrow(
+      'scan rate: "5" has no unit (e.g. 5mV/s)',
+    );
+    expect(() => parseQuantity('5 mA', 'scanRate', 'scan rate')).toThrow(
+      'scan rate: unit "mA" is not a scan-rate unit (e.g. 5mV/s)',
+    );
+    expect(() => parseQuantity('fast', 'scanRate', 'scan rate')).toThrow(
+      'scan rate: "fast" is not a number with a unit (e.g. 5mV/s)',
+    );
   });
 
   it('parses criteria', () => {
     expect(parseCriterion('s:0.1')).toEqual({ text: 's:0.1', kind: 's', value: 0.1, unit: '' });
     expect(parseCriterion('ce:99%').value).toBeCloseTo(0.99, 15);
     expect(sCutoff(parseCriterion('ce:0.99'))).toBeCloseTo(1 / 0.99 - 1, 15);
-    expect(parseCriterion('j:10uA/cm2')).toEqual({ text: 'j:10uA/cm2', kind: 'j', value: 10e-6, unit: 'A/cm2' });
-    expect(parseCriterion('jm:10mA/g')).toEqual({ text: 'jm:10mA/g', kind: 'jm', value: 0.01, unit: 'A/g' });
+    expect(parseCriterion('j:10uA/cm2')).toEqual({
+      text: 'j:10uA/cm2',
+      kind: 'j',
+      value: 10e-6,
+      unit: 'A/cm2',
+    });
+    expect(parseCriterion('jm:10mA/g')).toEqual({
+      text: 'jm:10mA/g',
+      kind: 'jm',
+      value: 0.01,
+      unit: 'A/g',
+    });
     expect(parseCriterion('leak:20uA').kind).toBe('i');
     expect(parseCriterion('leak:1mA/cm2').kind).toBe('j');
-    expect(() => parseCriterion('j:10mA/g')).toThrow('criterion "j:10mA/g": "mA/g" is not a valid unit here (e.g. j:10uA/cm2)');
-    expect(() => parseCriterion('ce:1.5')).toThrow('criterion "ce:1.5": CE must lie in (0, 1] (or (0, 100] %)');
-    expect(() => parseCriterion('s:-1')).toThrow('criterion "s:-1": the cutoff must be a positive number');
+    expect(() => parseCriterion('j:10mA/g')).toThrow(
+      'criterion "j:10mA/g": "mA/g" is not a valid unit here (e.g. j:10uA/cm2)',
+    );
+    expect(() => parseCriterion('ce:1.5')).toThrow(
+      'criterion "ce:1.5": CE must lie in (0, 1] (or (0, 100] %)',
+    );
+    expect(() => parseCriterion('s:-1')).toThrow(
+      'criterion "s:-1": the cutoff must be a positive number',
+    );
     expect(() => parseCriterion('x:1')).toThrow(/^criterion "x:1": unknown kind "x"/);
     expect(() => parseCriterion('0.1')).toThrow(/^criterion "0.1" is not of the form kind:value/);
   });
@@ -46,10 +68,25 @@ describe('units and criteria', () => {
 describe('limits by hand', () => {
   it('interpolates in log10 between the bracketing points', () => {
     // 0.01 at 1 V, 1 at 2 V: cutoff 0.1 is halfway in log10.
-    expect(limitAt([1, 2], [0.01, 1], 0.1).limit).toEqual({ lastPassingV: 1, interpolatedV: 1.5, status: 'reached' });
-    expect(limitAt([1, 2], [0.01, 1], 0.1, 'linear').limit.interpolatedV).toBeCloseTo(1 + 0.09 / 0.99, 15);
-    expect(limitAt([1, 2, 3], [0.01, 0.02, 0.03], 0.1).limit).toEqual({ lastPassingV: 3, interpolatedV: null, status: 'not-reached' });
-    expect(limitAt([1, 2], [0.5, 1], 0.1).limit).toEqual({ lastPassingV: null, interpolatedV: null, status: 'exceeded-at-first' });
+    expect(limitAt([1, 2], [0.01, 1], 0.1).limit).toEqual({
+      lastPassingV: 1,
+      interpolatedV: 1.5,
+      status: 'reached',
+    });
+    expect(limitAt([1, 2], [0.01, 1], 0.1, 'linear').limit.interpolatedV).toBeCloseTo(
+      1 + 0.09 / 0.99,
+      15,
+    );
+    expect(limitAt([1, 2, 3], [0.01, 0.02, 0.03], 0.1).limit).toEqual({
+      lastPassingV: 3,
+      interpolatedV: null,
+      status: 'not-reached',
+    });
+    expect(limitAt([1, 2], [0.5, 1], 0.1).limit).toEqual({
+      lastPassingV: null,
+      interpolatedV: null,
+      status: 'exceeded-at-first',
+    });
   });
 
   it('falls back to linear where the passing value is not positive, and reports a second crossing', () => {
@@ -94,7 +131,9 @@ describe('segmentation by hand', () => {
 describe('decimation and aggregation', () => {
   it('keeps minima and maxima of every bucket, in order', () => {
     const x = Float64Array.from({ length: 1000 }, (_, i) => i);
-    const y = Float64Array.from({ length: 1000 }, (_, i) => (i === 500 ? 100 : i === 733 ? -50 : Math.sin(i / 50)));
+    const y = Float64Array.from({ length: 1000 }, (_, i) =>
+      i === 500 ? 100 : i === 733 ? -50 : Math.sin(i / 50),
+    );
     const d = decimateMinMax(x, y, 20);
     expect(d.x.length).toBeLessThanOrEqual(42);
     expect([...d.index]).toEqual([...d.index].sort((a, b) => a - b));
@@ -109,8 +148,22 @@ describe('decimation and aggregation', () => {
   });
 
   it('gives count, median and quartiles, skipping missing values, grouped', () => {
-    expect(summarize([3, 1, 2, 4, null, NaN])).toEqual({ count: 4, min: 1, q1: 1.75, median: 2.5, q3: 3.25, max: 4 });
-    expect(summarize([])).toEqual({ count: 0, min: null, q1: null, median: null, q3: null, max: null });
+    expect(summarize([3, 1, 2, 4, null, NaN])).toEqual({
+      count: 4,
+      min: 1,
+      q1: 1.75,
+      median: 2.5,
+      q3: 3.25,
+      max: 4,
+    });
+    expect(summarize([])).toEqual({
+      count: 0,
+      min: null,
+      q1: null,
+      median: null,
+      q3: null,
+      max: null,
+    });
     const g = summarizeBy(
       [
         { e: 'Pt', v: 1.1 },

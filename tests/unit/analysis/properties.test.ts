@@ -32,7 +32,10 @@ type CvParams = typeof cvModel extends fc.Arbitrary<infer T> ? T : never;
 
 function samplesOf(p: CvParams) {
   const sgn = p.cathodic ? -1 : 1;
-  const vertices = Array.from({ length: p.count }, (_, k) => sgn * Math.round((p.first + k * p.stepV) * 1000) / 1000);
+  const vertices = Array.from(
+    { length: p.count },
+    (_, k) => (sgn * Math.round((p.first + k * p.stepV) * 1000)) / 1000,
+  );
   return cvWindowOpeningSamples({
     capacitanceF: p.capacitanceF,
     scanRateVPerS: p.scanRateVPerS,
@@ -52,7 +55,10 @@ const format = fc.record({
   withTime: fc.boolean(),
 });
 
-function formatOf(f: typeof format extends fc.Arbitrary<infer T> ? T : never, columns?: Quantity[]): ExportFormat {
+function formatOf(
+  f: typeof format extends fc.Arbitrary<infer T> ? T : never,
+  columns?: Quantity[],
+): ExportFormat {
   return {
     separator: f.separator,
     decimalComma: f.decimalComma && f.separator !== ',',
@@ -79,13 +85,29 @@ describe('properties', () => {
       fc.property(cvModel, format, (p, f) => {
         const s = samplesOf(p);
         const opts = { method: 'cv' as const, scanRate: p.scanRateVPerS };
-        const iupac = outcome(() => analyzeText(formatExport(s, { ...formatOf(f), sign: 'iupac' }), { ...opts, sign: 'iupac' }));
-        const opposite = outcome(() => analyzeText(formatExport(s, { ...formatOf(f), sign: 'opposite' }), { ...opts, sign: 'opposite' }));
+        const iupac = outcome(() =>
+          analyzeText(formatExport(s, { ...formatOf(f), sign: 'iupac' }), {
+            ...opts,
+            sign: 'iupac',
+          }),
+        );
+        const opposite = outcome(() =>
+          analyzeText(formatExport(s, { ...formatOf(f), sign: 'opposite' }), {
+            ...opts,
+            sign: 'opposite',
+          }),
+        );
         expect(opposite).toEqual(iupac);
         // And the declaration matters: reading the flipped file as IUPAC swaps Q⁺ and Q⁻.
         if (typeof iupac !== 'string' && iupac.cycles!.length > 1) {
-          const wrong = outcome(() => analyzeText(formatExport(s, { ...formatOf(f), sign: 'opposite' }), { ...opts, direction: iupac.direction }));
-          if (typeof wrong !== 'string') expect(wrong.cycles![0]!.qPosC).toBeCloseTo(iupac.cycles![0]!.qNegC, 12);
+          const wrong = outcome(() =>
+            analyzeText(formatExport(s, { ...formatOf(f), sign: 'opposite' }), {
+              ...opts,
+              direction: iupac.direction,
+            }),
+          );
+          if (typeof wrong !== 'string')
+            expect(wrong.cycles![0]!.qPosC).toBeCloseTo(iupac.cycles![0]!.qNegC, 12);
         }
       }),
       { numRuns: 60 },
@@ -94,12 +116,26 @@ describe('properties', () => {
 
   it('reordering columns changes nothing', () => {
     fc.assert(
-      fc.property(cvModel, format, fc.shuffledSubarray(['time', 'potential', 'current', 'cycle'] as Quantity[], { minLength: 4, maxLength: 4 }), (p, f, order) => {
-        const s = samplesOf(p);
-        const a = outcome(() => analyzeText(formatExport(s, formatOf(f, ['time', 'potential', 'current', 'cycle'])), { method: 'cv' }));
-        const b = outcome(() => analyzeText(formatExport(s, formatOf(f, order)), { method: 'cv' }));
-        expect(b).toEqual(a);
-      }),
+      fc.property(
+        cvModel,
+        format,
+        fc.shuffledSubarray(['time', 'potential', 'current', 'cycle'] as Quantity[], {
+          minLength: 4,
+          maxLength: 4,
+        }),
+        (p, f, order) => {
+          const s = samplesOf(p);
+          const a = outcome(() =>
+            analyzeText(formatExport(s, formatOf(f, ['time', 'potential', 'current', 'cycle'])), {
+              method: 'cv',
+            }),
+          );
+          const b = outcome(() =>
+            analyzeText(formatExport(s, formatOf(f, order)), { method: 'cv' }),
+          );
+          expect(b).toEqual(a);
+        },
+      ),
       { numRuns: 60 },
     );
   });
@@ -112,13 +148,26 @@ describe('properties', () => {
 
   it('a stricter S cutoff never gives a wider window (generated CV files)', () => {
     fc.assert(
-      fc.property(cvModel, fc.double({ min: 1e-4, max: 0.5, noNaN: true }), fc.double({ min: 0.05, max: 1, noNaN: true }), (p, loose, ratio) => {
-        const text = formatExport(samplesOf(p), { columns: ['time', 'potential', 'current'] });
-        const dir = p.cathodic ? -1 : 1;
-        const wide = analyzeText(text, { method: 'cv', criterion: `s:${loose}`, direction: p.cathodic ? 'cathodic' : 'anodic' });
-        const strict = analyzeText(text, { method: 'cv', criterion: `s:${loose * ratio}`, direction: p.cathodic ? 'cathodic' : 'anodic' });
-        expect(reach(strict, dir)).toBeLessThanOrEqual(reach(wide, dir));
-      }),
+      fc.property(
+        cvModel,
+        fc.double({ min: 1e-4, max: 0.5, noNaN: true }),
+        fc.double({ min: 0.05, max: 1, noNaN: true }),
+        (p, loose, ratio) => {
+          const text = formatExport(samplesOf(p), { columns: ['time', 'potential', 'current'] });
+          const dir = p.cathodic ? -1 : 1;
+          const wide = analyzeText(text, {
+            method: 'cv',
+            criterion: `s:${loose}`,
+            direction: p.cathodic ? 'cathodic' : 'anodic',
+          });
+          const strict = analyzeText(text, {
+            method: 'cv',
+            criterion: `s:${loose * ratio}`,
+            direction: p.cathodic ? 'cathodic' : 'anodic',
+          });
+          expect(reach(strict, dir)).toBeLessThanOrEqual(reach(wide, dir));
+        },
+      ),
       { numRuns: 60 },
     );
   });
@@ -131,7 +180,12 @@ describe('properties', () => {
         fc.double({ min: 1e-6, max: 1e-3, noNaN: true }),
         fc.double({ min: 0.05, max: 1, noNaN: true }),
         (i0, slope, loose, ratio) => {
-          const text = formatExport(holdSamples({ faradaic: { i0A: i0, onsetV: 0.8, slopeVPerDecade: slope }, sampleIntervalS: 20 }));
+          const text = formatExport(
+            holdSamples({
+              faradaic: { i0A: i0, onsetV: 0.8, slopeVPerDecade: slope },
+              sampleIntervalS: 20,
+            }),
+          );
           const a = analyzeText(text, { method: 'hold', criterion: `i:${loose}A` });
           const b = analyzeText(text, { method: 'hold', criterion: `i:${loose * ratio}A` });
           expect(reach(b, 1)).toBeLessThanOrEqual(reach(a, 1));
@@ -160,22 +214,39 @@ describe('properties', () => {
     );
   });
 
-  it('10,000 malformed files give a clean AnalysisError, never another exception', { timeout: 120_000 }, () => {
-    let refused = 0;
-    const valid = formatExport(cvWindowOpeningSamples({ verticesV: [0.3, 0.4], sampleIntervalS: 4 }), { metadata: ['run 3'], separator: ';', decimalComma: true });
-    fc.assert(
-      fc.property(malformedFrom(valid), fc.constantFrom('cv', 'lsv', 'hold') as fc.Arbitrary<'cv' | 'lsv' | 'hold'>, (text, method) => {
-        try {
-          const r = analyzeText(text, { method, criterion: method === 'cv' ? 's:0.1' : 'i:1mA', scanRate: '5mV/s' });
-          expect(JSON.parse(JSON.stringify(r))).toEqual(JSON.parse(JSON.stringify(r)));
-        } catch (e) {
-          if (!(e instanceof AnalysisError)) throw e;
-          expect(e.message.length).toBeGreaterThan(0);
-          refused++;
-        }
-      }),
-      { numRuns: 10_000 },
-    );
-    console.log(`reader fuzz: 10000 malformed files, ${refused} refused with AnalysisError, ${10_000 - refused} still analysable, 0 crashes`);
-  });
+  it(
+    '10,000 malformed files give a clean AnalysisError, never another exception',
+    { timeout: 120_000 },
+    () => {
+      let refused = 0;
+      const valid = formatExport(
+        cvWindowOpeningSamples({ verticesV: [0.3, 0.4], sampleIntervalS: 4 }),
+        { metadata: ['run 3'], separator: ';', decimalComma: true },
+      );
+      fc.assert(
+        fc.property(
+          malformedFrom(valid),
+          fc.constantFrom('cv', 'lsv', 'hold') as fc.Arbitrary<'cv' | 'lsv' | 'hold'>,
+          (text, method) => {
+            try {
+              const r = analyzeText(text, {
+                method,
+                criterion: method === 'cv' ? 's:0.1' : 'i:1mA',
+                scanRate: '5mV/s',
+              });
+              expect(JSON.parse(JSON.stringify(r))).toEqual(JSON.parse(JSON.stringify(r)));
+            } catch (e) {
+              if (!(e instanceof AnalysisError)) throw e;
+              expect(e.message.length).toBeGreaterThan(0);
+              refused++;
+            }
+          },
+        ),
+        { numRuns: 10_000 },
+      );
+      console.log(
+        `reader fuzz: 10000 malformed files, ${refused} refused with AnalysisError, ${10_000 - refused} still analysable, 0 crashes`,
+      );
+    },
+  );
 });

@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { AnalysisError, analyzeText, normalise, readTable, splitHeaderName } from '../../../src/lib/analysis/index';
+import {
+  AnalysisError,
+  analyzeText,
+  normalise,
+  readTable,
+  splitHeaderName,
+} from '../../../src/lib/analysis/index';
 
 function err(f: () => unknown): AnalysisError {
   try {
@@ -23,7 +29,8 @@ describe('reader: dialects', () => {
   });
 
   it('reads semicolons with decimal commas, metadata lines, units in parentheses', () => {
-    const text = 'Run: 12\nArea;0,07;cm2\n\nt (min);Potential (mV);Current (µA)\n0,5;100,0;-1,5\n1,0;200,5;2,25\n';
+    const text =
+      'Run: 12\nArea;0,07;cm2\n\nt (min);Potential (mV);Current (µA)\n0,5;100,0;-1,5\n1,0;200,5;2,25\n';
     const t = readTable(text);
     expect(t.dialect).toEqual({ separator: ';', decimal: ',' });
     expect(t.headerLine).toBe(4);
@@ -41,7 +48,9 @@ describe('reader: dialects', () => {
   });
 
   it('reads whitespace-separated columns with names that contain spaces', () => {
-    const s = normalise(readTable('  t (s)   Potential (mV)   I (mA)\n  0   100   1\n  1   200   2  \n'));
+    const s = normalise(
+      readTable('  t (s)   Potential (mV)   I (mA)\n  0   100   1\n  1   200   2  \n'),
+    );
     expect([...s.time!]).toEqual([0, 1]);
     expect([...s.potential]).toEqual([0.1, 0.2]);
     expect([...s.current]).toEqual([0.001, 0.002]);
@@ -65,17 +74,35 @@ describe('reader: dialects', () => {
   });
 
   it('reads numbers exactly as Number() does', () => {
-    const vals = ['0', '-0.5', '+1.25', '.5', '5.', '1e-7', '-3.14159265358979323846', '6.02214076E23', '1.7976931348623157e308', '4.9e-324', '123456789012345678'];
+    const vals = [
+      '0',
+      '-0.5',
+      '+1.25',
+      '.5',
+      '5.',
+      '1e-7',
+      '-3.14159265358979323846',
+      '6.02214076E23',
+      '1.7976931348623157e308',
+      '4.9e-324',
+      '123456789012345678',
+    ];
     const t = readTable(`E/V,I/A\n${vals.map((v) => `${v},1`).join('\n')}\n`);
     expect([...t.potential]).toEqual(vals.map(Number));
   });
 
   it('takes an explicit mapping over header names, with units, and by index without a header', () => {
-    const t = readTable('a,b,c\n1,2,3\n4,5,6\n', { columns: { potential: { column: 'c', unit: 'mV' }, current: { column: 0, unit: 'nA' } } });
+    const t = readTable('a,b,c\n1,2,3\n4,5,6\n', {
+      columns: { potential: { column: 'c', unit: 'mV' }, current: { column: 0, unit: 'nA' } },
+    });
     const s = normalise(t);
     expect([...s.potential]).toEqual([0.003, 0.006]);
     expect([...s.current]).toEqual([1e-9, 4e-9]);
-    const h = normalise(readTable('1;2\n3;4\n', { columns: { potential: { column: 1 }, current: { column: 0, unit: 'mA' } } }));
+    const h = normalise(
+      readTable('1;2\n3;4\n', {
+        columns: { potential: { column: 1 }, current: { column: 0, unit: 'mA' } },
+      }),
+    );
     expect([...h.potential]).toEqual([2, 4]);
     expect([...h.current]).toEqual([0.001, 0.003]);
     // Mapping wins over a header that would be recognised otherwise.
@@ -123,22 +150,36 @@ describe('reader: refusals name the line and column', () => {
 
   it('hints at a decimal comma in a file read with a decimal point', () => {
     const e = err(() => readTable('E/V;I/A\n0.1;1\n0.2;1\n0.3;2\n0.4;3,5\n'));
-    expect(e.message).toBe('line 5, column 2 (I/A): "3,5" is not a number (decimal comma in a file read with decimal point?)');
+    expect(e.message).toBe(
+      'line 5, column 2 (I/A): "3,5" is not a number (decimal comma in a file read with decimal point?)',
+    );
   });
 
   it('refuses a file without numbers, a missing current column, and a header of the wrong width', () => {
     expect(err(() => readTable('hello\nworld\n')).code).toBe('no-data');
     const missing = err(() => readTable('time/s,E/V\n0,1\n1,2\n'));
-    expect(missing.message).toBe('no current column found among "time/s", "E/V"; name it (e.g. "I/mA") or give a column mapping');
+    expect(missing.message).toBe(
+      'no current column found among "time/s", "E/V"; name it (e.g. "I/mA") or give a column mapping',
+    );
     expect(missing.line).toBe(1);
     const wide = err(() => readTable('a,b,c\n1,2\n3,4\n'));
-    expect(wide.message).toBe('line 1: the header has 3 names but the data rows from line 2 have 2 values');
+    expect(wide.message).toBe(
+      'line 1: the header has 3 names but the data rows from line 2 have 2 values',
+    );
     expect(err(() => readTable('1,2\n3,4\n')).code).toBe('no-header');
   });
 
   it('refuses unknown units at the header', () => {
-    const e = err(() => analyzeText('E/V,I/A\n1,2\n3,4\n', { method: 'lsv', columns: { current: { column: 1, unit: 'furlong' } }, criterion: 'i:1A' }));
-    expect(e.message).toBe('column "I/A": "furlong" is not a current unit (use e.g. A, mA, uA, nA)');
+    const e = err(() =>
+      analyzeText('E/V,I/A\n1,2\n3,4\n', {
+        method: 'lsv',
+        columns: { current: { column: 1, unit: 'furlong' } },
+        criterion: 'i:1A',
+      }),
+    );
+    expect(e.message).toBe(
+      'column "I/A": "furlong" is not a current unit (use e.g. A, mA, uA, nA)',
+    );
     expect([e.line, e.column]).toEqual([1, 2]);
   });
 
@@ -152,7 +193,8 @@ describe('reader: scale', () => {
   it('reads 200 000 rows in linear time', () => {
     const rows = 200_000;
     const parts: string[] = ['time/s,E/V,I/A\n'];
-    for (let i = 0; i < rows; i++) parts.push(`${i * 0.01},${(i % 1000) * 0.001},${Math.sin(i) * 1e-5}\n`);
+    for (let i = 0; i < rows; i++)
+      parts.push(`${i * 0.01},${(i % 1000) * 0.001},${Math.sin(i) * 1e-5}\n`);
     const text = parts.join('');
     const t0 = performance.now();
     const t = readTable(text);

@@ -26,19 +26,33 @@ describe('METHODS.md §8 B: reference conversion', () => {
   });
 
   it('converts the potentials of a generated file, and keeps the offset and sources with the result', () => {
-    const text = formatExport(holdSamples({ stepsV: [0.1, 0.15, 0.2], faradaic: null }), { columns: ['time', 'potential', 'current'], units: { potential: 'mV' } });
-    const r = analyzeText(text, { method: 'hold', criterion: 'i:1mA', fromRef: 'SCE', toRef: 'RHE', pH: 7 });
+    const text = formatExport(holdSamples({ stepsV: [0.1, 0.15, 0.2], faradaic: null }), {
+      columns: ['time', 'potential', 'current'],
+      units: { potential: 'mV' },
+    });
+    const r = analyzeText(text, {
+      method: 'hold',
+      criterion: 'i:1mA',
+      fromRef: 'SCE',
+      toRef: 'RHE',
+      pH: 7,
+    });
     expectToDigits(r.steps![0]!.potentialV, '0.7553');
     expect(r.reference!.from).toBe('SCE');
     expect(r.reference!.to).toBe('RHE');
     expectToDigits(r.reference!.offsetV, '0.6553');
-    expect(r.reference!.sources[0]).toBe('saturated calomel electrode (sat. KCl): 0.2412 V vs SHE (Bard & Faulkner, Electrochemical Methods) [pub]');
+    expect(r.reference!.sources[0]).toBe(
+      'saturated calomel electrode (sat. KCl): 0.2412 V vs SHE (Bard & Faulkner, Electrochemical Methods) [pub]',
+    );
   });
 
   it('round-trips between every pair of table electrodes', () => {
     for (const a of REFERENCE_ELECTRODES) {
       for (const b of REFERENCE_ELECTRODES) {
-        expect(convertPotential(convertPotential(0.5, a.id, b.id), b.id, a.id)).toBeCloseTo(0.5, 12);
+        expect(convertPotential(convertPotential(0.5, a.id, b.id), b.id, a.id)).toBeCloseTo(
+          0.5,
+          12,
+        );
         expect(convertPotential(0, a.id, b.id)).toBeCloseTo(a.vsSheV - b.vsSheV, 12);
       }
     }
@@ -48,15 +62,26 @@ describe('METHODS.md §8 B: reference conversion', () => {
     const li = referenceConversion('Li+/Li', 'SHE');
     expect(li.approximate).toBe(true);
     expect(li.offsetV).toBe(-3.04); // CRC Handbook, electrochemical series
-    const text = formatExport(holdSamples({ stepsV: [3.0, 3.5], faradaic: null }), { columns: ['time', 'potential', 'current'] });
-    const r = analyzeText(text, { method: 'hold', criterion: 'i:1mA', fromRef: 'Li', toRef: 'SHE' });
+    const text = formatExport(holdSamples({ stepsV: [3.0, 3.5], faradaic: null }), {
+      columns: ['time', 'potential', 'current'],
+    });
+    const r = analyzeText(text, {
+      method: 'hold',
+      criterion: 'i:1mA',
+      fromRef: 'Li',
+      toRef: 'SHE',
+    });
     expect(r.warnings[0]).toMatch(/^conversion between Li\+\/Li and SHE is approximate/);
     expect(() => convertPotential(0, 'Fc+/Fc', 'SHE')).toThrow(
       'the ferrocene scale (Fc⁺/Fc) depends on the electrolyte; give the measured potential of Fc⁺/Fc and the scale it was measured on',
     );
     // Fc⁺/Fc measured at +0.40 V vs SCE: 0 V vs Fc is 0.40 + 0.2412 V vs SHE.
-    expect(convertPotential(0, 'Fc', 'SHE', { ferrocene: { potentialV: 0.4, versus: 'SCE' } })).toBeCloseTo(0.6412, 12);
-    expect(() => convertPotential(0, 'SHE', 'RHE')).toThrow('the RHE scale needs the pH of the electrolyte');
+    expect(
+      convertPotential(0, 'Fc', 'SHE', { ferrocene: { potentialV: 0.4, versus: 'SCE' } }),
+    ).toBeCloseTo(0.6412, 12);
+    expect(() => convertPotential(0, 'SHE', 'RHE')).toThrow(
+      'the RHE scale needs the pH of the electrolyte',
+    );
     expect(() => findScale('Cu/CuSO4')).toThrow(/^unknown reference scale "Cu\/CuSO4"/);
   });
 

@@ -3,8 +3,13 @@ import { comparisonHref, overlayHref, pickedHandles } from '../../../src/lib/cli
 
 describe('overlay addresses', () => {
   it('keeps valid, unique handles, at most six', () => {
-    expect(pickedHandles('EW-000001, ew-000002,EW-000001,nope,EW-12')).toEqual(['EW-000001', 'EW-000002']);
-    expect(pickedHandles(Array.from({ length: 8 }, (_, i) => `EW-00000${i + 1}`).join(','))).toHaveLength(6);
+    expect(pickedHandles('EW-000001, ew-000002,EW-000001,nope,EW-12')).toEqual([
+      'EW-000001',
+      'EW-000002',
+    ]);
+    expect(
+      pickedHandles(Array.from({ length: 8 }, (_, i) => `EW-00000${i + 1}`).join(',')),
+    ).toHaveLength(6);
   });
 
   it('goes to the overlay remembering the comparison, and back to it', () => {
@@ -21,7 +26,13 @@ describe('overlay addresses', () => {
   });
 
   it('never leaves /windows, whatever the remembered query holds', () => {
-    for (const from of ['//evil.test/x', 'https://evil.test', '/admin?x=1', '%2F%2Fevil.test', 'a=1#frag']) {
+    for (const from of [
+      '//evil.test/x',
+      'https://evil.test',
+      '/admin?x=1',
+      '%2F%2Fevil.test',
+      'a=1#frag',
+    ]) {
       const href = comparisonHref(`?records=EW-000001&from=${encodeURIComponent(from)}`);
       expect(href.startsWith('/windows')).toBe(true);
       expect(new URL(href, 'http://x').host).toBe('x');
@@ -29,7 +40,9 @@ describe('overlay addresses', () => {
   });
 
   it('ticks the records of a shared overlay link', () => {
-    expect(comparisonHref('?records=EW-000003,EW-000004')).toBe('/windows?pick=EW-000003%2CEW-000004');
+    expect(comparisonHref('?records=EW-000003,EW-000004')).toBe(
+      '/windows?pick=EW-000003%2CEW-000004',
+    );
     expect(comparisonHref('')).toBe('/windows');
   });
 });

@@ -17,7 +17,15 @@ import { ROLES } from '../../../src/lib/shared/principal';
 import { lookupKey, termKeys } from '../../../src/lib/shared/vocabulary';
 import { DEMO_ACCOUNTS } from '../../../seed/accounts';
 import { VOCABULARY } from '../../../seed/vocabulary';
-import { CONFIRM_TOLERANCE_V, REFERENCES, SCENARIO_SEED, SHAPES, engineOptions, generateScenario, type ScenarioRecord } from '../../../seed/scenario/index';
+import {
+  CONFIRM_TOLERANCE_V,
+  REFERENCES,
+  SCENARIO_SEED,
+  SHAPES,
+  engineOptions,
+  generateScenario,
+  type ScenarioRecord,
+} from '../../../seed/scenario/index';
 import { ELECTRODES } from '../../../seed/scenario/physics';
 
 const scenario = generateScenario();
@@ -42,7 +50,9 @@ const rec = (key: string) => {
 const limits = (r: ScenarioRecord) => analysed.get(r.key)!;
 const inSeries = (prefix: string) => {
   const groups = new Map<string, ScenarioRecord[]>();
-  for (const r of scenario.records) for (const s of r.series) if (s.startsWith(prefix)) groups.set(s, [...(groups.get(s) ?? []), r]);
+  for (const r of scenario.records)
+    for (const s of r.series)
+      if (s.startsWith(prefix)) groups.set(s, [...(groups.get(s) ?? []), r]);
   return [...groups.entries()];
 };
 
@@ -54,30 +64,42 @@ describe('scenario generator', () => {
 
   it('writes content that the record schema accepts, in every version', () => {
     for (const r of scenario.records) {
-      const contents = r.events.flatMap((e) => (e.kind === 'create' || e.kind === 'edit' ? [e.content] : []));
+      const contents = r.events.flatMap((e) =>
+        e.kind === 'create' || e.kind === 'edit' ? [e.content] : [],
+      );
       expect(contents.length).toBeGreaterThan(0);
       expect(contents.at(-1)).toEqual(r.content);
       for (const c of contents) {
         const parsed = recordContentSchema.safeParse(c);
-        expect(parsed.success, `${r.key}: ${parsed.success ? '' : JSON.stringify(parsed.error.issues)}`).toBe(true);
+        expect(
+          parsed.success,
+          `${r.key}: ${parsed.success ? '' : JSON.stringify(parsed.error.issues)}`,
+        ).toBe(true);
       }
-      for (const f of r.files) if (f.mapping.columns) expect(columnMappingSchema.safeParse(f.mapping.columns).success).toBe(true);
+      for (const f of r.files)
+        if (f.mapping.columns)
+          expect(columnMappingSchema.safeParse(f.mapping.columns).success).toBe(true);
     }
   });
 
   it('names only terms of the starting vocabulary, and references on the scales the engine uses for them', () => {
     const byKey = new Map<string, (typeof VOCABULARY)[number][]>();
-    for (const t of VOCABULARY) for (const k of termKeys(t)) byKey.set(k, [...(byKey.get(k) ?? []), t]);
-    const find = (name: string, kinds: string[]) => (byKey.get(lookupKey(name)) ?? []).filter((t) => kinds.includes(t.kind));
+    for (const t of VOCABULARY)
+      for (const k of termKeys(t)) byKey.set(k, [...(byKey.get(k) ?? []), t]);
+    const find = (name: string, kinds: string[]) =>
+      (byKey.get(lookupKey(name)) ?? []).filter((t) => kinds.includes(t.kind));
     for (const r of scenario.records) {
       const c: RecordContentInput = r.content;
       const names: [string, string[]][] = [
         ...(c.electrolyte.solvents ?? []).map((s) => [s.term, ['solvent']] as [string, string[]]),
         ...(c.electrolyte.salts ?? []).map((s) => [s.term, ['salt']] as [string, string[]]),
         [c.workingElectrode.material, ['electrode-material']],
-        ...(c.counterElectrode ? [[c.counterElectrode.material, ['electrode-material']] as [string, string[]]] : []),
+        ...(c.counterElectrode
+          ? [[c.counterElectrode.material, ['electrode-material']] as [string, string[]]]
+          : []),
       ];
-      for (const [name, kinds] of names) expect(find(name, kinds), `${r.key}: ${name}`).toHaveLength(1);
+      for (const [name, kinds] of names)
+        expect(find(name, kinds), `${r.key}: ${name}`).toHaveLength(1);
       if (c.referenceElectrode) {
         const hits = find(c.referenceElectrode, ['reference-electrode']);
         expect(hits, `${r.key}: ${c.referenceElectrode}`).toHaveLength(1);
@@ -95,15 +117,27 @@ describe('scenario generator', () => {
     expect(set((r) => r.content.method.kind)).toEqual(new Set(METHOD_KINDS));
     expect(set((r) => r.content.cellType)).toEqual(new Set(CELL_TYPES));
     expect(set((r) => r.content.criterion?.kind).has(undefined)).toBe(true);
-    for (const k of CRITERION_KINDS.filter((k) => k !== 'j-mass')) expect(set((r) => r.content.criterion?.kind).has(k), k).toBe(true);
+    for (const k of CRITERION_KINDS.filter((k) => k !== 'j-mass'))
+      expect(set((r) => r.content.criterion?.kind).has(k), k).toBe(true);
     const materials = set((r) => r.content.workingElectrode.material);
-    for (const m of ['GC', 'Pt', 'Au', 'activated carbon', 'SS', 'Al']) expect(materials.has(m), m).toBe(true);
+    for (const m of ['GC', 'Pt', 'Au', 'activated carbon', 'SS', 'Al'])
+      expect(materials.has(m), m).toBe(true);
     expect(Object.keys(ELECTRODES)).toHaveLength(6);
     expect(rs.filter((r) => r.status === 'withdrawn')).toHaveLength(1);
     expect(rs.filter((r) => r.status === 'flagged').length).toBeGreaterThanOrEqual(3);
     const embargoed = rs.filter((r) => r.content.visibility === 'lab' && r.content.embargoUntil);
     expect(embargoed.length).toBeGreaterThanOrEqual(3);
-    expect(new Set(rs.map((r) => (r.content.method.kind === 'potentiostatic-holds' ? undefined : r.content.method.scanRateMVs)).filter(Boolean)).size).toBeGreaterThanOrEqual(4);
+    expect(
+      new Set(
+        rs
+          .map((r) =>
+            r.content.method.kind === 'potentiostatic-holds'
+              ? undefined
+              : r.content.method.scanRateMVs,
+          )
+          .filter(Boolean),
+      ).size,
+    ).toBeGreaterThanOrEqual(4);
     // Most records carry raw data.
     expect(rs.filter((r) => r.files.length > 0).length / rs.length).toBeGreaterThan(0.6);
   });
@@ -116,19 +150,40 @@ describe('scenario generator', () => {
     expect(pHs.some((p) => p > 6 && p < 8)).toBe(true);
     expect(Math.max(...pHs)).toBeGreaterThan(13);
     expect(new Set(pHs).size).toBeGreaterThanOrEqual(5);
-    const molal = aqueous.flatMap((c) => c.electrolyte.salts!.filter((s) => s.concentration.basis === 'mol/kg').map((s) => s.concentration.value));
+    const molal = aqueous.flatMap((c) =>
+      c.electrolyte
+        .salts!.filter((s) => s.concentration.basis === 'mol/kg')
+        .map((s) => s.concentration.value),
+    );
     expect(Math.min(...molal)).toBeLessThanOrEqual(1);
     expect(Math.max(...molal)).toBeGreaterThanOrEqual(17);
     const solvents = new Set(rs.flatMap((c) => c.electrolyte.solvents?.map((s) => s.term) ?? []));
-    for (const s of ['EC', 'PC', 'ACN', 'ADN', 'DME', 'TEGDME', 'DMSO']) expect(solvents.has(s), s).toBe(true);
+    for (const s of ['EC', 'PC', 'ACN', 'ADN', 'DME', 'TEGDME', 'DMSO'])
+      expect(solvents.has(s), s).toBe(true);
     const salts = new Set(rs.flatMap((c) => c.electrolyte.salts?.map((s) => s.term) ?? []));
-    for (const s of ['LiPF6', 'LiTFSI', 'NaPF6', 'NaClO4', 'TEABF4', 'SBPBF4', 'EMImBF4', 'EMImTFSI']) expect(salts.has(s), s).toBe(true);
+    for (const s of [
+      'LiPF6',
+      'LiTFSI',
+      'NaPF6',
+      'NaClO4',
+      'TEABF4',
+      'SBPBF4',
+      'EMImBF4',
+      'EMImTFSI',
+    ])
+      expect(salts.has(s), s).toBe(true);
     expect(rs.some((c) => (c.electrolyte.solvents ?? []).length === 0)).toBe(true); // neat ionic liquids
   });
 
   it('has invented people for every role and a lab manager in each lab, and invented sources', () => {
     expect(new Set(scenario.people.map((p) => p.role))).toEqual(new Set(ROLES));
-    for (const lab of scenario.labs) expect(scenario.people.some((p) => p.labs.some(([s, role]) => s === lab.slug && role === 'manager')), lab.slug).toBe(true);
+    for (const lab of scenario.labs)
+      expect(
+        scenario.people.some((p) =>
+          p.labs.some(([s, role]) => s === lab.slug && role === 'manager'),
+        ),
+        lab.slug,
+      ).toBe(true);
     for (const p of scenario.people) expect(p.email).toMatch(/^[^@\s]+@[a-z0-9.-]+\.test$/);
     // The sign-in accounts of the accounts seed are people of the scenario, with the same role and labs.
     for (const a of DEMO_ACCOUNTS) {
@@ -159,7 +214,11 @@ describe('scenario generator', () => {
         if (e.kind !== 'transition') continue;
         const t = TRANSITIONS[e.action];
         expect(t.from, `${r.key}: ${e.action} from ${status}`).toContain(status);
-        if (t.policy === 'record.review' || e.action === 'withdraw' || e.action === 'resolve-flag') {
+        if (
+          t.policy === 'record.review' ||
+          e.action === 'withdraw' ||
+          e.action === 'resolve-flag'
+        ) {
           expect(who.role, `${r.key}: ${e.action}`).toBe('curator');
           expect(e.by).not.toBe(r.owner);
         }
@@ -184,15 +243,23 @@ describe('scenario generator', () => {
 
 describe('raw files through the engine', () => {
   it('every file is read and reaches its criterion', () => {
-    for (const r of scenario.records) for (const s of limits(r).statuses) expect(s, r.key).toBe('reached');
+    for (const r of scenario.records)
+      for (const s of limits(r).statuses) expect(s, r.key).toBe('reached');
   });
 
   it('earns the evidence level the scenario expects: confirmed within 50 mV of the reported limit, recomputed otherwise', () => {
     // DESIGN.md §2: confirmed = recomputed and within 50 mV of the reported limit at the record's own criterion.
     for (const r of scenario.records.filter((x) => x.files.length > 0)) {
-      const diffs = r.files.map((f) => Math.abs(limits(r)[f.side]! - r.content.reportedLimits[f.side]!.valueV));
-      if (r.evidence === 'confirmed') expect(Math.max(...diffs), r.key).toBeLessThanOrEqual(CONFIRM_TOLERANCE_V);
-      else expect(r.content.criterion === undefined || Math.max(...diffs) > CONFIRM_TOLERANCE_V, r.key).toBe(true);
+      const diffs = r.files.map((f) =>
+        Math.abs(limits(r)[f.side]! - r.content.reportedLimits[f.side]!.valueV),
+      );
+      if (r.evidence === 'confirmed')
+        expect(Math.max(...diffs), r.key).toBeLessThanOrEqual(CONFIRM_TOLERANCE_V);
+      else
+        expect(
+          r.content.criterion === undefined || Math.max(...diffs) > CONFIRM_TOLERANCE_V,
+          r.key,
+        ).toBe(true);
     }
   });
 
@@ -218,21 +285,30 @@ describe('raw files through the engine', () => {
       const ac = rs.find((r) => r.content.workingElectrode.material === 'activated carbon')!;
       expect(ac.content.criterion).toEqual(gc.content.criterion);
       expect(limits(ac).anodic!, name).toBeLessThan(limits(gc).anodic!);
-      if (limits(ac).cathodic !== undefined) expect(limits(ac).cathodic!, name).toBeGreaterThan(limits(gc).cathodic!);
+      if (limits(ac).cathodic !== undefined)
+        expect(limits(ac).cathodic!, name).toBeGreaterThan(limits(gc).cathodic!);
       pairs++;
     }
     expect(pairs).toBeGreaterThanOrEqual(6);
     // At a per-area cutoff the huge area of activated carbon costs far more than at an S-value cutoff.
     const [, area] = inSeries('ac-vs-gc-area:acn')[0]!;
-    const gap = limits(area.find((r) => r.content.workingElectrode.material === 'GC')!).anodic! - limits(area.find((r) => r.content.workingElectrode.material !== 'GC')!).anodic!;
-    expect(gap).toBeGreaterThan(limits(rec('acn-gc-cv5')).anodic! - limits(rec('acn-ac-cv5')).anodic!);
+    const gap =
+      limits(area.find((r) => r.content.workingElectrode.material === 'GC')!).anodic! -
+      limits(area.find((r) => r.content.workingElectrode.material !== 'GC')!).anodic!;
+    expect(gap).toBeGreaterThan(
+      limits(rec('acn-gc-cv5')).anodic! - limits(rec('acn-ac-cv5')).anodic!,
+    );
   });
 
   it('slower scans give narrower windows (common practice; METHODS.md §8 A)', () => {
     const groups = inSeries('scan:');
     expect(groups.length).toBeGreaterThanOrEqual(4);
     for (const [name, rs] of groups) {
-      const sorted = [...rs].sort((a, b) => (a.content.method as { scanRateMVs: number }).scanRateMVs - (b.content.method as { scanRateMVs: number }).scanRateMVs);
+      const sorted = [...rs].sort(
+        (a, b) =>
+          (a.content.method as { scanRateMVs: number }).scanRateMVs -
+          (b.content.method as { scanRateMVs: number }).scanRateMVs,
+      );
       for (let i = 1; i < sorted.length; i++) {
         expect(limits(sorted[i - 1]!).anodic!, name).toBeLessThan(limits(sorted[i]!).anodic!);
         const [a, b] = [limits(sorted[i - 1]!).cathodic, limits(sorted[i]!).cathodic];
@@ -253,7 +329,9 @@ describe('raw files through the engine', () => {
       const sorted = [...rs].sort((a, b) => strictness(a) - strictness(b));
       for (let i = 1; i < sorted.length; i++) {
         expect(limits(sorted[i - 1]!).anodic!, name).toBeLessThan(limits(sorted[i]!).anodic!);
-        expect(limits(sorted[i - 1]!).cathodic!, name).toBeGreaterThan(limits(sorted[i]!).cathodic!);
+        expect(limits(sorted[i - 1]!).cathodic!, name).toBeGreaterThan(
+          limits(sorted[i]!).cathodic!,
+        );
       }
     }
     // CE ≥ 99 % (S ≤ 0.0101) is stricter than S ≤ 0.1 on the same electrode and scan rate.
@@ -267,7 +345,8 @@ describe('raw files through the engine', () => {
     for (const [name, rs] of groups) {
       const sorted = [...rs].sort((a, b) => molality(a) - molality(b));
       const width = (r: ScenarioRecord) => limits(r).anodic! - limits(r).cathodic!;
-      for (let i = 1; i < sorted.length; i++) expect(width(sorted[i - 1]!), name).toBeLessThan(width(sorted[i]!));
+      for (let i = 1; i < sorted.length; i++)
+        expect(width(sorted[i - 1]!), name).toBeLessThan(width(sorted[i]!));
       // METHODS.md §5: the thermodynamic width is 1.229 V at any pH.
       expect(width(sorted.at(-1)!)).toBeGreaterThan(waterWindow(7).widthV + 1);
     }

@@ -9,18 +9,37 @@ const doc = {
   tags: [{ name: 'Things', description: 'Made-up things.' }, { name: 'Empty' }],
   components: {
     schemas: {
-      Amount: { type: 'object', required: ['value'], properties: { value: { type: 'number', exclusiveMinimum: 0 }, basis: { type: 'string', enum: ['mol/L', 'mol/kg'] } } },
+      Amount: {
+        type: 'object',
+        required: ['value'],
+        properties: {
+          value: { type: 'number', exclusiveMinimum: 0 },
+          basis: { type: 'string', enum: ['mol/L', 'mol/kg'] },
+        },
+      },
       Thing: {
         type: 'object',
         required: ['name', 'parts'],
         properties: {
           name: { type: 'string', maxLength: 80, description: 'What it is called' },
-          parts: { type: 'array', items: { type: 'object', required: ['term'], properties: { term: { type: 'string' }, amount: { $ref: '#/components/schemas/Amount' } } } },
+          parts: {
+            type: 'array',
+            items: {
+              type: 'object',
+              required: ['term'],
+              properties: {
+                term: { type: 'string' },
+                amount: { $ref: '#/components/schemas/Amount' },
+              },
+            },
+          },
           size: { anyOf: [{ type: 'number', minimum: 0 }, { type: 'null' }] },
         },
       },
     },
-    parameters: { id: { name: 'id', in: 'path', required: true, schema: { type: 'string', format: 'uuid' } } },
+    parameters: {
+      id: { name: 'id', in: 'path', required: true, schema: { type: 'string', format: 'uuid' } },
+    },
   },
   paths: {
     '/things/{id}': {
@@ -30,7 +49,9 @@ const doc = {
         tags: ['Things'],
         summary: 'Replace a thing',
         parameters: [{ name: 'dry', in: 'query', schema: { type: 'boolean' } }],
-        requestBody: { content: { 'application/json': { schema: { $ref: '#/components/schemas/Thing' } } } },
+        requestBody: {
+          content: { 'application/json': { schema: { $ref: '#/components/schemas/Thing' } } },
+        },
         responses: { '200': { description: 'The thing' }, '409': { description: 'Stale' } },
       },
       get: { summary: 'No tag, no id', responses: { '200': { description: 'It' } } },
@@ -42,11 +63,17 @@ describe('api reference', () => {
   it('writes types briefly: enums, unions, bounds, formats, arrays', () => {
     expect(typeText({ $ref: '#/components/schemas/Amount' }, doc)).toBe('object');
     expect(typeText({ type: 'string', enum: ['a', 'b'] }, doc)).toBe('one of "a", "b"');
-    expect(typeText({ anyOf: [{ type: 'number', minimum: 0 }, { type: 'null' }] }, doc)).toBe('number ≥ 0 or null');
+    expect(typeText({ anyOf: [{ type: 'number', minimum: 0 }, { type: 'null' }] }, doc)).toBe(
+      'number ≥ 0 or null',
+    );
     expect(typeText({ type: 'string', format: 'uuid' }, doc)).toBe('string (uuid)');
     expect(typeText({ type: 'array', items: { type: 'string' } }, doc)).toBe('array of string');
-    expect(typeText({ type: 'integer', minimum: 1, maximum: 200 }, doc)).toBe('integer ≥ 1 and ≤ 200');
-    expect(typeText({ anyOf: [{ type: 'string' }, { type: 'array', items: { type: 'string' } }] }, doc)).toBe('string, repeatable');
+    expect(typeText({ type: 'integer', minimum: 1, maximum: 200 }, doc)).toBe(
+      'integer ≥ 1 and ≤ 200',
+    );
+    expect(
+      typeText({ anyOf: [{ type: 'string' }, { type: 'array', items: { type: 'string' } }] }, doc),
+    ).toBe('string, repeatable');
   });
 
   it('flattens a body into one row per field, through references and arrays of objects', () => {
@@ -67,20 +94,38 @@ describe('api reference', () => {
     const tags = apiReference(doc);
     expect(tags.map((t) => t.name)).toEqual(['Things', 'Other']);
     const put = tags[0]!.operations[0]!;
-    expect(put).toMatchObject({ id: 'putThing', method: 'PUT', path: '/things/{id}', summary: 'Replace a thing' });
-    expect(put.parameters.map((p) => `${p.name} ${p.in} ${p.required}`)).toEqual(['id path true', 'dry query false']);
+    expect(put).toMatchObject({
+      id: 'putThing',
+      method: 'PUT',
+      path: '/things/{id}',
+      summary: 'Replace a thing',
+    });
+    expect(put.parameters.map((p) => `${p.name} ${p.in} ${p.required}`)).toEqual([
+      'id path true',
+      'dry query false',
+    ]);
     expect(put.body?.mediaType).toBe('application/json');
-    expect(put.responses).toEqual([{ status: '200', description: 'The thing' }, { status: '409', description: 'Stale' }]);
+    expect(put.responses).toEqual([
+      { status: '200', description: 'The thing' },
+      { status: '409', description: 'Stale' },
+    ]);
     expect(tags[1]!.operations[0]!.id).toBe('get-/things/{id}');
   });
 
   it('covers every operation of the real document exactly once', () => {
-    const real = openApiDocument('http://localhost/api/v1') as { paths: Record<string, Record<string, unknown>> };
-    const count = Object.values(real.paths).reduce((n, item) => n + ['get', 'post', 'put', 'patch', 'delete'].filter((m) => item[m]).length, 0);
+    const real = openApiDocument('http://localhost/api/v1') as {
+      paths: Record<string, Record<string, unknown>>;
+    };
+    const count = Object.values(real.paths).reduce(
+      (n, item) => n + ['get', 'post', 'put', 'patch', 'delete'].filter((m) => item[m]).length,
+      0,
+    );
     const shown = apiReference(real).flatMap((t) => t.operations);
     expect(shown).toHaveLength(count);
     expect(new Set(shown.map((o) => `${o.method} ${o.path}`)).size).toBe(count);
     const create = shown.find((o) => o.id === 'createRecord')!;
-    expect(create.body!.fields.map((f) => f.path)).toContain('content.electrolyte.salts[].concentration.value');
+    expect(create.body!.fields.map((f) => f.path)).toContain(
+      'content.electrolyte.salts[].concentration.value',
+    );
   });
 });

@@ -27,8 +27,12 @@ describe('parseConfig', () => {
 
   it('names a bad value and says what is wrong with it', () => {
     expect(() => parseConfig({ ...valid, SMTP_PORT: 'seventy' })).toThrow(/SMTP_PORT/);
-    expect(() => parseConfig({ ...valid, AUTH_SECRET: 'short' })).toThrow(/AUTH_SECRET: must be at least 32 characters/);
-    expect(() => parseConfig({ ...valid, DATABASE_URL: 'mysql://x' })).toThrow(/DATABASE_URL: must be a postgres/);
+    expect(() => parseConfig({ ...valid, AUTH_SECRET: 'short' })).toThrow(
+      /AUTH_SECRET: must be at least 32 characters/,
+    );
+    expect(() => parseConfig({ ...valid, DATABASE_URL: 'mysql://x' })).toThrow(
+      /DATABASE_URL: must be a postgres/,
+    );
     expect(() => parseConfig({ ...valid, S3_BUCKET: 'Bad_Bucket' })).toThrow(/S3_BUCKET/);
   });
 

@@ -21,7 +21,9 @@ describe('applySecurityHeaders', () => {
   it('locks down non-HTML responses completely', () => {
     const h = new Headers({ 'content-type': 'application/json' });
     applySecurityHeaders(h, { https: false });
-    expect(h.get('content-security-policy')).toBe("default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'");
+    expect(h.get('content-security-policy')).toBe(
+      "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'",
+    );
     expect(h.get('x-content-type-options')).toBe('nosniff');
     expect(h.get('strict-transport-security')).toBeNull();
   });
@@ -35,14 +37,20 @@ describe('applySecurityHeaders', () => {
 
 describe('checkStateChangingRequest', () => {
   const own = 'http://localhost:4321';
-  const req = (method: string, headers: Record<string, string>) => new Request('http://localhost:4321/api/x', { method, headers });
+  const req = (method: string, headers: Record<string, string>) =>
+    new Request('http://localhost:4321/api/x', { method, headers });
 
   it('lets reads through whatever their origin', () => {
-    expect(checkStateChangingRequest(req('GET', { origin: 'http://evil.test' }), own).ok).toBe(true);
+    expect(checkStateChangingRequest(req('GET', { origin: 'http://evil.test' }), own).ok).toBe(
+      true,
+    );
   });
 
   it('refuses foreign and missing origins on writes', () => {
-    expect(checkStateChangingRequest(req('POST', { origin: 'http://evil.test' }), own)).toEqual({ ok: false, reason: 'cross-origin request from http://evil.test refused' });
+    expect(checkStateChangingRequest(req('POST', { origin: 'http://evil.test' }), own)).toEqual({
+      ok: false,
+      reason: 'cross-origin request from http://evil.test refused',
+    });
     expect(checkStateChangingRequest(req('DELETE', {}), own).ok).toBe(false);
   });
 
@@ -50,12 +58,17 @@ describe('checkStateChangingRequest', () => {
     const form = req('POST', { origin: own, 'content-type': 'application/x-www-form-urlencoded' });
     expect(checkStateChangingRequest(form, own).ok).toBe(false);
     expect(checkStateChangingRequest(form, own, { allowForm: true }).ok).toBe(true);
-    const multipart = req('POST', { origin: own, 'content-type': 'multipart/form-data; boundary=x' });
+    const multipart = req('POST', {
+      origin: own,
+      'content-type': 'multipart/form-data; boundary=x',
+    });
     expect(checkStateChangingRequest(multipart, own).ok).toBe(false);
     expect(checkStateChangingRequest(multipart, own, { allowMultipart: true }).ok).toBe(true);
   });
 
   it('accepts bearer-token calls, which carry no cookie authority', () => {
-    expect(checkStateChangingRequest(req('POST', { authorization: 'Bearer abc' }), own).ok).toBe(true);
+    expect(checkStateChangingRequest(req('POST', { authorization: 'Bearer abc' }), own).ok).toBe(
+      true,
+    );
   });
 });

@@ -1,5 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { hashPassword, passwordProblem, verifyPassword, MAX_PASSWORD_BYTES } from '../../../src/lib/server/auth/passwords.ts';
+import {
+  hashPassword,
+  passwordProblem,
+  verifyPassword,
+  MAX_PASSWORD_BYTES,
+} from '../../../src/lib/server/auth/passwords.ts';
 
 describe('password rules', () => {
   it('wants at least 12 characters', () => {
@@ -26,7 +31,9 @@ describe('password rules', () => {
   });
 
   it('refuses a password containing the e-mail name', () => {
-    expect(passwordProblem('mira.halvorsen-2026', { email: 'mira.halvorsen@example.test' })).toBe('must not contain your e-mail address');
+    expect(passwordProblem('mira.halvorsen-2026', { email: 'mira.halvorsen@example.test' })).toBe(
+      'must not contain your e-mail address',
+    );
   });
 });
 

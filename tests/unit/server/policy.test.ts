@@ -1,14 +1,44 @@
 import { describe, expect, it } from 'vitest';
-import { authorize, can, canSee, type RecordObject, type RecordStatus } from '../../../src/lib/server/policy.ts';
-import { ForbiddenError, NotFoundError, UnauthorizedError } from '../../../src/lib/server/errors.ts';
-import { ANONYMOUS, type Principal, type Role, type UserPrincipal } from '../../../src/lib/shared/principal.ts';
+import {
+  authorize,
+  can,
+  canSee,
+  type RecordObject,
+  type RecordStatus,
+} from '../../../src/lib/server/policy.ts';
+import {
+  ForbiddenError,
+  NotFoundError,
+  UnauthorizedError,
+} from '../../../src/lib/server/errors.ts';
+import {
+  ANONYMOUS,
+  type Principal,
+  type Role,
+  type UserPrincipal,
+} from '../../../src/lib/shared/principal.ts';
 
 const NOW = new Date('2027-03-01T00:00:00Z');
 const LAB_A = 'lab-a';
 const LAB_B = 'lab-b';
 
-function user(id: string, role: Role, labs: [string, 'member' | 'manager'][] = [], scopes: ('read' | 'write')[] = ['read', 'write'], via: 'session' | 'token' = 'session'): UserPrincipal {
-  return { kind: 'user', id, email: `${id}@example.test`, name: null, role, labs: labs.map(([labId, role]) => ({ labId, slug: labId, name: labId, role })), via, scopes };
+function user(
+  id: string,
+  role: Role,
+  labs: [string, 'member' | 'manager'][] = [],
+  scopes: ('read' | 'write')[] = ['read', 'write'],
+  via: 'session' | 'token' = 'session',
+): UserPrincipal {
+  return {
+    kind: 'user',
+    id,
+    email: `${id}@example.test`,
+    name: null,
+    role,
+    labs: labs.map(([labId, role]) => ({ labId, slug: labId, name: labId, role })),
+    via,
+    scopes,
+  };
 }
 
 const P = {
@@ -24,7 +54,15 @@ const P = {
 type Who = keyof typeof P;
 const WHO = Object.keys(P) as Who[];
 
-const record = (status: RecordStatus, more: Partial<RecordObject> = {}): RecordObject => ({ type: 'record', status, visibility: 'public', embargoUntil: null, labId: LAB_A, ownerId: 'owner', ...more });
+const record = (status: RecordStatus, more: Partial<RecordObject> = {}): RecordObject => ({
+  type: 'record',
+  status,
+  visibility: 'public',
+  embargoUntil: null,
+  labId: LAB_A,
+  ownerId: 'owner',
+  ...more,
+});
 const readers = (r: RecordObject) => WHO.filter((w) => can(P[w], 'record.read', r, NOW));
 
 describe('record visibility', () => {
@@ -40,7 +78,9 @@ describe('record visibility', () => {
   });
 
   it('published lab records whose embargo has passed, or without one: everyone', () => {
-    expect(readers(record('published', { visibility: 'lab', embargoUntil: new Date('2027-01-01') }))).toEqual(WHO);
+    expect(
+      readers(record('published', { visibility: 'lab', embargoUntil: new Date('2027-01-01') })),
+    ).toEqual(WHO);
     expect(readers(record('published', { visibility: 'lab', embargoUntil: null }))).toEqual(WHO);
   });
 
@@ -58,15 +98,24 @@ describe('record visibility', () => {
   it('versions, raw files and reviews follow their record', () => {
     const r = record('draft');
     for (const w of WHO) {
-      expect(can(P[w], 'recordVersion.read', { type: 'recordVersion', record: r }, NOW)).toBe(can(P[w], 'record.read', r, NOW));
-      expect(can(P[w], 'rawFile.read', { type: 'rawFile', record: r }, NOW)).toBe(can(P[w], 'record.read', r, NOW));
-      expect(can(P[w], 'review.read', { type: 'review', record: r }, NOW)).toBe(can(P[w], 'record.read', r, NOW));
+      expect(can(P[w], 'recordVersion.read', { type: 'recordVersion', record: r }, NOW)).toBe(
+        can(P[w], 'record.read', r, NOW),
+      );
+      expect(can(P[w], 'rawFile.read', { type: 'rawFile', record: r }, NOW)).toBe(
+        can(P[w], 'record.read', r, NOW),
+      );
+      expect(can(P[w], 'review.read', { type: 'review', record: r }, NOW)).toBe(
+        can(P[w], 'record.read', r, NOW),
+      );
     }
   });
 });
 
 describe('record changes', () => {
-  const doers = (action: 'record.update' | 'record.submit' | 'record.review' | 'record.withdraw' | 'record.flag', r: RecordObject) => WHO.filter((w) => can(P[w], action, r, NOW));
+  const doers = (
+    action: 'record.update' | 'record.submit' | 'record.review' | 'record.withdraw' | 'record.flag',
+    r: RecordObject,
+  ) => WHO.filter((w) => can(P[w], action, r, NOW));
 
   it('edit and submit: owner or lab manager while draft or changes requested', () => {
     expect(doers('record.update', record('draft'))).toEqual(['owner', 'manager']);
@@ -81,7 +130,14 @@ describe('record changes', () => {
   });
 
   it('create: contributors and up', () => {
-    expect(WHO.filter((w) => can(P[w], 'record.create', null))).toEqual(['owner', 'labmate', 'manager', 'curator', 'admin', 'otherLab']);
+    expect(WHO.filter((w) => can(P[w], 'record.create', null))).toEqual([
+      'owner',
+      'labmate',
+      'manager',
+      'curator',
+      'admin',
+      'otherLab',
+    ]);
   });
 
   it('flag: signed-in readers of a published record', () => {
@@ -93,12 +149,19 @@ describe('record changes', () => {
 describe('labs, users and tokens', () => {
   const lab = { type: 'lab' as const, labId: LAB_A };
   it('lab members are for the lab and admins; managing is for managers and admins', () => {
-    expect(WHO.filter((w) => can(P[w], 'lab.members.read', lab))).toEqual(['owner', 'labmate', 'manager', 'admin']);
+    expect(WHO.filter((w) => can(P[w], 'lab.members.read', lab))).toEqual([
+      'owner',
+      'labmate',
+      'manager',
+      'admin',
+    ]);
     expect(WHO.filter((w) => can(P[w], 'lab.members.manage', lab))).toEqual(['manager', 'admin']);
   });
 
   it('admins change roles and disable accounts, but not their own', () => {
-    expect(WHO.filter((w) => can(P[w], 'user.setRole', { type: 'user', userId: 'reader' }))).toEqual(['admin']);
+    expect(
+      WHO.filter((w) => can(P[w], 'user.setRole', { type: 'user', userId: 'reader' })),
+    ).toEqual(['admin']);
     expect(can(P.admin, 'user.disable', { type: 'user', userId: 'admin' })).toBe(false);
   });
 
@@ -107,7 +170,9 @@ describe('labs, users and tokens', () => {
     expect(can(reading, 'token.create', null)).toBe(false);
     expect(can(reading, 'record.read', record('draft'), NOW)).toBe(true);
     expect(can(reading, 'record.update', record('draft'), NOW)).toBe(false);
-    expect(() => authorize(reading, 'record.update', record('draft'), { now: NOW })).toThrow(/write scope/);
+    expect(() => authorize(reading, 'record.update', record('draft'), { now: NOW })).toThrow(
+      /write scope/,
+    );
   });
 });
 
@@ -127,8 +192,12 @@ describe('authorize', () => {
   });
 
   it('401 for anonymous callers on visible objects, 403 for signed-in ones', () => {
-    expect(() => authorize(P.anon, 'record.flag', record('published'), { now: NOW })).toThrow(UnauthorizedError);
-    expect(() => authorize(P.reader, 'record.update', record('published'), { now: NOW })).toThrow(ForbiddenError);
+    expect(() => authorize(P.anon, 'record.flag', record('published'), { now: NOW })).toThrow(
+      UnauthorizedError,
+    );
+    expect(() => authorize(P.reader, 'record.update', record('published'), { now: NOW })).toThrow(
+      ForbiddenError,
+    );
     expect(() => authorize(P.owner, 'record.update', record('draft'), { now: NOW })).not.toThrow();
   });
 

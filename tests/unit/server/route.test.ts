@@ -20,13 +20,20 @@ async function problemOf(p: Promise<unknown>) {
 
 describe('readJson', () => {
   it('returns the parsed body', async () => {
-    await expect(readJson(body('{"name":"PC","count":2}'), schema)).resolves.toEqual({ name: 'PC', count: 2 });
+    await expect(readJson(body('{"name":"PC","count":2}'), schema)).resolves.toEqual({
+      name: 'PC',
+      count: 2,
+    });
   });
 
   it('names an extra field (mass assignment) and stores nothing', async () => {
-    const p = await problemOf(readJson(body('{"name":"PC","status":"published","role":"admin"}'), schema));
+    const p = await problemOf(
+      readJson(body('{"name":"PC","status":"published","role":"admin"}'), schema),
+    );
     expect(p.status).toBe(400);
-    expect(p.body.errors).toEqual([{ path: 'status, role', message: 'not an accepted field: status, role' }]);
+    expect(p.body.errors).toEqual([
+      { path: 'status, role', message: 'not an accepted field: status, role' },
+    ]);
   });
 
   it('refuses __proto__ keys before they reach any object', async () => {
@@ -41,15 +48,26 @@ describe('readJson', () => {
   });
 
   it('refuses malformed JSON, other content types and oversize bodies', async () => {
-    expect((await problemOf(readJson(body('{"name":'), schema))).body.detail).toBe('The body is not valid JSON.');
-    expect((await problemOf(readJson(body('name=x', 'application/x-www-form-urlencoded'), schema))).status).toBe(400);
-    expect((await problemOf(readJson(body(JSON.stringify({ name: 'x'.repeat(2000) })), schema, 1000))).status).toBe(413);
+    expect((await problemOf(readJson(body('{"name":'), schema))).body.detail).toBe(
+      'The body is not valid JSON.',
+    );
+    expect(
+      (await problemOf(readJson(body('name=x', 'application/x-www-form-urlencoded'), schema)))
+        .status,
+    ).toBe(400);
+    expect(
+      (await problemOf(readJson(body(JSON.stringify({ name: 'x'.repeat(2000) })), schema, 1000)))
+        .status,
+    ).toBe(413);
   });
 });
 
 describe('readQuery', () => {
   it('keeps repeated keys as arrays', () => {
-    const q = readQuery(new URL('http://x/?e=gc&e=pt&limit=5'), z.object({ e: z.array(z.string()), limit: z.coerce.number() }));
+    const q = readQuery(
+      new URL('http://x/?e=gc&e=pt&limit=5'),
+      z.object({ e: z.array(z.string()), limit: z.coerce.number() }),
+    );
     expect(q).toEqual({ e: ['gc', 'pt'], limit: 5 });
   });
 });
@@ -60,7 +78,11 @@ describe('toProblem', () => {
     expect(r.status).toBe(429);
     expect(r.headers.get('retry-after')).toBe('60');
     const c = toProblem(new ConflictError('already decided by Ana', { decidedBy: 'Ana' }));
-    expect(await c.json()).toMatchObject({ status: 409, detail: 'already decided by Ana', decidedBy: 'Ana' });
+    expect(await c.json()).toMatchObject({
+      status: 409,
+      detail: 'already decided by Ana',
+      decidedBy: 'Ana',
+    });
   });
 
   it('hides internal errors behind a plain 500', async () => {

@@ -1,10 +1,17 @@
 import { describe, expect, it } from 'vitest';
-import { hashSecret, looksLikeApiToken, newApiToken, randomSecret } from '../../../src/lib/server/auth/secrets.ts';
+import {
+  hashSecret,
+  looksLikeApiToken,
+  newApiToken,
+  randomSecret,
+} from '../../../src/lib/server/auth/secrets.ts';
 import { clientAddressOf, requestClientAddress } from '../../../src/lib/server/auth/throttle.ts';
 
 describe('token hashing', () => {
   it('is SHA-256 in lower-case hex (known value for "abc")', () => {
-    expect(hashSecret('abc')).toBe('ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad');
+    expect(hashSecret('abc')).toBe(
+      'ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad',
+    );
   });
 
   it('makes tokens of 256 random bits that look like tokens and never repeat', () => {
@@ -36,7 +43,9 @@ describe('client address for the sign-in limits', () => {
   });
 
   it('reads the peer address the server put on the request, not what the client claims', () => {
-    const req = new Request('http://x/', { headers: { 'x-edgewise-peer': '192.0.2.7', 'x-forwarded-for': '198.51.100.1' } });
+    const req = new Request('http://x/', {
+      headers: { 'x-edgewise-peer': '192.0.2.7', 'x-forwarded-for': '198.51.100.1' },
+    });
     expect(requestClientAddress(req, false)).toBe('192.0.2.7');
     expect(requestClientAddress(req, true)).toBe('198.51.100.1');
     expect(requestClientAddress(new Request('http://x/'), false)).toBe('unknown');

@@ -8,7 +8,10 @@ function manualReads() {
   const read = () =>
     new Promise<number>((resolve, reject) => {
       const n = started.length + 1;
-      started.push({ n, finish: (ok) => (ok ? resolve(n) : reject(new Error(`read ${n} failed`))) });
+      started.push({
+        n,
+        finish: (ok) => (ok ? resolve(n) : reject(new Error(`read ${n} failed`))),
+      });
     });
   return { started, read };
 }

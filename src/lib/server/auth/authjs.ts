@@ -8,7 +8,12 @@ import type { Kysely } from 'kysely';
 import { config } from '../config.ts';
 import { db } from '../db/index.ts';
 import { insertAuditEvent } from '../repositories/audit.ts';
-import { bumpSessionVersion, findPasswordHash, findUserByEmail, findUserById } from '../repositories/users.ts';
+import {
+  bumpSessionVersion,
+  findPasswordHash,
+  findUserByEmail,
+  findUserById,
+} from '../repositories/users.ts';
 import { assertMailRequestAllowed, mayMail } from './mail-limits.ts';
 import { mailSignInLink } from './mails.ts';
 import { burnPasswordCheck, verifyPassword } from './passwords.ts';
@@ -27,7 +32,8 @@ export const AUTH_BASE = '/api/auth';
 export const SESSION_MAX_AGE_SECONDS = 14 * 24 * 60 * 60;
 
 const secureCookies = () => new URL(config().PUBLIC_ORIGIN).protocol === 'https:';
-export const sessionCookieName = () => (secureCookies() ? '__Secure-authjs.session-token' : 'authjs.session-token');
+export const sessionCookieName = () =>
+  secureCookies() ? '__Secure-authjs.session-token' : 'authjs.session-token';
 
 class Unconfirmed extends CredentialsSignin {
   override code = 'unconfirmed';
@@ -63,7 +69,12 @@ export function authConfig(): AuthConfig {
     skipCSRFCheck,
     adapter: KyselyAdapter(db() as unknown as Kysely<AdapterDatabase>),
     session: { strategy: 'jwt', maxAge: SESSION_MAX_AGE_SECONDS },
-    pages: { signIn: '/signin', error: '/signin', verifyRequest: '/signin/check-email', signOut: '/signout' },
+    pages: {
+      signIn: '/signin',
+      error: '/signin',
+      verifyRequest: '/signin/check-email',
+      signOut: '/signout',
+    },
     providers: [
       Credentials({
         id: 'credentials',
@@ -77,14 +88,20 @@ export function authConfig(): AuthConfig {
       }),
       Nodemailer({
         id: 'email',
-        server: { host: c.SMTP_HOST, port: c.SMTP_PORT, secure: false, ignoreTLS: c.APP_ENV !== 'production' },
+        server: {
+          host: c.SMTP_HOST,
+          port: c.SMTP_PORT,
+          secure: false,
+          ignoreTLS: c.APP_ENV !== 'production',
+        },
         from: c.MAIL_FROM,
         maxAge: 15 * 60,
         // The mailed link opens our page, whose button signs in (a GET changes nothing, so mail
         // scanners that follow links cannot use up the one-time token). Over the address's mail
         // limit nothing is sent and the answer stays the same (see mail-limits.ts).
         sendVerificationRequest: async ({ identifier, url }) => {
-          if (await mayMail(db(), 'sign-in-link', identifier)) await mailSignInLink(identifier, signInLinkPage(url));
+          if (await mayMail(db(), 'sign-in-link', identifier))
+            await mailSignInLink(identifier, signInLinkPage(url));
         },
       }),
     ],
@@ -113,7 +130,14 @@ export function authConfig(): AuthConfig {
         if (sub) await bumpSessionVersion(db(), sub);
       },
       async signIn({ user, account }) {
-        if (user.id) await insertAuditEvent(db(), { actorId: user.id, action: 'account.signin', subjectType: 'user', subjectId: user.id, details: { method: account?.provider ?? 'unknown' } });
+        if (user.id)
+          await insertAuditEvent(db(), {
+            actorId: user.id,
+            action: 'account.signin',
+            subjectType: 'user',
+            subjectId: user.id,
+            details: { method: account?.provider ?? 'unknown' },
+          });
       },
     },
   };
@@ -121,10 +145,18 @@ export function authConfig(): AuthConfig {
 }
 
 /** The session token's claims, or null (no cookie, bad signature, expired). */
-export async function readSessionToken(cookieHeader: string | null): Promise<{ sub: string; sv: number } | null> {
+export async function readSessionToken(
+  cookieHeader: string | null,
+): Promise<{ sub: string; sv: number } | null> {
   if (!cookieHeader) return null;
   const headers = new Headers({ cookie: cookieHeader });
-  const token = await getToken({ req: { headers }, secret: config().AUTH_SECRET, secureCookie: secureCookies(), salt: sessionCookieName(), cookieName: sessionCookieName() });
+  const token = await getToken({
+    req: { headers },
+    secret: config().AUTH_SECRET,
+    secureCookie: secureCookies(),
+    salt: sessionCookieName(),
+    cookieName: sessionCookieName(),
+  });
   if (!token || typeof token.sub !== 'string' || typeof token.sv !== 'number') return null;
   return { sub: token.sub, sv: token.sv };
 }
@@ -134,18 +166,27 @@ export async function readSessionToken(cookieHeader: string | null): Promise<{ s
  * client address has too many recent failures, and a failure is counted when Auth.js refuses it;
  * a request for a sign-in link counts against the client's mail limit (429 when it is full).
  */
-export async function handleAuthRequest(request: Request, clientAddress: string): Promise<Response> {
+export async function handleAuthRequest(
+  request: Request,
+  clientAddress: string,
+): Promise<Response> {
   const url = new URL(request.url);
   const action = authAction(url.pathname);
   if (request.method === 'GET' && action === 'callback/email') {
-    return new Response(null, { status: 302, headers: { location: signInLinkPage(url.toString()) } });
+    return new Response(null, {
+      status: 302,
+      headers: { location: signInLinkPage(url.toString()) },
+    });
   }
   if (request.method === 'POST' && action === 'signin/email') {
     await assertMailRequestAllowed(db(), clientAddress);
     return Auth(request, authConfig());
   }
   if (request.method === 'POST' && action === 'callback/credentials') {
-    const form = await request.clone().formData().catch(() => null);
+    const form = await request
+      .clone()
+      .formData()
+      .catch(() => null);
     const email = String(form?.get('email') ?? '').slice(0, 320);
     await assertSignInAllowed(db(), email, clientAddress);
     const response = await Auth(request, authConfig());
@@ -176,18 +217,23 @@ function isCredentialsFailure(response: Response): boolean {
   const location = response.headers.get('location');
   if (!location) return false;
   const params = new URL(location, 'http://x').searchParams;
-  return params.get('error') === 'CredentialsSignin' && (params.get('code') ?? 'credentials') === 'credentials';
+  return (
+    params.get('error') === 'CredentialsSignin' &&
+    (params.get('code') ?? 'credentials') === 'credentials'
+  );
 }
 
 /** Why a credentials sign-in was refused, for the sign-in page. */
 export function signInErrorMessage(error: string | null, code: string | null): string | null {
   if (!error) return null;
   if (error === 'CredentialsSignin') {
-    if (code === 'unconfirmed') return 'Confirm your address first: follow the link in the e-mail we sent when you signed up.';
+    if (code === 'unconfirmed')
+      return 'Confirm your address first: follow the link in the e-mail we sent when you signed up.';
     if (code === 'disabled') return 'This account is disabled. Ask an administrator.';
     return 'That e-mail and password do not match an account.';
   }
-  if (error === 'Verification') return 'That sign-in link has expired or was already used. Ask for a new one.';
+  if (error === 'Verification')
+    return 'That sign-in link has expired or was already used. Ask for a new one.';
   if (error === 'AccessDenied') return 'This account may not sign in.';
   return 'Signing in did not work. Try again.';
 }

@@ -32,12 +32,21 @@ export type LimitedMail = 'signup' | 'password-reset' | 'sign-in-link';
 /** Counts a mail-sending request from a client; throws TooManyRequestsError when its hour is full. */
 export async function assertMailRequestAllowed(db: Db, clientAddress: string): Promise<void> {
   const a = await takeAllowance(db, `client:${clientAddress}`, requestsPerClient(), WINDOW_SECONDS);
-  if (!a.taken) throw new TooManyRequestsError(a.retryAfterSeconds, 'Too many e-mail requests from your network; wait before trying again.');
+  if (!a.taken)
+    throw new TooManyRequestsError(
+      a.retryAfterSeconds,
+      'Too many e-mail requests from your network; wait before trying again.',
+    );
 }
 
 /** Counts one message of `kind` to `to` and answers true, or false (send nothing) when the address's hour is full. */
 export async function mayMail(db: Db, kind: LimitedMail, to: string): Promise<boolean> {
-  const a = await takeAllowance(db, `address:${kind}:${to.trim().toLowerCase()}`, MESSAGES_PER_ADDRESS, WINDOW_SECONDS);
+  const a = await takeAllowance(
+    db,
+    `address:${kind}:${to.trim().toLowerCase()}`,
+    MESSAGES_PER_ADDRESS,
+    WINDOW_SECONDS,
+  );
   return a.taken;
 }
 

@@ -58,7 +58,11 @@ export async function mailPasswordChanged(to: string): Promise<void> {
 
 /** Tells a person about a change an administrator or lab manager made to their account. */
 export async function mailAccountChange(to: string, subject: string, what: string): Promise<void> {
-  await post('account.change', { to, subject, text: `${what}\n\nYour account: ${linkTo('/account')}${sign}` });
+  await post('account.change', {
+    to,
+    subject,
+    text: `${what}\n\nYour account: ${linkTo('/account')}${sign}`,
+  });
 }
 
 /** Queues one message for delivery. */

@@ -7,7 +7,11 @@ import { requestClientAddress } from './throttle.ts';
 // The sign-in pages post to themselves and hand the work to Auth.js with a request of their own,
 // so they can show Edgewise's pages (errors, 429) instead of the library's.
 
-export function callAuth(astro: AstroGlobal, action: string, fields: Record<string, string>): Promise<Response> {
+export function callAuth(
+  astro: AstroGlobal,
+  action: string,
+  fields: Record<string, string>,
+): Promise<Response> {
   const url = new URL(`${AUTH_BASE}/${action}`, astro.url);
   const request = new Request(url, {
     method: 'POST',
@@ -35,7 +39,10 @@ type PageAction = { [A in Action]: null extends ActionObjects[A] ? A : never }[A
  * it), the page is never cached, and with an `action` it says whether the principal may take it
  * — the page then answers 403 when not (and shows why).
  */
-export function signedInPage(astro: AstroGlobal, action?: PageAction): Response | { principal: UserPrincipal; allowed: boolean } {
+export function signedInPage(
+  astro: AstroGlobal,
+  action?: PageAction,
+): Response | { principal: UserPrincipal; allowed: boolean } {
   const principal = astro.locals.principal;
   if (principal.kind !== 'user') return toSignIn(astro);
   astro.response.headers.set('cache-control', 'private, no-store');

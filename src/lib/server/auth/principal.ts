@@ -9,8 +9,23 @@ import { hashSecret, looksLikeApiToken } from './secrets.ts';
 // Who is asking, decided on every request from the database: the cookie or token only says
 // which account; the account's state, role and labs are read fresh each time.
 
-function toPrincipal(u: SessionUser, via: 'session' | 'token', scopes: Scope[], tokenId?: string): Principal {
-  return { kind: 'user', id: u.id, email: u.email, name: u.name, role: u.role, labs: u.labs, via, scopes, ...(tokenId ? { tokenId } : {}) };
+function toPrincipal(
+  u: SessionUser,
+  via: 'session' | 'token',
+  scopes: Scope[],
+  tokenId?: string,
+): Principal {
+  return {
+    kind: 'user',
+    id: u.id,
+    email: u.email,
+    name: u.name,
+    role: u.role,
+    labs: u.labs,
+    via,
+    scopes,
+    ...(tokenId ? { tokenId } : {}),
+  };
 }
 
 /**
@@ -24,11 +39,19 @@ export async function resolvePrincipal(request: Request): Promise<Principal> {
     const m = /^Bearer\s+(\S+)\s*$/i.exec(auth);
     if (!m) throw new UnauthorizedError('The Authorization header must be "Bearer <token>".');
     const secret = m[1]!;
-    const token = looksLikeApiToken(secret) ? await findLiveApiToken(db(), hashSecret(secret)) : null;
+    const token = looksLikeApiToken(secret)
+      ? await findLiveApiToken(db(), hashSecret(secret))
+      : null;
     const user = token ? await findSessionUser(db(), token.userId) : null;
-    if (!token || !user || user.disabled) throw new UnauthorizedError('The API token is not valid, has expired or was revoked.');
+    if (!token || !user || user.disabled)
+      throw new UnauthorizedError('The API token is not valid, has expired or was revoked.');
     await touchApiToken(db(), token.id);
-    return toPrincipal(user, 'token', token.scopes.filter((s): s is Scope => s === 'read' || s === 'write'), token.id);
+    return toPrincipal(
+      user,
+      'token',
+      token.scopes.filter((s): s is Scope => s === 'read' || s === 'write'),
+      token.id,
+    );
   }
   const claims = await readSessionToken(request.headers.get('cookie'));
   if (!claims) return ANONYMOUS;

@@ -24,4 +24,3 @@ export function hashSecret(secret: string): string {
 export function looksLikeApiToken(text: string): boolean {
   return /^ew_[A-Za-z0-9_-]{43}$/.test(text);
 }
-

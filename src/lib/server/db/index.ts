@@ -13,7 +13,12 @@ let instance: Db | undefined;
 
 /** Creates a Kysely instance over its own pool (scripts and tests that need a second one). */
 export function createDb(connectionString: string, max = 10): Db {
-  const pool = new pg.Pool({ connectionString, max, connectionTimeoutMillis: 5_000, idleTimeoutMillis: 30_000 });
+  const pool = new pg.Pool({
+    connectionString,
+    max,
+    connectionTimeoutMillis: 5_000,
+    idleTimeoutMillis: 30_000,
+  });
   // A dropped connection (server restart) must not crash the process; the pool replaces it.
   pool.on('error', () => {});
   return new Kysely<Database>({ dialect: new PostgresDialect({ pool }) });

@@ -124,7 +124,13 @@ export interface ApiTokenTable {
 
 type Json<T = unknown> = ColumnType<T, string, string>;
 
-export type VocabularyKind = 'solvent' | 'salt' | 'additive' | 'electrode-material' | 'reference-electrode' | 'separator';
+export type VocabularyKind =
+  | 'solvent'
+  | 'salt'
+  | 'additive'
+  | 'electrode-material'
+  | 'reference-electrode'
+  | 'separator';
 
 export interface VocabularyTermTable {
   id: string;

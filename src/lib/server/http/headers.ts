@@ -22,7 +22,10 @@ const pageDirectives: [string, string][] = [
 
 /** Astro's policy (if any) plus the page directives it does not set. */
 export function pagePolicy(existing: string | null): string {
-  const parts = (existing ?? '').split(';').map((d) => d.trim()).filter(Boolean);
+  const parts = (existing ?? '')
+    .split(';')
+    .map((d) => d.trim())
+    .filter(Boolean);
   const named = new Set(parts.map((d) => d.split(/\s+/)[0]!.toLowerCase()));
   for (const [name, value] of pageDirectives) if (!named.has(name)) parts.push(`${name} ${value}`);
   return parts.join('; ');
@@ -31,7 +34,10 @@ export function pagePolicy(existing: string | null): string {
 /** Adds the security headers in place (responses from Astro's router are mutable). */
 export function applySecurityHeaders(headers: Headers, opts: { https: boolean }): void {
   const isHtml = (headers.get('content-type') ?? '').includes('text/html');
-  headers.set('Content-Security-Policy', isHtml ? pagePolicy(headers.get('Content-Security-Policy')) : apiPolicy);
+  headers.set(
+    'Content-Security-Policy',
+    isHtml ? pagePolicy(headers.get('Content-Security-Policy')) : apiPolicy,
+  );
   headers.set('X-Content-Type-Options', 'nosniff');
   headers.set('Referrer-Policy', 'strict-origin-when-cross-origin');
   headers.set('X-Frame-Options', 'DENY');

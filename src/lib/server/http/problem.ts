@@ -14,7 +14,11 @@ export interface Problem {
 export function problem(p: Problem, init: { headers?: Record<string, string> } = {}): Response {
   return new Response(JSON.stringify({ type: 'about:blank', ...p }), {
     status: p.status,
-    headers: { 'content-type': 'application/problem+json; charset=utf-8', 'cache-control': 'no-store', ...init.headers },
+    headers: {
+      'content-type': 'application/problem+json; charset=utf-8',
+      'cache-control': 'no-store',
+      ...init.headers,
+    },
   });
 }
 
@@ -24,10 +28,18 @@ export function json(body: unknown, status = 200, headers: Record<string, string
 }
 
 /** A JSON response from text that is already serialised. */
-export function jsonText(text: string, status = 200, headers: Record<string, string> = {}): Response {
+export function jsonText(
+  text: string,
+  status = 200,
+  headers: Record<string, string> = {},
+): Response {
   return new Response(text, {
     status,
-    headers: { 'content-type': 'application/json; charset=utf-8', 'cache-control': 'no-store', ...headers },
+    headers: {
+      'content-type': 'application/json; charset=utf-8',
+      'cache-control': 'no-store',
+      ...headers,
+    },
   });
 }
 
@@ -36,12 +48,22 @@ export function jsonText(text: string, status = 200, headers: Record<string, str
  * tag, gzip when the client takes it. Stored by the client only privately and always
  * revalidated, since what a search shows depends on who asks.
  */
-export function cachedJson(request: Request, answer: { body: Uint8Array<ArrayBuffer>; gzip: Uint8Array<ArrayBuffer>; etag: string }): Response {
+export function cachedJson(
+  request: Request,
+  answer: { body: Uint8Array<ArrayBuffer>; gzip: Uint8Array<ArrayBuffer>; etag: string },
+): Response {
   const gzip = /\bgzip\b/i.test(request.headers.get('accept-encoding') ?? '');
   const etag = gzip ? `${answer.etag.slice(0, -1)}-gz"` : answer.etag;
-  const headers: Record<string, string> = { etag, 'cache-control': 'private, no-cache', vary: 'Accept-Encoding, Cookie, Authorization' };
-  const held = (request.headers.get('if-none-match') ?? '').split(',').map((t) => t.trim().replace(/^W\//, ''));
-  if (held.includes(etag) || held.includes('*')) return new Response(null, { status: 304, headers });
+  const headers: Record<string, string> = {
+    etag,
+    'cache-control': 'private, no-cache',
+    vary: 'Accept-Encoding, Cookie, Authorization',
+  };
+  const held = (request.headers.get('if-none-match') ?? '')
+    .split(',')
+    .map((t) => t.trim().replace(/^W\//, ''));
+  if (held.includes(etag) || held.includes('*'))
+    return new Response(null, { status: 304, headers });
   const bytes = gzip ? answer.gzip : answer.body;
   // A stream over the held bytes: a byte-array body would be copied for every response.
   const body = new ReadableStream<Uint8Array>({
@@ -52,6 +74,11 @@ export function cachedJson(request: Request, answer: { body: Uint8Array<ArrayBuf
   });
   return new Response(body, {
     status: 200,
-    headers: { ...headers, 'content-type': 'application/json; charset=utf-8', 'content-length': String(bytes.byteLength), ...(gzip ? { 'content-encoding': 'gzip' } : {}) },
+    headers: {
+      ...headers,
+      'content-type': 'application/json; charset=utf-8',
+      'content-length': String(bytes.byteLength),
+      ...(gzip ? { 'content-encoding': 'gzip' } : {}),
+    },
   });
 }

@@ -20,20 +20,52 @@ export function endpoint(fn: (ctx: APIContext) => Promise<Response> | Response):
 export function toProblem(err: unknown, instance?: string): Response {
   if (err instanceof AppError) {
     const { retryAfterSeconds, ...extra } = err.extra;
-    const headers: Record<string, string> = retryAfterSeconds ? { 'retry-after': String(retryAfterSeconds) } : {};
-    return problem({ title: err.title, status: err.status, detail: err.message, instance, ...extra }, { headers });
+    const headers: Record<string, string> = retryAfterSeconds
+      ? { 'retry-after': String(retryAfterSeconds) }
+      : {};
+    return problem(
+      { title: err.title, status: err.status, detail: err.message, instance, ...extra },
+      { headers },
+    );
   }
   if (err instanceof z.ZodError) {
-    return problem({ title: 'Invalid request', status: 400, detail: 'The request has invalid fields.', instance, errors: zodErrors(err) });
+    return problem({
+      title: 'Invalid request',
+      status: 400,
+      detail: 'The request has invalid fields.',
+      instance,
+      errors: zodErrors(err),
+    });
   }
   if (err instanceof StorageUnavailableError) {
-    return problem({ title: 'Service unavailable', status: 503, detail: 'Object storage is unavailable; try again shortly.', instance }, { headers: { 'retry-after': '5' } });
+    return problem(
+      {
+        title: 'Service unavailable',
+        status: 503,
+        detail: 'Object storage is unavailable; try again shortly.',
+        instance,
+      },
+      { headers: { 'retry-after': '5' } },
+    );
   }
   if (isDatabaseDown(err)) {
-    return problem({ title: 'Service unavailable', status: 503, detail: 'The database is unavailable; try again shortly.', instance }, { headers: { 'retry-after': '5' } });
+    return problem(
+      {
+        title: 'Service unavailable',
+        status: 503,
+        detail: 'The database is unavailable; try again shortly.',
+        instance,
+      },
+      { headers: { 'retry-after': '5' } },
+    );
   }
   console.error(`[edgewise] unhandled error on ${instance ?? '?'}:`, err);
-  return problem({ title: 'Internal error', status: 500, detail: 'Something went wrong on our side.', instance });
+  return problem({
+    title: 'Internal error',
+    status: 500,
+    detail: 'Something went wrong on our side.',
+    instance,
+  });
 }
 
 /** zod issues as field paths (`salts.0.concentration`) with messages. */
@@ -42,7 +74,10 @@ export function zodErrors(err: z.ZodError): FieldError[] {
     const base = i.path.map(String).join('.');
     // Unknown keys (mass assignment attempts) are named individually.
     if (i.code === 'unrecognized_keys') {
-      return { path: i.keys.map((k) => (base ? `${base}.${k}` : k)).join(', '), message: `not an accepted field: ${i.keys.join(', ')}` };
+      return {
+        path: i.keys.map((k) => (base ? `${base}.${k}` : k)).join(', '),
+        message: `not an accepted field: ${i.keys.join(', ')}`,
+      };
     }
     return { path: base || '(body)', message: i.message };
   });
@@ -51,12 +86,19 @@ export function zodErrors(err: z.ZodError): FieldError[] {
 const JSON_LIMIT = 1024 * 1024;
 
 /** Reads a JSON body (≤ 1 MiB) and parses it with a schema; 400/413 with field paths otherwise. */
-export async function readJson<S extends z.ZodType>(request: Request, schema: S, limitBytes = JSON_LIMIT): Promise<z.infer<S>> {
+export async function readJson<S extends z.ZodType>(
+  request: Request,
+  schema: S,
+  limitBytes = JSON_LIMIT,
+): Promise<z.infer<S>> {
   const declared = Number(request.headers.get('content-length') ?? 0);
   if (declared > limitBytes) throw new PayloadTooLargeError(limitBytes);
   const type = (request.headers.get('content-type') ?? '').toLowerCase();
   if (!type.startsWith('application/json')) {
-    throw new ValidationError([{ path: '(body)', message: 'send application/json' }], 'The body must be JSON.');
+    throw new ValidationError(
+      [{ path: '(body)', message: 'send application/json' }],
+      'The body must be JSON.',
+    );
   }
   const text = await readLimitedText(request, limitBytes);
   let data: unknown;
@@ -70,7 +112,10 @@ export async function readJson<S extends z.ZodType>(request: Request, schema: S,
     });
   } catch (err) {
     if (err instanceof ValidationError) throw err;
-    throw new ValidationError([{ path: '(body)', message: `malformed JSON: ${(err as Error).message}` }], 'The body is not valid JSON.');
+    throw new ValidationError(
+      [{ path: '(body)', message: `malformed JSON: ${(err as Error).message}` }],
+      'The body is not valid JSON.',
+    );
   }
   const parsed = schema.safeParse(data);
   if (!parsed.success) throw new ValidationError(zodErrors(parsed.error));
@@ -109,14 +154,16 @@ export function readQuery<S extends z.ZodType>(url: URL, schema: S): z.infer<S> 
     raw[key] = all.length > 1 ? all : all[0]!;
   }
   const parsed = schema.safeParse(raw);
-  if (!parsed.success) throw new ValidationError(zodErrors(parsed.error), 'The query has invalid parameters.');
+  if (!parsed.success)
+    throw new ValidationError(zodErrors(parsed.error), 'The query has invalid parameters.');
   return parsed.data;
 }
 
 function isDatabaseDown(err: unknown): boolean {
   const e = err as { code?: string; message?: string };
   return (
-    ['ECONNREFUSED', 'ECONNRESET', '57P01', '57P02', '57P03', '08006', '08001', '08003'].includes(e?.code ?? '') ||
-    /Connection terminated|timeout exceeded when trying to connect/.test(e?.message ?? '')
+    ['ECONNREFUSED', 'ECONNRESET', '57P01', '57P02', '57P03', '08006', '08001', '08003'].includes(
+      e?.code ?? '',
+    ) || /Connection terminated|timeout exceeded when trying to connect/.test(e?.message ?? '')
   );
 }

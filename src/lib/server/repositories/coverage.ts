@@ -18,13 +18,23 @@ export interface CoverageCountRow {
  * several salts or solvents counts once in each pair it contains, as the records filter
  * `component=salt&component=solvent` finds it; a record without salts or solvents has null there.
  */
-export async function coverageCounts(db: DbOrTrx, scope: ReadScope, f: { statuses: readonly string[]; methods?: string[]; cellTypes?: string[] }): Promise<CoverageCountRow[]> {
+export async function coverageCounts(
+  db: DbOrTrx,
+  scope: ReadScope,
+  f: { statuses: readonly string[]; methods?: string[]; cellTypes?: string[] },
+): Promise<CoverageCountRow[]> {
   const extra = [
     f.methods?.length ? sql`AND s.method = ANY(${sql.val(f.methods)}::text[])` : sql``,
     f.cellTypes?.length ? sql`AND s.cell_type = ANY(${sql.val(f.cellTypes)}::text[])` : sql``,
   ];
   // record_search (alias s, as `readable` expects) holds each record's current version's columns.
-  const r = await sql<{ salt: string | null; solvent: string | null; electrode: string; evidence: string; n: string }>`
+  const r = await sql<{
+    salt: string | null;
+    solvent: string | null;
+    electrode: string;
+    evidence: string;
+    n: string;
+  }>`
     SELECT su.salt, so.solvent, s.we_material_id AS electrode, s.evidence_level AS evidence, count(*) AS n
     FROM record_search s
     CROSS JOIN LATERAL unnest(CASE WHEN cardinality(s.salt_ids) > 0 THEN s.salt_ids ELSE ARRAY[NULL]::text[] END) AS su(salt)

@@ -6,7 +6,8 @@ import type { VersionRow } from './records.ts';
 // proposed terms, reference-value history, the audit log and a user's notifications.
 
 /** How a person is shown to others: their name, else the part of the address before the @. */
-const displayName = (name: string, email: string) => sql<string>`coalesce(nullif(${sql.ref(name)}, ''), split_part(${sql.ref(email)}, '@', 1))`;
+const displayName = (name: string, email: string) =>
+  sql<string>`coalesce(nullif(${sql.ref(name)}, ''), split_part(${sql.ref(email)}, '@', 1))`;
 
 // ---- claims ----
 
@@ -23,7 +24,13 @@ export async function liveClaim(db: DbOrTrx, recordId: string): Promise<ClaimRow
   return db
     .selectFrom('review_claims as c')
     .innerJoin('User as u', 'u.id', 'c.curator_id')
-    .select(['c.record_id', 'c.curator_id', displayName('u.name', 'u.email').as('curator_name'), 'c.claimed_at', 'c.expires_at'])
+    .select([
+      'c.record_id',
+      'c.curator_id',
+      displayName('u.name', 'u.email').as('curator_name'),
+      'c.claimed_at',
+      'c.expires_at',
+    ])
     .where('c.record_id', '=', recordId)
     .where('c.expires_at', '>', sql<Date>`now()`)
     .executeTakeFirst();
@@ -33,7 +40,12 @@ export async function liveClaim(db: DbOrTrx, recordId: string): Promise<ClaimRow
  * Takes (or extends) the claim on a record for `minutes`; succeeds when there is no claim, it
  * has expired, or it is the same curator's. False when another curator holds a live claim.
  */
-export async function takeClaim(db: DbOrTrx, recordId: string, curatorId: string, minutes: number): Promise<boolean> {
+export async function takeClaim(
+  db: DbOrTrx,
+  recordId: string,
+  curatorId: string,
+  minutes: number,
+): Promise<boolean> {
   const r = await sql<{ record_id: string }>`
     INSERT INTO review_claims AS c (record_id, curator_id, claimed_at, expires_at)
     VALUES (${recordId}, ${curatorId}, now(), now() + make_interval(mins => ${minutes}))
@@ -47,7 +59,11 @@ export async function takeClaim(db: DbOrTrx, recordId: string, curatorId: string
 }
 
 /** Removes a curator's claim; how many rows went (0 or 1). */
-export async function dropClaim(db: DbOrTrx, recordId: string, curatorId?: string): Promise<number> {
+export async function dropClaim(
+  db: DbOrTrx,
+  recordId: string,
+  curatorId?: string,
+): Promise<number> {
   let q = db.deleteFrom('review_claims').where('record_id', '=', recordId);
   if (curatorId) q = q.where('curator_id', '=', curatorId);
   const r = await q.executeTakeFirst();
@@ -56,11 +72,22 @@ export async function dropClaim(db: DbOrTrx, recordId: string, curatorId?: strin
 
 // ---- reviews with reviewers and comments ----
 
-export async function insertComments(db: DbOrTrx, reviewId: string, comments: { path: string; message: string }[]): Promise<void> {
+export async function insertComments(
+  db: DbOrTrx,
+  reviewId: string,
+  comments: { path: string; message: string }[],
+): Promise<void> {
   if (comments.length === 0) return;
   await db
     .insertInto('review_comments')
-    .values(comments.map((c, i) => ({ review_id: reviewId, position: i, path: c.path, message: c.message })))
+    .values(
+      comments.map((c, i) => ({
+        review_id: reviewId,
+        position: i,
+        path: c.path,
+        message: c.message,
+      })),
+    )
     .execute();
 }
 
@@ -79,7 +106,14 @@ export async function reviewsOf(db: DbOrTrx, recordId: string): Promise<ReviewWi
   const rows = await db
     .selectFrom('reviews as v')
     .innerJoin('User as u', 'u.id', 'v.reviewer_id')
-    .select(['v.id', 'v.version', 'v.decision', 'v.reason', 'v.created_at', displayName('u.name', 'u.email').as('reviewer')])
+    .select([
+      'v.id',
+      'v.version',
+      'v.decision',
+      'v.reason',
+      'v.created_at',
+      displayName('u.name', 'u.email').as('reviewer'),
+    ])
     .where('v.record_id', '=', recordId)
     .orderBy('v.created_at')
     .execute();
@@ -94,7 +128,12 @@ export async function reviewsOf(db: DbOrTrx, recordId: string): Promise<ReviewWi
     )
     .orderBy('position')
     .execute();
-  return rows.map((r) => ({ ...r, comments: comments.filter((c) => c.review_id === r.id).map((c) => ({ path: c.path, message: c.message })) }));
+  return rows.map((r) => ({
+    ...r,
+    comments: comments
+      .filter((c) => c.review_id === r.id)
+      .map((c) => ({ path: c.path, message: c.message })),
+  }));
 }
 
 // ---- the queue ----
@@ -136,11 +175,23 @@ function queueWhere(f: QueueFilter, curatorId: string) {
   const c = [sql<SqlBool>`r.status = 'submitted'`];
   if (f.labSlugs?.length) c.push(sql<SqlBool>`l.slug = ANY(${sql.val(f.labSlugs)}::text[])`);
   if (f.methods?.length) c.push(sql<SqlBool>`v.method = ANY(${sql.val(f.methods)}::text[])`);
-  if (f.evidence?.length) c.push(sql<SqlBool>`v.evidence_level = ANY(${sql.val(f.evidence)}::text[])`);
-  if (f.hasRaw !== undefined) c.push(f.hasRaw ? sql<SqlBool>`cardinality(v.raw_file_ids) > 0` : sql<SqlBool>`cardinality(v.raw_file_ids) = 0`);
-  if (f.disagreement !== undefined) c.push(f.disagreement ? sql<SqlBool>`coalesce(${gap} > ${AGREEMENT_V}::float8, false)` : sql<SqlBool>`NOT coalesce(${gap} > ${AGREEMENT_V}::float8, false)`);
+  if (f.evidence?.length)
+    c.push(sql<SqlBool>`v.evidence_level = ANY(${sql.val(f.evidence)}::text[])`);
+  if (f.hasRaw !== undefined)
+    c.push(
+      f.hasRaw
+        ? sql<SqlBool>`cardinality(v.raw_file_ids) > 0`
+        : sql<SqlBool>`cardinality(v.raw_file_ids) = 0`,
+    );
+  if (f.disagreement !== undefined)
+    c.push(
+      f.disagreement
+        ? sql<SqlBool>`coalesce(${gap} > ${AGREEMENT_V}::float8, false)`
+        : sql<SqlBool>`NOT coalesce(${gap} > ${AGREEMENT_V}::float8, false)`,
+    );
   if (f.claimed === 'mine') c.push(sql<SqlBool>`c.curator_id = ${curatorId}`);
-  if (f.claimed === 'others') c.push(sql<SqlBool>`c.curator_id IS NOT NULL AND c.curator_id <> ${curatorId}`);
+  if (f.claimed === 'others')
+    c.push(sql<SqlBool>`c.curator_id IS NOT NULL AND c.curator_id <> ${curatorId}`);
   if (f.claimed === 'none') c.push(sql<SqlBool>`c.curator_id IS NULL`);
   return sql.join(c, sql` AND `);
 }
@@ -161,7 +212,12 @@ export type QueueRow = VersionRow & {
 };
 
 /** Submitted records, oldest first (the submission is the last change of a submitted record). */
-export async function queueRows(db: DbOrTrx, f: QueueFilter, curatorId: string, page: { limit: number; offset: number }): Promise<{ rows: QueueRow[]; total: number }> {
+export async function queueRows(
+  db: DbOrTrx,
+  f: QueueFilter,
+  curatorId: string,
+  page: { limit: number; offset: number },
+): Promise<{ rows: QueueRow[]; total: number }> {
   const where = queueWhere(f, curatorId);
   const rows = await sql<QueueRow & { search?: unknown }>`
     SELECT v.*, v.embargo_until::text AS embargo_until, r.handle, r.status, r.owner_id, ${displayName('o.name', 'o.email')} AS owner_name,
@@ -171,7 +227,9 @@ export async function queueRows(db: DbOrTrx, f: QueueFilter, curatorId: string, 
     FROM ${QUEUE_FROM} WHERE ${where}
     ORDER BY r.updated_at, r.handle
     LIMIT ${page.limit} OFFSET ${page.offset}`.execute(db);
-  const total = await sql<{ n: string }>`SELECT count(*) AS n FROM ${QUEUE_FROM} WHERE ${where}`.execute(db);
+  const total = await sql<{
+    n: string;
+  }>`SELECT count(*) AS n FROM ${QUEUE_FROM} WHERE ${where}`.execute(db);
   return {
     rows: rows.rows.map(({ search: _s, ...r }) => r as QueueRow),
     total: Number(total.rows[0]?.n ?? 0),
@@ -186,9 +244,24 @@ export async function stateCounts(db: DbOrTrx): Promise<Record<string, number>> 
     .where('status', '<>', 'draft')
     .groupBy('status')
     .execute();
-  const flags = await db.selectFrom('flags').select((e) => e.fn.countAll<string>().as('n')).where('status', '=', 'open').executeTakeFirstOrThrow();
-  const proposals = await db.selectFrom('vocabulary_proposals').select((e) => e.fn.countAll<string>().as('n')).where('status', '=', 'proposed').executeTakeFirstOrThrow();
-  const out: Record<string, number> = { submitted: 0, changes_requested: 0, published: 0, declined: 0, flagged: 0, withdrawn: 0 };
+  const flags = await db
+    .selectFrom('flags')
+    .select((e) => e.fn.countAll<string>().as('n'))
+    .where('status', '=', 'open')
+    .executeTakeFirstOrThrow();
+  const proposals = await db
+    .selectFrom('vocabulary_proposals')
+    .select((e) => e.fn.countAll<string>().as('n'))
+    .where('status', '=', 'proposed')
+    .executeTakeFirstOrThrow();
+  const out: Record<string, number> = {
+    submitted: 0,
+    changes_requested: 0,
+    published: 0,
+    declined: 0,
+    flagged: 0,
+    withdrawn: 0,
+  };
   for (const r of byStatus) out[r.status] = Number(r.n);
   out.openFlags = Number(flags.n);
   out.proposals = Number(proposals.n);
@@ -198,16 +271,33 @@ export async function stateCounts(db: DbOrTrx): Promise<Record<string, number>> 
 // ---- possible duplicates ----
 
 /** Tolerances for "the same conditions". */
-export const DUPLICATE_TOLERANCE = { concentrationRelative: 0.05, temperatureC: 2, scanRateRelative: 0.1 } as const;
+export const DUPLICATE_TOLERANCE = {
+  concentrationRelative: 0.05,
+  temperatureC: 2,
+  scanRateRelative: 0.1,
+} as const;
 
-export type CandidateRow = VersionRow & { handle: string; status: string; same_doi: boolean; same_conditions: boolean };
+export type CandidateRow = VersionRow & {
+  handle: string;
+  status: string;
+  same_doi: boolean;
+  same_conditions: boolean;
+};
 
 /** Other records (not drafts) citing the same DOI, or measured under the same conditions within tolerance. */
-export async function duplicateCandidates(db: DbOrTrx, v: VersionRow, limit = 10): Promise<CandidateRow[]> {
+export async function duplicateCandidates(
+  db: DbOrTrx,
+  v: VersionRow,
+  limit = 10,
+): Promise<CandidateRow[]> {
   const t = DUPLICATE_TOLERANCE;
   const within = (col: string, value: number | null, test: ReturnType<typeof sql>) =>
-    value === null ? sql`v.${sql.raw(col)} IS NULL` : sql`(v.${sql.raw(col)} IS NOT NULL AND ${test})`;
-  const sameDoi = v.source_doi ? sql<boolean>`lower(v.source_doi) = lower(${v.source_doi})` : sql<boolean>`false`;
+    value === null
+      ? sql`v.${sql.raw(col)} IS NULL`
+      : sql`(v.${sql.raw(col)} IS NOT NULL AND ${test})`;
+  const sameDoi = v.source_doi
+    ? sql<boolean>`lower(v.source_doi) = lower(${v.source_doi})`
+    : sql<boolean>`false`;
   const sameConditions = sql<boolean>`(
     v.we_material_id = ${v.we_material_id}
     AND v.component_ids @> ${sql.val(v.component_ids)}::text[] AND v.component_ids <@ ${sql.val(v.component_ids)}::text[]
@@ -251,7 +341,9 @@ function flagQuery(db: DbOrTrx) {
   return db
     .selectFrom('flags as f')
     .innerJoin('records as r', 'r.id', 'f.record_id')
-    .innerJoin('record_versions as v', (j) => j.onRef('v.record_id', '=', 'r.id').onRef('v.version', '=', 'r.current_version'))
+    .innerJoin('record_versions as v', (j) =>
+      j.onRef('v.record_id', '=', 'r.id').onRef('v.version', '=', 'r.current_version'),
+    )
     .innerJoin('User as u', 'u.id', 'f.reporter_id')
     .leftJoin('User as ru', 'ru.id', 'f.resolved_by')
     .select([
@@ -268,18 +360,31 @@ function flagQuery(db: DbOrTrx) {
       'f.status',
       'f.created_at',
       'f.resolved_at',
-      sql<string | null>`CASE WHEN ru.id IS NULL THEN NULL ELSE ${displayName('ru.name', 'ru.email')} END`.as('resolved_by'),
+      sql<
+        string | null
+      >`CASE WHEN ru.id IS NULL THEN NULL ELSE ${displayName('ru.name', 'ru.email')} END`.as(
+        'resolved_by',
+      ),
     ]);
 }
 
-export async function listFlags(db: DbOrTrx, status: 'open' | 'resolved' | 'all', page: { limit: number; offset: number }): Promise<{ rows: FlagRow[]; total: number }> {
+export async function listFlags(
+  db: DbOrTrx,
+  status: 'open' | 'resolved' | 'all',
+  page: { limit: number; offset: number },
+): Promise<{ rows: FlagRow[]; total: number }> {
   let q = flagQuery(db);
   let c = db.selectFrom('flags as f').select((e) => e.fn.countAll<string>().as('n'));
   if (status !== 'all') {
     q = q.where('f.status', '=', status);
     c = c.where('f.status', '=', status);
   }
-  const rows = await q.orderBy('f.created_at', status === 'open' ? 'asc' : 'desc').orderBy('f.id').limit(page.limit).offset(page.offset).execute();
+  const rows = await q
+    .orderBy('f.created_at', status === 'open' ? 'asc' : 'desc')
+    .orderBy('f.id')
+    .limit(page.limit)
+    .offset(page.offset)
+    .execute();
   return { rows, total: Number((await c.executeTakeFirstOrThrow()).n) };
 }
 
@@ -288,7 +393,13 @@ export async function getFlag(db: DbOrTrx, id: string): Promise<FlagRow | undefi
 }
 
 export async function openFlagsOf(db: DbOrTrx, recordId: string) {
-  return db.selectFrom('flags').select(['id', 'reason', 'created_at']).where('record_id', '=', recordId).where('status', '=', 'open').orderBy('created_at').execute();
+  return db
+    .selectFrom('flags')
+    .select(['id', 'reason', 'created_at'])
+    .where('record_id', '=', recordId)
+    .where('status', '=', 'open')
+    .orderBy('created_at')
+    .execute();
 }
 
 // ---- proposed terms ----
@@ -318,24 +429,50 @@ function proposalQuery(db: DbOrTrx) {
       ...proposalColumns,
       displayName('u.name', 'u.email').as('proposer'),
       'u.email as proposer_email',
-      sql<string | null>`CASE WHEN d.id IS NULL THEN NULL ELSE ${displayName('d.name', 'd.email')} END`.as('decided_by'),
+      sql<
+        string | null
+      >`CASE WHEN d.id IS NULL THEN NULL ELSE ${displayName('d.name', 'd.email')} END`.as(
+        'decided_by',
+      ),
     ]);
 }
-export type ProposalRow = Awaited<ReturnType<ReturnType<typeof proposalQuery>['executeTakeFirstOrThrow']>>;
+export type ProposalRow = Awaited<
+  ReturnType<ReturnType<typeof proposalQuery>['executeTakeFirstOrThrow']>
+>;
 
 export async function insertProposal(
   db: DbOrTrx,
-  p: { kind: string; name: string; abbreviations: string[]; synonyms: string[]; formula: string | null; note: string | null; proposerId: string },
+  p: {
+    kind: string;
+    name: string;
+    abbreviations: string[];
+    synonyms: string[];
+    formula: string | null;
+    note: string | null;
+    proposerId: string;
+  },
 ): Promise<string> {
   const r = await db
     .insertInto('vocabulary_proposals')
-    .values({ kind: p.kind as never, name: p.name, abbreviations: p.abbreviations, synonyms: p.synonyms, formula: p.formula, note: p.note, proposer_id: p.proposerId })
+    .values({
+      kind: p.kind as never,
+      name: p.name,
+      abbreviations: p.abbreviations,
+      synonyms: p.synonyms,
+      formula: p.formula,
+      note: p.note,
+      proposer_id: p.proposerId,
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   return r.id;
 }
 
-export async function listProposals(db: DbOrTrx, f: { status?: string; proposerId?: string }, page: { limit: number; offset: number }): Promise<{ rows: ProposalRow[]; total: number }> {
+export async function listProposals(
+  db: DbOrTrx,
+  f: { status?: string; proposerId?: string },
+  page: { limit: number; offset: number },
+): Promise<{ rows: ProposalRow[]; total: number }> {
   let q = proposalQuery(db);
   let c = db.selectFrom('vocabulary_proposals as p').select((e) => e.fn.countAll<string>().as('n'));
   if (f.status) {
@@ -346,20 +483,45 @@ export async function listProposals(db: DbOrTrx, f: { status?: string; proposerI
     q = q.where('p.proposer_id', '=', f.proposerId);
     c = c.where('p.proposer_id', '=', f.proposerId);
   }
-  const rows = await q.orderBy('p.created_at', f.status === 'proposed' ? 'asc' : 'desc').orderBy('p.id').limit(page.limit).offset(page.offset).execute();
+  const rows = await q
+    .orderBy('p.created_at', f.status === 'proposed' ? 'asc' : 'desc')
+    .orderBy('p.id')
+    .limit(page.limit)
+    .offset(page.offset)
+    .execute();
   return { rows, total: Number((await c.executeTakeFirstOrThrow()).n) };
 }
 
-export async function getProposal(db: DbOrTrx, id: string, opts: { lock?: boolean } = {}): Promise<ProposalRow | undefined> {
-  if (opts.lock) await db.selectFrom('vocabulary_proposals').select('id').where('id', '=', id).forUpdate().executeTakeFirst();
+export async function getProposal(
+  db: DbOrTrx,
+  id: string,
+  opts: { lock?: boolean } = {},
+): Promise<ProposalRow | undefined> {
+  if (opts.lock)
+    await db
+      .selectFrom('vocabulary_proposals')
+      .select('id')
+      .where('id', '=', id)
+      .forUpdate()
+      .executeTakeFirst();
   return proposalQuery(db).where('p.id', '=', id).executeTakeFirst();
 }
 
 /** Records the decision if the proposal is still open; false when someone decided first. */
-export async function decideProposalRow(db: DbOrTrx, id: string, d: { status: 'accepted' | 'rejected'; by: string; reason: string | null; termId: string | null }): Promise<boolean> {
+export async function decideProposalRow(
+  db: DbOrTrx,
+  id: string,
+  d: { status: 'accepted' | 'rejected'; by: string; reason: string | null; termId: string | null },
+): Promise<boolean> {
   const r = await db
     .updateTable('vocabulary_proposals')
-    .set({ status: d.status, decided_by: d.by, decided_at: sql`now()`, decision_reason: d.reason, term_id: d.termId })
+    .set({
+      status: d.status,
+      decided_by: d.by,
+      decided_at: sql`now()`,
+      decision_reason: d.reason,
+      term_id: d.termId,
+    })
     .where('id', '=', id)
     .where('status', '=', 'proposed')
     .executeTakeFirst();
@@ -369,28 +531,65 @@ export async function decideProposalRow(db: DbOrTrx, id: string, d: { status: 'a
 // ---- vocabulary changes ----
 
 export async function lockTerm(db: DbOrTrx, id: string) {
-  return db.selectFrom('vocabulary_terms').selectAll().where('id', '=', id).forUpdate().executeTakeFirst();
+  return db
+    .selectFrom('vocabulary_terms')
+    .selectAll()
+    .where('id', '=', id)
+    .forUpdate()
+    .executeTakeFirst();
 }
 
 export async function insertTerm(
   db: DbOrTrx,
-  t: { id: string; kind: string; name: string; abbreviations: string[]; synonyms: string[]; lookupKeys: string[]; formula: string | null },
+  t: {
+    id: string;
+    kind: string;
+    name: string;
+    abbreviations: string[];
+    synonyms: string[];
+    lookupKeys: string[];
+    formula: string | null;
+  },
 ): Promise<void> {
   await db
     .insertInto('vocabulary_terms')
-    .values({ id: t.id, kind: t.kind as never, name: t.name, abbreviations: t.abbreviations, synonyms: t.synonyms, lookup_keys: t.lookupKeys, formula: t.formula })
+    .values({
+      id: t.id,
+      kind: t.kind as never,
+      name: t.name,
+      abbreviations: t.abbreviations,
+      synonyms: t.synonyms,
+      lookup_keys: t.lookupKeys,
+      formula: t.formula,
+    })
     .execute();
 }
 
 /** Points a term at the one replacing it. */
 export async function markMerged(db: DbOrTrx, fromId: string, intoId: string): Promise<void> {
-  await db.updateTable('vocabulary_terms').set({ merged_into: intoId, updated_at: sql`now()` }).where('id', '=', fromId).execute();
+  await db
+    .updateTable('vocabulary_terms')
+    .set({ merged_into: intoId, updated_at: sql`now()` })
+    .where('id', '=', fromId)
+    .execute();
   // Terms merged into the old one earlier follow it to the new one.
-  await db.updateTable('vocabulary_terms').set({ merged_into: intoId, updated_at: sql`now()` }).where('merged_into', '=', fromId).execute();
+  await db
+    .updateTable('vocabulary_terms')
+    .set({ merged_into: intoId, updated_at: sql`now()` })
+    .where('merged_into', '=', fromId)
+    .execute();
 }
 
-export async function setTermNames(db: DbOrTrx, id: string, n: { synonyms: string[]; lookupKeys: string[] }): Promise<void> {
-  await db.updateTable('vocabulary_terms').set({ synonyms: n.synonyms, lookup_keys: n.lookupKeys, updated_at: sql`now()` }).where('id', '=', id).execute();
+export async function setTermNames(
+  db: DbOrTrx,
+  id: string,
+  n: { synonyms: string[]; lookupKeys: string[] },
+): Promise<void> {
+  await db
+    .updateTable('vocabulary_terms')
+    .set({ synonyms: n.synonyms, lookup_keys: n.lookupKeys, updated_at: sql`now()` })
+    .where('id', '=', id)
+    .execute();
 }
 
 /** Ids of records whose current version names a term anywhere. */
@@ -403,10 +602,19 @@ export async function recordsNamingTerm(db: DbOrTrx, termId: string): Promise<st
   return r.rows.map((x) => x.id);
 }
 
-export async function setReferencePotential(db: DbOrTrx, id: string, v: { potentialVsSheV: number; tempCoefficientMVPerK: number | null; source: string }): Promise<void> {
+export async function setReferencePotential(
+  db: DbOrTrx,
+  id: string,
+  v: { potentialVsSheV: number; tempCoefficientMVPerK: number | null; source: string },
+): Promise<void> {
   await db
     .updateTable('vocabulary_terms')
-    .set({ potential_vs_she_v: v.potentialVsSheV, temp_coefficient_mv_per_k: v.tempCoefficientMVPerK, potential_source: v.source, updated_at: sql`now()` })
+    .set({
+      potential_vs_she_v: v.potentialVsSheV,
+      temp_coefficient_mv_per_k: v.tempCoefficientMVPerK,
+      potential_source: v.source,
+      updated_at: sql`now()`,
+    })
     .where('id', '=', id)
     .execute();
 }
@@ -429,7 +637,11 @@ export async function referenceValues(db: DbOrTrx, termId: string): Promise<Refe
       'h.temp_coefficient_mv_per_k',
       'h.source',
       'h.note',
-      sql<string | null>`CASE WHEN u.id IS NULL THEN NULL ELSE ${displayName('u.name', 'u.email')} END`.as('changed_by'),
+      sql<
+        string | null
+      >`CASE WHEN u.id IS NULL THEN NULL ELSE ${displayName('u.name', 'u.email')} END`.as(
+        'changed_by',
+      ),
       'h.valid_from',
     ])
     .where('h.term_id', '=', termId)
@@ -439,7 +651,15 @@ export async function referenceValues(db: DbOrTrx, termId: string): Promise<Refe
 
 export async function insertReferenceValue(
   db: DbOrTrx,
-  v: { termId: string; potentialVsSheV: number; tempCoefficientMVPerK: number | null; source: string; note: string | null; changedBy: string | null; validFrom?: Date },
+  v: {
+    termId: string;
+    potentialVsSheV: number;
+    tempCoefficientMVPerK: number | null;
+    source: string;
+    note: string | null;
+    changedBy: string | null;
+    validFrom?: Date;
+  },
 ): Promise<void> {
   await db
     .insertInto('reference_values')
@@ -466,7 +686,11 @@ export interface AuditFilter {
   to?: string;
 }
 
-export async function listAuditEvents(db: DbOrTrx, f: AuditFilter, page: { limit: number; offset: number }) {
+export async function listAuditEvents(
+  db: DbOrTrx,
+  f: AuditFilter,
+  page: { limit: number; offset: number },
+) {
   const where = (q: ReturnType<typeof base>) => {
     let x = q;
     if (f.actorId) x = x.where('e.actor_id', '=', f.actorId);
@@ -474,28 +698,54 @@ export async function listAuditEvents(db: DbOrTrx, f: AuditFilter, page: { limit
     if (f.action) x = x.where('e.action', '=', f.action);
     if (f.actionPrefix) x = x.where(sql<boolean>`starts_with(e.action, ${f.actionPrefix})`);
     // Dates are whole UTC days; `to` includes its day.
-    if (f.from) x = x.where('e.at', '>=', sql<Date>`(${f.from}::date)::timestamp AT TIME ZONE 'UTC'`);
-    if (f.to) x = x.where('e.at', '<', sql<Date>`(${f.to}::date + 1)::timestamp AT TIME ZONE 'UTC'`);
+    if (f.from)
+      x = x.where('e.at', '>=', sql<Date>`(${f.from}::date)::timestamp AT TIME ZONE 'UTC'`);
+    if (f.to)
+      x = x.where('e.at', '<', sql<Date>`(${f.to}::date + 1)::timestamp AT TIME ZONE 'UTC'`);
     return x;
   };
-  const base = (d: DbOrTrx) => d.selectFrom('audit_events as e').leftJoin('User as u', 'u.id', 'e.actor_id');
+  const base = (d: DbOrTrx) =>
+    d.selectFrom('audit_events as e').leftJoin('User as u', 'u.id', 'e.actor_id');
   const rows = await where(base(db))
-    .select(['e.id', 'e.at', 'e.actor_id', 'u.name as actor_name', 'u.email as actor_email', 'e.action', 'e.subject_type', 'e.subject_id', 'e.details'])
+    .select([
+      'e.id',
+      'e.at',
+      'e.actor_id',
+      'u.name as actor_name',
+      'u.email as actor_email',
+      'e.action',
+      'e.subject_type',
+      'e.subject_id',
+      'e.details',
+    ])
     .orderBy('e.at', 'desc')
     .orderBy('e.id', 'desc')
     .limit(page.limit)
     .offset(page.offset)
     .execute();
-  const total = await where(base(db)).select((e) => e.fn.countAll<string>().as('n')).executeTakeFirstOrThrow();
+  const total = await where(base(db))
+    .select((e) => e.fn.countAll<string>().as('n'))
+    .executeTakeFirstOrThrow();
   return { rows, total: Number(total.n) };
 }
 
 // ---- notifications ----
 
 /** Messages to an address whose kind starts with one of the prefixes, newest first. */
-export async function mailTo(db: DbOrTrx, address: string, kindPrefixes: readonly string[], page: { limit: number; offset: number }) {
-  const kinds = sql.join(kindPrefixes.map((p) => sql`starts_with(kind, ${p})`), sql` OR `);
-  const base = db.selectFrom('mail_outbox').where(sql<boolean>`lower(to_address) = lower(${address})`).where(sql<boolean>`(${kinds})`);
+export async function mailTo(
+  db: DbOrTrx,
+  address: string,
+  kindPrefixes: readonly string[],
+  page: { limit: number; offset: number },
+) {
+  const kinds = sql.join(
+    kindPrefixes.map((p) => sql`starts_with(kind, ${p})`),
+    sql` OR `,
+  );
+  const base = db
+    .selectFrom('mail_outbox')
+    .where(sql<boolean>`lower(to_address) = lower(${address})`)
+    .where(sql<boolean>`(${kinds})`);
   const rows = await base
     .select(['id', 'kind', 'subject', 'text_body', 'status', 'created_at'])
     .orderBy('created_at', 'desc')
@@ -509,6 +759,13 @@ export async function mailTo(db: DbOrTrx, address: string, kindPrefixes: readonl
 
 // ---- people ----
 
-export async function personOf(db: DbOrTrx, id: string): Promise<{ id: string; email: string; name: string } | undefined> {
-  return db.selectFrom('User as u').select(['u.id', 'u.email', displayName('u.name', 'u.email').as('name')]).where('u.id', '=', id).executeTakeFirst();
+export async function personOf(
+  db: DbOrTrx,
+  id: string,
+): Promise<{ id: string; email: string; name: string } | undefined> {
+  return db
+    .selectFrom('User as u')
+    .select(['u.id', 'u.email', displayName('u.name', 'u.email').as('name')])
+    .where('u.id', '=', id)
+    .executeTakeFirst();
 }

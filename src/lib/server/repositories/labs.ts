@@ -16,7 +16,11 @@ export interface LabMember {
 }
 
 export async function findLabBySlug(db: DbOrTrx, slug: string): Promise<Lab | null> {
-  const row = await db.selectFrom('labs').select(['id', 'slug', 'name']).where('slug', '=', slug).executeTakeFirst();
+  const row = await db
+    .selectFrom('labs')
+    .select(['id', 'slug', 'name'])
+    .where('slug', '=', slug)
+    .executeTakeFirst();
   return row ?? null;
 }
 
@@ -25,7 +29,11 @@ export async function listLabs(db: DbOrTrx): Promise<Lab[]> {
 }
 
 export async function insertLab(db: DbOrTrx, lab: { slug: string; name: string }): Promise<Lab> {
-  return db.insertInto('labs').values(lab).returning(['id', 'slug', 'name']).executeTakeFirstOrThrow();
+  return db
+    .insertInto('labs')
+    .values(lab)
+    .returning(['id', 'slug', 'name'])
+    .executeTakeFirstOrThrow();
 }
 
 export async function listLabMembers(db: DbOrTrx, labId: string): Promise<LabMember[]> {
@@ -37,17 +45,43 @@ export async function listLabMembers(db: DbOrTrx, labId: string): Promise<LabMem
     .orderBy('m.role', 'desc')
     .orderBy('u.email')
     .execute();
-  return rows.map((r) => ({ userId: r.user_id, email: r.email, name: r.name, role: r.role, since: r.created_at }));
+  return rows.map((r) => ({
+    userId: r.user_id,
+    email: r.email,
+    name: r.name,
+    role: r.role,
+    since: r.created_at,
+  }));
 }
 
-export async function findMembership(db: DbOrTrx, labId: string, userId: string): Promise<LabRole | null> {
-  const row = await db.selectFrom('lab_memberships').select('role').where('lab_id', '=', labId).where('user_id', '=', userId).executeTakeFirst();
+export async function findMembership(
+  db: DbOrTrx,
+  labId: string,
+  userId: string,
+): Promise<LabRole | null> {
+  const row = await db
+    .selectFrom('lab_memberships')
+    .select('role')
+    .where('lab_id', '=', labId)
+    .where('user_id', '=', userId)
+    .executeTakeFirst();
   return row?.role ?? null;
 }
 
 /** Adds the member or changes their role; returns the previous role (null when new). */
-export async function upsertMembership(db: DbOrTrx, labId: string, userId: string, role: LabRole): Promise<LabRole | null> {
-  const before = await db.selectFrom('lab_memberships').select('role').where('lab_id', '=', labId).where('user_id', '=', userId).forUpdate().executeTakeFirst();
+export async function upsertMembership(
+  db: DbOrTrx,
+  labId: string,
+  userId: string,
+  role: LabRole,
+): Promise<LabRole | null> {
+  const before = await db
+    .selectFrom('lab_memberships')
+    .select('role')
+    .where('lab_id', '=', labId)
+    .where('user_id', '=', userId)
+    .forUpdate()
+    .executeTakeFirst();
   await db
     .insertInto('lab_memberships')
     .values({ lab_id: labId, user_id: userId, role })
@@ -56,7 +90,16 @@ export async function upsertMembership(db: DbOrTrx, labId: string, userId: strin
   return before?.role ?? null;
 }
 
-export async function deleteMembership(db: DbOrTrx, labId: string, userId: string): Promise<LabRole | null> {
-  const row = await db.deleteFrom('lab_memberships').where('lab_id', '=', labId).where('user_id', '=', userId).returning('role').executeTakeFirst();
+export async function deleteMembership(
+  db: DbOrTrx,
+  labId: string,
+  userId: string,
+): Promise<LabRole | null> {
+  const row = await db
+    .deleteFrom('lab_memberships')
+    .where('lab_id', '=', labId)
+    .where('user_id', '=', userId)
+    .returning('role')
+    .executeTakeFirst();
   return row?.role ?? null;
 }

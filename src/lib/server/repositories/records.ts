@@ -1,4 +1,11 @@
-import { sql, type Expression, type Insertable, type RawBuilder, type Selectable, type SqlBool } from 'kysely';
+import {
+  sql,
+  type Expression,
+  type Insertable,
+  type RawBuilder,
+  type Selectable,
+  type SqlBool,
+} from 'kysely';
 import type { AnalysisTable, RawFileTable, RecordVersionTable, ReviewTable } from '../db/schema.ts';
 import type { DbOrTrx } from './audit.ts';
 import type { FacetName } from '../../shared/record-views.ts';
@@ -21,8 +28,13 @@ export interface RecordHead {
   embargo_until: string | null;
 }
 
-export type VersionRow = Omit<Selectable<RecordVersionTable>, 'embargo_until' | 'search'> & { embargo_until: string | null };
-export type NewVersion = Omit<Insertable<RecordVersionTable>, 'search' | 'embargo_until'> & { embargo_until: string | null; searchText: string };
+export type VersionRow = Omit<Selectable<RecordVersionTable>, 'embargo_until' | 'search'> & {
+  embargo_until: string | null;
+};
+export type NewVersion = Omit<Insertable<RecordVersionTable>, 'search' | 'embargo_until'> & {
+  embargo_until: string | null;
+  searchText: string;
+};
 export type RawFileRow = Selectable<RawFileTable>;
 export type AnalysisRow = Selectable<AnalysisTable>;
 export type ReviewRow = Selectable<ReviewTable>;
@@ -30,7 +42,9 @@ export type ReviewRow = Selectable<ReviewTable>;
 function headQuery(db: DbOrTrx) {
   return db
     .selectFrom('records as r')
-    .innerJoin('record_versions as v', (j) => j.onRef('v.record_id', '=', 'r.id').onRef('v.version', '=', 'r.current_version'))
+    .innerJoin('record_versions as v', (j) =>
+      j.onRef('v.record_id', '=', 'r.id').onRef('v.version', '=', 'r.current_version'),
+    )
     .leftJoin('labs as l', 'l.id', 'r.lab_id')
     .select([
       'r.id',
@@ -59,7 +73,12 @@ export async function getRecordHead(db: DbOrTrx, handle: string): Promise<Record
  * sees what a concurrent transaction committed before the lock was granted).
  */
 export async function lockRecord(db: DbOrTrx, handle: string): Promise<boolean> {
-  const r = await db.selectFrom('records').select('id').where('handle', '=', handle).forUpdate().executeTakeFirst();
+  const r = await db
+    .selectFrom('records')
+    .select('id')
+    .where('handle', '=', handle)
+    .forUpdate()
+    .executeTakeFirst();
   return r !== undefined;
 }
 
@@ -68,7 +87,10 @@ export async function getRecordHeadById(db: DbOrTrx, id: string): Promise<Record
 }
 
 /** Inserts a record row pointing at version 1 (the version must follow in the same transaction). */
-export async function insertRecord(db: DbOrTrx, r: { ownerId: string; labId: string | null }): Promise<{ id: string; handle: string }> {
+export async function insertRecord(
+  db: DbOrTrx,
+  r: { ownerId: string; labId: string | null },
+): Promise<{ id: string; handle: string }> {
   return db
     .insertInto('records')
     .values({ owner_id: r.ownerId, lab_id: r.labId, current_version: 1 })
@@ -85,7 +107,11 @@ export async function insertVersion(db: DbOrTrx, v: NewVersion): Promise<void> {
 }
 
 /** Moves the current version from `expected` to `expected + 1`; false when someone else moved it first. */
-export async function advanceVersion(db: DbOrTrx, recordId: string, expected: number): Promise<boolean> {
+export async function advanceVersion(
+  db: DbOrTrx,
+  recordId: string,
+  expected: number,
+): Promise<boolean> {
   const r = await db
     .updateTable('records')
     .set({ current_version: expected + 1, updated_at: sql`now()` })
@@ -105,7 +131,11 @@ export async function compareAndSetStatus(
 ): Promise<boolean> {
   const r = await db
     .updateTable('records')
-    .set({ status: to, updated_at: sql`now()`, ...(to === 'published' ? { published_at: sql`coalesce(published_at, now())` } : {}) })
+    .set({
+      status: to,
+      updated_at: sql`now()`,
+      ...(to === 'published' ? { published_at: sql`coalesce(published_at, now())` } : {}),
+    })
     .where('id', '=', recordId)
     .where('current_version', '=', version)
     .where('status', '=', from)
@@ -115,13 +145,25 @@ export async function compareAndSetStatus(
 
 const versionColumns = sql`v.*, v.embargo_until::text AS embargo_until`;
 
-export async function getVersion(db: DbOrTrx, recordId: string, version: number): Promise<VersionRow | undefined> {
-  const r = await sql<VersionRow & { search?: unknown }>`SELECT ${versionColumns} FROM record_versions v WHERE v.record_id = ${recordId} AND v.version = ${version}`.execute(db);
+export async function getVersion(
+  db: DbOrTrx,
+  recordId: string,
+  version: number,
+): Promise<VersionRow | undefined> {
+  const r = await sql<
+    VersionRow & { search?: unknown }
+  >`SELECT ${versionColumns} FROM record_versions v WHERE v.record_id = ${recordId} AND v.version = ${version}`.execute(
+    db,
+  );
   return strip(r.rows[0]);
 }
 
 export async function listVersions(db: DbOrTrx, recordId: string): Promise<VersionRow[]> {
-  const r = await sql<VersionRow & { search?: unknown }>`SELECT ${versionColumns} FROM record_versions v WHERE v.record_id = ${recordId} ORDER BY v.version`.execute(db);
+  const r = await sql<
+    VersionRow & { search?: unknown }
+  >`SELECT ${versionColumns} FROM record_versions v WHERE v.record_id = ${recordId} ORDER BY v.version`.execute(
+    db,
+  );
   return r.rows.map((x) => strip(x)!);
 }
 
@@ -132,10 +174,25 @@ function strip<T extends { search?: unknown }>(row: T | undefined): Omit<T, 'sea
 }
 
 /** Appends a curator decision; its id. */
-export async function insertReview(db: DbOrTrx, r: { recordId: string; version: number; reviewerId: string; decision: string; reason: string | null }): Promise<string> {
+export async function insertReview(
+  db: DbOrTrx,
+  r: {
+    recordId: string;
+    version: number;
+    reviewerId: string;
+    decision: string;
+    reason: string | null;
+  },
+): Promise<string> {
   const row = await db
     .insertInto('reviews')
-    .values({ record_id: r.recordId, version: r.version, reviewer_id: r.reviewerId, decision: r.decision, reason: r.reason })
+    .values({
+      record_id: r.recordId,
+      version: r.version,
+      reviewer_id: r.reviewerId,
+      decision: r.decision,
+      reason: r.reason,
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   return row.id;
@@ -146,7 +203,9 @@ export async function latestDecision(
   db: DbOrTrx,
   recordId: string,
   minVersion: number,
-): Promise<{ decision: string; version: number; created_at: Date; reviewer_name: string | null } | undefined> {
+): Promise<
+  { decision: string; version: number; created_at: Date; reviewer_name: string | null } | undefined
+> {
   return db
     .selectFrom('reviews as v')
     .innerJoin('User as u', 'u.id', 'v.reviewer_id')
@@ -159,13 +218,26 @@ export async function latestDecision(
 }
 
 export async function listReviews(db: DbOrTrx, recordId: string): Promise<ReviewRow[]> {
-  return db.selectFrom('reviews').selectAll().where('record_id', '=', recordId).orderBy('created_at').execute();
+  return db
+    .selectFrom('reviews')
+    .selectAll()
+    .where('record_id', '=', recordId)
+    .orderBy('created_at')
+    .execute();
 }
 
-export async function insertFlag(db: DbOrTrx, f: { recordId: string; version: number; reporterId: string; reason: string }): Promise<string> {
+export async function insertFlag(
+  db: DbOrTrx,
+  f: { recordId: string; version: number; reporterId: string; reason: string },
+): Promise<string> {
   const r = await db
     .insertInto('flags')
-    .values({ record_id: f.recordId, version: f.version, reporter_id: f.reporterId, reason: f.reason })
+    .values({
+      record_id: f.recordId,
+      version: f.version,
+      reporter_id: f.reporterId,
+      reason: f.reason,
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   return r.id;
@@ -185,7 +257,18 @@ export async function resolveOpenFlags(db: DbOrTrx, recordId: string, by: string
 
 export async function insertRawFile(
   db: DbOrTrx,
-  f: { recordId: string; objectKey: string; originalName: string; safeName: string; bytes: number; sha256: string; mediaType: string; mapping: unknown; parseSummary: unknown; uploadedBy: string },
+  f: {
+    recordId: string;
+    objectKey: string;
+    originalName: string;
+    safeName: string;
+    bytes: number;
+    sha256: string;
+    mediaType: string;
+    mapping: unknown;
+    parseSummary: unknown;
+    uploadedBy: string;
+  },
 ): Promise<string> {
   const r = await db
     .insertInto('raw_files')
@@ -208,7 +291,15 @@ export async function insertRawFile(
 
 export async function insertAnalysis(
   db: DbOrTrx,
-  a: { rawFileId: string; engineVersion: string; parameters: unknown; result: unknown; direction: 'anodic' | 'cathodic'; limitV: number | null; limitStatus: string },
+  a: {
+    rawFileId: string;
+    engineVersion: string;
+    parameters: unknown;
+    result: unknown;
+    direction: 'anodic' | 'cathodic';
+    limitV: number | null;
+    limitStatus: string;
+  },
 ): Promise<string> {
   const r = await db
     .insertInto('analyses')
@@ -228,7 +319,12 @@ export async function insertAnalysis(
 
 export async function rawFilesByIds(db: DbOrTrx, ids: string[]): Promise<RawFileRow[]> {
   if (ids.length === 0) return [];
-  return db.selectFrom('raw_files').selectAll().where('id', 'in', ids).orderBy('created_at').execute();
+  return db
+    .selectFrom('raw_files')
+    .selectAll()
+    .where('id', 'in', ids)
+    .orderBy('created_at')
+    .execute();
 }
 
 export async function getRawFile(db: DbOrTrx, id: string): Promise<RawFileRow | undefined> {
@@ -274,7 +370,15 @@ export interface RecordFilter {
   rawBacked?: boolean;
 }
 
-export type SortKey = 'handle' | 'updated' | 'anodic' | 'cathodic' | 'width' | 'scanRate' | 'temperature' | 'concentration';
+export type SortKey =
+  | 'handle'
+  | 'updated'
+  | 'anodic'
+  | 'cathodic'
+  | 'width'
+  | 'scanRate'
+  | 'temperature'
+  | 'concentration';
 
 /**
  * The SQL condition "this principal may read this record" over s (record_search: the record's
@@ -298,9 +402,12 @@ function conditions(f: RecordFilter, scope: ReadScope) {
   const anyOf = (col: string, vals: string[] | undefined) => {
     if (vals && vals.length) c.push(sql<SqlBool>`${sql.ref(col)} = ANY(${sql.val(vals)}::text[])`);
   };
-  if (f.componentIds?.length) c.push(sql<SqlBool>`s.component_ids @> ${sql.val(f.componentIds)}::text[]`);
-  if (f.concentrationMin !== undefined) c.push(sql<SqlBool>`s.salt_concentration >= ${f.concentrationMin}`);
-  if (f.concentrationMax !== undefined) c.push(sql<SqlBool>`s.salt_concentration <= ${f.concentrationMax}`);
+  if (f.componentIds?.length)
+    c.push(sql<SqlBool>`s.component_ids @> ${sql.val(f.componentIds)}::text[]`);
+  if (f.concentrationMin !== undefined)
+    c.push(sql<SqlBool>`s.salt_concentration >= ${f.concentrationMin}`);
+  if (f.concentrationMax !== undefined)
+    c.push(sql<SqlBool>`s.salt_concentration <= ${f.concentrationMax}`);
   if (f.concentrationBasis) c.push(sql<SqlBool>`s.salt_basis = ${f.concentrationBasis}`);
   anyOf('s.we_material_id', f.electrodeIds);
   anyOf('s.method', f.methods);
@@ -313,7 +420,10 @@ function conditions(f: RecordFilter, scope: ReadScope) {
   anyOf('s.evidence_level', f.evidence);
   anyOf('s.status', f.statuses);
   // Labs by slug, looked up once per statement rather than joined per row.
-  if (f.labSlugs?.length) c.push(sql<SqlBool>`s.lab_id = ANY(ARRAY(SELECT id FROM labs WHERE slug = ANY(${sql.val(f.labSlugs)}::text[])))`);
+  if (f.labSlugs?.length)
+    c.push(
+      sql<SqlBool>`s.lab_id = ANY(ARRAY(SELECT id FROM labs WHERE slug = ANY(${sql.val(f.labSlugs)}::text[])))`,
+    );
   if (f.q) c.push(sql<SqlBool>`s.search @@ websearch_to_tsquery('simple', ${f.q})`);
   if (f.rawBacked) c.push(sql<SqlBool>`s.raw_backed`);
   return sql.join(c, sql` AND `);
@@ -331,7 +441,16 @@ const ORDER: Record<SortKey, string> = {
   concentration: 's.salt_concentration',
 };
 
-export type SearchRow = VersionRow & { handle: string; status: string; owner_id: string; lab_id: string | null; lab_slug: string | null; lab_name: string | null; updated_at: Date; published_at: Date | null };
+export type SearchRow = VersionRow & {
+  handle: string;
+  status: string;
+  owner_id: string;
+  lab_id: string | null;
+  lab_slug: string | null;
+  lab_name: string | null;
+  updated_at: Date;
+  published_at: Date | null;
+};
 
 /**
  * What everything a search returns depends on besides its parameters and scope: the collection's
@@ -339,7 +458,11 @@ export type SearchRow = VersionRow & { handle: string; status: string; owner_id:
  * (embargoes end at midnight UTC, by the database's clock).
  */
 export async function searchGeneration(db: DbOrTrx): Promise<string> {
-  const r = await sql<{ g: string }>`SELECT n || ':' || xact || ':' || (now() AT TIME ZONE 'UTC')::date AS g FROM search_generation`.execute(db);
+  const r = await sql<{
+    g: string;
+  }>`SELECT n || ':' || xact || ':' || (now() AT TIME ZONE 'UTC')::date AS g FROM search_generation`.execute(
+    db,
+  );
   return r.rows[0]!.g;
 }
 
@@ -370,7 +493,8 @@ export async function searchRecords(
 ): Promise<{ rows: SearchRow[] }> {
   const key = sql.raw(ORDER[page.sort]);
   const dir = page.desc ? sql`DESC` : sql`ASC`;
-  const order = (k: RawBuilder<unknown>, handle: RawBuilder<unknown>) => (page.sort === 'handle' ? sql`${handle} ${dir}` : sql`${k} ${dir} NULLS LAST, ${handle} ${dir}`);
+  const order = (k: RawBuilder<unknown>, handle: RawBuilder<unknown>) =>
+    page.sort === 'handle' ? sql`${handle} ${dir}` : sql`${k} ${dir} NULLS LAST, ${handle} ${dir}`;
   const picked = sql`SELECT s.record_id, s.version, s.handle, ${key} AS k FROM record_search s
     WHERE ${conditions(f, scope)} ORDER BY ${order(key, sql`s.handle`)} LIMIT ${page.limit} OFFSET ${page.offset}`;
   const r = await pageOf(picked, order(sql`p.k`, sql`r.handle`)).execute(db);
@@ -378,7 +502,13 @@ export async function searchRecords(
 }
 
 /** Rows after a handle, in handle order (exports walk the whole result this way). */
-export async function searchAfter(db: DbOrTrx, f: RecordFilter, scope: ReadScope, afterHandle: string | null, limit: number): Promise<SearchRow[]> {
+export async function searchAfter(
+  db: DbOrTrx,
+  f: RecordFilter,
+  scope: ReadScope,
+  afterHandle: string | null,
+  limit: number,
+): Promise<SearchRow[]> {
   const after = afterHandle ? sql`AND s.handle > ${afterHandle}` : sql``;
   const picked = sql`SELECT s.record_id, s.version, s.handle, NULL AS k FROM record_search s
     WHERE ${conditions(f, scope)} ${after} ORDER BY s.handle LIMIT ${limit}`;
@@ -404,8 +534,14 @@ export type { FacetName };
 export type Facets = Record<FacetName, { value: string; count: number }[]>;
 
 /** Number of matching records. */
-export async function countRecords(db: DbOrTrx, f: RecordFilter, scope: ReadScope): Promise<number> {
-  const r = await sql<{ n: string }>`SELECT count(*) AS n FROM record_search s WHERE ${conditions(f, scope)}`.execute(db);
+export async function countRecords(
+  db: DbOrTrx,
+  f: RecordFilter,
+  scope: ReadScope,
+): Promise<number> {
+  const r = await sql<{
+    n: string;
+  }>`SELECT count(*) AS n FROM record_search s WHERE ${conditions(f, scope)}`.execute(db);
   return Number(r.rows[0]?.n ?? 0);
 }
 
@@ -415,7 +551,11 @@ export async function countRecords(db: DbOrTrx, f: RecordFilter, scope: ReadScop
  * total, hashed side by side. Array columns are grouped as whole arrays (few distinct ones) and
  * counted per element here.
  */
-export async function facetCounts(db: DbOrTrx, f: RecordFilter, scope: ReadScope): Promise<{ total: number; facets: Facets }> {
+export async function facetCounts(
+  db: DbOrTrx,
+  f: RecordFilter,
+  scope: ReadScope,
+): Promise<{ total: number; facets: Facets }> {
   const names = Object.keys(FACETS) as FacetName[];
   const cols = names.map((n) => sql.ref(`s.${FACETS[n]}`));
   const r = await sql<Record<string, unknown> & { g: number; n: string; lab_slug: string | null }>`
@@ -442,7 +582,12 @@ export async function facetCounts(db: DbOrTrx, f: RecordFilter, scope: ReadScope
     }
   }
   const facets = Object.fromEntries(
-    names.map((name) => [name, [...counts.get(name)!].map(([value, count]) => ({ value, count })).sort((a, b) => b.count - a.count || (a.value < b.value ? -1 : a.value > b.value ? 1 : 0))]),
+    names.map((name) => [
+      name,
+      [...counts.get(name)!]
+        .map(([value, count]) => ({ value, count }))
+        .sort((a, b) => b.count - a.count || (a.value < b.value ? -1 : a.value > b.value ? 1 : 0)),
+    ]),
   ) as Facets;
   return { total, facets };
 }

@@ -6,7 +6,18 @@ export type UploadRow = Selectable<UploadTable>;
 
 export async function insertUpload(
   db: DbOrTrx,
-  u: { id: string; recordId: string; ownerId: string; objectKey: string; name: string; size: number; sha256: string; mediaType: string; mapping: unknown; expiresAt: Date },
+  u: {
+    id: string;
+    recordId: string;
+    ownerId: string;
+    objectKey: string;
+    name: string;
+    size: number;
+    sha256: string;
+    mediaType: string;
+    mapping: unknown;
+    expiresAt: Date;
+  },
 ): Promise<UploadRow> {
   return db
     .insertInto('uploads')
@@ -26,13 +37,21 @@ export async function insertUpload(
     .executeTakeFirstOrThrow();
 }
 
-export async function getUpload(db: DbOrTrx, id: string, opts: { lock?: boolean } = {}): Promise<UploadRow | undefined> {
+export async function getUpload(
+  db: DbOrTrx,
+  id: string,
+  opts: { lock?: boolean } = {},
+): Promise<UploadRow | undefined> {
   let q = db.selectFrom('uploads').selectAll().where('id', '=', id);
   if (opts.lock) q = q.forUpdate();
   return q.executeTakeFirst();
 }
 
-export async function markUploadComplete(db: DbOrTrx, id: string, rawFileId: string): Promise<void> {
+export async function markUploadComplete(
+  db: DbOrTrx,
+  id: string,
+  rawFileId: string,
+): Promise<void> {
   await db
     .updateTable('uploads')
     .set({ status: 'complete', raw_file_id: rawFileId, completed_at: sql`now()`, error: null })
@@ -41,7 +60,11 @@ export async function markUploadComplete(db: DbOrTrx, id: string, rawFileId: str
     .execute();
 }
 
-export async function markUploadFailed(db: DbOrTrx, id: string, error: Record<string, unknown>): Promise<void> {
+export async function markUploadFailed(
+  db: DbOrTrx,
+  id: string,
+  error: Record<string, unknown>,
+): Promise<void> {
   await db
     .updateTable('uploads')
     .set({ status: 'failed', error: JSON.stringify(error), completed_at: sql`now()` })
@@ -51,7 +74,11 @@ export async function markUploadFailed(db: DbOrTrx, id: string, error: Record<st
 }
 
 /** Pending uploads whose URL expired before `before`, oldest first. */
-export async function stalePendingUploads(db: DbOrTrx, before: Date, limit: number): Promise<UploadRow[]> {
+export async function stalePendingUploads(
+  db: DbOrTrx,
+  before: Date,
+  limit: number,
+): Promise<UploadRow[]> {
   return db
     .selectFrom('uploads')
     .selectAll()
@@ -64,6 +91,11 @@ export async function stalePendingUploads(db: DbOrTrx, before: Date, limit: numb
 
 /** Marks a pending upload expired; false when it completed meanwhile. */
 export async function markUploadExpired(db: DbOrTrx, id: string): Promise<boolean> {
-  const r = await db.updateTable('uploads').set({ status: 'expired' }).where('id', '=', id).where('status', '=', 'pending').executeTakeFirst();
+  const r = await db
+    .updateTable('uploads')
+    .set({ status: 'expired' })
+    .where('id', '=', id)
+    .where('status', '=', 'pending')
+    .executeTakeFirst();
   return Number(r.numUpdatedRows) === 1;
 }

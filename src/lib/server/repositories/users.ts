@@ -17,9 +17,31 @@ export interface UserRecord {
   createdAt: Date;
 }
 
-const columns = ['id', 'email', 'name', 'role', 'affiliation', 'orcid', 'emailVerified', 'session_version', 'disabled_at', 'created_at'] as const;
+const columns = [
+  'id',
+  'email',
+  'name',
+  'role',
+  'affiliation',
+  'orcid',
+  'emailVerified',
+  'session_version',
+  'disabled_at',
+  'created_at',
+] as const;
 
-type Row = { id: string; email: string; name: string | null; role: Role; affiliation: string | null; orcid: string | null; emailVerified: Date | null; session_version: number; disabled_at: Date | null; created_at: Date };
+type Row = {
+  id: string;
+  email: string;
+  name: string | null;
+  role: Role;
+  affiliation: string | null;
+  orcid: string | null;
+  emailVerified: Date | null;
+  session_version: number;
+  disabled_at: Date | null;
+  created_at: Date;
+};
 const toUser = (r: Row): UserRecord => ({
   id: r.id,
   email: r.email,
@@ -51,17 +73,44 @@ export async function findUserByEmail(db: DbOrTrx, email: string): Promise<UserR
   return row ? toUser(row) : null;
 }
 
-export async function insertUser(db: DbOrTrx, u: { email: string; name: string | null; role?: Role; emailVerified?: Date | null; affiliation?: string | null }): Promise<UserRecord> {
+export async function insertUser(
+  db: DbOrTrx,
+  u: {
+    email: string;
+    name: string | null;
+    role?: Role;
+    emailVerified?: Date | null;
+    affiliation?: string | null;
+  },
+): Promise<UserRecord> {
   const row = await db
     .insertInto('User')
-    .values({ email: u.email.trim(), name: u.name, role: u.role ?? 'reader', emailVerified: u.emailVerified ?? null, image: null, affiliation: u.affiliation ?? null, orcid: null, disabled_at: null })
+    .values({
+      email: u.email.trim(),
+      name: u.name,
+      role: u.role ?? 'reader',
+      emailVerified: u.emailVerified ?? null,
+      image: null,
+      affiliation: u.affiliation ?? null,
+      orcid: null,
+      disabled_at: null,
+    })
     .returning(columns)
     .executeTakeFirstOrThrow();
   return toUser(row);
 }
 
-export async function updateUserProfile(db: DbOrTrx, id: string, p: { name?: string | null; affiliation?: string | null; orcid?: string | null }): Promise<UserRecord> {
-  const row = await db.updateTable('User').set(p).where('id', '=', id).returning(columns).executeTakeFirstOrThrow();
+export async function updateUserProfile(
+  db: DbOrTrx,
+  id: string,
+  p: { name?: string | null; affiliation?: string | null; orcid?: string | null },
+): Promise<UserRecord> {
+  const row = await db
+    .updateTable('User')
+    .set(p)
+    .where('id', '=', id)
+    .returning(columns)
+    .executeTakeFirstOrThrow();
   return toUser(row);
 }
 
@@ -73,22 +122,36 @@ export async function setUserRole(db: DbOrTrx, id: string, role: Role): Promise<
 export async function setUserDisabled(db: DbOrTrx, id: string, disabled: boolean): Promise<void> {
   await db
     .updateTable('User')
-    .set({ disabled_at: disabled ? sql<Date>`now()` : null, session_version: sql<number>`session_version + 1` })
+    .set({
+      disabled_at: disabled ? sql<Date>`now()` : null,
+      session_version: sql<number>`session_version + 1`,
+    })
     .where('id', '=', id)
     .execute();
 }
 
 export async function markEmailVerified(db: DbOrTrx, id: string): Promise<void> {
-  await db.updateTable('User').set({ emailVerified: sql<Date>`coalesce("emailVerified", now())` }).where('id', '=', id).execute();
+  await db
+    .updateTable('User')
+    .set({ emailVerified: sql<Date>`coalesce("emailVerified", now())` })
+    .where('id', '=', id)
+    .execute();
 }
 
 /** Ends every session of the user (sign-out, password change, disable). */
 export async function bumpSessionVersion(db: DbOrTrx, id: string): Promise<void> {
   if (!isUuid(id)) return;
-  await db.updateTable('User').set({ session_version: sql<number>`session_version + 1` }).where('id', '=', id).execute();
+  await db
+    .updateTable('User')
+    .set({ session_version: sql<number>`session_version + 1` })
+    .where('id', '=', id)
+    .execute();
 }
 
-export async function listUsers(db: DbOrTrx, opts: { limit: number; offset: number; q?: string }): Promise<{ users: UserRecord[]; total: number }> {
+export async function listUsers(
+  db: DbOrTrx,
+  opts: { limit: number; offset: number; q?: string },
+): Promise<{ users: UserRecord[]; total: number }> {
   let base = db.selectFrom('User');
   if (opts.q) {
     const like = `%${opts.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
@@ -102,7 +165,11 @@ export async function listUsers(db: DbOrTrx, opts: { limit: number; offset: numb
 }
 
 export async function findPasswordHash(db: DbOrTrx, userId: string): Promise<string | null> {
-  const row = await db.selectFrom('password_credentials').select('hash').where('user_id', '=', userId).executeTakeFirst();
+  const row = await db
+    .selectFrom('password_credentials')
+    .select('hash')
+    .where('user_id', '=', userId)
+    .executeTakeFirst();
   return row?.hash ?? null;
 }
 
@@ -133,10 +200,20 @@ export async function findSessionUser(db: DbOrTrx, id: string): Promise<SessionU
     .select(
       sql<SessionUser['labs']>`coalesce((
         SELECT json_agg(json_build_object('labId', l.id, 'slug', l.slug, 'name', l.name, 'role', m.role) ORDER BY l.slug)
-        FROM lab_memberships m JOIN labs l ON l.id = m.lab_id WHERE m.user_id = u.id), '[]'::json)`.as('labs'),
+        FROM lab_memberships m JOIN labs l ON l.id = m.lab_id WHERE m.user_id = u.id), '[]'::json)`.as(
+        'labs',
+      ),
     )
     .where('u.id', '=', id)
     .executeTakeFirst();
   if (!row) return null;
-  return { id: row.id, email: row.email, name: row.name, role: row.role, sessionVersion: row.session_version, disabled: row.disabled_at !== null, labs: row.labs };
+  return {
+    id: row.id,
+    email: row.email,
+    name: row.name,
+    role: row.role,
+    sessionVersion: row.session_version,
+    disabled: row.disabled_at !== null,
+    labs: row.labs,
+  };
 }

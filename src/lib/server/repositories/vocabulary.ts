@@ -86,7 +86,10 @@ export async function getTermsByIds(db: DbOrTrx, ids: string[]): Promise<Vocabul
 }
 
 /** All terms, optionally of one kind, by kind and name. */
-export async function listTerms(db: DbOrTrx, opts: { kind?: VocabularyKind; includeMerged?: boolean } = {}): Promise<VocabularyTermRow[]> {
+export async function listTerms(
+  db: DbOrTrx,
+  opts: { kind?: VocabularyKind; includeMerged?: boolean } = {},
+): Promise<VocabularyTermRow[]> {
   let q = db.selectFrom('vocabulary_terms').selectAll();
   if (opts.kind) q = q.where('kind', '=', opts.kind);
   if (!opts.includeMerged) q = q.where('merged_into', 'is', null);

@@ -13,20 +13,26 @@ import { endpoint, readLimitedBytes, zodErrors } from '../../../lib/server/http/
 export const POST: APIRoute = endpoint(async ({ request }) => {
   const limit = config().MAX_ANALYSIS_BYTES;
   // Refuse by the declared length before reading anything; chunked bodies are cut at the limit.
-  if (Number(request.headers.get('content-length') ?? 0) > limit) throw new PayloadTooLargeError(limit);
+  if (Number(request.headers.get('content-length') ?? 0) > limit)
+    throw new PayloadTooLargeError(limit);
   const type = request.headers.get('content-type') ?? '';
   if (!type.toLowerCase().startsWith('multipart/form-data')) {
-    throw new ValidationError([{ path: '(body)', message: 'send multipart/form-data with a file and options' }]);
+    throw new ValidationError([
+      { path: '(body)', message: 'send multipart/form-data with a file and options' },
+    ]);
   }
   const body = await readLimitedBytes(request, limit);
   let form: FormData;
   try {
-    form = await new Response(new Blob([body as Uint8Array<ArrayBuffer>]), { headers: { 'content-type': type } }).formData();
+    form = await new Response(new Blob([body as Uint8Array<ArrayBuffer>]), {
+      headers: { 'content-type': type },
+    }).formData();
   } catch {
     throw new ValidationError([{ path: '(body)', message: 'malformed multipart body' }]);
   }
   const file = form.get('file');
-  if (!(file instanceof File)) throw new ValidationError([{ path: 'file', message: 'a file part named "file" is required' }]);
+  if (!(file instanceof File))
+    throw new ValidationError([{ path: 'file', message: 'a file part named "file" is required' }]);
   let raw: unknown;
   try {
     raw = JSON.parse(String(form.get('options') ?? '{}'));
@@ -34,7 +40,10 @@ export const POST: APIRoute = endpoint(async ({ request }) => {
     throw new ValidationError([{ path: 'options', message: 'options must be JSON' }]);
   }
   const options = analysisOptionsSchema.safeParse(raw);
-  if (!options.success) throw new ValidationError(zodErrors(options.error).map((e) => ({ ...e, path: `options.${e.path}` })));
+  if (!options.success)
+    throw new ValidationError(
+      zodErrors(options.error).map((e) => ({ ...e, path: `options.${e.path}` })),
+    );
   const result = await analyzeInWorker(new Uint8Array(await file.arrayBuffer()), options.data);
   return json(result);
 });

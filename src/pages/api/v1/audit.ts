@@ -4,4 +4,6 @@ import { endpoint, readQuery } from '../../../lib/server/http/route.ts';
 import { auditLog } from '../../../lib/server/curation-log.ts';
 import { auditQuery } from '../../../lib/shared/curation.ts';
 
-export const GET = endpoint(async ({ locals, url }) => json(await auditLog(db(), locals.principal, readQuery(url, auditQuery))));
+export const GET = endpoint(async ({ locals, url }) =>
+  json(await auditLog(db(), locals.principal, readQuery(url, auditQuery))),
+);

@@ -3,4 +3,6 @@ import { coverageMatrix, coverageQuerySchema } from '../../../lib/server/coverag
 import { json } from '../../../lib/server/http/problem.ts';
 import { endpoint, readQuery } from '../../../lib/server/http/route.ts';
 
-export const GET = endpoint(async ({ locals, url }) => json(await coverageMatrix(db(), locals.principal, readQuery(url, coverageQuerySchema))));
+export const GET = endpoint(async ({ locals, url }) =>
+  json(await coverageMatrix(db(), locals.principal, readQuery(url, coverageQuerySchema))),
+);

@@ -9,5 +9,11 @@ const IMPORT_LIMIT = 2 * 1024 * 1024;
 /** Bulk import: the CSV template's rows as drafts, all or none; 422 with line-numbered errors. */
 export const POST = endpoint(async ({ locals, request }) => {
   const csv = await readLimitedText(request, IMPORT_LIMIT);
-  return json(await importRecords(db(), locals.principal, { mediaType: request.headers.get('content-type') ?? '', csv }), 201);
+  return json(
+    await importRecords(db(), locals.principal, {
+      mediaType: request.headers.get('content-type') ?? '',
+      csv,
+    }),
+    201,
+  );
 });

@@ -5,5 +5,10 @@ import { listVocabulary, vocabularyQuerySchema } from '../../../lib/server/vocab
 
 export const GET = endpoint(async ({ locals, url }) => {
   const q = readQuery(url, vocabularyQuerySchema);
-  return json({ terms: await listVocabulary(db(), locals.principal, { ...(q.kind ? { kind: q.kind } : {}), ...(q.q ? { q: q.q } : {}) }) });
+  return json({
+    terms: await listVocabulary(db(), locals.principal, {
+      ...(q.kind ? { kind: q.kind } : {}),
+      ...(q.q ? { q: q.q } : {}),
+    }),
+  });
 });

@@ -7,6 +7,7 @@ import { tokenInput } from '../../../../lib/shared/account.ts';
 
 export const POST = endpoint(async ({ request }) => {
   const { token } = await readJson(request, tokenInput);
-  if (!(await confirmEmail(db(), token))) throw new NotFoundError('confirmation link (it may have expired or been used)');
+  if (!(await confirmEmail(db(), token)))
+    throw new NotFoundError('confirmation link (it may have expired or been used)');
   return json({ status: 'confirmed' });
 });

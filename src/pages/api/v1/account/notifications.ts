@@ -4,4 +4,6 @@ import { endpoint, readQuery } from '../../../../lib/server/http/route.ts';
 import { listNotifications } from '../../../../lib/server/curation-log.ts';
 import { notificationsQuery } from '../../../../lib/shared/curation.ts';
 
-export const GET = endpoint(async ({ locals, url }) => json(await listNotifications(db(), locals.principal, readQuery(url, notificationsQuery))));
+export const GET = endpoint(async ({ locals, url }) =>
+  json(await listNotifications(db(), locals.principal, readQuery(url, notificationsQuery))),
+);

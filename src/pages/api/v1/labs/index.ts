@@ -4,7 +4,9 @@ import { json } from '../../../../lib/server/http/problem.ts';
 import { allLabs, createLab } from '../../../../lib/server/labs.ts';
 import { labCreateInput } from '../../../../lib/shared/account.ts';
 
-export const GET = endpoint(async ({ locals }) => json({ labs: await allLabs(db(), locals.principal) }));
+export const GET = endpoint(async ({ locals }) =>
+  json({ labs: await allLabs(db(), locals.principal) }),
+);
 
 export const POST = endpoint(async ({ locals, request }) => {
   const lab = await createLab(db(), locals.principal, await readJson(request, labCreateInput));

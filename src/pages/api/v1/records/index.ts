@@ -5,9 +5,18 @@ import { recordQuerySchema, searchRecordAnswer } from '../../../../lib/server/re
 import { createRecord } from '../../../../lib/server/records.ts';
 import { createRecordBody } from '../../../../lib/shared/record.ts';
 
-export const GET = endpoint(async ({ locals, request, url }) => cachedJson(request, await searchRecordAnswer(db(), locals.principal, readQuery(url, recordQuerySchema))));
+export const GET = endpoint(async ({ locals, request, url }) =>
+  cachedJson(
+    request,
+    await searchRecordAnswer(db(), locals.principal, readQuery(url, recordQuerySchema)),
+  ),
+);
 
 export const POST = endpoint(async ({ locals, request }) => {
-  const record = await createRecord(db(), locals.principal, await readJson(request, createRecordBody));
+  const record = await createRecord(
+    db(),
+    locals.principal,
+    await readJson(request, createRecordBody),
+  );
   return json(record, 201, { location: `/api/v1/records/${record.handle}` });
 });

@@ -4,4 +4,6 @@ import { endpoint, readQuery } from '../../../../lib/server/http/route.ts';
 import { reviewQueue } from '../../../../lib/server/curation.ts';
 import { queueQuery } from '../../../../lib/shared/curation.ts';
 
-export const GET = endpoint(async ({ locals, url }) => json(await reviewQueue(db(), locals.principal, readQuery(url, queueQuery))));
+export const GET = endpoint(async ({ locals, url }) =>
+  json(await reviewQueue(db(), locals.principal, readQuery(url, queueQuery))),
+);

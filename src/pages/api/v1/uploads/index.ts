@@ -5,4 +5,6 @@ import { declareUpload } from '../../../../lib/server/uploads.ts';
 import { createUploadBody } from '../../../../lib/shared/record.ts';
 
 /** Declare a raw file: name, size, SHA-256, media type → an upload id and a short-lived PUT URL. */
-export const POST = endpoint(async ({ locals, request }) => json(await declareUpload(db(), locals.principal, await readJson(request, createUploadBody)), 201));
+export const POST = endpoint(async ({ locals, request }) =>
+  json(await declareUpload(db(), locals.principal, await readJson(request, createUploadBody)), 201),
+);

@@ -4,4 +4,6 @@ import { endpoint, readJson } from '../../../../lib/server/http/route.ts';
 import { mergeTerms } from '../../../../lib/server/vocabulary-upkeep.ts';
 import { mergeBody } from '../../../../lib/shared/curation.ts';
 
-export const POST = endpoint(async ({ locals, request }) => json(await mergeTerms(db(), locals.principal, await readJson(request, mergeBody))));
+export const POST = endpoint(async ({ locals, request }) =>
+  json(await mergeTerms(db(), locals.principal, await readJson(request, mergeBody))),
+);

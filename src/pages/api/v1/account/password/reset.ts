@@ -6,6 +6,7 @@ import { json } from '../../../../../lib/server/http/problem.ts';
 import { resetPasswordInput } from '../../../../../lib/shared/account.ts';
 
 export const POST = endpoint(async ({ request }) => {
-  if (!(await resetPassword(db(), await readJson(request, resetPasswordInput)))) throw new NotFoundError('reset link (it may have expired or been used)');
+  if (!(await resetPassword(db(), await readJson(request, resetPasswordInput))))
+    throw new NotFoundError('reset link (it may have expired or been used)');
   return json({ status: 'password changed' });
 });

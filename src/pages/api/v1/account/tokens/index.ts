@@ -4,7 +4,9 @@ import { endpoint, readJson } from '../../../../../lib/server/http/route.ts';
 import { json } from '../../../../../lib/server/http/problem.ts';
 import { apiTokenInput } from '../../../../../lib/shared/account.ts';
 
-export const GET = endpoint(async ({ locals }) => json({ tokens: await listTokens(db(), locals.principal) }));
+export const GET = endpoint(async ({ locals }) =>
+  json({ tokens: await listTokens(db(), locals.principal) }),
+);
 
 /** The secret is in this answer only; it cannot be shown again. */
 export const POST = endpoint(async ({ locals, request }) => {

@@ -4,4 +4,6 @@ import { json } from '../../../../../lib/server/http/problem.ts';
 import { getLab } from '../../../../../lib/server/labs.ts';
 
 /** The lab; its member list only for its members and admins. */
-export const GET = endpoint(async ({ locals, params }) => json(await getLab(db(), locals.principal, params.slug ?? '')));
+export const GET = endpoint(async ({ locals, params }) =>
+  json(await getLab(db(), locals.principal, params.slug ?? '')),
+);

@@ -4,9 +4,18 @@ import { endpoint, readJson } from '../../../../../lib/server/http/route.ts';
 import { editRecord, getRecord } from '../../../../../lib/server/records.ts';
 import { editRecordBody } from '../../../../../lib/shared/record.ts';
 
-export const GET = endpoint(async ({ locals, params }) => json(await getRecord(db(), locals.principal, params.handle!)));
+export const GET = endpoint(async ({ locals, params }) =>
+  json(await getRecord(db(), locals.principal, params.handle!)),
+);
 
 /** An edit: the whole content, the version it is based on and a change note; a new version. */
 export const PUT = endpoint(async ({ locals, params, request }) =>
-  json(await editRecord(db(), locals.principal, params.handle!, await readJson(request, editRecordBody))),
+  json(
+    await editRecord(
+      db(),
+      locals.principal,
+      params.handle!,
+      await readJson(request, editRecordBody),
+    ),
+  ),
 );

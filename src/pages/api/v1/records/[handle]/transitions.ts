@@ -6,7 +6,8 @@ import { getRecord, transitionRecord } from '../../../../../lib/server/records.t
 import { DECISIONS, decisionBody } from '../../../../../lib/shared/curation.ts';
 import { transitionBody } from '../../../../../lib/shared/record.ts';
 
-const isDecision = (action: string): action is (typeof DECISIONS)[number] => (DECISIONS as readonly string[]).includes(action);
+const isDecision = (action: string): action is (typeof DECISIONS)[number] =>
+  (DECISIONS as readonly string[]).includes(action);
 
 /**
  * Moves a record through its lifecycle. Curators' decisions (publish, request changes, decline)
@@ -16,8 +17,16 @@ const isDecision = (action: string): action is (typeof DECISIONS)[number] => (DE
 export const POST = endpoint(async ({ locals, params, request }) => {
   const body = await readJson(request, transitionBody);
   const p = locals.principal;
-  if (isDecision(body.action) && p.kind === 'user' && (p.role === 'curator' || p.role === 'admin')) {
-    const decision = decisionBody.parse({ decision: body.action, version: body.version, ...(body.reason ? { reason: body.reason } : {}) });
+  if (
+    isDecision(body.action) &&
+    p.kind === 'user' &&
+    (p.role === 'curator' || p.role === 'admin')
+  ) {
+    const decision = decisionBody.parse({
+      decision: body.action,
+      version: body.version,
+      ...(body.reason ? { reason: body.reason } : {}),
+    });
     await decide(db(), locals.principal, params.handle!, decision);
     return json(await getRecord(db(), locals.principal, params.handle!));
   }

@@ -4,4 +4,6 @@ import { endpoint, readQuery } from '../../../../../lib/server/http/route.ts';
 import { flagQueue } from '../../../../../lib/server/curation.ts';
 import { flagsQuery } from '../../../../../lib/shared/curation.ts';
 
-export const GET = endpoint(async ({ locals, url }) => json(await flagQueue(db(), locals.principal, readQuery(url, flagsQuery))));
+export const GET = endpoint(async ({ locals, url }) =>
+  json(await flagQueue(db(), locals.principal, readQuery(url, flagsQuery))),
+);

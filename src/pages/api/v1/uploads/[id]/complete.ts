@@ -4,4 +4,6 @@ import { endpoint } from '../../../../../lib/server/http/route.ts';
 import { completeUpload } from '../../../../../lib/server/uploads.ts';
 
 /** The server re-reads the object, checks size and SHA-256, analyses and attaches it. Idempotent. */
-export const POST = endpoint(async ({ locals, params }) => json(await completeUpload(db(), locals.principal, params.id!)));
+export const POST = endpoint(async ({ locals, params }) =>
+  json(await completeUpload(db(), locals.principal, params.id!)),
+);

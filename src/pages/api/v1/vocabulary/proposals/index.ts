@@ -4,6 +4,10 @@ import { endpoint, readJson, readQuery } from '../../../../../lib/server/http/ro
 import { listProposals, proposeTerm } from '../../../../../lib/server/vocabulary-upkeep.ts';
 import { proposalBody, proposalsQuery } from '../../../../../lib/shared/curation.ts';
 
-export const GET = endpoint(async ({ locals, url }) => json(await listProposals(db(), locals.principal, readQuery(url, proposalsQuery))));
+export const GET = endpoint(async ({ locals, url }) =>
+  json(await listProposals(db(), locals.principal, readQuery(url, proposalsQuery))),
+);
 
-export const POST = endpoint(async ({ locals, request }) => json(await proposeTerm(db(), locals.principal, await readJson(request, proposalBody)), 201));
+export const POST = endpoint(async ({ locals, request }) =>
+  json(await proposeTerm(db(), locals.principal, await readJson(request, proposalBody)), 201),
+);

@@ -6,7 +6,9 @@ import { memberChangeInput } from '../../../../../../lib/shared/account.ts';
 
 export const PATCH = endpoint(async ({ locals, params, request }) => {
   const { role } = await readJson(request, memberChangeInput);
-  return json(await changeMember(db(), locals.principal, params.slug ?? '', params.userId ?? '', role));
+  return json(
+    await changeMember(db(), locals.principal, params.slug ?? '', params.userId ?? '', role),
+  );
 });
 
 export const DELETE = endpoint(async ({ locals, params }) => {

@@ -4,7 +4,9 @@ import { json } from '../../../../../../lib/server/http/problem.ts';
 import { addMember, getLabMembers } from '../../../../../../lib/server/labs.ts';
 import { memberAddInput } from '../../../../../../lib/shared/account.ts';
 
-export const GET = endpoint(async ({ locals, params }) => json({ members: await getLabMembers(db(), locals.principal, params.slug ?? '') }));
+export const GET = endpoint(async ({ locals, params }) =>
+  json({ members: await getLabMembers(db(), locals.principal, params.slug ?? '') }),
+);
 
 /** Adds a member by e-mail address (or changes the role of an existing one). */
 export const POST = endpoint(async ({ locals, params, request }) => {

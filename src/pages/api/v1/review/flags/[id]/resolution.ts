@@ -4,4 +4,13 @@ import { endpoint, readJson } from '../../../../../../lib/server/http/route.ts';
 import { resolveFlag } from '../../../../../../lib/server/curation.ts';
 import { flagResolutionBody } from '../../../../../../lib/shared/curation.ts';
 
-export const POST = endpoint(async ({ locals, params, request }) => json(await resolveFlag(db(), locals.principal, params.id!, await readJson(request, flagResolutionBody))));
+export const POST = endpoint(async ({ locals, params, request }) =>
+  json(
+    await resolveFlag(
+      db(),
+      locals.principal,
+      params.id!,
+      await readJson(request, flagResolutionBody),
+    ),
+  ),
+);

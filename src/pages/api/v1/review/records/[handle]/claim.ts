@@ -4,7 +4,11 @@ import { endpoint, readJson } from '../../../../../../lib/server/http/route.ts';
 import { claimRecord, releaseClaim } from '../../../../../../lib/server/curation.ts';
 import { claimBody } from '../../../../../../lib/shared/curation.ts';
 
-export const POST = endpoint(async ({ locals, params, request }) => json(await claimRecord(db(), locals.principal, params.handle!, await readJson(request, claimBody))));
+export const POST = endpoint(async ({ locals, params, request }) =>
+  json(
+    await claimRecord(db(), locals.principal, params.handle!, await readJson(request, claimBody)),
+  ),
+);
 
 export const DELETE = endpoint(async ({ locals, params }) => {
   await releaseClaim(db(), locals.principal, params.handle!);

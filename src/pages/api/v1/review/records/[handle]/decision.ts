@@ -4,4 +4,6 @@ import { endpoint, readJson } from '../../../../../../lib/server/http/route.ts';
 import { decide } from '../../../../../../lib/server/curation.ts';
 import { decisionBody } from '../../../../../../lib/shared/curation.ts';
 
-export const POST = endpoint(async ({ locals, params, request }) => json(await decide(db(), locals.principal, params.handle!, await readJson(request, decisionBody))));
+export const POST = endpoint(async ({ locals, params, request }) =>
+  json(await decide(db(), locals.principal, params.handle!, await readJson(request, decisionBody))),
+);

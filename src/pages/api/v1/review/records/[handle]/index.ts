@@ -3,4 +3,6 @@ import { json } from '../../../../../../lib/server/http/problem.ts';
 import { endpoint } from '../../../../../../lib/server/http/route.ts';
 import { reviewDetail } from '../../../../../../lib/server/curation.ts';
 
-export const GET = endpoint(async ({ locals, params }) => json(await reviewDetail(db(), locals.principal, params.handle!)));
+export const GET = endpoint(async ({ locals, params }) =>
+  json(await reviewDetail(db(), locals.principal, params.handle!)),
+);

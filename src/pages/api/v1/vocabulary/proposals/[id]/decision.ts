@@ -4,4 +4,13 @@ import { endpoint, readJson } from '../../../../../../lib/server/http/route.ts';
 import { decideProposal } from '../../../../../../lib/server/vocabulary-upkeep.ts';
 import { proposalDecisionBody } from '../../../../../../lib/shared/curation.ts';
 
-export const POST = endpoint(async ({ locals, params, request }) => json(await decideProposal(db(), locals.principal, params.id!, await readJson(request, proposalDecisionBody))));
+export const POST = endpoint(async ({ locals, params, request }) =>
+  json(
+    await decideProposal(
+      db(),
+      locals.principal,
+      params.id!,
+      await readJson(request, proposalDecisionBody),
+    ),
+  ),
+);
