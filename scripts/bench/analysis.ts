@@ -18,7 +18,7 @@ import {
   normalise,
   readTable,
   turningPoints,
-} from '../../src/lib/analysis/index';
+} from '#lib/analysis/index.ts';
 
 const TARGET_MS = 500;
 const here = dirname(fileURLToPath(import.meta.url));

@@ -7,7 +7,7 @@ import pg from 'pg';
 import { parseArgs } from 'node:util';
 import { loadDemo } from '../../seed/demo.ts';
 import { percentile, report, startBenchStack } from './stack.ts';
-import type { Database } from '../../src/lib/server/db/schema.ts';
+import type { Database } from '#lib/server/db/schema.ts';
 
 const { values } = parseArgs({
   options: {
@@ -73,8 +73,7 @@ async function capturedSql(appUrl: string, path: string): Promise<CompiledQuery[
     dialect: new PostgresDialect({ pool }),
     log: (e: LogEvent) => void (e.level === 'query' && captured.push(e.query)),
   });
-  const { searchRecordList, recordQuerySchema } =
-    await import('../../src/lib/server/record-search.ts');
+  const { searchRecordList, recordQuerySchema } = await import('#lib/server/record-search.ts');
   const url = new URL(path, 'http://x');
   const q = recordQuerySchema.parse(
     Object.fromEntries(

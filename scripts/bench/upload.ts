@@ -4,8 +4,8 @@
 // Usage: npm run bench:upload [-- --mb 50]
 import { createHash, randomBytes } from 'node:crypto';
 import { parseArgs } from 'node:util';
-import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
-import { createDb } from '../../src/lib/server/db/index.ts';
+import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/index.ts';
+import { createDb } from '#lib/server/db/index.ts';
 import { percentile, report, startBenchStack } from './stack.ts';
 
 const { values } = parseArgs({ options: { mb: { type: 'string', default: '50' } } });
@@ -26,7 +26,7 @@ async function main() {
   const stack = await startBenchStack('edgewise_bench_upload', { fresh: true });
   const db = createDb(stack.adminUrl, 2);
   try {
-    const { createToken } = await import('../../src/lib/server/api-tokens.ts');
+    const { createToken } = await import('#lib/server/api-tokens.ts');
     const u = await db
       .insertInto('User')
       .values({

@@ -5,7 +5,7 @@ import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
-import { getObjectBytes, listObjects } from '../../src/lib/server/storage.ts';
+import { getObjectBytes, listObjects } from '#lib/server/storage.ts';
 import { pgBinDir } from './postgres.ts';
 
 export interface Manifest {

@@ -6,8 +6,8 @@ import {
   type ExportFormat,
   type ModelSamples,
   type Quantity,
-} from '../../src/lib/analysis/index.ts';
-import type { ColumnMap } from '../../src/lib/analysis/index.ts';
+} from '#lib/analysis/index.ts';
+import type { ColumnMap } from '#lib/analysis/index.ts';
 
 export interface ExportShape {
   key: string;

@@ -1,17 +1,13 @@
 // The demo scenario: three invented labs, their people, ~130 window records with raw exports from
 // the model in physics.ts, an invented literature, and the review story of each record.
 // Deterministic: the same seed gives the same scenario, byte for byte. Pure: no database, no files.
-import {
-  seededRandom,
-  type AnalysisOptions,
-  type ColumnMap,
-} from '../../src/lib/analysis/index.ts';
+import { seededRandom, type AnalysisOptions, type ColumnMap } from '#lib/analysis/index.ts';
 import type {
   EvidenceLevel,
   RecordContentInput,
   RecordStatus,
   TransitionAction,
-} from '../../src/lib/shared/record.ts';
+} from '#lib/shared/record.ts';
 import { CATALOGUE, REFERENCES, type Criterion, type RecordSpec } from './catalogue.ts';
 import { SHAPES, writeExport, type ExportShape } from './exports.ts';
 import { bibliography, type Paper } from './literature.ts';
@@ -25,7 +21,7 @@ import {
 } from './people.ts';
 import { modelLimit, runSamples, type Cell, type ModelCriterion, type Side } from './physics.ts';
 import { SYSTEMS } from './systems.ts';
-import { engineCriterion } from '../../src/lib/shared/criteria.ts';
+import { engineCriterion } from '#lib/shared/criteria.ts';
 
 export { CATALOGUE, LABS, PEOPLE, REFERENCES, SHAPES, SYSTEMS };
 export type { RecordSpec, ScenarioLab, ScenarioPerson };

@@ -1,7 +1,7 @@
 // The invented consortium: three labs, the people in them and around them, and the invented
 // literature the "stated" records cite. Nobody and nothing here is real; e-mail domains end in
 // .test (reserved, never delivered) and DOIs use the test prefix 10.5555.
-import type { LabRole, Role } from '../../src/lib/shared/principal.ts';
+import type { LabRole, Role } from '#lib/shared/principal.ts';
 
 export type LabSlug = 'riverbend-interfaces' | 'northmoor-energy' | 'kestrel-cells';
 

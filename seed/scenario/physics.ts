@@ -11,7 +11,7 @@ import {
   waterWindow,
   type ModelSamples,
   type Tafel,
-} from '../../src/lib/analysis/index.ts';
+} from '#lib/analysis/index.ts';
 
 export type Side = 'anodic' | 'cathodic';
 
@@ -141,7 +141,7 @@ export function onset(
       : { sheV: w.herV - el.aqueous.her - wide + inward, slopeV };
   }
   if (side === 'anodic') {
-    let e = sys.anodicSheV! + el.organic.anodic - inward;
+    const e = sys.anodicSheV! + el.organic.anodic - inward;
     // Pitting of aluminium is steep (a breakdown, not a slow film growth).
     if (electrode === 'aluminium' && !sys.passivatesAluminium && AL_PITTING_SHE_V < e)
       return { sheV: AL_PITTING_SHE_V - inward, slopeV: 0.08 };

@@ -275,6 +275,8 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
       }
     }
     return { plans, problems };
+    // rate, step, cycles and directions are all derived from f.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [f]);
 
   const energy = useMemo(() => {

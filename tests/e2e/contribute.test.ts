@@ -13,9 +13,9 @@ import {
 } from '../auth-helpers.ts';
 import { appUrl, waitForMail } from '../helpers.ts';
 import { curator } from '../support/records.ts';
-import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/synthetic.ts';
-import { decide } from '../../src/lib/server/curation.ts';
-import { decisionBody } from '../../src/lib/shared/curation.ts';
+import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/synthetic.ts';
+import { decide } from '#lib/server/curation.ts';
+import { decisionBody } from '#lib/shared/curation.ts';
 import {
   openBrowser,
   openDarkPhone,

@@ -1,7 +1,7 @@
 import { randomBytes } from 'node:crypto';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
+import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/index.ts';
 import {
   appDb,
   asJson,

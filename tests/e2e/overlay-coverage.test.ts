@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
+import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/index.ts';
 import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
 import {

@@ -1,6 +1,6 @@
 import http from 'node:http';
 import { describe, expect, it } from 'vitest';
-import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
+import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/index.ts';
 import { api, appUrl } from '../helpers.ts';
 import { expectToDigits } from '../support/digits.ts';
 

@@ -19,7 +19,7 @@ import {
   type Row,
   type Vars,
 } from './authz-routes.ts';
-import { createToken } from '../../src/lib/server/api-tokens.ts';
+import { createToken } from '#lib/server/api-tokens.ts';
 import { randomUUID, randomBytes } from 'node:crypto';
 
 // Route × method × principal → status, against the built server. The table lives in

@@ -71,7 +71,10 @@ export function row(
   opts: Omit<Row, 'method' | 'route' | 'expect'> = {},
 ): Row {
   const list = codes.trim().split(/\s+/).map(Number);
-  if (list.length === 1) ((list.length = PRINCIPALS.length), list.fill(list[0] ?? 0));
+  if (list.length === 1) {
+    list.length = PRINCIPALS.length;
+    list.fill(list[0] ?? 0);
+  }
   if (list.length !== PRINCIPALS.length || list.some((n) => !Number.isInteger(n)))
     throw new Error(`row ${method} ${route}: give one status or ${PRINCIPALS.length}`);
   return {

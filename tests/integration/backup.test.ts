@@ -6,8 +6,8 @@ import pg from 'pg';
 import { afterAll, describe, expect, it, inject } from 'vitest';
 import { backup } from '../../scripts/lib/backup.ts';
 import { dataDir, projectRoot } from '../../scripts/lib/paths.ts';
-import { createDb } from '../../src/lib/server/db/index.ts';
-import { putObject } from '../../src/lib/server/storage.ts';
+import { createDb } from '#lib/server/db/index.ts';
+import { putObject } from '#lib/server/storage.ts';
 
 // Round trip: back up the test database and its stored objects, restore into a brand-new
 // cluster (its own data folder and port) through `npm run restore`, compare.

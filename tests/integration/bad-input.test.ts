@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
+import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/index.ts';
 import { as, asJson, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { malformedFrom } from '../support/malformed.ts';
 import { content } from '../support/records.ts';

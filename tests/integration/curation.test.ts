@@ -15,12 +15,12 @@ import { waitForMail } from '../helpers.ts';
 import { attachRawThroughApi, ok } from '../support/api.ts';
 import { content } from '../support/records.ts';
 import { freshTerm } from '../support/curation.ts';
-import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
-import { decideIn } from '../../src/lib/server/curation.ts';
-import { queueMail } from '../../src/lib/server/outbox.ts';
-import { decisionBody } from '../../src/lib/shared/curation.ts';
-import type { RecordContentInput } from '../../src/lib/shared/record.ts';
-import type { UserPrincipal } from '../../src/lib/shared/principal.ts';
+import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/index.ts';
+import { decideIn } from '#lib/server/curation.ts';
+import { queueMail } from '#lib/server/outbox.ts';
+import { decisionBody } from '#lib/shared/curation.ts';
+import type { RecordContentInput } from '#lib/shared/record.ts';
+import type { UserPrincipal } from '#lib/shared/principal.ts';
 
 // The curator's side through the API of the built server: the queue and its filters, claims and
 // their expiry, decisions (one winner among concurrent curators), field comments, duplicates,

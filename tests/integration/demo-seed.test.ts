@@ -4,7 +4,7 @@
 import type { ChildProcess } from 'node:child_process';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import { analyzeText, decodeText, type AnalysisOptions } from '../../src/lib/analysis/index';
+import { analyzeText, decodeText, type AnalysisOptions } from '#lib/analysis/index.ts';
 import { dropDatabase, ensureCluster } from '../../scripts/lib/postgres';
 import { freePort, prepareDatabase, startApp } from '../../scripts/lib/services';
 import { DEMO_PASSWORD } from '../../seed/accounts';

@@ -7,9 +7,9 @@ import { startS3Fake, type S3Fake } from '../../docker-free-s3-fake/s3-fake.ts';
 import { startMailFake, type MailFake } from '../../scripts/lib/mail-fake.ts';
 import { dataDir, projectRoot } from '../../scripts/lib/paths.ts';
 import { freePort, startApp } from '../../scripts/lib/services.ts';
-import { createDb, type Db } from '../../src/lib/server/db/index.ts';
-import { cvWindowOpeningSamples, formatExport } from '../../src/lib/analysis/index.ts';
-import { readCapturedMail } from '../../src/lib/server/mail-capture.ts';
+import { createDb, type Db } from '#lib/server/db/index.ts';
+import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/index.ts';
+import { readCapturedMail } from '#lib/server/mail-capture.ts';
 import { content } from '../support/records.ts';
 
 // Faults, on a stack of this file's own (a PostgreSQL cluster in its own folder, both fakes, a
@@ -99,7 +99,7 @@ beforeAll(async () => {
   app = await startApp(inject('outDir'), env, port, true);
 
   // A contributor and a curator with API tokens, made in this cluster.
-  const { createToken } = await import('../../src/lib/server/api-tokens.ts');
+  const { createToken } = await import('#lib/server/api-tokens.ts');
   for (const role of ['contributor', 'curator'] as const) {
     const u = await admin
       .insertInto('User')

@@ -12,7 +12,7 @@ import {
 } from '../auth-helpers.ts';
 import { api, waitForMail } from '../helpers.ts';
 import { content, tag } from '../support/records.ts';
-import { IMPORT_COLUMN_NAMES, importTemplateCsv } from '../../src/lib/shared/import-template.ts';
+import { IMPORT_COLUMN_NAMES, importTemplateCsv } from '#lib/shared/import-template.ts';
 
 // Bulk import through the built server: the template round-trips, every row is checked before
 // anything is written, problems name their line and column, and a file imports whole or not at

@@ -4,8 +4,8 @@ import {
   forgetOldMailRequests,
   MESSAGES_PER_ADDRESS,
   requestsPerClient,
-} from '../../src/lib/server/auth/mail-limits.ts';
-import { readCapturedMail } from '../../src/lib/server/mail-capture.ts';
+} from '#lib/server/auth/mail-limits.ts';
+import { readCapturedMail } from '#lib/server/mail-capture.ts';
 import { api, waitForMail } from '../helpers.ts';
 import { appDb, asJson, closeAppDb, makeUser, uniqueEmail } from '../auth-helpers.ts';
 

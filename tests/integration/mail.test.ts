@@ -1,6 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
-import { sendMail } from '../../src/lib/server/mail.ts';
+import { sendMail } from '#lib/server/mail.ts';
 import { waitForMail } from '../helpers.ts';
 
 describe('mail through nodemailer to the local SMTP fake', () => {

@@ -2,8 +2,8 @@ import { sql } from 'kysely';
 import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest';
 import { migrationsDir } from '../../scripts/lib/services.ts';
-import { createDb, type Db } from '../../src/lib/server/db/index.ts';
-import { migrateToLatest } from '../../src/lib/server/db/migrate.ts';
+import { createDb, type Db } from '#lib/server/db/index.ts';
+import { migrateToLatest } from '#lib/server/db/migrate.ts';
 
 // Migrations run up on an empty database of their own, then the append-only rules are checked
 // in the database the server under test uses.

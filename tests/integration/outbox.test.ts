@@ -5,14 +5,13 @@ import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { startMailFake, type MailFake } from '../../scripts/lib/mail-fake.ts';
 import { freePort } from '../../scripts/lib/services.ts';
-import { readCapturedMail } from '../../src/lib/server/mail-capture.ts';
+import { readCapturedMail } from '#lib/server/mail-capture.ts';
 
 // This file's process sends to a mail server of its own, which is down at first.
 const port = await freePort();
 process.env.SMTP_PORT = String(port);
-const { db } = await import('../../src/lib/server/db/index.ts');
-const { deliverDueMail, queueMail, retryDelaySeconds } =
-  await import('../../src/lib/server/outbox.ts');
+const { db } = await import('#lib/server/db/index.ts');
+const { deliverDueMail, queueMail, retryDelaySeconds } = await import('#lib/server/outbox.ts');
 
 const dir = mkdtempSync(path.join(tmpdir(), 'edgewise-outbox-'));
 let fake: MailFake | undefined;

@@ -10,11 +10,11 @@ import {
   signIn,
 } from '../auth-helpers.ts';
 import { content, tag } from '../support/records.ts';
-import { createDb } from '../../src/lib/server/db/index.ts';
-import { REFERENCE_ELECTRODES } from '../../src/lib/analysis/index.ts';
+import { createDb } from '#lib/server/db/index.ts';
+import { REFERENCE_ELECTRODES } from '#lib/analysis/index.ts';
 import { VOCABULARY } from '../../seed/vocabulary.ts';
-import { TRANSITIONS, nextStatus } from '../../src/lib/server/record-status.ts';
-import { RECORD_STATUSES, TRANSITION_ACTIONS } from '../../src/lib/shared/record.ts';
+import { TRANSITIONS, nextStatus } from '#lib/server/record-status.ts';
+import { RECORD_STATUSES, TRANSITION_ACTIONS } from '#lib/shared/record.ts';
 
 // Records through the API of the built server: drafts, versions, the status machine,
 // concurrency, and what the database itself refuses.
@@ -477,7 +477,7 @@ describe('vocabulary', () => {
   });
 
   it('loads idempotently', async () => {
-    const { loadVocabulary } = await import('../../src/lib/server/vocabulary.ts');
+    const { loadVocabulary } = await import('#lib/server/vocabulary.ts');
     const before = await appDb()
       .selectFrom('vocabulary_terms')
       .select((e) => e.fn.countAll<string>().as('n'))

@@ -7,12 +7,12 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { appDb, as, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { api } from '../helpers.ts';
 import { curator, makeRecord, principal, tag } from '../support/records.ts';
-import { can } from '../../src/lib/server/policy.ts';
-import { policyObject } from '../../src/lib/server/records.ts';
-import { readScope } from '../../src/lib/server/record-search.ts';
-import { getRecordHead, searchRecords } from '../../src/lib/server/repositories/records.ts';
-import type { Principal } from '../../src/lib/shared/principal.ts';
-import { ANONYMOUS } from '../../src/lib/shared/principal.ts';
+import { can } from '#lib/server/policy.ts';
+import { policyObject } from '#lib/server/records.ts';
+import { readScope } from '#lib/server/record-search.ts';
+import { getRecordHead, searchRecords } from '#lib/server/repositories/records.ts';
+import type { Principal } from '#lib/shared/principal.ts';
+import { ANONYMOUS } from '#lib/shared/principal.ts';
 
 // Finding records over a seeded set (all tagged with one token so other files' records stay out),
 // what private records never reveal, exports that parse back, and the OpenAPI document.

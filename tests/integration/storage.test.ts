@@ -6,7 +6,7 @@ import {
   presignPut,
   putObject,
   deleteObject,
-} from '../../src/lib/server/storage.ts';
+} from '#lib/server/storage.ts';
 
 describe('object storage through the S3 SDK against the local fake', () => {
   it('stores bytes and reads back exactly the same bytes', async () => {

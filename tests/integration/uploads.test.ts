@@ -16,11 +16,11 @@ import {
   formatExport,
   lsvSamples,
   type AnalysisOptions,
-} from '../../src/lib/analysis/index.ts';
-import { attachRawFile } from '../../src/lib/server/records.ts';
-import { insertRawFile } from '../../src/lib/server/repositories/records.ts';
-import { cleanStaleUploads, safeFileName } from '../../src/lib/server/uploads.ts';
-import { getObjectBytes, putObject } from '../../src/lib/server/storage.ts';
+} from '#lib/analysis/index.ts';
+import { attachRawFile } from '#lib/server/records.ts';
+import { insertRawFile } from '#lib/server/repositories/records.ts';
+import { cleanStaleUploads, safeFileName } from '#lib/server/uploads.ts';
+import { getObjectBytes, putObject } from '#lib/server/storage.ts';
 
 // Raw files in two phases against the built server and the S3 fake: declare, PUT to the
 // presigned URL, complete (verified, analysed, attached); and everything that can go wrong.

@@ -5,6 +5,7 @@ import { asJson } from '../auth-helpers.ts';
 // Steps through the API that many tests take on the way to what they test.
 
 /** The JSON body of a response that must have exactly `status`; otherwise an error naming `what`. */
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- callers name the type they read
 export async function ok<T = any>(res: Response, what: string, status = 200): Promise<T> {
   const body = res.status === 204 ? null : await res.json();
   if (res.status !== status) throw new Error(`${what}: ${res.status} ${JSON.stringify(body)}`);

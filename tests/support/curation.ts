@@ -3,9 +3,9 @@
 import { randomBytes } from 'node:crypto';
 import { appDb } from '../auth-helpers.ts';
 import { makeRecord, principal } from './records.ts';
-import { proposeTerm } from '../../src/lib/server/vocabulary-upkeep.ts';
-import { termKeys } from '../../src/lib/shared/vocabulary.ts';
-import type { VocabularyKind } from '../../src/lib/shared/vocabulary.ts';
+import { proposeTerm } from '#lib/server/vocabulary-upkeep.ts';
+import { termKeys } from '#lib/shared/vocabulary.ts';
+import type { VocabularyKind } from '#lib/shared/vocabulary.ts';
 
 const hex = () => randomBytes(4).toString('hex');
 

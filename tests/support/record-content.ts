@@ -1,5 +1,5 @@
 // Valid window-record content for tests and benchmarks (no test-runner imports, so scripts can use it too).
-import type { RecordContentInput } from '../../src/lib/shared/record.ts';
+import type { RecordContentInput } from '#lib/shared/record.ts';
 
 /** A documented window-opening CV record in PC / LiPF6 on glassy carbon (invented numbers). */
 export function content(over: Partial<RecordContentInput> = {}): RecordContentInput {

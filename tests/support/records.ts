@@ -2,10 +2,10 @@
 // any status made through the services (so every move is the real one, with its audit row).
 import { createHash, randomBytes } from 'node:crypto';
 import { appDb, ensureLab, makeUser } from '../auth-helpers.ts';
-import { createRecord, transitionRecord, type RecordDetail } from '../../src/lib/server/records.ts';
-import type { RecordContentInput, RecordStatus } from '../../src/lib/shared/record.ts';
-import type { LabRole, Role, UserPrincipal } from '../../src/lib/shared/principal.ts';
-import { recordContentSchema } from '../../src/lib/shared/record.ts';
+import { createRecord, transitionRecord, type RecordDetail } from '#lib/server/records.ts';
+import type { RecordContentInput, RecordStatus } from '#lib/shared/record.ts';
+import type { LabRole, Role, UserPrincipal } from '#lib/shared/principal.ts';
+import { recordContentSchema } from '#lib/shared/record.ts';
 
 export const tag = (t: string) => `${t}${randomBytes(4).toString('hex')}`;
 
@@ -111,7 +111,7 @@ const smallCv =
 
 /** A pending upload (declared, nothing stored) of a lab draft's owner; its id. */
 export async function pendingUpload(lab: string): Promise<string> {
-  const { declareUpload } = await import('../../src/lib/server/uploads.ts');
+  const { declareUpload } = await import('#lib/server/uploads.ts');
   const { owner, record } = await makeRecord({ lab, over: { visibility: 'lab' } });
   const t = await declareUpload(appDb(), owner, uploadBody(record.handle, smallCv));
   return t.id;
@@ -119,8 +119,8 @@ export async function pendingUpload(lab: string): Promise<string> {
 
 /** A verified raw file attached to a lab draft; its id. */
 export async function labRawFile(lab: string): Promise<string> {
-  const { declareUpload, completeUpload } = await import('../../src/lib/server/uploads.ts');
-  const { putObject } = await import('../../src/lib/server/storage.ts');
+  const { declareUpload, completeUpload } = await import('#lib/server/uploads.ts');
+  const { putObject } = await import('#lib/server/storage.ts');
   const { owner, record } = await makeRecord({ lab, over: { visibility: 'lab' } });
   const t = await declareUpload(appDb(), owner, uploadBody(record.handle, smallCv));
   await putObject(`raw/${t.id}`, smallCv, 'text/csv');

@@ -1,5 +1,5 @@
 import { useId, useMemo, useRef, useState } from 'react';
-import { decimateMinMax } from '../../lib/analysis/decimate.ts';
+import { decimateMinMax } from '#lib/analysis/decimate.ts';
 import { buttonQuiet } from '../ui.tsx';
 import { downloadPng, downloadSvg } from './figure.ts';
 import {
@@ -89,7 +89,11 @@ export default function CurveChart({ curves, xLabel, figureName, height = 360 }:
     let lo = Infinity;
     let hi = -Infinity;
     for (const c of curves)
-      for (const v of c.x) if (Number.isFinite(v)) ((lo = Math.min(lo, v)), (hi = Math.max(hi, v)));
+      for (const v of c.x) {
+        if (!Number.isFinite(v)) continue;
+        lo = Math.min(lo, v);
+        hi = Math.max(hi, v);
+      }
     return Number.isFinite(lo) ? [lo, hi] : [0, 1];
   }, [curves]);
   const [view, setView] = useState<[number, number] | null>(null);

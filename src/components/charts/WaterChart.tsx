@@ -1,4 +1,4 @@
-import { waterWindow } from '../../lib/analysis/water.ts';
+import { waterWindow } from '#lib/analysis/water.ts';
 import { AxisBottom, AxisLeft, ChartFrame, linearScale, niceTicks, seriesColour } from './plot.tsx';
 
 /** A published aqueous window placed on the chart: limits on SHE at the record's pH. */

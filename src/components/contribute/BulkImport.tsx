@@ -1,6 +1,6 @@
 import { useState } from 'react';
-import { ApiError, errorMessage } from '../../lib/client/api.ts';
-import { importCsv, type ImportAnswer } from '../../lib/client/contribute.ts';
+import { ApiError, errorMessage } from '#lib/client/api.ts';
+import { importCsv, type ImportAnswer } from '#lib/client/contribute.ts';
 import { buttonPrimary, muted, panel } from '../ui.tsx';
 
 // Bulk import of stated records from the CSV template: the server checks every row first and

@@ -2,17 +2,17 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { QueryClientProvider, useQuery } from '@tanstack/react-query';
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { FormProvider, useForm, type Resolver } from 'react-hook-form';
-import { ApiError, errorMessage, getJson } from '../../lib/client/api.ts';
+import { ApiError, errorMessage, getJson } from '#lib/client/api.ts';
 import {
   conflictVersion,
   createDraft,
   saveDraft,
   submitRecord,
   type UploadDone,
-} from '../../lib/client/contribute.ts';
-import { queryClient } from '../../lib/client/query.ts';
-import { recordQueries, type RecordDetail } from '../../lib/client/records.ts';
-import { recordContentSchema } from '../../lib/shared/record.ts';
+} from '#lib/client/contribute.ts';
+import { queryClient } from '#lib/client/query.ts';
+import { recordQueries, type RecordDetail } from '#lib/client/records.ts';
+import { recordContentSchema } from '#lib/shared/record.ts';
 import { buttonPrimary, buttonQuiet, Failed, Loading, muted, panel } from '../ui.tsx';
 import AnalysisPreview from './AnalysisPreview.tsx';
 import { CuratorNotes } from './fields.tsx';

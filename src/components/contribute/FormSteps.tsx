@@ -1,14 +1,14 @@
 import { useQuery } from '@tanstack/react-query';
 import { useFieldArray, useFormContext, useWatch } from 'react-hook-form';
-import { shortName, vocabularyQueries } from '../../lib/client/records.ts';
-import { CAUTION_AUTHORITY, GAS_CAUTION, cautionsFor } from '../../lib/shared/cautions.ts';
+import { shortName, vocabularyQueries } from '#lib/client/records.ts';
+import { CAUTION_AUTHORITY, GAS_CAUTION, cautionsFor } from '#lib/shared/cautions.ts';
 import {
   CONCENTRATION_BASES,
   DOI_PATTERN,
   ELECTRODE_FORMS,
   FRACTION_BASES,
   LICENCES,
-} from '../../lib/shared/record.ts';
+} from '#lib/shared/record.ts';
 import { buttonQuiet, muted } from '../ui.tsx';
 import { Choice, Field, FieldFoot, Group } from './fields.tsx';
 import type { FormValues } from './form-model.ts';

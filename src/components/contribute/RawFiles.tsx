@@ -1,13 +1,13 @@
 import { useCallback, useRef, useState } from 'react';
-import { normalise } from '../../lib/analysis/normalise.ts';
+import { normalise } from '#lib/analysis/normalise.ts';
 import {
   decodeText,
   readTable,
   type ColumnInfo,
   type Dialect,
   type Quantity,
-} from '../../lib/analysis/read.ts';
-import { errorMessage } from '../../lib/client/api.ts';
+} from '#lib/analysis/read.ts';
+import { errorMessage } from '#lib/client/api.ts';
 import {
   UploadCancelled,
   completeUpload,
@@ -16,7 +16,7 @@ import {
   sha256Hex,
   type Mapping,
   type UploadDone,
-} from '../../lib/client/contribute.ts';
+} from '#lib/client/contribute.ts';
 import { buttonPrimary, buttonQuiet, input, muted, panel } from '../ui.tsx';
 
 // Step 5: raw files dropped in the browser, read by the engine for a preview whose column

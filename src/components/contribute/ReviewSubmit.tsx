@@ -1,6 +1,6 @@
 import { useId } from 'react';
-import type { RecordDetail } from '../../lib/client/records.ts';
-import type { RecordContent } from '../../lib/shared/record.ts';
+import type { RecordDetail } from '#lib/client/records.ts';
+import type { RecordContent } from '#lib/shared/record.ts';
 import { buttonPrimary, input, muted } from '../ui.tsx';
 import { DISAGREE_V } from './AnalysisPreview.tsx';
 import { Cautions } from './FormSteps.tsx';

@@ -1,9 +1,9 @@
 import { useQuery } from '@tanstack/react-query';
 import { useEffect, useId, useMemo, useRef, useState } from 'react';
 import { useController, useFormContext } from 'react-hook-form';
-import { ApiError, errorMessage, sendJson } from '../../lib/client/api.ts';
-import { vocabularyQueries, type IndexTerm } from '../../lib/client/records.ts';
-import { lookupKey, type VocabularyKind } from '../../lib/shared/vocabulary.ts';
+import { ApiError, errorMessage, sendJson } from '#lib/client/api.ts';
+import { vocabularyQueries, type IndexTerm } from '#lib/client/records.ts';
+import { lookupKey, type VocabularyKind } from '#lib/shared/vocabulary.ts';
 import { buttonQuiet, input, muted } from '../ui.tsx';
 import { FieldFoot } from './fields.tsx';
 import type { FormValues } from './form-model.ts';
@@ -129,12 +129,16 @@ export default function TermInput({
         onFocus={() => setOpen(true)}
         onBlur={() => setTimeout(settle, 120)}
         onKeyDown={(e) => {
-          if (e.key === 'ArrowDown')
-            (e.preventDefault(), setActive((a) => Math.min(a + 1, matches.length - 1)));
-          else if (e.key === 'ArrowUp') (e.preventDefault(), setActive((a) => Math.max(a - 1, 0)));
-          else if (e.key === 'Enter' && open && matches[active])
-            (e.preventDefault(), pick(matches[active]!));
-          else if (e.key === 'Escape') setOpen(false);
+          if (e.key === 'ArrowDown') {
+            e.preventDefault();
+            setActive((a) => Math.min(a + 1, matches.length - 1));
+          } else if (e.key === 'ArrowUp') {
+            e.preventDefault();
+            setActive((a) => Math.max(a - 1, 0));
+          } else if (e.key === 'Enter' && open && matches[active]) {
+            e.preventDefault();
+            pick(matches[active]!);
+          } else if (e.key === 'Escape') setOpen(false);
         }}
       />
       {open && matches.length > 0 && (

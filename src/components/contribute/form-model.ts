@@ -3,7 +3,7 @@ import {
   recordContentSchema,
   type RecordContent,
   type RecordContentInput,
-} from '../../lib/shared/record.ts';
+} from '#lib/shared/record.ts';
 
 // The contribute form's values and their way to and from record content. The form keeps empty
 // strings and blank numbers while the contributor types; `toContent` drops them, derives the

@@ -1,5 +1,5 @@
 import { useEffect, useId, useState } from 'react';
-import { REFERENCE_ELECTRODES } from '../../lib/analysis/references.ts';
+import { REFERENCE_ELECTRODES } from '#lib/analysis/references.ts';
 import { input, muted } from '../ui.tsx';
 
 /** Kinds of common criterion, in the engine's notation, with their threshold unit and a usual default. */

@@ -8,11 +8,11 @@ import {
   type VisibilityState,
 } from '@tanstack/react-table';
 import { useMemo, useState } from 'react';
-import { summarizeBy, type Summary } from '../../lib/analysis/aggregate.ts';
-import { referenceConversion } from '../../lib/analysis/references.ts';
-import { waterWindow } from '../../lib/analysis/water.ts';
-import { apiPath, getFile } from '../../lib/client/api.ts';
-import { queryClient } from '../../lib/client/query.ts';
+import { summarizeBy, type Summary } from '#lib/analysis/aggregate.ts';
+import { referenceConversion } from '#lib/analysis/references.ts';
+import { waterWindow } from '#lib/analysis/water.ts';
+import { apiPath, getFile } from '#lib/client/api.ts';
+import { queryClient } from '#lib/client/query.ts';
 import {
   commonOnScale,
   criterionText,
@@ -27,9 +27,9 @@ import {
   type RecordQuery,
   type SearchItem,
   type SortKey,
-} from '../../lib/client/records.ts';
-import { MAX_OVERLAY, overlayHref, pickedHandles } from '../../lib/client/overlay.ts';
-import { useSearchState } from '../../lib/client/url-state.ts';
+} from '#lib/client/records.ts';
+import { MAX_OVERLAY, overlayHref, pickedHandles } from '#lib/client/overlay.ts';
+import { useSearchState } from '#lib/client/url-state.ts';
 import WindowLadder, { type LadderRow } from '../charts/WindowLadder.tsx';
 import {
   buttonPrimary,
@@ -324,6 +324,8 @@ function ExplorerView({ initialSearch }: { initialSearch: string }) {
       />
     ),
   };
+  // pickColumn is rebuilt on every render; what it draws changes with the search.
+  // eslint-disable-next-line react-hooks/exhaustive-deps
   const cols = useMemo(() => [pickColumn, ...columns(scale, terms)], [scale, terms, search]);
   const table = useReactTable({
     data: rows,

@@ -12,7 +12,7 @@ import {
   type FacetName,
   type IndexTerm,
   type RecordQuery,
-} from '../../lib/client/records.ts';
+} from '#lib/client/records.ts';
 import { buttonQuiet, input, muted } from '../ui.tsx';
 
 type ListKey = 'component' | 'electrode' | 'method' | 'criterionKind' | 'cellType' | 'evidence';

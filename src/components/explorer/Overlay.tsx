@@ -1,8 +1,8 @@
 import { QueryClientProvider, useQueries, useQuery } from '@tanstack/react-query';
 import { useMemo } from 'react';
-import type { AnalysisOptions, AnalysisResult } from '../../lib/analysis/analyze.ts';
-import { errorMessage } from '../../lib/client/api.ts';
-import { queryClient } from '../../lib/client/query.ts';
+import type { AnalysisOptions, AnalysisResult } from '#lib/analysis/analyze.ts';
+import { errorMessage } from '#lib/client/api.ts';
+import { queryClient } from '#lib/client/query.ts';
 import {
   electrolyteText,
   longName,
@@ -10,9 +10,9 @@ import {
   recordQueries,
   vocabularyQueries,
   type RecordDetail,
-} from '../../lib/client/records.ts';
-import { MAX_OVERLAY, pickedHandles } from '../../lib/client/overlay.ts';
-import { useSearchState } from '../../lib/client/url-state.ts';
+} from '#lib/client/records.ts';
+import { MAX_OVERLAY, pickedHandles } from '#lib/client/overlay.ts';
+import { useSearchState } from '#lib/client/url-state.ts';
 import CurveChart, { type Curve } from '../charts/CurveChart.tsx';
 import { seriesColour } from '../charts/plot.tsx';
 import { rawSamples } from '../record/RawData.tsx';
@@ -105,6 +105,7 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
     });
     return { curves, notes };
     // The texts array is new on every render; its update times say when its data changed.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [textKey, jobs.length, terms]);
 
   const remove = (h: string) => {

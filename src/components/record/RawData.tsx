@@ -1,16 +1,12 @@
 import { useQuery } from '@tanstack/react-query';
 import { useMemo, useState } from 'react';
-import {
-  analyzeText,
-  type AnalysisOptions,
-  type AnalysisResult,
-} from '../../lib/analysis/analyze.ts';
-import { sFromCe } from '../../lib/analysis/cv.ts';
-import { parseCriterion } from '../../lib/analysis/limits.ts';
-import { normalise } from '../../lib/analysis/normalise.ts';
-import { readTable } from '../../lib/analysis/read.ts';
-import { errorMessage } from '../../lib/client/api.ts';
-import { rawFileQueries, type AnalysisView, type RecordDetail } from '../../lib/client/records.ts';
+import { analyzeText, type AnalysisOptions, type AnalysisResult } from '#lib/analysis/analyze.ts';
+import { sFromCe } from '#lib/analysis/cv.ts';
+import { parseCriterion } from '#lib/analysis/limits.ts';
+import { normalise } from '#lib/analysis/normalise.ts';
+import { readTable } from '#lib/analysis/read.ts';
+import { errorMessage } from '#lib/client/api.ts';
+import { rawFileQueries, type AnalysisView, type RecordDetail } from '#lib/client/records.ts';
 import CriterionPlot, { type CriterionPoint } from '../charts/CriterionPlot.tsx';
 import CurveChart, { type Curve } from '../charts/CurveChart.tsx';
 import { CriterionChooser } from '../explorer/Choosers.tsx';
@@ -92,6 +88,8 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
     } catch (e) {
       return { error: errorMessage(e) };
     }
+    // params, the file and the stored offset belong to the analysis, fixed for this block.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [text.data]);
 
   // Recomputed whenever the criterion or the file changes: the engine runs here, on the raw text.
@@ -104,6 +102,8 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
     } catch (e) {
       return { error: errorMessage(e) };
     }
+    // params belong to the analysis, fixed for this block.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [criterion, text.data]);
   const shown = recomputed?.result ?? stored;
   const series = criterionSeries(shown);

@@ -1,8 +1,8 @@
 import { QueryClientProvider, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useId, useMemo, useState } from 'react';
-import { referenceConversion, REFERENCE_ELECTRODES } from '../../lib/analysis/references.ts';
-import { sendJson, errorMessage } from '../../lib/client/api.ts';
-import { queryClient } from '../../lib/client/query.ts';
+import { referenceConversion, REFERENCE_ELECTRODES } from '#lib/analysis/references.ts';
+import { sendJson, errorMessage } from '#lib/client/api.ts';
+import { queryClient } from '#lib/client/query.ts';
 import {
   criterionText,
   electrolyteText,
@@ -12,8 +12,8 @@ import {
   vocabularyQueries,
   type IndexTerm,
   type RecordDetail,
-} from '../../lib/client/records.ts';
-import { CAUTION_AUTHORITY, cautionsFor, GAS_CAUTION } from '../../lib/shared/cautions.ts';
+} from '#lib/client/records.ts';
+import { CAUTION_AUTHORITY, cautionsFor, GAS_CAUTION } from '#lib/shared/cautions.ts';
 import {
   buttonPrimary,
   buttonQuiet,

@@ -1,6 +1,6 @@
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
-import { recordQueries, type RecordDetail } from '../../lib/client/records.ts';
+import { recordQueries, type RecordDetail } from '#lib/client/records.ts';
 import { buttonQuiet, EvidenceBadge, Failed, Loading, muted, panel } from '../ui.tsx';
 
 const show = (v: unknown) =>

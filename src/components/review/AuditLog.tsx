@@ -1,7 +1,7 @@
 import { QueryClientProvider, useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
-import { queryClient } from '../../lib/client/query.ts';
-import { reviewQueries, type AuditFilters } from '../../lib/client/review.ts';
+import { queryClient } from '#lib/client/query.ts';
+import { reviewQueries, type AuditFilters } from '#lib/client/review.ts';
 import { buttonPrimary, buttonQuiet, Empty, Failed, input, Loading, muted, panel } from '../ui.tsx';
 
 // Who did what, when: the audit log filtered by actor, record, action and dates, in pages.

@@ -1,8 +1,8 @@
 import { QueryClientProvider, useMutation, useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
-import { errorMessage, queryClient } from '../../lib/client/query.ts';
-import { reviewActions, reviewQueries } from '../../lib/client/review.ts';
-import type { FlagItem } from '../../lib/shared/curation.ts';
+import { errorMessage, queryClient } from '#lib/client/query.ts';
+import { reviewActions, reviewQueries } from '#lib/client/review.ts';
+import type { FlagItem } from '#lib/shared/curation.ts';
 import { buttonPrimary, Empty, Failed, input, Loading, muted, panel } from '../ui.tsx';
 
 // Readers' flags on published records, and their resolution: dismiss (the record stays

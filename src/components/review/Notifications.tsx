@@ -1,7 +1,7 @@
 import { QueryClientProvider, useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
-import { queryClient } from '../../lib/client/query.ts';
-import { reviewQueries } from '../../lib/client/review.ts';
+import { queryClient } from '#lib/client/query.ts';
+import { reviewQueries } from '#lib/client/review.ts';
 import { buttonQuiet, Empty, Failed, Loading, muted } from '../ui.tsx';
 
 // The signed-in user's messages about their records, flags and proposed terms, newest first:

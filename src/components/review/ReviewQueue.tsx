@@ -1,9 +1,9 @@
 import { QueryClientProvider, useMutation, useQuery } from '@tanstack/react-query';
 import { useEffect, useState } from 'react';
-import { errorMessage, queryClient } from '../../lib/client/query.ts';
-import { METHOD_NAMES, METHOD_KINDS, EVIDENCE_LEVELS } from '../../lib/client/records.ts';
-import { reviewActions, reviewQueries, type QueueFilters } from '../../lib/client/review.ts';
-import type { QueueItem } from '../../lib/shared/curation.ts';
+import { errorMessage, queryClient } from '#lib/client/query.ts';
+import { METHOD_NAMES, METHOD_KINDS, EVIDENCE_LEVELS } from '#lib/client/records.ts';
+import { reviewActions, reviewQueries, type QueueFilters } from '#lib/client/review.ts';
+import type { QueueItem } from '#lib/shared/curation.ts';
 import {
   buttonPrimary,
   buttonQuiet,

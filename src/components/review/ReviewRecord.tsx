@@ -1,9 +1,9 @@
 import { QueryClientProvider, useMutation, useQuery } from '@tanstack/react-query';
 import { useRef, useState } from 'react';
-import { errorMessage, queryClient } from '../../lib/client/query.ts';
-import { reviewActions, reviewQueries } from '../../lib/client/review.ts';
-import type { Decision, FieldComment, ReviewDetail } from '../../lib/shared/curation.ts';
-import type { RecordContent } from '../../lib/shared/record.ts';
+import { errorMessage, queryClient } from '#lib/client/query.ts';
+import { reviewActions, reviewQueries } from '#lib/client/review.ts';
+import type { Decision, FieldComment, ReviewDetail } from '#lib/shared/curation.ts';
+import type { RecordContent } from '#lib/shared/record.ts';
 import {
   buttonPrimary,
   buttonQuiet,

@@ -1,9 +1,9 @@
 import { QueryClientProvider, useMutation, useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
-import { errorMessage, queryClient } from '../../lib/client/query.ts';
-import { reviewActions, reviewQueries } from '../../lib/client/review.ts';
-import type { ProposalView } from '../../lib/shared/curation.ts';
-import type { VocabularyTerm } from '../../lib/shared/vocabulary.ts';
+import { errorMessage, queryClient } from '#lib/client/query.ts';
+import { reviewActions, reviewQueries } from '#lib/client/review.ts';
+import type { ProposalView } from '#lib/shared/curation.ts';
+import type { VocabularyTerm } from '#lib/shared/vocabulary.ts';
 import { buttonPrimary, buttonQuiet, Empty, Failed, input, Loading, muted, panel } from '../ui.tsx';
 
 // Vocabulary upkeep: proposed terms, merging duplicates (every record follows), and reference

@@ -5,7 +5,6 @@ import type {
   EvidenceLevel,
   MethodKind,
   RecordContent,
-  RecordStatus,
 } from '../shared/record.ts';
 import type { VocabularyKind, VocabularyTerm } from '../shared/vocabulary.ts';
 import { apiPath, getJson } from './api.ts';

@@ -15,7 +15,6 @@ import { applyTransition, diffRecordVersions, policyObject } from './records.ts'
 import { CONFIRM_TOLERANCE_V } from './record-derive.ts';
 import { insertAuditEvent, type DbOrTrx } from './repositories/audit.ts';
 import {
-  AGREEMENT_V,
   dropClaim,
   duplicateCandidates,
   getFlag,

@@ -26,7 +26,7 @@ import type { Db } from './db/index.ts';
 import { ValidationError } from './errors.ts';
 import { LISTED } from './record-status.ts';
 import { scaleContext } from './record-derive.ts';
-import { toSummary, type RecordSummary } from './records.ts';
+import { toSummary } from './records.ts';
 import {
   analysesByIds,
   countRecords,

@@ -70,6 +70,8 @@ export function safeFileName(name: string): string {
   const base = name.split(/[\\/]/).pop() ?? '';
   const cleaned = base
     .normalize('NFKD')
+    // Control characters and bidirectional marks are what makes a name harmful.
+    // eslint-disable-next-line no-control-regex
     .replace(/[\u0000-\u001f\u007f\u200e\u200f\u202a-\u202e\u2066-\u2069]/g, '')
     .replace(/[^A-Za-z0-9._-]+/g, '_')
     .replace(/^[._]+/, '')

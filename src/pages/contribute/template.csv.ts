@@ -1,5 +1,5 @@
 import type { APIRoute } from 'astro';
-import { importTemplateCsv } from '../../lib/shared/import-template.ts';
+import { importTemplateCsv } from '#lib/shared/import-template.ts';
 
 /** The bulk-import template, as a download. */
 export const GET: APIRoute = () =>

@@ -8,7 +8,7 @@ import {
   formatExport,
   holdSamples,
   lsvSamples,
-} from '../../../src/lib/analysis/index';
+} from '#lib/analysis/index.ts';
 import { expectToDigits } from '../../support/digits';
 
 const root = resolve(__dirname, '../../..');

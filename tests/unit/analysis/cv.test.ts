@@ -10,7 +10,7 @@ import {
   sFromCe,
   sValue,
   type ExportFormat,
-} from '../../../src/lib/analysis/index';
+} from '#lib/analysis/index.ts';
 import { expectToDigits } from '../../support/digits';
 
 // METHODS.md §8 A model: C = 0.010 F, v = 5 mV/s, start 0 V, vertices 0.7…1.1 V, Tafel current

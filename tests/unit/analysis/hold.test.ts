@@ -5,7 +5,7 @@ import {
   holdSamples,
   holdStepsFromPotential,
   tailMean,
-} from '../../../src/lib/analysis/index';
+} from '#lib/analysis/index.ts';
 import { expectToDigits } from '../../support/digits';
 
 // METHODS.md §8 D: active mass 2.0 mg, 1200 s holds at 0.80…1.00 V in 50 mV steps, current

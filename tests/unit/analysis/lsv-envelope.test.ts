@@ -10,7 +10,7 @@ import {
   type Limit,
   type LsvEnvelope,
   type LsvModel,
-} from '../../../src/lib/analysis/index';
+} from '#lib/analysis/index.ts';
 
 // The envelope of a linear sweep: the limit at any other current cutoff, found again without the
 // curve. The engine's own `lsvLimit` on the full curve is the reference throughout; check values

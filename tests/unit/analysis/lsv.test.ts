@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeText, formatExport, lsvSamples } from '../../../src/lib/analysis/index';
+import { analyzeText, formatExport, lsvSamples } from '#lib/analysis/index.ts';
 
 // Current-density cutoffs for linear sweeps: Xu, Ding, Jow, J. Electrochem. Soc. 146 (1999) 4172,
 // DOI 10.1149/1.1392609 (why the cutoff must be stated); 10–50 µA/cm² aqueous, 0.1–1 mA/cm² for

@@ -11,7 +11,7 @@ import {
   summarize,
   summarizeBy,
   turningPoints,
-} from '../../../src/lib/analysis/index';
+} from '#lib/analysis/index.ts';
 
 describe('units and criteria', () => {
   it('parses quantities with prefixes, µ as u, and negative powers', () => {

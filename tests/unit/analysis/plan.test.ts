@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { windowOpeningPlan } from '../../../src/lib/analysis/plan.ts';
+import { windowOpeningPlan } from '#lib/analysis/plan.ts';
 
 // Window-opening schedule (METHODS.md §7, common practice): a cycle runs out to the vertex and
 // back, so it takes 2·|E_vertex − E_start| / v.

@@ -11,7 +11,7 @@ import {
   type AnalysisResult,
   type ExportFormat,
   type Quantity,
-} from '../../../src/lib/analysis/index';
+} from '#lib/analysis/index.ts';
 
 /** A random window-opening CV, kept small so hundreds of runs stay quick. */
 const cvModel = fc.record({

@@ -5,7 +5,7 @@ import {
   normalise,
   readTable,
   splitHeaderName,
-} from '../../../src/lib/analysis/index';
+} from '#lib/analysis/index.ts';
 
 function err(f: () => unknown): AnalysisError {
   try {

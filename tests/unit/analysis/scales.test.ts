@@ -13,7 +13,7 @@ import {
   specificEnergyWhPerKg,
   symmetricCellCapacitanceFPerG,
   waterWindow,
-} from '../../../src/lib/analysis/index';
+} from '#lib/analysis/index.ts';
 import { expectToDigits } from '../../support/digits';
 
 describe('METHODS.md §8 B: reference conversion', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { comparisonHref, overlayHref, pickedHandles } from '../../../src/lib/client/overlay.ts';
+import { comparisonHref, overlayHref, pickedHandles } from '#lib/client/overlay.ts';
 
 describe('overlay addresses', () => {
   it('keeps valid, unique handles, at most six', () => {

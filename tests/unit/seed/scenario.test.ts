@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
-import { analyzeText, waterWindow } from '../../../src/lib/analysis/index';
-import { TRANSITIONS, EDITABLE } from '../../../src/lib/server/record-status';
+import { analyzeText, waterWindow } from '#lib/analysis/index.ts';
+import { TRANSITIONS, EDITABLE } from '#lib/server/record-status.ts';
 import {
   CELL_TYPES,
   EVIDENCE_LEVELS,
@@ -12,11 +12,11 @@ import {
   recordContentSchema,
   type RecordContentInput,
   type RecordStatus,
-} from '../../../src/lib/shared/record';
-import { ROLES } from '../../../src/lib/shared/principal';
-import { lookupKey, termKeys } from '../../../src/lib/shared/vocabulary';
-import { DEMO_ACCOUNTS } from '../../../seed/accounts';
-import { VOCABULARY } from '../../../seed/vocabulary';
+} from '#lib/shared/record.ts';
+import { ROLES } from '#lib/shared/principal.ts';
+import { lookupKey, termKeys } from '#lib/shared/vocabulary.ts';
+import { DEMO_ACCOUNTS } from '#seed/accounts.ts';
+import { VOCABULARY } from '#seed/vocabulary.ts';
 import {
   CONFIRM_TOLERANCE_V,
   REFERENCES,
@@ -25,8 +25,8 @@ import {
   engineOptions,
   generateScenario,
   type ScenarioRecord,
-} from '../../../seed/scenario/index';
-import { ELECTRODES } from '../../../seed/scenario/physics';
+} from '#seed/scenario/index.ts';
+import { ELECTRODES } from '#seed/scenario/physics.ts';
 
 const scenario = generateScenario();
 const hash = (x: unknown) => createHash('sha256').update(JSON.stringify(x)).digest('hex');

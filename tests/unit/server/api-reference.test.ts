@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { apiReference, fieldRows, typeText } from '../../../src/lib/server/api-reference.ts';
-import { openApiDocument } from '../../../src/lib/server/openapi.ts';
+import { apiReference, fieldRows, typeText } from '#lib/server/api-reference.ts';
+import { openApiDocument } from '#lib/server/openapi.ts';
 
 // A small document with the shapes the real one uses: references, nested objects, arrays of
 // objects, unions, enums and bounds.

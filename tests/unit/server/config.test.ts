@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { ConfigError, parseConfig } from '../../../src/lib/server/config.ts';
+import { ConfigError, parseConfig } from '#lib/server/config.ts';
 
 const valid = {
   DATABASE_URL: 'postgres://u:p@127.0.0.1:5432/db',

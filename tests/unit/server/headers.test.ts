@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { applySecurityHeaders, pagePolicy } from '../../../src/lib/server/http/headers.ts';
-import { checkStateChangingRequest } from '../../../src/lib/server/http/origin.ts';
+import { applySecurityHeaders, pagePolicy } from '#lib/server/http/headers.ts';
+import { checkStateChangingRequest } from '#lib/server/http/origin.ts';
 
 describe('pagePolicy', () => {
   it("keeps Astro's hashed script and style sources and adds what they lack", () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { normaliseOrcid, orcidCheckCharacter } from '../../../src/lib/shared/orcid.ts';
+import { normaliseOrcid, orcidCheckCharacter } from '#lib/shared/orcid.ts';
 
 // 0000-0002-1825-0097 is the example iD in ORCID's own documentation of the check digit.
 describe('ORCID iD check character (ISO 7064 MOD 11-2)', () => {

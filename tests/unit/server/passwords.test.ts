@@ -4,7 +4,7 @@ import {
   passwordProblem,
   verifyPassword,
   MAX_PASSWORD_BYTES,
-} from '../../../src/lib/server/auth/passwords.ts';
+} from '#lib/server/auth/passwords.ts';
 
 describe('password rules', () => {
   it('wants at least 12 characters', () => {

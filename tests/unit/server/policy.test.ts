@@ -5,18 +5,9 @@ import {
   canSee,
   type RecordObject,
   type RecordStatus,
-} from '../../../src/lib/server/policy.ts';
-import {
-  ForbiddenError,
-  NotFoundError,
-  UnauthorizedError,
-} from '../../../src/lib/server/errors.ts';
-import {
-  ANONYMOUS,
-  type Principal,
-  type Role,
-  type UserPrincipal,
-} from '../../../src/lib/shared/principal.ts';
+} from '#lib/server/policy.ts';
+import { ForbiddenError, NotFoundError, UnauthorizedError } from '#lib/server/errors.ts';
+import { ANONYMOUS, type Principal, type Role, type UserPrincipal } from '#lib/shared/principal.ts';
 
 const NOW = new Date('2027-03-01T00:00:00Z');
 const LAB_A = 'lab-a';

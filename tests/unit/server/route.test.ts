@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
-import { ConflictError, TooManyRequestsError } from '../../../src/lib/server/errors.ts';
-import { readJson, readQuery, toProblem } from '../../../src/lib/server/http/route.ts';
+import { ConflictError, TooManyRequestsError } from '#lib/server/errors.ts';
+import { readJson, readQuery, toProblem } from '#lib/server/http/route.ts';
 
 const body = (text: string, type = 'application/json') =>
   new Request('http://x/api', { method: 'POST', body: text, headers: { 'content-type': type } });

@@ -4,8 +4,8 @@ import {
   looksLikeApiToken,
   newApiToken,
   randomSecret,
-} from '../../../src/lib/server/auth/secrets.ts';
-import { clientAddressOf, requestClientAddress } from '../../../src/lib/server/auth/throttle.ts';
+} from '#lib/server/auth/secrets.ts';
+import { clientAddressOf, requestClientAddress } from '#lib/server/auth/throttle.ts';
 
 describe('token hashing', () => {
   it('is SHA-256 in lower-case hex (known value for "abc")', () => {

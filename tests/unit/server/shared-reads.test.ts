@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { sharedReads } from '../../../src/lib/server/shared-reads.ts';
+import { sharedReads } from '#lib/server/shared-reads.ts';
 
 // A read that the test finishes by hand, numbering each start, so it can be seen which callers
 // shared which read.

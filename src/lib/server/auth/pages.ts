@@ -1,6 +1,6 @@
 import type { AstroGlobal } from 'astro';
 import { can, type Action, type ActionObjects } from '../policy.ts';
-import type { UserPrincipal } from '../../shared/principal.ts';
+import type { UserPrincipal } from '#lib/shared/principal.ts';
 import { handleAuthRequest, AUTH_BASE } from './authjs.ts';
 import { requestClientAddress } from './throttle.ts';
 

@@ -2,7 +2,7 @@ import { db } from '../db/index.ts';
 import { UnauthorizedError } from '../errors.ts';
 import { findLiveApiToken, touchApiToken } from '../repositories/auth-tokens.ts';
 import { findSessionUser, type SessionUser } from '../repositories/users.ts';
-import { ANONYMOUS, type Principal, type Scope } from '../../shared/principal.ts';
+import { ANONYMOUS, type Principal, type Scope } from '#lib/shared/principal.ts';
 import { readSessionToken } from './authjs.ts';
 import { hashSecret, looksLikeApiToken } from './secrets.ts';
 

@@ -8,7 +8,7 @@ import {
 } from 'kysely';
 import type { AnalysisTable, RawFileTable, RecordVersionTable, ReviewTable } from '../db/schema.ts';
 import type { DbOrTrx } from './audit.ts';
-import type { FacetName } from '../../shared/record-views.ts';
+import type { FacetName } from '#lib/shared/record-views.ts';
 
 // All SQL about window records, their versions, raw files, analyses, reviews and flags.
 

@@ -1,7 +1,7 @@
 import { sql } from 'kysely';
 import type { Selectable } from 'kysely';
 import type { VocabularyTermTable } from '../db/schema.ts';
-import type { VocabularyKind, VocabularyTerm } from '../../shared/vocabulary.ts';
+import type { VocabularyKind, VocabularyTerm } from '#lib/shared/vocabulary.ts';
 import type { DbOrTrx } from './audit.ts';
 
 export type VocabularyTermRow = Selectable<VocabularyTermTable>;

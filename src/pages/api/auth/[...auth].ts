@@ -1,7 +1,7 @@
 import type { APIRoute } from 'astro';
-import { handleAuthRequest } from '../../../lib/server/auth/authjs.ts';
-import { requestClientAddress } from '../../../lib/server/auth/throttle.ts';
-import { endpoint } from '../../../lib/server/http/route.ts';
+import { handleAuthRequest } from '#lib/server/auth/authjs.ts';
+import { requestClientAddress } from '#lib/server/auth/throttle.ts';
+import { endpoint } from '#lib/server/http/route.ts';
 
 // Auth.js endpoints: sign-in (password, e-mail link), callbacks, session, sign-out.
 const handle: APIRoute = endpoint((ctx) =>

@@ -1,10 +1,10 @@
 import type { APIRoute } from 'astro';
-import { analysisOptionsSchema } from '../../../lib/shared/analysis-options.ts';
-import { analyzeInWorker } from '../../../lib/server/analysis-pool.ts';
-import { config } from '../../../lib/server/config.ts';
-import { PayloadTooLargeError, ValidationError } from '../../../lib/server/errors.ts';
-import { json } from '../../../lib/server/http/problem.ts';
-import { endpoint, readLimitedBytes, zodErrors } from '../../../lib/server/http/route.ts';
+import { analysisOptionsSchema } from '#lib/shared/analysis-options.ts';
+import { analyzeInWorker } from '#lib/server/analysis-pool.ts';
+import { config } from '#lib/server/config.ts';
+import { PayloadTooLargeError, ValidationError } from '#lib/server/errors.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { endpoint, readLimitedBytes, zodErrors } from '#lib/server/http/route.ts';
 
 /**
  * Analyse one raw export without storing it: multipart with `file` and `options` (JSON text of

@@ -1,8 +1,8 @@
-import { db } from '../../../lib/server/db/index.ts';
-import { json } from '../../../lib/server/http/problem.ts';
-import { endpoint, readQuery } from '../../../lib/server/http/route.ts';
-import { auditLog } from '../../../lib/server/curation-log.ts';
-import { auditQuery } from '../../../lib/shared/curation.ts';
+import { db } from '#lib/server/db/index.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { endpoint, readQuery } from '#lib/server/http/route.ts';
+import { auditLog } from '#lib/server/curation-log.ts';
+import { auditQuery } from '#lib/shared/curation.ts';
 
 export const GET = endpoint(async ({ locals, url }) =>
   json(await auditLog(db(), locals.principal, readQuery(url, auditQuery))),

@@ -1,6 +1,6 @@
-import { db } from '../../../lib/server/db/index.ts';
-import { EXPORT_TYPES, exportQuerySchema, exportStream } from '../../../lib/server/exports.ts';
-import { endpoint, readQuery } from '../../../lib/server/http/route.ts';
+import { db } from '#lib/server/db/index.ts';
+import { EXPORT_TYPES, exportQuerySchema, exportStream } from '#lib/server/exports.ts';
+import { endpoint, readQuery } from '#lib/server/http/route.ts';
 
 /** Every record the filters match (no paging), as CSV, JSON, BibTeX or CSL-JSON; streamed. */
 export const GET = endpoint(async ({ locals, url }) => {

@@ -1,7 +1,7 @@
-import { db } from '../../../lib/server/db/index.ts';
-import { json } from '../../../lib/server/http/problem.ts';
-import { endpoint, readLimitedText } from '../../../lib/server/http/route.ts';
-import { importRecords } from '../../../lib/server/imports.ts';
+import { db } from '#lib/server/db/index.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { endpoint, readLimitedText } from '#lib/server/http/route.ts';
+import { importRecords } from '#lib/server/imports.ts';
 
 /** Largest CSV file one import accepts (bytes). */
 const IMPORT_LIMIT = 2 * 1024 * 1024;

@@ -1,7 +1,7 @@
-import { db } from '../../../lib/server/db/index.ts';
-import { json } from '../../../lib/server/http/problem.ts';
-import { endpoint, readQuery } from '../../../lib/server/http/route.ts';
-import { listVocabulary, vocabularyQuerySchema } from '../../../lib/server/vocabulary.ts';
+import { db } from '#lib/server/db/index.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { endpoint, readQuery } from '#lib/server/http/route.ts';
+import { listVocabulary, vocabularyQuerySchema } from '#lib/server/vocabulary.ts';
 
 export const GET = endpoint(async ({ locals, url }) => {
   const q = readQuery(url, vocabularyQuerySchema);

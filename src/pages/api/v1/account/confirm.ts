@@ -1,9 +1,9 @@
-import { confirmEmail } from '../../../../lib/server/accounts.ts';
-import { db } from '../../../../lib/server/db/index.ts';
-import { NotFoundError } from '../../../../lib/server/errors.ts';
-import { endpoint, readJson } from '../../../../lib/server/http/route.ts';
-import { json } from '../../../../lib/server/http/problem.ts';
-import { tokenInput } from '../../../../lib/shared/account.ts';
+import { confirmEmail } from '#lib/server/accounts.ts';
+import { db } from '#lib/server/db/index.ts';
+import { NotFoundError } from '#lib/server/errors.ts';
+import { endpoint, readJson } from '#lib/server/http/route.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { tokenInput } from '#lib/shared/account.ts';
 
 export const POST = endpoint(async ({ request }) => {
   const { token } = await readJson(request, tokenInput);

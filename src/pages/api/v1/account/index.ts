@@ -1,8 +1,8 @@
-import { getProfile, updateProfile } from '../../../../lib/server/accounts.ts';
-import { db } from '../../../../lib/server/db/index.ts';
-import { endpoint, readJson } from '../../../../lib/server/http/route.ts';
-import { json } from '../../../../lib/server/http/problem.ts';
-import { profileInput } from '../../../../lib/shared/account.ts';
+import { getProfile, updateProfile } from '#lib/server/accounts.ts';
+import { db } from '#lib/server/db/index.ts';
+import { endpoint, readJson } from '#lib/server/http/route.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { profileInput } from '#lib/shared/account.ts';
 
 export const GET = endpoint(async ({ locals }) => json(await getProfile(db(), locals.principal)));
 

@@ -1,9 +1,9 @@
-import { signUp } from '../../../../lib/server/accounts.ts';
-import { requestClientAddress } from '../../../../lib/server/auth/throttle.ts';
-import { db } from '../../../../lib/server/db/index.ts';
-import { endpoint, readJson } from '../../../../lib/server/http/route.ts';
-import { json } from '../../../../lib/server/http/problem.ts';
-import { signUpInput } from '../../../../lib/shared/account.ts';
+import { signUp } from '#lib/server/accounts.ts';
+import { requestClientAddress } from '#lib/server/auth/throttle.ts';
+import { db } from '#lib/server/db/index.ts';
+import { endpoint, readJson } from '#lib/server/http/route.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { signUpInput } from '#lib/shared/account.ts';
 
 /** 202 whether or not the address had an account; the e-mail tells its owner which. */
 export const POST = endpoint(async ({ request }) => {

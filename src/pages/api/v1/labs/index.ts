@@ -1,8 +1,8 @@
-import { db } from '../../../../lib/server/db/index.ts';
-import { endpoint, readJson } from '../../../../lib/server/http/route.ts';
-import { json } from '../../../../lib/server/http/problem.ts';
-import { allLabs, createLab } from '../../../../lib/server/labs.ts';
-import { labCreateInput } from '../../../../lib/shared/account.ts';
+import { db } from '#lib/server/db/index.ts';
+import { endpoint, readJson } from '#lib/server/http/route.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { allLabs, createLab } from '#lib/server/labs.ts';
+import { labCreateInput } from '#lib/shared/account.ts';
 
 export const GET = endpoint(async ({ locals }) =>
   json({ labs: await allLabs(db(), locals.principal) }),

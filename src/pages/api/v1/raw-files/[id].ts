@@ -1,6 +1,6 @@
-import { db } from '../../../../lib/server/db/index.ts';
-import { endpoint } from '../../../../lib/server/http/route.ts';
-import { downloadRawFile } from '../../../../lib/server/uploads.ts';
+import { db } from '#lib/server/db/index.ts';
+import { endpoint } from '#lib/server/http/route.ts';
+import { downloadRawFile } from '#lib/server/uploads.ts';
 
 /** A raw file as an attachment, through the server (so the record's visibility applies). */
 export const GET = endpoint(async ({ locals, params }) => {

@@ -1,9 +1,9 @@
-import { db } from '../../../../lib/server/db/index.ts';
-import { cachedJson, json } from '../../../../lib/server/http/problem.ts';
-import { endpoint, readJson, readQuery } from '../../../../lib/server/http/route.ts';
-import { recordQuerySchema, searchRecordAnswer } from '../../../../lib/server/record-search.ts';
-import { createRecord } from '../../../../lib/server/records.ts';
-import { createRecordBody } from '../../../../lib/shared/record.ts';
+import { db } from '#lib/server/db/index.ts';
+import { cachedJson, json } from '#lib/server/http/problem.ts';
+import { endpoint, readJson, readQuery } from '#lib/server/http/route.ts';
+import { recordQuerySchema, searchRecordAnswer } from '#lib/server/record-search.ts';
+import { createRecord } from '#lib/server/records.ts';
+import { createRecordBody } from '#lib/shared/record.ts';
 
 export const GET = endpoint(async ({ locals, request, url }) =>
   cachedJson(

@@ -1,9 +1,9 @@
-import { requestPasswordReset } from '../../../../../lib/server/accounts.ts';
-import { requestClientAddress } from '../../../../../lib/server/auth/throttle.ts';
-import { db } from '../../../../../lib/server/db/index.ts';
-import { endpoint, readJson } from '../../../../../lib/server/http/route.ts';
-import { json } from '../../../../../lib/server/http/problem.ts';
-import { emailInput } from '../../../../../lib/shared/account.ts';
+import { requestPasswordReset } from '#lib/server/accounts.ts';
+import { requestClientAddress } from '#lib/server/auth/throttle.ts';
+import { db } from '#lib/server/db/index.ts';
+import { endpoint, readJson } from '#lib/server/http/route.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { emailInput } from '#lib/shared/account.ts';
 
 /** 202 whether or not the address has an account. */
 export const POST = endpoint(async ({ request }) => {

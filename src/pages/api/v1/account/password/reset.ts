@@ -1,9 +1,9 @@
-import { resetPassword } from '../../../../../lib/server/accounts.ts';
-import { db } from '../../../../../lib/server/db/index.ts';
-import { NotFoundError } from '../../../../../lib/server/errors.ts';
-import { endpoint, readJson } from '../../../../../lib/server/http/route.ts';
-import { json } from '../../../../../lib/server/http/problem.ts';
-import { resetPasswordInput } from '../../../../../lib/shared/account.ts';
+import { resetPassword } from '#lib/server/accounts.ts';
+import { db } from '#lib/server/db/index.ts';
+import { NotFoundError } from '#lib/server/errors.ts';
+import { endpoint, readJson } from '#lib/server/http/route.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { resetPasswordInput } from '#lib/shared/account.ts';
 
 export const POST = endpoint(async ({ request }) => {
   if (!(await resetPassword(db(), await readJson(request, resetPasswordInput))))

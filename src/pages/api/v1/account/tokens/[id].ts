@@ -1,6 +1,6 @@
-import { revokeToken } from '../../../../../lib/server/api-tokens.ts';
-import { db } from '../../../../../lib/server/db/index.ts';
-import { endpoint } from '../../../../../lib/server/http/route.ts';
+import { revokeToken } from '#lib/server/api-tokens.ts';
+import { db } from '#lib/server/db/index.ts';
+import { endpoint } from '#lib/server/http/route.ts';
 
 export const DELETE = endpoint(async ({ locals, params }) => {
   await revokeToken(db(), locals.principal, params.id ?? '');

@@ -1,8 +1,8 @@
-import { createToken, listTokens } from '../../../../../lib/server/api-tokens.ts';
-import { db } from '../../../../../lib/server/db/index.ts';
-import { endpoint, readJson } from '../../../../../lib/server/http/route.ts';
-import { json } from '../../../../../lib/server/http/problem.ts';
-import { apiTokenInput } from '../../../../../lib/shared/account.ts';
+import { createToken, listTokens } from '#lib/server/api-tokens.ts';
+import { db } from '#lib/server/db/index.ts';
+import { endpoint, readJson } from '#lib/server/http/route.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { apiTokenInput } from '#lib/shared/account.ts';
 
 export const GET = endpoint(async ({ locals }) =>
   json({ tokens: await listTokens(db(), locals.principal) }),

@@ -1,8 +1,8 @@
-import { changeAccount } from '../../../../../lib/server/admin.ts';
-import { db } from '../../../../../lib/server/db/index.ts';
-import { endpoint, readJson } from '../../../../../lib/server/http/route.ts';
-import { json } from '../../../../../lib/server/http/problem.ts';
-import { userChangeInput } from '../../../../../lib/shared/account.ts';
+import { changeAccount } from '#lib/server/admin.ts';
+import { db } from '#lib/server/db/index.ts';
+import { endpoint, readJson } from '#lib/server/http/route.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { userChangeInput } from '#lib/shared/account.ts';
 
 /** Changes an account's role and/or disables it: `{ "role": "curator" }`, `{ "disabled": true }`. */
 export const PATCH = endpoint(async ({ locals, params, request }) => {

@@ -1,7 +1,7 @@
-import { db } from '../../../../../lib/server/db/index.ts';
-import { endpoint } from '../../../../../lib/server/http/route.ts';
-import { json } from '../../../../../lib/server/http/problem.ts';
-import { getLab } from '../../../../../lib/server/labs.ts';
+import { db } from '#lib/server/db/index.ts';
+import { endpoint } from '#lib/server/http/route.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { getLab } from '#lib/server/labs.ts';
 
 /** The lab; its member list only for its members and admins. */
 export const GET = endpoint(async ({ locals, params }) =>

@@ -1,7 +1,7 @@
-import { db } from '../../../../../lib/server/db/index.ts';
-import { json } from '../../../../../lib/server/http/problem.ts';
-import { endpoint, readQuery } from '../../../../../lib/server/http/route.ts';
-import { diffQuerySchema, diffRecordVersions } from '../../../../../lib/server/records.ts';
+import { db } from '#lib/server/db/index.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { endpoint, readQuery } from '#lib/server/http/route.ts';
+import { diffQuerySchema, diffRecordVersions } from '#lib/server/records.ts';
 
 export const GET = endpoint(async ({ locals, params, url }) => {
   const q = readQuery(url, diffQuerySchema);

@@ -1,8 +1,8 @@
-import { db } from '../../../../../lib/server/db/index.ts';
-import { json } from '../../../../../lib/server/http/problem.ts';
-import { endpoint, readJson } from '../../../../../lib/server/http/route.ts';
-import { editRecord, getRecord } from '../../../../../lib/server/records.ts';
-import { editRecordBody } from '../../../../../lib/shared/record.ts';
+import { db } from '#lib/server/db/index.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { endpoint, readJson } from '#lib/server/http/route.ts';
+import { editRecord, getRecord } from '#lib/server/records.ts';
+import { editRecordBody } from '#lib/shared/record.ts';
 
 export const GET = endpoint(async ({ locals, params }) =>
   json(await getRecord(db(), locals.principal, params.handle!)),

@@ -1,10 +1,10 @@
-import { decide } from '../../../../../lib/server/curation.ts';
-import { db } from '../../../../../lib/server/db/index.ts';
-import { json } from '../../../../../lib/server/http/problem.ts';
-import { endpoint, readJson } from '../../../../../lib/server/http/route.ts';
-import { getRecord, transitionRecord } from '../../../../../lib/server/records.ts';
-import { DECISIONS, decisionBody } from '../../../../../lib/shared/curation.ts';
-import { transitionBody } from '../../../../../lib/shared/record.ts';
+import { decide } from '#lib/server/curation.ts';
+import { db } from '#lib/server/db/index.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { endpoint, readJson } from '#lib/server/http/route.ts';
+import { getRecord, transitionRecord } from '#lib/server/records.ts';
+import { DECISIONS, decisionBody } from '#lib/shared/curation.ts';
+import { transitionBody } from '#lib/shared/record.ts';
 
 const isDecision = (action: string): action is (typeof DECISIONS)[number] =>
   (DECISIONS as readonly string[]).includes(action);

@@ -1,7 +1,7 @@
-import { db } from '../../../../../lib/server/db/index.ts';
-import { json } from '../../../../../lib/server/http/problem.ts';
-import { endpoint } from '../../../../../lib/server/http/route.ts';
-import { completeUpload } from '../../../../../lib/server/uploads.ts';
+import { db } from '#lib/server/db/index.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { endpoint } from '#lib/server/http/route.ts';
+import { completeUpload } from '#lib/server/uploads.ts';
 
 /** The server re-reads the object, checks size and SHA-256, analyses and attaches it. Idempotent. */
 export const POST = endpoint(async ({ locals, params }) =>

@@ -1,8 +1,8 @@
-import { db } from '../../../../../lib/server/db/index.ts';
-import { json } from '../../../../../lib/server/http/problem.ts';
-import { endpoint, readJson, readQuery } from '../../../../../lib/server/http/route.ts';
-import { listProposals, proposeTerm } from '../../../../../lib/server/vocabulary-upkeep.ts';
-import { proposalBody, proposalsQuery } from '../../../../../lib/shared/curation.ts';
+import { db } from '#lib/server/db/index.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { endpoint, readJson, readQuery } from '#lib/server/http/route.ts';
+import { listProposals, proposeTerm } from '#lib/server/vocabulary-upkeep.ts';
+import { proposalBody, proposalsQuery } from '#lib/shared/curation.ts';
 
 export const GET = endpoint(async ({ locals, url }) =>
   json(await listProposals(db(), locals.principal, readQuery(url, proposalsQuery))),

@@ -1,8 +1,8 @@
-import { db } from '../../../../../../lib/server/db/index.ts';
-import { endpoint, readJson } from '../../../../../../lib/server/http/route.ts';
-import { json } from '../../../../../../lib/server/http/problem.ts';
-import { changeMember, removeMember } from '../../../../../../lib/server/labs.ts';
-import { memberChangeInput } from '../../../../../../lib/shared/account.ts';
+import { db } from '#lib/server/db/index.ts';
+import { endpoint, readJson } from '#lib/server/http/route.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { changeMember, removeMember } from '#lib/server/labs.ts';
+import { memberChangeInput } from '#lib/shared/account.ts';
 
 export const PATCH = endpoint(async ({ locals, params, request }) => {
   const { role } = await readJson(request, memberChangeInput);

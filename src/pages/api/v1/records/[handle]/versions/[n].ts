@@ -1,8 +1,8 @@
-import { db } from '../../../../../../lib/server/db/index.ts';
-import { NotFoundError } from '../../../../../../lib/server/errors.ts';
-import { json } from '../../../../../../lib/server/http/problem.ts';
-import { endpoint } from '../../../../../../lib/server/http/route.ts';
-import { getRecordVersion } from '../../../../../../lib/server/records.ts';
+import { db } from '#lib/server/db/index.ts';
+import { NotFoundError } from '#lib/server/errors.ts';
+import { json } from '#lib/server/http/problem.ts';
+import { endpoint } from '#lib/server/http/route.ts';
+import { getRecordVersion } from '#lib/server/records.ts';
 
 export const GET = endpoint(async ({ locals, params }) => {
   const n = Number(params.n);
