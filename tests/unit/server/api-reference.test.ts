@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { apiReference, fieldRows, typeText } from '#lib/server/api-reference.ts';
-import { openApiDocument } from '#lib/server/openapi.ts';
+import { openApiDocument } from '#lib/server/openapi/index.ts';
 
 // A small document with the shapes the real one uses: references, nested objects, arrays of
 // objects, unions, enums and bounds.

@@ -1,0 +1,13 @@
+import { ok } from './parts.ts';
+
+/** Operations of the Meta tag. */
+export const metaPaths = {
+  '/openapi.json': {
+    get: {
+      operationId: 'openapi',
+      tags: ['Meta'],
+      summary: 'This document',
+      responses: { '200': ok('OpenAPI 3.1 document') },
+    },
+  },
+};
