@@ -7,7 +7,8 @@ import http from 'node:http';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import send from 'send';
-import { applySecurityHeaders } from '../src/lib/server/http/headers.ts';
+import { applySecurityHeaders } from '#lib/server/http/headers.ts';
+import { log, REQUEST_ID_HEADER, requestId, takeRoute } from '#lib/server/log.ts';
 
 const outDir = path.dirname(fileURLToPath(import.meta.url));
 const clientDir = path.join(outDir, 'client');
@@ -46,8 +47,36 @@ function serveStatic(req: http.IncomingMessage, res: http.ServerResponse, pathna
 const baseline = new Headers();
 applySecurityHeaders(baseline, { https: false });
 
+/**
+ * One JSON line per request once its answer is sent (or the client went away): the request id
+ * (also in the answer's x-request-id header), method, route pattern, path, status, duration.
+ */
+function accessLog(req: http.IncomingMessage, res: http.ServerResponse, id: string) {
+  const started = process.hrtime.bigint();
+  res.once('close', () => {
+    const ms = Number(process.hrtime.bigint() - started) / 1e6;
+    const path = (req.url ?? '/').split('?', 1)[0];
+    log().info(
+      {
+        reqId: id,
+        method: req.method,
+        route: takeRoute(id) ?? path,
+        path,
+        status: res.statusCode,
+        ms: Math.round(ms * 10) / 10,
+        ...(res.writableFinished ? {} : { aborted: true }),
+      },
+      'request',
+    );
+  });
+}
+
 const server = http.createServer((req, res) => {
   for (const [name, value] of baseline) res.setHeader(name, value);
+  const id = requestId(req.headers[REQUEST_ID_HEADER]);
+  req.headers[REQUEST_ID_HEADER] = id;
+  res.setHeader(REQUEST_ID_HEADER, id);
+  accessLog(req, res, id);
   // The socket's peer address, for the sign-in and mail limits (Astro's clientAddress believes any
   // X-Forwarded-For); whatever a client sent under this name is overwritten.
   req.headers['x-edgewise-peer'] = req.socket.remoteAddress ?? '';
@@ -66,7 +95,9 @@ const server = http.createServer((req, res) => {
 server.keepAliveTimeout = 5_000;
 const host = process.env.HOST ?? '127.0.0.1';
 const port = Number(process.env.PORT ?? 4321);
-server.listen(port, host, () => console.log(`[edgewise] app listening on http://${host}:${port}`));
+server.listen(port, host, () =>
+  log().info({ host, port }, `app listening on http://${host}:${port}`),
+);
 
 const stop = () => server.close(() => process.exit(0));
 process.on('SIGTERM', stop);

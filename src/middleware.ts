@@ -4,6 +4,7 @@ import { applySecurityHeaders } from './lib/server/http/headers.ts';
 import { checkStateChangingRequest } from './lib/server/http/origin.ts';
 import { problem } from './lib/server/http/problem.ts';
 import { toProblem } from './lib/server/http/route.ts';
+import { noteRoute, REQUEST_ID_HEADER } from './lib/server/log.ts';
 import { resolvePrincipal } from './lib/server/auth/principal.ts';
 import { ANONYMOUS } from './lib/shared/principal.ts';
 import { startJobs } from './lib/server/jobs.ts';
@@ -24,6 +25,8 @@ export const onRequest = defineMiddleware(async (context, next) => {
   const requestOrigin = url.origin;
   let response: Response;
   const isApi = url.pathname.startsWith('/api/');
+  const reqId = context.request.headers.get(REQUEST_ID_HEADER);
+  noteRoute(reqId, context.routePattern);
   {
     // Pages take same-origin form posts; JSON routes take JSON only, except the listed ones.
     const opts = {
@@ -47,7 +50,7 @@ export const onRequest = defineMiddleware(async (context, next) => {
       try {
         context.locals.principal = await resolvePrincipal(context.request);
       } catch (err) {
-        refused = toProblem(err, url.pathname);
+        refused = toProblem(err, url.pathname, reqId);
       }
       response = refused ?? (await next());
     }

@@ -36,6 +36,10 @@ const schema = z.object({
     .int()
     .positive()
     .default(64 * 1024 * 1024),
+  /** Least severe log level written (pino's levels). */
+  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  /** `json` lines for collectors, `pretty` for people; `auto` is pretty on a terminal only. */
+  LOG_FORMAT: z.enum(['auto', 'json', 'pretty']).default('auto'),
 });
 
 export type Config = z.infer<typeof schema>;

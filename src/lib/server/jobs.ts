@@ -1,5 +1,6 @@
 import { forgetOldMailRequests } from './auth/mail-limits.ts';
 import { db } from './db/index.ts';
+import { log } from './log.ts';
 import { startOutbox } from './outbox.ts';
 import { cleanStaleUploads } from './uploads.ts';
 
@@ -16,14 +17,9 @@ export function startJobs(): void {
   started = true;
   startOutbox();
   const cleanup = () => {
-    void cleanStaleUploads(db()).catch((err) =>
-      console.error('[edgewise] upload cleanup failed:', err instanceof Error ? err.message : err),
-    );
+    void cleanStaleUploads(db()).catch((err) => log().error({ err }, 'upload cleanup failed'));
     void forgetOldMailRequests(db()).catch((err) =>
-      console.error(
-        '[edgewise] mail-limit cleanup failed:',
-        err instanceof Error ? err.message : err,
-      ),
+      log().error({ err }, 'mail-limit cleanup failed'),
     );
   };
   setInterval(cleanup, CLEANUP_EVERY_MS).unref();

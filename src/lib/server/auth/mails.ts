@@ -2,6 +2,7 @@ import { config } from '../config.ts';
 import { db } from '../db/index.ts';
 import type { Message } from '../mail.ts';
 import { queueMail, wakeOutbox } from '../outbox.ts';
+import { log } from '../log.ts';
 
 // The account e-mails Edgewise sends, in its own words. They go through the outbox, so a mail
 // server that is down delays them instead of losing them. Links point at pages that ask for a
@@ -76,6 +77,6 @@ export async function deliver(send: () => Promise<void>): Promise<void> {
   try {
     await send();
   } catch (err) {
-    console.error('[edgewise] mail not sent:', err instanceof Error ? err.message : err);
+    log().warn({ err }, 'mail not sent');
   }
 }

@@ -1,6 +1,7 @@
 import type { APIContext, APIRoute } from 'astro';
 import { z } from 'zod';
 import { AppError, PayloadTooLargeError, ValidationError, type FieldError } from '../errors.ts';
+import { log, REQUEST_ID_HEADER } from '../log.ts';
 import { StorageUnavailableError } from '../storage.ts';
 import { problem } from './problem.ts';
 
@@ -12,12 +13,13 @@ export function endpoint(fn: (ctx: APIContext) => Promise<Response> | Response):
     try {
       return await fn(ctx);
     } catch (err) {
-      return toProblem(err, ctx.url.pathname);
+      return toProblem(err, ctx.url.pathname, ctx.request.headers.get(REQUEST_ID_HEADER));
     }
   };
 }
 
-export function toProblem(err: unknown, instance?: string): Response {
+/** A thrown error as problem+json; an unexpected one is logged with its stack and request id. */
+export function toProblem(err: unknown, instance?: string, reqId?: string | null): Response {
   if (err instanceof AppError) {
     const { retryAfterSeconds, ...extra } = err.extra;
     const headers: Record<string, string> = retryAfterSeconds
@@ -59,7 +61,7 @@ export function toProblem(err: unknown, instance?: string): Response {
       { headers: { 'retry-after': '5' } },
     );
   }
-  console.error(`[edgewise] unhandled error on ${instance ?? '?'}:`, err);
+  log().error({ err, reqId, path: instance }, 'unhandled error');
   return problem({
     title: 'Internal error',
     status: 500,
