@@ -3,15 +3,18 @@ import {
   directionFromVertices,
   extremes,
   lastCyclePerVertex,
+  vertexTolerance,
+  type CycleCharge,
   type Direction,
 } from './cv';
 import { AnalysisError } from './errors';
 import { holdDirection, holdLimit, holdSteps } from './hold';
 import { limitAt, parseCriterion, sCutoff, type Criterion, type Limit } from './limits';
 import { lsvLimit, type LsvEnvelope } from './lsv';
-import { normalise, type Samples, type SignConvention } from './normalise';
-import { readTable, type ColumnMap } from './read';
+import { normalise, type CurrentBasis, type Samples, type SignConvention } from './normalise';
+import { readTable, rowLine, type ColumnMap, type RawTable } from './read';
 import {
+  findScale,
   referenceConversion,
   referenceWarnings,
   type ReferenceInfo,
@@ -21,9 +24,11 @@ import {
   cyclesFromColumn,
   cyclesFromTurningPoints,
   holdStepsFromPotential,
+  outwardKind,
   stepsFromColumn,
   turningPoints,
   turnThresholdV,
+  typicalStepV,
 } from './segment';
 import { parseQuantity } from './units';
 
@@ -61,8 +66,13 @@ export interface AnalysisOptions {
   baselineV?: [number, number];
   /** Hysteresis (V) for turning points; automatic by default. */
   turnThresholdV?: number;
-  /** Vertices closer than this (V) count as the same vertex; default 0.002 (vertex steps are usually 50–200 mV). */
+  /** Vertices closer than this (V) count as the same vertex; by default it follows the data (see `vertexTolerance`). */
   vertexToleranceV?: number;
+  /**
+   * Kind of cell: a two-electrode cell gives cell voltages, which have no reference scale, so any
+   * reference conversion (fromRef/toRef) is refused. Three-electrode by default.
+   */
+  cell?: 'three-electrode' | 'two-electrode';
   /** Potential tolerance (V) of a hold plateau; default 0.005. */
   plateauToleranceV?: number;
 }
@@ -104,6 +114,27 @@ export interface AnalysisResult {
   warnings: string[];
   /** LSV: the table from which the limit at any other current cutoff is found (`lsvLimitFromEnvelope`); null when the sweep holds a non-finite value. */
   envelope?: LsvEnvelope | null;
+  /** CV: the vertex grouping tolerance used (V), given or found from the vertices. */
+  vertexToleranceV?: number;
+  /**
+   * Present when the file's current column is a density that could not be turned into a current
+   * (no area or mass given): currents (endCurrentA) are then in this unit and charges (qPosC,
+   * qNegC) in C/cm² or C/g.
+   */
+  currentUnit?: 'A/cm2' | 'A/g';
+  /** The reference the file's potential header names ("Ag/AgCl" in "Potential vs. Ag/AgCl (mV)"). */
+  fileReference?: FileReference;
+}
+
+/** A reference named in the header of the potential column. */
+export interface FileReference {
+  /** As written in the header. */
+  text: string;
+  /** The scale it names, or null when the engine does not know it. */
+  scale: string | null;
+  /** Header line and column (1-based). */
+  line: number;
+  column: number;
 }
 
 /** Default criteria: S ≤ 0.1 for CV; for LSV and holds a current cutoff per mass when a mass is given, else per area. */
@@ -146,11 +177,108 @@ function checkOptions(o: AnalysisOptions): void {
       `direction must be "anodic" or "cathodic", not "${String(o.direction)}"`,
     );
   }
+  if (o.cell !== undefined && o.cell !== 'three-electrode' && o.cell !== 'two-electrode') {
+    throw new AnalysisError(
+      'bad-option',
+      `cell must be "three-electrode" or "two-electrode", not "${String(o.cell)}"`,
+    );
+  }
+  if (o.cell === 'two-electrode' && (o.fromRef !== undefined || o.toRef !== undefined)) {
+    throw new AnalysisError(
+      'cell-voltage',
+      'a two-electrode cell gives cell voltages, which are on no reference scale: they cannot be converted to another reference; drop the reference options (or analyse a three-electrode measurement)',
+    );
+  }
+}
+
+function checkTarget(o: AnalysisOptions): void {
   if (o.toRef !== undefined && o.fromRef === undefined)
     throw new AnalysisError(
       'bad-option',
       'a target reference needs the reference the file was measured against',
     );
+}
+
+/** Header names of a potential column that hold a cell voltage (two-electrode), not an electrode potential. */
+const CELL_VOLTAGE_NAME =
+  /^(?:e|u|v)[ _]?cell$|^cell[ _](?:voltage|potential)$|^ewe[ _-]+ece$|^voltage[ _]cell$/i;
+
+/** Same scale, or a header that names only the family ("Ag/AgCl") of a filled electrode ("Ag/AgCl, 3 M KCl"). */
+function sameScale(header: string, headerId: string, recordId: string): boolean {
+  if (headerId === recordId) return true;
+  const family = (id: string) => id.replace(/-.*$/, '');
+  const bare = header.toLowerCase().replace(/[\s/()[\],.-]/g, '');
+  return family(headerId) === family(recordId) && ['agagcl', 'hghgo'].includes(bare);
+}
+
+/**
+ * The reference named in the potential header: checked against the stated one (a mismatch is
+ * refused, naming the header cell), or taken as the file's scale when none is stated.
+ */
+function headerReference(
+  table: RawTable,
+  options: AnalysisOptions,
+  warnings: string[],
+): { options: AnalysisOptions; file?: FileReference } {
+  const col = table.columns.find((c) => c.quantity === 'potential');
+  const label = col ? col.name.replace(/^["']|["']$/g, '').trim() : '';
+  const where = {
+    line: table.headerLine ?? table.firstDataLine,
+    column: (col?.index ?? 0) + 1,
+  };
+  if (col && (options.fromRef !== undefined || options.toRef !== undefined)) {
+    const bare = label.replace(/\s*[([/].*$/, '').trim();
+    if (CELL_VOLTAGE_NAME.test(bare)) {
+      throw new AnalysisError(
+        'cell-voltage',
+        `line ${where.line}, column ${where.column} ("${col.name}"): this column holds a cell voltage, which is on no reference scale and cannot be converted; map the working-electrode potential column instead, or drop the reference options`,
+        where,
+      );
+    }
+  }
+  if (!col?.reference || table.headerLine === null) return { options };
+  const text = col.reference;
+  let scale: string | null = null;
+  try {
+    const found = findScale(text);
+    scale = found === 'RHE' ? 'RHE' : found === 'Fc' ? 'Fc+/Fc' : found.id;
+  } catch (e) {
+    if (!(e instanceof AnalysisError)) throw e;
+  }
+  const file: FileReference = { text, scale, ...where };
+  if (options.cell === 'two-electrode') {
+    warnings.push(
+      `the header of column ${where.column} ("${col.name}") names ${text}, but the cell is two-electrode: the values are taken as cell voltages and not converted`,
+    );
+    return { options, file };
+  }
+  if (scale === null) {
+    warnings.push(
+      `the header of column ${where.column} ("${col.name}") names a reference "${text}" the engine does not know; it is not checked${options.fromRef ? ` against ${options.fromRef}` : ''}`,
+    );
+    return { options, file };
+  }
+  if (options.fromRef !== undefined) {
+    let stated: string;
+    try {
+      const f = findScale(options.fromRef);
+      stated = f === 'RHE' ? 'RHE' : f === 'Fc' ? 'Fc+/Fc' : f.id;
+    } catch {
+      return { options, file }; // the conversion itself reports the unknown name
+    }
+    if (!sameScale(text, scale, stated)) {
+      throw new AnalysisError(
+        'reference-mismatch',
+        `line ${where.line}, column ${where.column} ("${col.name}"): the header says the potentials are vs ${text} (${scale}), but the reference given is ${options.fromRef} (${stated}); correct the reference electrode or the file`,
+        where,
+      );
+    }
+    return { options, file };
+  }
+  warnings.push(
+    `no reference given: potentials are taken as vs ${scale}, as the header of column ${where.column} ("${col.name}") says`,
+  );
+  return { options: { ...options, fromRef: scale }, file };
 }
 
 /** Analyse an export given as text; the result is the object the command line prints. */
@@ -163,15 +291,69 @@ export function analyzeText(text: string, options: AnalysisOptions): AnalysisRes
     );
   }
   const table = readTable(text, options.columns ? { columns: options.columns } : {});
+  const early: string[] = [...table.warnings];
+  const { options: effective, file } = headerReference(table, options, early);
   const samples = normalise(table, options.sign ?? 'iupac');
-  const result = analyzeSamples(samples, options);
-  result.warnings.unshift(...table.warnings);
+  early.push(...sanity(table, samples, text));
+  const result = analyzeSamples(samples, effective);
+  result.warnings.unshift(...early);
+  if (file) result.fileReference = file;
   return result;
 }
 
+/** Plain checks that turn a likely misread (wrong unit, time that runs back) into a warning. */
+function sanity(table: RawTable, s: Samples, text: string): string[] {
+  const out: string[] = [];
+  const name = (q: string) => table.columns.find((c) => c.quantity === q)?.name ?? q;
+  let eMax = 0;
+  for (let k = 0; k < s.potential.length; k++) {
+    const a = Math.abs(s.potential[k]!);
+    if (a > eMax) eMax = a;
+  }
+  if (eMax > 10) {
+    out.push(
+      `potentials reach ${eMax.toPrecision(4)} V in column "${name('potential')}": no cell works beyond ±10 V; check the unit (mV read as V?) and give it in the header or the column mapping`,
+    );
+  }
+  let iMax = 0;
+  for (let k = 0; k < s.current.length; k++) {
+    const a = Math.abs(s.current[k]!);
+    if (a > iMax) iMax = a;
+  }
+  const basis = s.currentBasis ?? 'A';
+  const high = basis === 'A' ? 1 : basis === 'A/cm2' ? 10 : 1000;
+  if (iMax > high) {
+    out.push(
+      `currents reach ${iMax.toPrecision(3)} ${basis} in column "${name('current')}", far above what a window measurement draws; check the unit (mA or µA read as A?)`,
+    );
+  } else if (iMax > 0 && iMax < 1e-12) {
+    out.push(
+      `currents stay below 1 pA${basis === 'A' ? '' : ` per ${basis.slice(2)}`} in column "${name('current')}": at this scale S-values and cutoffs are noise; check the unit`,
+    );
+  }
+  if (s.time) {
+    let back = 0;
+    let first = -1;
+    for (let k = 1; k < s.time.length; k++) {
+      if (s.time[k]! < s.time[k - 1]!) {
+        if (first < 0) first = k;
+        back++;
+      }
+    }
+    if (first >= 0) {
+      out.push(
+        `time runs backwards at line ${rowLine(text, table, first)} (${s.time[first - 1]} s to ${s.time[first]} s)${back > 1 ? `, ${back} times in all` : ''}: charges over those intervals are wrong; check the time column (a step time that restarts?) or map the total time`,
+      );
+    }
+  }
+  return out;
+}
+
 /** Analyse samples already in s, V, A with IUPAC sign. */
-export function analyzeSamples(samples: Samples, options: AnalysisOptions): AnalysisResult {
+export function analyzeSamples(input: Samples, options: AnalysisOptions): AnalysisResult {
   checkOptions(options);
+  checkTarget(options);
+  let samples = input;
   const n = samples.potential.length;
   if (samples.current.length !== n || (samples.time && samples.time.length !== n)) {
     throw new AnalysisError('bad-option', 'time, potential and current must have the same length');
@@ -190,9 +372,21 @@ export function analyzeSamples(samples: Samples, options: AnalysisOptions): Anal
   const shift = reference ? reference.offsetV : 0;
   const warnings: string[] = reference ? referenceWarnings(reference) : [];
 
+  // A density column becomes a current when its area or mass is known.
+  let basis: CurrentBasis = samples.currentBasis ?? 'A';
+  if (basis !== 'A') {
+    const amount = basis === 'A/cm2' ? area : mass;
+    if (amount !== undefined) {
+      const current = new Float64Array(n);
+      for (let k = 0; k < n; k++) current[k] = samples.current[k]! * amount;
+      samples = { ...samples, current, currentBasis: 'A' };
+      basis = 'A';
+    }
+  }
+
   let out: Omit<AnalysisResult, 'reference' | 'warnings' | 'method'>;
   if (options.method === 'cv') out = runCv(samples, options, scanRate, warnings);
-  else out = runCurrentMethod(samples, options, area, mass, warnings);
+  else out = runCurrentMethod(samples, options, area, mass, warnings, basis);
 
   const moved = (v: number | null) => (v === null ? null : v + shift);
   const result: AnalysisResult = {
@@ -215,6 +409,8 @@ export function analyzeSamples(samples: Samples, options: AnalysisOptions): Anal
     ...(out.envelope !== undefined
       ? { envelope: out.envelope && { ...out.envelope, offsetV: out.envelope.offsetV + shift } }
       : {}),
+    ...(out.vertexToleranceV !== undefined ? { vertexToleranceV: out.vertexToleranceV } : {}),
+    ...(basis !== 'A' ? { currentUnit: basis } : {}),
   };
   return result;
 }
@@ -241,17 +437,33 @@ function runCv(s: Samples, o: AnalysisOptions, scanRate: number | undefined, war
     );
 
   let segments;
+  let found: Direction | null = null;
   if (s.cycle) {
-    segments = cyclesFromColumn(s.cycle);
+    segments = cyclesFromColumn(s.cycle, s.potential);
   } else {
     const thr = o.turnThresholdV ?? turnThresholdV(s.potential);
-    segments = cyclesFromTurningPoints(s.potential, turningPoints(s.potential, thr));
+    const tps = turningPoints(s.potential, thr);
+    // Which extremes are the vertices: the stated direction, else the side whose turning points
+    // spread (the file may first sweep the other way).
+    const outward = o.direction
+      ? o.direction === 'anodic'
+        ? 'max'
+        : 'min'
+      : outwardKind(s.potential, tps);
+    if (outward) found = outward === 'max' ? 'anodic' : 'cathodic';
+    segments = cyclesFromTurningPoints(s.potential, tps, outward ?? undefined);
+    if (segments.length > 0 && segments[0]!.start > 0) {
+      const k = segments[0]!.start;
+      warnings.push(
+        `the file first sweeps against the window direction (to ${s.potential[k]!.toFixed(3)} V, sample ${k + 1}); that lead-in belongs to no cycle`,
+      );
+    }
   }
   if (segments.length === 0)
     throw new AnalysisError('no-cycles', 'no cycles found: the potential never reverses');
 
   const ext = segments.map((seg) => extremes(s.potential, seg));
-  let direction = o.direction ?? directionFromVertices(ext, o.vertexToleranceV ?? 0.005);
+  let direction = o.direction ?? found ?? directionFromVertices(ext, 0.005);
   if (!direction) {
     // One vertex only: the first sweep's direction decides.
     const first = segments[0]!;
@@ -263,8 +475,15 @@ function runCv(s: Samples, o: AnalysisOptions, scanRate: number | undefined, war
       );
   }
   const cycles = analyzeCycles(s.time, s.potential, s.current, segments, direction, scanRate);
-  const { chosen, notes } = lastCyclePerVertex(cycles, direction, o.vertexToleranceV ?? 0.002);
+  const tolerance =
+    o.vertexToleranceV ??
+    vertexTolerance(
+      cycles.map((c) => c.vertexV),
+      typicalStepV(s.potential),
+    );
+  const { chosen, notes } = lastCyclePerVertex(cycles, direction, tolerance);
   warnings.push(...notes);
+  warnings.push(...cvSignChecks(s, chosen, direction));
   if (chosen.length === 1) warnings.push('one vertex only: the limit cannot be bracketed');
   const { limit, warnings: w } = limitAt(
     chosen.map((c) => c.vertexV),
@@ -282,6 +501,7 @@ function runCv(s: Samples, o: AnalysisOptions, scanRate: number | undefined, war
   return {
     direction,
     criterion: criterionResult(criterion),
+    vertexToleranceV: tolerance,
     cycles: cycles.map((c) => ({
       index: c.index,
       vertexV: c.vertexV,
@@ -294,20 +514,75 @@ function runCv(s: Samples, o: AnalysisOptions, scanRate: number | undefined, war
   };
 }
 
+/** Evidence that the currents are in the other sign convention than the one the analysis used. */
+function cvSignChecks(s: Samples, chosen: CycleCharge[], direction: Direction): string[] {
+  // Over a closed cycle ∮ I dE > 0 with anodic current positive: the anodic-going sweep carries
+  // the higher current (double-layer charging at least). A clearly negative loop means the other sign.
+  let work = 0;
+  let total = 0;
+  for (const c of chosen) {
+    for (let k = c.segment.start; k < c.segment.end; k++) {
+      const w = 0.5 * (s.current[k]! + s.current[k + 1]!) * (s.potential[k + 1]! - s.potential[k]!);
+      work += w;
+      total += Math.abs(w);
+    }
+  }
+  const loopInverted = total > 0 && work < -0.05 * total;
+  const sv = chosen.map((c) => c.sValue).filter(Number.isFinite);
+  const negative = sv.filter((x) => x < -0.05).length;
+  const outer = chosen[chosen.length - 1]?.sValue ?? 0;
+  const sNegative = sv.length > 0 && negative * 2 > sv.length && outer < -0.1;
+  if (!loopInverted && !sNegative) return [];
+  const why = [
+    loopInverted ? 'the current–potential loops run the wrong way round (∮I dE < 0)' : '',
+    sNegative
+      ? `the S-values are clearly negative (${outer.toFixed(3)} at the outermost vertex)`
+      : '',
+  ]
+    .filter(Boolean)
+    .join(' and ');
+  return [
+    `the currents look like the opposite sign convention (cathodic positive): ${why}; if the instrument writes cathodic current as positive, analyse with sign "opposite" — as read, the ${direction} limit would be optimistic`,
+  ];
+}
+
+/** Evidence in a linear sweep or holds that the current sign is the other convention. */
+function currentSignCheck(signedEnd: number, signedStart: number): string[] {
+  if (signedEnd < 0 && Math.abs(signedEnd) > 3 * Math.abs(signedStart)) {
+    return [
+      'the current grows against the sweep direction (toward negative values on an anodic sweep, positive on a cathodic one): the file may use the opposite sign convention (cathodic positive); if so, analyse with sign "opposite"',
+    ];
+  }
+  return [];
+}
+
+function mean(a: Float64Array, from: number, to: number): number {
+  let sum = 0;
+  for (let k = from; k < to; k++) sum += a[k]!;
+  return to > from ? sum / (to - from) : 0;
+}
+
+const BASIS_KIND: Record<Exclude<CurrentBasis, 'A'>, Criterion['kind']> = {
+  'A/cm2': 'j',
+  'A/g': 'jm',
+};
+
 function currentCriterion(
   o: AnalysisOptions,
   area: number | undefined,
   mass: number | undefined,
   warnings: string[],
+  basis: CurrentBasis = 'A',
 ): { criterion: Criterion; divisor: number } {
   let text = o.criterion;
   if (!text) {
+    const perMass = basis === 'A' ? mass !== undefined : basis === 'A/g';
     const m =
       o.method === 'lsv'
-        ? mass !== undefined
+        ? perMass
           ? DEFAULT_CRITERIA.lsvPerMass
           : DEFAULT_CRITERIA.lsvPerArea
-        : mass !== undefined
+        : perMass
           ? DEFAULT_CRITERIA.holdPerMass
           : DEFAULT_CRITERIA.holdPerArea;
     text = m;
@@ -318,6 +593,16 @@ function currentCriterion(
     throw new AnalysisError(
       'bad-criterion',
       `criterion "${criterion.text}" applies to cyclic voltammetry; ${o.method === 'lsv' ? 'a linear sweep' : 'holds'} need a current cutoff (e.g. j:10uA/cm2 or jm:10mA/g)`,
+    );
+  }
+  if (basis !== 'A') {
+    // The file holds a density and its area (or mass) is not known: only the same kind of cutoff applies.
+    if (BASIS_KIND[basis] === criterion.kind) return { criterion, divisor: 1 };
+    const need =
+      basis === 'A/cm2' ? 'the electrode area (e.g. 0.07cm2)' : 'the active mass (e.g. 2mg)';
+    throw new AnalysisError(
+      'bad-option',
+      `the current column is a density per ${basis === 'A/cm2' ? 'cm²' : 'g'} and criterion "${criterion.text}" is not: give ${need} so that the current is known, or use a ${BASIS_KIND[basis]}: cutoff`,
     );
   }
   if (criterion.kind === 'j') {
@@ -345,8 +630,9 @@ function runCurrentMethod(
   area: number | undefined,
   mass: number | undefined,
   warnings: string[],
+  basis: CurrentBasis,
 ) {
-  const { criterion, divisor } = currentCriterion(o, area, mass, warnings);
+  const { criterion, divisor } = currentCriterion(o, area, mass, warnings, basis);
   if (o.method === 'lsv') {
     const r = lsvLimit(s.potential, s.current, {
       ...(o.direction ? { direction: o.direction } : {}),
@@ -355,6 +641,14 @@ function runCurrentMethod(
       ...(o.baselineV ? { baselineV: o.baselineV } : {}),
     });
     warnings.push(...r.warnings);
+    const sign = r.direction === 'anodic' ? 1 : -1;
+    const tenth = Math.max(1, Math.floor((r.end + 1) / 10));
+    warnings.push(
+      ...currentSignCheck(
+        sign * mean(s.current, r.end + 1 - tenth, r.end + 1),
+        sign * mean(s.current, 0, tenth),
+      ),
+    );
     return {
       direction: r.direction,
       criterion: criterionResult(criterion),
@@ -378,6 +672,17 @@ function runCurrentMethod(
   }
   const r = holdLimit(steps, direction, criterion.value, divisor);
   warnings.push(...r.warnings);
+  if (steps.length >= 2) {
+    const sign = direction === 'anodic' ? 1 : -1;
+    const ordered = [...steps].sort((a, b) => sign * (a.potentialV - b.potentialV));
+    if (ordered.every((st) => sign * st.endCurrentA < 0))
+      warnings.push(
+        ...currentSignCheck(
+          sign * ordered[ordered.length - 1]!.endCurrentA,
+          sign * ordered[0]!.endCurrentA,
+        ),
+      );
+  }
   return {
     direction,
     criterion: criterionResult(criterion),

@@ -145,32 +145,87 @@ export function analyzeCycles(
   });
 }
 
+/** Smallest vertex tolerance (V): below this, vertices are never told apart. */
+export const VERTEX_TOLERANCE_FLOOR_V = 0.002;
+/** Vertex spacings below this (V) are never steps of a window-opening series. */
+export const VERTEX_STEP_MIN_V = 0.01;
+
+/**
+ * Grouping tolerance (V) for the vertices of a window-opening CV, from the vertices themselves.
+ * The gaps between sorted vertices fall into two kinds: scatter among repeats of one vertex
+ * (noise, sampling) and the steps of the series. The largest jump (ratio) between consecutive
+ * sorted gaps separates them (steps are 10 mV or more); the tolerance is the geometric mean of the
+ * largest scatter gap and the smallest step, at most 0.3 of that step and at least 2 mV (raised to
+ * three sample steps when given). When no gap reaches 10 mV everything is one vertex, unless the
+ * vertices form a regular series taken in order (three or more, one cycle each).
+ */
+export function vertexTolerance(vertices: number[], sampleStepV = 0): number {
+  const floor = Math.max(VERTEX_TOLERANCE_FLOOR_V, 3 * sampleStepV);
+  const inOrder = vertices.filter(Number.isFinite);
+  const v = [...inOrder].sort((a, b) => a - b);
+  const gaps: number[] = [];
+  for (let k = 1; k < v.length; k++) gaps.push(v[k]! - v[k - 1]!);
+  gaps.sort((a, b) => a - b);
+  if (gaps.length === 0) return floor;
+  const largest = gaps[gaps.length - 1]!;
+  if (largest < VERTEX_STEP_MIN_V) {
+    // Fine steps are told from scatter only when they are regular (within 2×) and taken in order,
+    // one cycle each, moving one way: then half the smallest step separates them.
+    const up = inOrder.every((x, k) => k === 0 || x > inOrder[k - 1]!);
+    const down = inOrder.every((x, k) => k === 0 || x < inOrder[k - 1]!);
+    const regular = gaps[0]! > 0 && largest <= 2 * gaps[0]!;
+    if (inOrder.length >= 3 && (up || down) && regular) return 0.5 * gaps[0]!;
+    return Math.max(floor, largest);
+  }
+  // Steps start at the first gap of 10 mV or more, or later at a jump of at least 3× when the
+  // scatter itself reaches 10 mV.
+  const k0 = gaps.findIndex((g) => g >= VERTEX_STEP_MIN_V);
+  let split = k0;
+  let best = 3;
+  for (let k = k0 + 1; k < gaps.length; k++) {
+    const ratio = gaps[k]! / gaps[k - 1]!;
+    if (ratio >= best) {
+      best = ratio;
+      split = k;
+    }
+  }
+  const minStep = gaps[split]!;
+  const scatter = split > 0 ? gaps[split - 1]! : 0;
+  const tol = scatter > 0 ? Math.sqrt(scatter * minStep) : 0.3 * minStep;
+  return Math.max(floor, Math.min(tol, 0.3 * minStep));
+}
+
 /**
  * One cycle per vertex, ordered outward: cycles whose vertices lie within `toleranceV` (V) of the
- * group's first vertex share it, and the last of them (the electrode in its latest state) is used.
- * Returns the chosen cycles and a note for each vertex that had several.
+ * next closest vertex share it (sorted vertices split where they are farther apart), and the last
+ * of them in the file (the electrode in its latest state) is used. Returns the chosen cycles and
+ * a note for each vertex that had several.
  */
 export function lastCyclePerVertex(
   cycles: CycleCharge[],
   direction: Direction,
-  toleranceV = 0.002,
+  toleranceV = VERTEX_TOLERANCE_FLOOR_V,
 ): { chosen: CycleCharge[]; notes: string[] } {
-  const groups: { vertexV: number; members: CycleCharge[] }[] = [];
-  for (const c of cycles) {
-    const g = groups.find((x) => Math.abs(x.vertexV - c.vertexV) <= toleranceV);
-    if (g) g.members.push(c);
-    else groups.push({ vertexV: c.vertexV, members: [c] });
+  const sorted = [...cycles].sort((a, b) => a.vertexV - b.vertexV || a.index - b.index);
+  const groups: CycleCharge[][] = [];
+  for (const c of sorted) {
+    const g = groups[groups.length - 1];
+    const prev = g?.[g.length - 1];
+    if (g && prev && Math.abs(c.vertexV - prev.vertexV) <= toleranceV) g.push(c);
+    else groups.push([c]);
   }
+  for (const g of groups) g.sort((a, b) => a.index - b.index);
   const sign = direction === 'anodic' ? 1 : -1;
-  groups.sort((a, b) => sign * (a.vertexV - b.vertexV));
+  const lastOf = (g: CycleCharge[]) => g[g.length - 1]!;
+  groups.sort((a, b) => sign * (lastOf(a).vertexV - lastOf(b).vertexV));
   const notes: string[] = [];
   for (const g of groups) {
-    if (g.members.length > 1) {
-      const last = g.members[g.members.length - 1]!;
+    if (g.length > 1) {
+      const last = lastOf(g);
       notes.push(
-        `vertex ${last.vertexV.toFixed(3)} V has ${g.members.length} cycles (${g.members.map((m) => m.index).join(', ')}); cycle ${last.index} is used`,
+        `vertex ${last.vertexV.toFixed(3)} V has ${g.length} cycles (${g.map((m) => m.index).join(', ')}); cycle ${last.index} is used`,
       );
     }
   }
-  return { chosen: groups.map((g) => g.members[g.members.length - 1]!), notes };
+  return { chosen: groups.map(lastOf), notes };
 }

@@ -13,6 +13,8 @@ export type AnalysisErrorCode =
   | 'no-cycles'
   | 'no-steps'
   | 'unknown-reference'
+  | 'reference-mismatch'
+  | 'cell-voltage'
   | 'ferrocene-needs-offset';
 
 /** A refusal with a message fit for the user; line and column (1-based) point into the file when known. */

@@ -1,6 +1,6 @@
 import { AnalysisError } from './errors';
 import type { RawTable } from './read';
-import { unitFactor } from './units';
+import { describeUnit, unitFactor } from './units';
 
 /** Current sign convention of a file: IUPAC (anodic positive) or the older opposite one. */
 export type SignConvention = 'iupac' | 'opposite';
@@ -12,7 +12,15 @@ export interface Samples {
   current: Float64Array;
   cycle: Float64Array | null;
   step: Float64Array | null;
+  /**
+   * What `current` holds: a current in A (the default), or a current density in A/cm² or A/g
+   * when the file gives one (a column in mA/cm², A/g…).
+   */
+  currentBasis?: CurrentBasis;
 }
+
+/** Unit of the current samples: a current, a current per geometric area, a current per active mass. */
+export type CurrentBasis = 'A' | 'A/cm2' | 'A/g';
 
 /** Multiply every element in place by `factor` (skipped when it is 1; divides by 1/factor when that is whole, see applyFactor). */
 export function scaleInPlace(values: Float64Array, factor: number): Float64Array {
@@ -49,7 +57,7 @@ export function normalise(table: RawTable, sign: SignConvention = 'iupac'): Samp
     if (f === null) {
       throw new AnalysisError(
         'bad-unit',
-        `column "${col?.name ?? q}": "${unit}" is not a ${q} unit (use e.g. ${q === 'time' ? 's, min, h' : q === 'potential' ? 'V, mV' : 'A, mA, uA, nA'})`,
+        `column "${col?.name ?? q}": "${unit}" is not a ${q} unit (use e.g. ${q === 'time' ? 's, min, h' : q === 'potential' ? 'V, mV' : 'A, mA, uA, nA, or a density such as mA/cm2, A/g'})`,
         table.headerLine === null ? {} : { line: table.headerLine, column: (col?.index ?? 0) + 1 },
       );
     }
@@ -57,6 +65,17 @@ export function normalise(table: RawTable, sign: SignConvention = 'iupac'): Samp
   };
   const time = table.time ? scaleInPlace(table.time, factor('time')) : null;
   const potential = scaleInPlace(table.potential, factor('potential'));
-  const current = toIupacSign(scaleInPlace(table.current, factor('current')), sign);
-  return { time, potential, current, cycle: table.cycle, step: table.step };
+  const cur = table.columns.find((c) => c.quantity === 'current');
+  const curUnit = cur && cur.unit !== '' ? describeUnit(cur.unit) : null;
+  let currentBasis: CurrentBasis = 'A';
+  let currentFactor: number;
+  if (curUnit && curUnit.dim === 'currentPerArea') {
+    currentBasis = 'A/cm2';
+    currentFactor = curUnit.factor;
+  } else if (curUnit && curUnit.dim === 'currentPerMass') {
+    currentBasis = 'A/g';
+    currentFactor = curUnit.factor;
+  } else currentFactor = factor('current');
+  const current = toIupacSign(scaleInPlace(table.current, currentFactor), sign);
+  return { time, potential, current, cycle: table.cycle, step: table.step, currentBasis };
 }

@@ -1,5 +1,5 @@
 import { AnalysisError } from './errors';
-import { describeUnit } from './units';
+import { describeUnit, type Dimension } from './units';
 
 /** Quantities a column can hold. */
 export type Quantity = 'time' | 'potential' | 'current' | 'cycle' | 'step';
@@ -22,6 +22,8 @@ export interface ColumnInfo {
   name: string;
   /** Unit as written (empty for cycle and step, or when the header gives none). */
   unit: string;
+  /** Reference the header names for a potential column ("Ag/AgCl" in "Potential vs. Ag/AgCl (mV)"), as written. */
+  reference?: string;
 }
 
 /** Separator and decimal mark of a file. */
@@ -295,19 +297,13 @@ function detect(s: string, lines: LineRef[]): Detected | null {
 // ---------------------------------------------------------------------------------------------
 // Header names
 
-/** Split a header cell into a name and a unit: "E/V", "t (min)", "I [mA]", "<I>/uA". */
-export function splitHeaderName(cell: string): { label: string; unit: string } {
-  // A reference named in the header ("E/V vs. SCE") is not part of the unit.
-  const text = cell
-    .trim()
-    .replace(/^["']|["']$/g, '')
-    .replace(/\s+vs\.?\s+[^)\]]*/i, '')
-    .trim();
+/** Split "E/V", "t (min)", "I [mA]", "<I>/uA", "j/mA/cm2" into a name and a unit. */
+function splitLabelUnit(text: string): { label: string; unit: string } {
   const bracket = /^(.*?)\s*[([]\s*([^()[\]]*?)\s*[)\]]\s*$/.exec(text);
   if (bracket && bracket[1] !== '') return { label: bracket[1]!.trim(), unit: bracket[2]! };
   const slash = text.lastIndexOf('/');
   if (slash > 0) {
-    // "I/mA/cm2" is rare; take the part after the first slash when the whole tail is a unit.
+    // "I/mA/cm2": take the part after the first slash when the whole tail is a unit.
     const first = text.indexOf('/');
     const tail = text.slice(first + 1).trim();
     if (first !== slash && describeUnit(tail))
@@ -315,6 +311,48 @@ export function splitHeaderName(cell: string): { label: string; unit: string } {
     return { label: text.slice(0, slash).trim(), unit: text.slice(slash + 1).trim() };
   }
   return { label: text, unit: '' };
+}
+
+const VERSUS = /\s*\b(?:vs\.?|versus|against)\s*/i;
+
+/**
+ * Split a header cell into a name, a unit and the reference it names, wherever the reference
+ * stands: "E/V vs. SCE", "Potential vs. Ag/AgCl (mV)", "Ewe vs. Li+/Li (V)", "E (V vs. SHE)",
+ * "E vs Li+/Li / V". The reference is returned as written (empty when none is named).
+ */
+export function splitHeaderName(cell: string): { label: string; unit: string; reference?: string } {
+  const text = cell
+    .trim()
+    .replace(/^["']|["']$/g, '')
+    .trim();
+  const vs = VERSUS.exec(text);
+  if (!vs) return splitLabelUnit(text);
+  const before = text.slice(0, vs.index).trim();
+  const after = text.slice(vs.index + vs[0].length).trim();
+  // "E (V vs. SHE)": the reference inside the unit's brackets.
+  const open = Math.max(before.lastIndexOf('('), before.lastIndexOf('['));
+  if (open > 0 && /[)\]]\s*$/.test(after) && !/[)\]]/.test(before.slice(open))) {
+    return {
+      label: before.slice(0, open).trim(),
+      unit: before.slice(open + 1).trim(),
+      reference: after.replace(/\s*[)\]]\s*$/, '').trim(),
+    };
+  }
+  // "Potential vs. Ag/AgCl (mV)": the unit in brackets after the reference.
+  const tailUnit = /^(.*?)\s*[([]\s*([^()[\]]*?)\s*[)\]]\s*$/.exec(after);
+  if (tailUnit && tailUnit[1] !== '' && describeUnit(tailUnit[2]!)) {
+    const head = splitLabelUnit(before);
+    return { label: head.label, unit: tailUnit[2]!, reference: tailUnit[1]!.trim() };
+  }
+  // "E vs Li+/Li / V": the unit after a spaced slash.
+  const spaced = /^(.*\S)\s+\/\s*(\S+)$/.exec(after);
+  if (spaced && describeUnit(spaced[2]!)) {
+    const head = splitLabelUnit(before);
+    return { label: head.label, unit: spaced[2]!, reference: spaced[1]!.trim() };
+  }
+  // "E/V vs. SCE": unit before the reference.
+  const head = splitLabelUnit(before);
+  return after === '' ? head : { ...head, reference: after };
 }
 
 const NAME_WORDS: Record<Quantity, (label: string) => number> = {
@@ -346,7 +384,19 @@ const NAME_WORDS: Record<Quantity, (label: string) => number> = {
         ? 1
         : 0,
   current: (l) =>
-    ['i', '<i>', 'im', 'iwe', 'current', 'i_we', 'working electrode current'].includes(l)
+    [
+      'i',
+      '<i>',
+      'im',
+      'iwe',
+      'current',
+      'i_we',
+      'working electrode current',
+      'j',
+      '<j>',
+      'current density',
+      'specific current',
+    ].includes(l)
       ? 2
       : l.includes('current')
         ? 1
@@ -371,14 +421,21 @@ const UNIT_DIM: Partial<Record<Quantity, 'time' | 'potential' | 'current'>> = {
   current: 'current',
 };
 
+/** Whether a unit's dimension fits a quantity: a current column may also hold a density per area or mass. */
+export function unitFits(q: 'time' | 'potential' | 'current', dim: Dimension): boolean {
+  if (q === 'current')
+    return dim === 'current' || dim === 'currentPerArea' || dim === 'currentPerMass';
+  return dim === q;
+}
+
 function scoreColumn(q: Quantity, label: string, unit: string): number {
   const l = label.toLowerCase().replace(/\s+/g, ' ').trim();
   const name = NAME_WORDS[q](l);
   const dim = UNIT_DIM[q];
   if (dim) {
     const u = unit === '' ? null : describeUnit(unit);
-    if (unit !== '' && (!u || u.dim !== dim)) return 0; // a unit of another kind rules the column out
-    if (u && u.dim === dim) return 2 + name; // unit agrees
+    if (unit !== '' && (!u || !unitFits(dim, u.dim))) return 0; // a unit of another kind rules the column out
+    if (u) return 2 + name; // unit agrees
     return name > 0 ? name - 0.5 : 0; // name only, no unit
   }
   if (unit !== '') return 0;
@@ -427,8 +484,15 @@ function resolveColumns(
       }
     }
     const unit = choice.unit ?? (parsed ? parsed[index]!.unit : '');
+    const reference = parsed && q === 'potential' ? parsed[index]!.reference : undefined;
     used.add(index);
-    out.push({ quantity: q, index, name: display(index), unit });
+    out.push({
+      quantity: q,
+      index,
+      name: display(index),
+      unit,
+      ...(reference ? { reference } : {}),
+    });
   }
 
   if (parsed) {
@@ -446,8 +510,14 @@ function resolveColumns(
       }
       if (best >= 0 && (bestScore >= 1 || q === 'time' || q === 'potential' || q === 'current')) {
         used.add(best);
-        const unit = parsed[best]!.unit;
-        out.push({ quantity: q, index: best, name: display(best), unit });
+        const { unit, reference } = parsed[best]!;
+        out.push({
+          quantity: q,
+          index: best,
+          name: display(best),
+          unit,
+          ...(reference && q === 'potential' ? { reference } : {}),
+        });
         if (unit === '' && UNIT_DIM[q]) {
           warnings.push(
             `column "${display(best)}" has no unit; taken as ${q === 'time' ? 's' : q === 'potential' ? 'V' : 'A'}`,
@@ -479,12 +549,17 @@ function resolveColumns(
 // The reader
 
 /** Read a delimited text export into typed arrays of the needed columns (units as written). */
-export function readTable(text: string, options: ReadOptions = {}): RawTable {
+export function readTable(input: string, options: ReadOptions = {}): RawTable {
+  let text = input;
   if (typeof text !== 'string')
     throw new AnalysisError('bad-option', 'the file content must be text');
   let from = 0;
   if (text.charCodeAt(0) === 0xfeff) from = 1;
   if (onlyWhitespace(text, from)) throw new AnalysisError('empty-input', 'the file is empty');
+  if (text.indexOf('"', from) >= 0) {
+    text = unquoteText(text.slice(from));
+    from = 0;
+  }
   const warnings: string[] = [];
   const lines = headLines(text, from, 300);
   const found = detect(text, lines);
@@ -644,6 +719,98 @@ export function readTable(text: string, options: ReadOptions = {}): RawTable {
     firstDataLine: dataLine.no,
     warnings,
   };
+}
+
+const QUOTE = '"';
+
+/** Cells of one line split on `sep` outside double quotes, quotes removed ("" inside quotes is one "). */
+function splitQuoted(line: string, sep: string, lineNo: number): string[] {
+  const cells: string[] = [];
+  let cell = '';
+  let i = 0;
+  let quoted = false;
+  let openedAt = 0;
+  while (i < line.length) {
+    const c = line[i]!;
+    if (quoted) {
+      if (c === QUOTE) {
+        if (line[i + 1] === QUOTE) {
+          cell += QUOTE;
+          i += 2;
+          continue;
+        }
+        quoted = false;
+      } else cell += c;
+    } else if (c === QUOTE) {
+      quoted = true;
+      openedAt = i;
+    } else if (sep === ' ' ? c === ' ' || c === '\t' : c === sep) {
+      cells.push(cell);
+      cell = '';
+    } else cell += c;
+    i++;
+  }
+  if (quoted) {
+    throw new AnalysisError(
+      'bad-row',
+      `line ${lineNo}, character ${openedAt + 1}: a quoted field is not closed on its line; close the quote (fields may not span lines)`,
+      { line: lineNo, column: cells.length + 1 },
+    );
+  }
+  cells.push(cell);
+  return cells;
+}
+
+const DECIMAL_COMMA_CELL = /^\s*[+-]?\d*,\d+(?:[eE][+-]?\d+)?\s*$/;
+
+/**
+ * A file whose fields are quoted ("0.1","1e-3") rewritten without quotes, one line for one line
+ * so that line numbers stay those of the file. The separator is the one found between closing
+ * and opening quotes; quoted decimal commas in a comma-separated file become a semicolon file.
+ */
+function unquoteText(text: string): string {
+  const head = text.slice(0, 65536);
+  const counts: [string, number][] = [',', ';', '\t', ' '].map((sep) => [
+    sep,
+    head.split(`"${sep}"`).length - 1 + (head.split(`"${sep}`).length - 1) / 4,
+  ]);
+  counts.sort((a, b) => b[1] - a[1]);
+  const sep = counts[0]![1] > 0 ? counts[0]![0] : ',';
+  const lines = text.split(/\r\n|\r|\n/);
+  const split = lines.map((l, k) =>
+    l.indexOf(QUOTE) >= 0 || sep !== ' ' ? splitQuoted(l, sep, k + 1) : [l],
+  );
+  let out = sep === ' ' ? '\t' : sep;
+  if (sep === ',' && split.some((cells) => cells.some((c) => DECIMAL_COMMA_CELL.test(c))))
+    out = ';';
+  return split
+    .map((cells) => cells.map((c) => (out === '\t' ? c : c.split(out).join(' '))).join(out))
+    .join('\n');
+}
+
+/**
+ * 1-based line of the file holding data row `row` (0-based) of a table read from `text`, for
+ * messages about a row found later; blank lines between rows are counted.
+ */
+export function rowLine(text: string, table: RawTable, row: number): number {
+  let from = text.charCodeAt(0) === 0xfeff ? 1 : 0;
+  let line = 1;
+  // Walk to the first data line, then count non-blank lines.
+  while (line < table.firstDataLine && from < text.length) {
+    from = skipEol(text, lineEnd(text, from));
+    line++;
+  }
+  let seen = 0;
+  while (from < text.length) {
+    const e = lineEnd(text, from);
+    if (!isBlank(text, from, e)) {
+      if (seen === row) return line;
+      seen++;
+    }
+    from = skipEol(text, e);
+    line++;
+  }
+  return line;
 }
 
 function onlyWhitespace(s: string, from: number): boolean {

@@ -185,6 +185,12 @@ for (const a of ['Fc', 'Fc+/Fc', 'ferrocene', 'ferrocenium/ferrocene', 'Fc/Fc+']
 
 /** Resolve a scale name ("SCE", "Ag/AgCl sat. KCl", "Li+/Li", "RHE", "Fc+/Fc") to a table entry or a special scale. */
 export function findScale(name: string): ReferenceElectrode | 'RHE' | 'Fc' {
+  if (/^(?:cell|cellvoltage|twoelectrode|2electrode)$/.test(key(String(name ?? '')))) {
+    throw new AnalysisError(
+      'cell-voltage',
+      `"${name}" is a cell voltage (two-electrode cell), which is on no reference scale and cannot be converted`,
+    );
+  }
   const hit = LOOKUP.get(key(String(name ?? '')));
   if (!hit) {
     throw new AnalysisError(

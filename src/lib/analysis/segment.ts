@@ -117,16 +117,25 @@ export function turningPoints(
 /**
  * Cycles where the value of a cycle column changes. The trapezoid between the last sample of one
  * cycle and the first of the next is counted once, in the cycle it leads into, so each cycle
- * starts at the previous one's last sample.
+ * starts at the previous one's last sample. When `potential` is given and the number changes on
+ * the turning sample itself (the new number is written on the extreme where the sweep reverses),
+ * the boundary is that sample: the cycle that ends there keeps its last trapezoid.
  */
-export function cyclesFromColumn(cycle: Float64Array): Segment[] {
+export function cyclesFromColumn(cycle: Float64Array, potential?: Float64Array): Segment[] {
   const n = cycle.length;
   const out: Segment[] = [];
   let start = 0;
+  const turnsAt = (k: number): boolean => {
+    if (!potential || k <= 0 || k >= n - 1) return false;
+    const a = potential[k]! - potential[k - 1]!;
+    const b = potential[k + 1]! - potential[k]!;
+    return (a > 0 && b < 0) || (a < 0 && b > 0);
+  };
   for (let i = 1; i < n; i++) {
     if (cycle[i] !== cycle[i - 1]) {
-      out.push({ start, end: i - 1 });
-      start = i - 1;
+      const b = turnsAt(i) && !turnsAt(i - 1) ? i : i - 1;
+      out.push({ start, end: b });
+      start = b;
     }
   }
   if (n > 0) out.push({ start, end: n - 1 });
@@ -134,14 +143,54 @@ export function cyclesFromColumn(cycle: Float64Array): Segment[] {
 }
 
 /**
- * Cycles from turning points: a cycle runs from the start (or a return extreme) out to a vertex
- * and back to the next return extreme. The first sweep's direction says which extremes are
- * vertices; the trailing part is kept only if it reached a vertex.
+ * Which kind of turning point is the vertex of a window-opening CV: the kind whose potentials
+ * spread more (the side being opened); null when both spread alike within `toleranceV`.
  */
-export function cyclesFromTurningPoints(potential: Float64Array, tps: TurningPoint[]): Segment[] {
+export function outwardKind(
+  potential: Float64Array,
+  tps: TurningPoint[],
+  toleranceV = 0.005,
+): 'max' | 'min' | null {
+  let hiMax = -Infinity;
+  let hiMin = Infinity;
+  let loMax = -Infinity;
+  let loMin = Infinity;
+  let nMax = 0;
+  let nMin = 0;
+  for (const tp of tps) {
+    const e = potential[tp.index]!;
+    if (tp.kind === 'max') {
+      nMax++;
+      hiMax = Math.max(hiMax, e);
+      hiMin = Math.min(hiMin, e);
+    } else {
+      nMin++;
+      loMax = Math.max(loMax, e);
+      loMin = Math.min(loMin, e);
+    }
+  }
+  if (nMax < 2 && nMin < 2) return null;
+  const up = nMax > 0 ? hiMax - hiMin : 0;
+  const down = nMin > 0 ? loMax - loMin : 0;
+  if (Math.abs(up - down) <= toleranceV) return null;
+  return up > down ? 'max' : 'min';
+}
+
+/**
+ * Cycles from turning points: a cycle runs from a return extreme out to a vertex and back to the
+ * next return extreme. `outward` says which extremes are vertices ('max' when the window is
+ * opened anodically); by default the first extreme reached. When the file first sweeps the other
+ * way (starts between the limits and runs toward the return side), that lead-in ends at a return
+ * extreme and belongs to no cycle: the first cycle starts there. The trailing part is kept only
+ * if it reached a vertex.
+ */
+export function cyclesFromTurningPoints(
+  potential: Float64Array,
+  tps: TurningPoint[],
+  outward: 'max' | 'min' = tps[0]?.kind ?? 'max',
+): Segment[] {
   const n = potential.length;
   if (tps.length === 0) return [];
-  const outward = tps[0]!.kind; // the first extreme reached is a vertex
   const out: Segment[] = [];
   let start = 0;
   let sawVertex = false;
@@ -152,6 +201,8 @@ export function cyclesFromTurningPoints(potential: Float64Array, tps: TurningPoi
       out.push({ start, end: tp.index });
       start = tp.index;
       sawVertex = false;
+    } else if (out.length === 0) {
+      start = tp.index; // lead-in against the window direction
     }
   }
   if (sawVertex && n - 1 > start) out.push({ start, end: n - 1 });

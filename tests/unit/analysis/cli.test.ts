@@ -16,11 +16,11 @@ const dir = mkdtempSync(join(tmpdir(), 'edgewise-cli-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 function cli(args: string[]) {
-  const r = spawnSync(
-    join(root, 'node_modules', '.bin', 'tsx'),
-    [join(root, 'scripts', 'analyze.ts'), ...args],
-    { encoding: 'utf8', cwd: root },
-  );
+  // The entry the README gives: plain node on the bundled command line.
+  const r = spawnSync(process.execPath, [join(root, 'bin', 'edgewise-analyze.mjs'), ...args], {
+    encoding: 'utf8',
+    cwd: root,
+  });
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -64,6 +64,7 @@ describe('command line', () => {
       'limit',
       'reference',
       'warnings',
+      'vertexToleranceV',
     ]);
     expect(Object.keys(out.cycles[0])).toEqual([
       'index',
@@ -153,6 +154,62 @@ describe('command line', () => {
     const opt = cli([bad, '--method', 'eis']);
     expect(opt.status).toBe(2);
     expect(opt.stderr).toBe(`${bad}: method must be one of cv, lsv, hold, not "eis"\n`);
+  });
+
+  it('takes a negative baseline range after a space, and says so in its usage text', () => {
+    const file = join(dir, 'lsv-neg.csv');
+    // A cathodic sweep 0 → −1 V; the baseline range lies below zero.
+    writeFileSync(
+      file,
+      formatExport(
+        lsvSamples({
+          startV: 0,
+          endV: -1,
+          faradaic: { i0A: 1e-6, onsetV: -0.8, slopeVPerDecade: 0.12 },
+        }),
+      ),
+    );
+    const spaced = cli([
+      file,
+      '--method',
+      'lsv',
+      '--criterion',
+      'i:1uA',
+      '--baseline',
+      '-0.5:-0.1',
+    ]);
+    expect(spaced.stderr).toBe('');
+    expect(spaced.status).toBe(0);
+    const joined = cli([file, '--method', 'lsv', '--criterion', 'i:1uA', '--baseline=-0.5:-0.1']);
+    expect(JSON.parse(spaced.stdout).limit).toEqual(JSON.parse(joined.stdout).limit);
+    const without = cli([file, '--method', 'lsv', '--criterion', 'i:1uA']);
+    expect(JSON.parse(without.stdout).limit).not.toEqual(JSON.parse(spaced.stdout).limit);
+    const help = cli(['--help']);
+    expect(help.stdout).toContain('--baseline -0.5:-0.1');
+    const bad = cli([file, '--method', 'lsv', '--baseline', '-0.5']);
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toContain('--baseline: "-0.5" is not of the form LOW:HIGH');
+  });
+
+  it('takes the vertex tolerance and the cell kind; refuses converting a cell voltage', () => {
+    const file = join(dir, 'cv-cell.csv');
+    writeFileSync(file, formatExport(cvWindowOpeningSamples({ sampleIntervalS: 0.2 })));
+    const tol = cli([file, '--method', 'cv', '--vertex-tolerance', '5mV']);
+    expect(tol.status).toBe(0);
+    expect(JSON.parse(tol.stdout).vertexToleranceV).toBe(0.005);
+    const cell = cli([
+      file,
+      '--method',
+      'cv',
+      '--cell',
+      'two-electrode',
+      '--from-ref',
+      'SCE',
+      '--to-ref',
+      'SHE',
+    ]);
+    expect(cell.status).toBe(2);
+    expect(cell.stderr).toContain('cell voltages, which are on no reference scale');
   });
 
   it('runs through npm run -s analyze', () => {

@@ -115,7 +115,7 @@ describe('reader: dialects', () => {
     expect(splitHeaderName('t (min)')).toEqual({ label: 't', unit: 'min' });
     expect(splitHeaderName('<I>/uA')).toEqual({ label: '<I>', unit: 'uA' });
     expect(splitHeaderName('I [mA]')).toEqual({ label: 'I', unit: 'mA' });
-    expect(splitHeaderName('E/V vs. SCE')).toEqual({ label: 'E', unit: 'V' });
+    expect(splitHeaderName('E/V vs. SCE')).toEqual({ label: 'E', unit: 'V', reference: 'SCE' });
     expect(splitHeaderName('cycle number')).toEqual({ label: 'cycle number', unit: '' });
   });
 
@@ -178,7 +178,7 @@ describe('reader: refusals name the line and column', () => {
       }),
     );
     expect(e.message).toBe(
-      'column "I/A": "furlong" is not a current unit (use e.g. A, mA, uA, nA)',
+      'column "I/A": "furlong" is not a current unit (use e.g. A, mA, uA, nA, or a density such as mA/cm2, A/g)',
     );
     expect([e.line, e.column]).toEqual([1, 2]);
   });
