@@ -196,7 +196,8 @@ function main(): void {
     fail(`${file}: cannot read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
   }
   try {
-    const result = analyzeText(decodeText(bytes), options);
+    // Once decoded, the file's bytes hold the columns: no second copy of the data in memory.
+    const result = analyzeText(decodeText(bytes), options, bytes);
     // Arrays of numbers (an LSV envelope's rows) one to a line, not one number to a line.
     const text = JSON.stringify(result, null, 2).replace(
       /\[\n\s*(-?\d[\d.eE+-]*(?:,\n\s*-?\d[\d.eE+-]*)*)\n\s*\]/g,

@@ -281,8 +281,15 @@ function headerReference(
   return { options: { ...options, fromRef: scale }, file };
 }
 
-/** Analyse an export given as text; the result is the object the command line prints. */
-export function analyzeText(text: string, options: AnalysisOptions): AnalysisResult {
+/**
+ * Analyse an export given as text; the result is the object the command line prints.
+ * `storage`: memory the reader may overwrite for its columns (see ReadOptions.storage).
+ */
+export function analyzeText(
+  text: string,
+  options: AnalysisOptions,
+  storage?: Uint8Array,
+): AnalysisResult {
   checkOptions(options);
   if (options.sign !== undefined && options.sign !== 'iupac' && options.sign !== 'opposite') {
     throw new AnalysisError(
@@ -290,7 +297,10 @@ export function analyzeText(text: string, options: AnalysisOptions): AnalysisRes
       `sign convention must be "iupac" or "opposite", not "${String(options.sign)}"`,
     );
   }
-  const table = readTable(text, options.columns ? { columns: options.columns } : {});
+  const table = readTable(text, {
+    ...(options.columns ? { columns: options.columns } : {}),
+    ...(storage ? { storage } : {}),
+  });
   const early: string[] = [...table.warnings];
   const { options: effective, file } = headerReference(table, options, early);
   const samples = normalise(table, options.sign ?? 'iupac');

@@ -155,8 +155,8 @@ export const VERTEX_STEP_MIN_V = 0.01;
  * The gaps between sorted vertices fall into two kinds: scatter among repeats of one vertex
  * (noise, sampling) and the steps of the series. The largest jump (ratio) between consecutive
  * sorted gaps separates them (steps are 10 mV or more); the tolerance is the geometric mean of the
- * largest scatter gap and the smallest step, at most 0.3 of that step and at least 2 mV (raised to
- * three sample steps when given). When no gap reaches 10 mV everything is one vertex, unless the
+ * largest scatter gap and the smallest step, at least 2 mV (raised to three sample steps when
+ * given) but never more than 0.3 of the smallest step. When no gap reaches 10 mV everything is one vertex, unless the
  * vertices form a regular series taken in order (three or more, one cycle each).
  */
 export function vertexTolerance(vertices: number[], sampleStepV = 0): number {
@@ -192,7 +192,7 @@ export function vertexTolerance(vertices: number[], sampleStepV = 0): number {
   const minStep = gaps[split]!;
   const scatter = split > 0 ? gaps[split - 1]! : 0;
   const tol = scatter > 0 ? Math.sqrt(scatter * minStep) : 0.3 * minStep;
-  return Math.max(floor, Math.min(tol, 0.3 * minStep));
+  return Math.min(Math.max(floor, tol), 0.3 * minStep);
 }
 
 /**

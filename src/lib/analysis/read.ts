@@ -51,6 +51,12 @@ export interface RawTable {
 
 export interface ReadOptions {
   columns?: ColumnMap;
+  /**
+   * Memory the reader may overwrite to hold its columns instead of allocating them, e.g. the
+   * bytes of the file once they have been decoded to text (the command line passes them, which
+   * keeps its peak memory near the file's size plus its text). Used only when large enough.
+   */
+  storage?: Uint8Array;
 }
 
 const LF = 10;
@@ -247,6 +253,8 @@ interface Detected {
   fields: number;
   allNumeric: boolean;
   numeric: number;
+  /** How many of the following head lines have the same cells with numbers in the same places. */
+  agree: number;
 }
 
 /**
@@ -272,19 +280,29 @@ function detect(s: string, lines: LineRef[]): Detected | null {
       const likeNext = !next || (next.cells === here.cells && next.mask === here.mask);
       const namesAbove = prev !== undefined && prev.cells === here.cells && prev.numeric === 0;
       if (!likeNext && !namesAbove) continue;
+      // Rows further down confirm the dialect: a first row of whole numbers ("0;0;50") reads
+      // under a decimal point and a decimal comma alike, the rows after it do not.
+      let agree = 0;
+      for (let j = k + 1; j < shapes.length && j <= k + 50; j++) {
+        const o = shapes[j]!;
+        if (o.cells === here.cells && (o.mask & here.mask) === here.mask) agree++;
+      }
       const cand: Detected = {
         dialect: d,
         dataIndex: here.idx,
         fields: here.cells,
         allNumeric: here.numeric === here.cells,
         numeric: here.numeric,
+        agree,
       };
       if (
         !best ||
         (cand.allNumeric && !best.allNumeric) ||
         (cand.allNumeric === best.allNumeric &&
-          (cand.numeric > best.numeric ||
-            (cand.numeric === best.numeric && cand.dataIndex < best.dataIndex)))
+          (cand.agree > best.agree ||
+            (cand.agree === best.agree &&
+              (cand.numeric > best.numeric ||
+                (cand.numeric === best.numeric && cand.dataIndex < best.dataIndex)))))
       ) {
         best = cand;
       }
@@ -618,7 +636,16 @@ export function readTable(input: string, options: ReadOptions = {}): RawTable {
   for (let i = text.indexOf('\n', dataLine.start); i >= 0; i = text.indexOf('\n', i + 1))
     capacity++;
   let cols: Float64Array[] = [];
-  for (let k = 0; k < nSlots; k++) cols.push(new Float64Array(capacity));
+  const st = options.storage;
+  if (st) {
+    const first = Math.ceil(st.byteOffset / 8) * 8;
+    const usable = Math.floor((st.byteOffset + st.byteLength - first) / 8);
+    if (usable >= nSlots * capacity) {
+      for (let k = 0; k < nSlots; k++)
+        cols.push(new Float64Array(st.buffer, first + k * capacity * 8, capacity));
+    }
+  }
+  if (cols.length === 0) for (let k = 0; k < nSlots; k++) cols.push(new Float64Array(capacity));
 
   const sepCode = dialect.separator === 'whitespace' ? -1 : dialect.separator.charCodeAt(0);
   const decCode = dialect.decimal === '.' ? 46 : 44;

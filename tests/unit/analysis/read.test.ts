@@ -205,3 +205,19 @@ describe('reader: scale', () => {
     expect(ms).toBeLessThan(2000);
   });
 });
+
+describe('reader: columns in memory the caller lends', () => {
+  it('puts the columns in the lent bytes when they are large enough, with the same values', () => {
+    const text = 'time/s,E/V,I/A\n0,0.1,1e-6\n1,0.2,2e-6\n2,0.3,-3e-6\n';
+    const lent = new Uint8Array(1024);
+    const t = readTable(text, { storage: lent });
+    const plain = readTable(text);
+    expect([...t.potential]).toEqual([...plain.potential]);
+    expect([...t.current]).toEqual([...plain.current]);
+    expect(t.potential.buffer).toBe(lent.buffer);
+    // Too small to hold them: the reader allocates its own.
+    const small = readTable(text, { storage: new Uint8Array(8) });
+    expect(small.potential.buffer).not.toBe(lent.buffer);
+    expect([...small.time!]).toEqual([0, 1, 2]);
+  });
+});
