@@ -470,6 +470,45 @@ describe('uploads that go wrong', () => {
     expect((await r2.json()).errors[0].path).toMatch(/^line 3/);
   });
 
+  it('warns in the server analysis when the currents look like the opposite sign convention', async () => {
+    const rec = await newRecord();
+    const flipped = formatExport(cvWindowOpeningSamples(), { sign: 'opposite' });
+    const { json: t } = await declare(rec.handle, flipped, { mapping: { sign: 'iupac' } });
+    await put(t, flipped);
+    const r = await complete(t.id);
+    expect(r.status).toBe(200);
+    const body = await r.json();
+    expect(body.analysis.warnings.join('\n')).toContain(
+      'the currents look like the opposite sign convention',
+    );
+  });
+
+  it('refuses a file whose potential header names another reference than the record (422 naming the cell)', async () => {
+    const rec = await newRecord(); // reference electrode SHE
+    const text = formatExport(cvWindowOpeningSamples(), {
+      names: { potential: 'Potential vs. SCE' },
+      headerStyle: 'paren',
+    });
+    const { json: t } = await declare(rec.handle, text);
+    await put(t, text);
+    const r = await complete(t.id);
+    expect(r.status).toBe(422);
+    const body = await r.json();
+    expect(JSON.stringify(body)).toContain('the header says the potentials are vs SCE');
+  });
+
+  it('takes a vertex tolerance with the mapping and analyses with it', async () => {
+    const rec = await newRecord();
+    const { res, json: t } = await declare(rec.handle, cvFile, {
+      mapping: { sign: 'iupac', vertexToleranceV: 0.004 },
+    });
+    expect(res.status).toBe(201);
+    await put(t, cvFile);
+    expect((await complete(t.id)).status).toBe(200);
+    const r = await (await as(owner, `/api/v1/records/${rec.handle}`)).json();
+    expect(r.analyses[0].parameters.vertexToleranceV).toBe(0.004);
+  });
+
   it('keeps uploads to their owner: anyone else gets the same 404 as for a missing id', async () => {
     const rec = await newRecord();
     const { json: ticket } = await declare(rec.handle, cvFile);

@@ -304,7 +304,63 @@ function MappingEditor({
           <option value="cathodic">cathodic</option>
         </select>
       </fieldset>
+      <VertexTolerance item={item} onChange={onChange} disabled={disabled} />
     </div>
+  );
+}
+
+/** CV only: how close two vertices may be and still count as one (mV); blank follows the data. */
+function VertexTolerance({
+  item,
+  onChange,
+  disabled,
+}: {
+  item: FileItem;
+  onChange: (m: Mapping) => void;
+  disabled: boolean;
+}) {
+  const given = item.mapping.vertexToleranceV;
+  const [problem, setProblem] = useState<string | null>(null);
+  const id = `vertex-tolerance-${item.key}`;
+  return (
+    <fieldset className="text-sm" disabled={disabled}>
+      <legend className="font-semibold">vertex tolerance (CV)</legend>
+      <label className="mt-1 block" htmlFor={id}>
+        <span className={muted}>mV</span>
+      </label>
+      <input
+        id={id}
+        className={`${input} num mt-1 w-full`}
+        inputMode="decimal"
+        aria-label={`vertex tolerance in mV of ${item.file.name}`}
+        aria-describedby={`${id}-help`}
+        placeholder="from the data"
+        defaultValue={given !== undefined ? String(+(given * 1000).toPrecision(6)) : ''}
+        onBlur={(e) => {
+          const text = e.target.value.trim().replace(',', '.');
+          if (text === '') {
+            setProblem(null);
+            if (given !== undefined) {
+              const { vertexToleranceV: _drop, ...rest } = item.mapping;
+              onChange(rest);
+            }
+            return;
+          }
+          const mv = Number(text);
+          if (!Number.isFinite(mv) || mv <= 0 || mv > 1000) {
+            setProblem('A number of millivolts above 0 and at most 1000.');
+            return;
+          }
+          setProblem(null);
+          if (given === undefined || Math.abs(given * 1000 - mv) > 1e-9)
+            onChange({ ...item.mapping, vertexToleranceV: mv / 1000 });
+        }}
+      />
+      <p id={`${id}-help`} className={`${muted} mt-1 text-xs`}>
+        {problem ??
+          'Cycles whose vertices lie closer than this are repeats of one vertex. Blank: found from the spacing of the vertices.'}
+      </p>
+    </fieldset>
   );
 }
 

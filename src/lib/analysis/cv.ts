@@ -149,6 +149,8 @@ export function analyzeCycles(
 export const VERTEX_TOLERANCE_FLOOR_V = 0.002;
 /** Vertex spacings below this (V) are never steps of a window-opening series. */
 export const VERTEX_STEP_MIN_V = 0.01;
+/** Vertex spacings of this (V) or more are never scatter among repeats of one vertex. */
+export const VERTEX_SCATTER_MAX_V = 0.025;
 
 /**
  * Grouping tolerance (V) for the vertices of a window-opening CV, from the vertices themselves.
@@ -178,11 +180,11 @@ export function vertexTolerance(vertices: number[], sampleStepV = 0): number {
     return Math.max(floor, largest);
   }
   // Steps start at the first gap of 10 mV or more, or later at a jump of at least 3× when the
-  // scatter itself reaches 10 mV.
+  // scatter itself reaches 10 mV (scatter stays below 25 mV).
   const k0 = gaps.findIndex((g) => g >= VERTEX_STEP_MIN_V);
   let split = k0;
   let best = 3;
-  for (let k = k0 + 1; k < gaps.length; k++) {
+  for (let k = k0 + 1; k < gaps.length && gaps[k - 1]! < VERTEX_SCATTER_MAX_V; k++) {
     const ratio = gaps[k]! / gaps[k - 1]!;
     if (ratio >= best) {
       best = ratio;

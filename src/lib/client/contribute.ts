@@ -15,6 +15,8 @@ export type Mapping = {
   >;
   sign: 'iupac' | 'opposite';
   direction?: 'anodic' | 'cathodic';
+  /** CV: vertices closer than this (V) are one vertex; absent, the engine finds it from the data. */
+  vertexToleranceV?: number;
 };
 
 export interface UploadTicket {
@@ -142,6 +144,9 @@ export function previewOptions(content: RecordContent, mapping: Mapping): Analys
     o.mass = content.workingElectrode.activeMassMg / 1000;
   if (mapping.columns && Object.keys(mapping.columns).length) o.columns = mapping.columns;
   if (mapping.direction) o.direction = mapping.direction;
+  if (mapping.vertexToleranceV !== undefined && o.method === 'cv')
+    o.vertexToleranceV = mapping.vertexToleranceV;
+  if (content.cellType === 'two-electrode') o.cell = 'two-electrode';
   return o;
 }
 

@@ -303,10 +303,13 @@ export function analysisOptions(
     columns?: AnalysisOptions['columns'];
     sign?: 'iupac' | 'opposite';
     direction?: 'anodic' | 'cathodic';
+    vertexToleranceV?: number;
   },
 ): AnalysisOptions {
   const m = content.method;
   const o: AnalysisOptions = { method: ENGINE_METHOD[m.kind] };
+  // A two-electrode cell's voltages are never converted; the engine refuses it and says so.
+  if (content.cellType === 'two-electrode') o.cell = 'two-electrode';
   const criterion = engineCriterion(content.criterion);
   if (criterion) o.criterion = criterion;
   if (m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined)
@@ -329,6 +332,8 @@ export function analysisOptions(
   if (mapping.columns) o.columns = mapping.columns;
   if (mapping.sign) o.sign = mapping.sign;
   if (mapping.direction) o.direction = mapping.direction;
+  if (mapping.vertexToleranceV !== undefined && o.method === 'cv')
+    o.vertexToleranceV = mapping.vertexToleranceV;
   return o;
 }
 

@@ -37,6 +37,7 @@ export const analysisOptionsSchema = z.strictObject({
   baselineV: z.tuple([z.number(), z.number()]).optional(),
   turnThresholdV: z.number().positive().max(5).optional(),
   vertexToleranceV: z.number().positive().max(1).optional(),
+  cell: z.enum(['three-electrode', 'two-electrode']).optional(),
   plateauToleranceV: z.number().positive().max(1).optional(),
 });
 

@@ -314,6 +314,8 @@ export const createUploadBody = z.strictObject({
       /** Current sign of the file: IUPAC (anodic positive) or the older opposite one. */
       sign: z.enum(['iupac', 'opposite']).default('iupac'),
       direction: z.enum(['anodic', 'cathodic']).optional(),
+      /** CV: vertices closer than this (V) are one vertex; by default it follows the data. */
+      vertexToleranceV: z.number().positive().max(1).optional(),
     })
     .default({ sign: 'iupac' }),
 });

@@ -1,0 +1,138 @@
+import { describe, expect, it } from 'vitest';
+import {
+  AnalysisError,
+  analyzeText,
+  cyclesFromColumn,
+  cyclesFromTurningPoints,
+  findScale,
+  formatExport,
+  holdSamples,
+  lsvSamples,
+  readTable,
+  splitHeaderName,
+  turningPoints,
+  vertexTolerance,
+} from '#lib/analysis/index.ts';
+
+function err(f: () => unknown): AnalysisError {
+  try {
+    f();
+  } catch (e) {
+    expect(e).toBeInstanceOf(AnalysisError);
+    return e as AnalysisError;
+  }
+  throw new Error('expected an AnalysisError');
+}
+
+describe('header cells: name, unit and reference in any order', () => {
+  it.each([
+    ['Potential vs. Ag/AgCl (mV)', { label: 'Potential', unit: 'mV', reference: 'Ag/AgCl' }],
+    ['Ewe vs. Li+/Li (V)', { label: 'Ewe', unit: 'V', reference: 'Li+/Li' }],
+    ['E (V vs. SHE)', { label: 'E', unit: 'V', reference: 'SHE' }],
+    ['E vs Li+/Li / V', { label: 'E', unit: 'V', reference: 'Li+/Li' }],
+    ['"E/V vs. SCE"', { label: 'E', unit: 'V', reference: 'SCE' }],
+    [
+      'Potential vs. Ag/AgCl (3 M KCl) (V)',
+      { label: 'Potential', unit: 'V', reference: 'Ag/AgCl (3 M KCl)' },
+    ],
+    ['j/mA cm-2', { label: 'j', unit: 'mA cm-2' }],
+    ['Current density (mA/cm²)', { label: 'Current density', unit: 'mA/cm²' }],
+  ])('%s', (cell, want) => {
+    expect(splitHeaderName(cell)).toEqual(want);
+  });
+
+  it('finds current-density columns by their unit (mA cm^-2, A/g, mA/g, µA/cm²)', () => {
+    for (const unit of ['mA cm^-2', 'A/g', 'mA/g', 'µA/cm²', 'mA cm-2']) {
+      const t = readTable(`E/V,i/${unit}\n0.1,1\n0.2,2\n`);
+      expect(t.columns.find((c) => c.quantity === 'current')!.unit, unit).toBe(unit);
+    }
+  });
+});
+
+describe('segmentation of real-world CV files', () => {
+  it('ends a cycle on the turning sample when the cycle number is written there', () => {
+    //            0    1    2    3    4    5    6    7    8
+    const e = Float64Array.from([0, 0.5, 1, 0.5, 0, 0.5, 1, 0.5, 0]);
+    const onTurn = Float64Array.from([1, 1, 1, 1, 2, 2, 2, 2, 2]);
+    expect(cyclesFromColumn(onTurn, e)).toEqual([
+      { start: 0, end: 4 },
+      { start: 4, end: 8 },
+    ]);
+    const after = Float64Array.from([1, 1, 1, 1, 1, 2, 2, 2, 2]);
+    expect(cyclesFromColumn(after, e)).toEqual([
+      { start: 0, end: 4 },
+      { start: 4, end: 8 },
+    ]);
+  });
+
+  it('leaves a lead-in against the window direction out of the cycles', () => {
+    // 0.2 → 0 (lead-in), then 0 → 0.6 → 0 and 0 → 0.7 → 0.
+    const pts: number[] = [];
+    const ramp = (a: number, b: number) => {
+      const n = Math.round(Math.abs(b - a) / 0.01);
+      for (let k = pts.length ? 1 : 0; k <= n; k++) pts.push(a + ((b - a) * k) / n);
+    };
+    ramp(0.2, 0);
+    ramp(0, 0.6);
+    ramp(0.6, 0);
+    ramp(0, 0.7);
+    ramp(0.7, 0);
+    const e = Float64Array.from(pts);
+    const tps = turningPoints(e, 0.05);
+    const segs = cyclesFromTurningPoints(e, tps, 'max');
+    expect(segs).toEqual([
+      { start: 20, end: 140 },
+      { start: 140, end: 280 },
+    ]);
+    // Taking the first extreme as the vertex kind pairs them one sweep off.
+    expect(cyclesFromTurningPoints(e, tps)[0]).toEqual({ start: 0, end: 80 });
+  });
+
+  it('groups repeats by the spacing of the vertices, not a fixed 2 mV', () => {
+    const series = [0.6, 0.7, 0.8, 0.9];
+    const scattered = series.flatMap((v) => [v - 0.0012, v + 0.0009, v + 0.0003]);
+    const tol = vertexTolerance(scattered);
+    expect(tol).toBeGreaterThan(0.0021); // the scatter spans 2.1 mV
+    expect(tol).toBeLessThanOrEqual(0.03); // 0.3 of the 100 mV step
+    // Steps of 50 mV and 200 mV, no repeats: 0.3 of the smallest step.
+    expect(vertexTolerance([0.5, 0.55, 0.75])).toBeCloseTo(0.015, 12);
+    // Only scatter: one vertex.
+    expect(vertexTolerance([1.0, 1.003, 0.998])).toBeGreaterThanOrEqual(1.003 - 1.0);
+  });
+});
+
+describe('sign convention, references, cell voltages', () => {
+  it('warns when a linear sweep grows against its direction (opposite convention read as IUPAC)', () => {
+    const text = formatExport(lsvSamples(), { sign: 'opposite' });
+    const r = analyzeText(text, { method: 'lsv', criterion: 'i:10uA' });
+    expect(r.warnings.join('\n')).toContain('opposite sign convention');
+    const right = analyzeText(text, { method: 'lsv', criterion: 'i:10uA', sign: 'opposite' });
+    expect(right.warnings.join('\n')).not.toContain('opposite sign convention');
+    expect(right.limit.status).toBe('reached');
+  });
+
+  it('warns for holds whose leakage grows against the staircase direction', () => {
+    const text = formatExport(holdSamples(), { sign: 'opposite' });
+    const r = analyzeText(text, { method: 'hold', criterion: 'i:1uA' });
+    expect(r.warnings.join('\n')).toContain('opposite sign convention');
+  });
+
+  it('refuses a cell voltage as a reference scale', () => {
+    expect(err(() => findScale('cell')).code).toBe('cell-voltage');
+    expect(err(() => findScale('cell voltage')).code).toBe('cell-voltage');
+  });
+
+  it('checks the reference a header names: the same electrode passes, another is refused at its cell', () => {
+    const text =
+      'meta line\nt/s;E vs. SCE (V);I/A\n0;0;1e-6\n1;0.1;2e-6\n2;0.2;-1e-6\n3;0.1;-2e-6\n4;0;1e-6\n';
+    const same = analyzeText(text, { method: 'cv', fromRef: 'SCE', toRef: 'SHE' });
+    expect(same.fileReference).toEqual({ text: 'SCE', scale: 'SCE', line: 2, column: 2 });
+    const e = err(() => analyzeText(text, { method: 'cv', fromRef: 'Ag/AgCl-3M' }));
+    expect(e.code).toBe('reference-mismatch');
+    expect([e.line, e.column]).toEqual([2, 2]);
+    // No reference stated: the header's is used, and converting to SHE works from it.
+    const picked = analyzeText(text, { method: 'cv', toRef: 'SHE' });
+    expect(picked.reference!.from).toBe('SCE');
+    expect(picked.reference!.offsetV).toBeCloseTo(0.2412, 12); // Bard & Faulkner value in the table
+  });
+});
