@@ -538,11 +538,18 @@ function cvSignChecks(s: Samples, chosen: CycleCharge[], direction: Direction): 
     }
   }
   const loopInverted = total > 0 && work < -0.05 * total;
+  const absurd: string[] = [];
+  const sAll = chosen.map((c) => c.sValue);
+  if (sAll.length > 0 && sAll.every((x) => x > 10)) {
+    absurd.push(
+      `the S-value exceeds 10 at every vertex (${Math.min(...sAll).toPrecision(3)} at the lowest): the current hardly turns ${direction === 'anodic' ? 'cathodic' : 'anodic'} on the return sweeps; check for a current offset, the current column and its unit`,
+    );
+  }
   const sv = chosen.map((c) => c.sValue).filter(Number.isFinite);
   const negative = sv.filter((x) => x < -0.05).length;
   const outer = chosen[chosen.length - 1]?.sValue ?? 0;
   const sNegative = sv.length > 0 && negative * 2 > sv.length && outer < -0.1;
-  if (!loopInverted && !sNegative) return [];
+  if (!loopInverted && !sNegative) return absurd;
   const why = [
     loopInverted ? 'the current–potential loops run the wrong way round (∮I dE < 0)' : '',
     sNegative
@@ -552,6 +559,7 @@ function cvSignChecks(s: Samples, chosen: CycleCharge[], direction: Direction): 
     .filter(Boolean)
     .join(' and ');
   return [
+    ...absurd,
     `the currents look like the opposite sign convention (cathodic positive): ${why}; if the instrument writes cathodic current as positive, analyse with sign "opposite" — as read, the ${direction} limit would be optimistic`,
   ];
 }

@@ -136,3 +136,21 @@ describe('sign convention, references, cell voltages', () => {
     expect(picked.reference!.offsetV).toBeCloseTo(0.2412, 12); // Bard & Faulkner value in the table
   });
 });
+
+describe('sanity warnings', () => {
+  it('warns when the S-value is absurd at every vertex (a current offset)', () => {
+    // A capacitor CV with a +5 mA offset: the return sweeps stay anodic.
+    const rows = ['t/s,E/V,I/A'];
+    let t = 0;
+    for (const vertex of [0.6, 0.7, 0.8]) {
+      for (let k = 0; k <= 2 * 100; k++) {
+        const up = k <= 100;
+        const e = up ? (vertex * k) / 100 : (vertex * (200 - k)) / 100;
+        rows.push(`${t},${e},${(up ? 1e-4 : -1e-4) + 5e-3}`);
+        t += 1;
+      }
+    }
+    const r = analyzeText(rows.join('\n'), { method: 'cv', direction: 'anodic' });
+    expect(r.warnings.join('\n')).toContain('the S-value exceeds 10 at every vertex');
+  });
+});

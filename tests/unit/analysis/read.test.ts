@@ -190,19 +190,17 @@ describe('reader: refusals name the line and column', () => {
 });
 
 describe('reader: scale', () => {
-  it('reads 200 000 rows in linear time', () => {
+  it('reads 200 000 rows', () => {
     const rows = 200_000;
     const parts: string[] = ['time/s,E/V,I/A\n'];
     for (let i = 0; i < rows; i++)
       parts.push(`${i * 0.01},${(i % 1000) * 0.001},${Math.sin(i) * 1e-5}\n`);
     const text = parts.join('');
-    const t0 = performance.now();
     const t = readTable(text);
-    const ms = performance.now() - t0;
     expect(t.rows).toBe(rows);
     expect(t.current[12345]).toBe(Number((Math.sin(12345) * 1e-5).toString()));
-    // Generous bound: a quadratic step would take minutes here.
-    expect(ms).toBeLessThan(2000);
+    expect(t.potential[rows - 1]).toBe(Number((((rows - 1) % 1000) * 0.001).toString()));
+    // Its speed is measured by npm run bench:analysis (1,000,000 rows), not by a clock here.
   });
 });
 
