@@ -1,14 +1,19 @@
 import { inject } from 'vitest';
-import { readCapturedMail } from '../src/lib/server/mail-capture.ts';
+import { readCapturedMail } from '#lib/server/mail-capture.ts';
+import { checkAnswer } from './support/answer-check.ts';
 
 export const appUrl = () => inject('appUrl');
 
 /** fetch against the server under test; state-changing calls carry its Origin, as a browser would. */
-export function api(pathname: string, init: RequestInit = {}): Promise<Response> {
+/** Every JSON success answer of /api/v1 is checked against the OpenAPI document (answer-check.ts). */
+export async function api(pathname: string, init: RequestInit = {}): Promise<Response> {
   const headers = new Headers(init.headers);
   if (init.method && init.method !== 'GET' && !headers.has('origin'))
     headers.set('origin', appUrl());
-  return fetch(new URL(pathname, appUrl()), { ...init, headers, redirect: 'manual' });
+  const url = new URL(pathname, appUrl());
+  const res = await fetch(url, { ...init, headers, redirect: 'manual' });
+  await checkAnswer(appUrl(), init.method ?? 'GET', url, res);
+  return res;
 }
 
 /** Waits for a captured message to a recipient whose subject matches. */

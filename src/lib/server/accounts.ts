@@ -30,6 +30,8 @@ import { assertMailRequestAllowed, mayMail } from './auth/mail-limits.ts';
 import { hashPassword, passwordProblem, verifyPassword } from './auth/passwords.ts';
 import { hashSecret, randomSecret } from './auth/secrets.ts';
 import type { Principal } from '../shared/principal.ts';
+import type { Profile } from '#lib/shared/answers.ts';
+export type { Profile };
 
 // Accounts: sign-up with address confirmation, password reset, profile. Answers never reveal
 // whether an address has an account; the mail that follows tells the owner of the address.
@@ -43,17 +45,6 @@ const RESET_SECONDS = 60 * 60;
 function checkPassword(password: string, email: string, field = 'password'): void {
   const problem = passwordProblem(password, { email });
   if (problem) throw new ValidationError([{ path: field, message: problem }]);
-}
-
-export interface Profile {
-  id: string;
-  email: string;
-  name: string | null;
-  affiliation: string | null;
-  orcid: string | null;
-  role: UserRecord['role'];
-  emailConfirmed: boolean;
-  createdAt: string;
 }
 
 export const toProfile = (u: UserRecord): Profile => ({

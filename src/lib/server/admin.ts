@@ -5,15 +5,13 @@ import { authorize, requireUser } from './policy.ts';
 import { insertAuditEvent } from './repositories/audit.ts';
 import { findUserById, listUsers, setUserDisabled, setUserRole } from './repositories/users.ts';
 import { deliver, mailAccountChange } from './auth/mails.ts';
-import { toProfile, type Profile } from './accounts.ts';
+import { toProfile } from './accounts.ts';
 import type { Principal, Role } from '../shared/principal.ts';
+import type { AdminUserView } from '#lib/shared/answers.ts';
+export type { AdminUserView };
 
 // Administration of accounts: roles and disabling. Each change is audited in its transaction and
 // mailed to the person concerned; it applies to their very next request (see middleware).
-
-export interface AdminUserView extends Profile {
-  disabled: boolean;
-}
 
 /** Query parameters of GET /api/v1/admin/users. */
 export const accountsQuerySchema = z.strictObject({

@@ -12,20 +12,10 @@ import {
 import { isUuid } from './repositories/users.ts';
 import { hashSecret, newApiToken } from './auth/secrets.ts';
 import type { Principal, Scope } from '../shared/principal.ts';
+import type { ApiTokenView } from '#lib/shared/answers.ts';
+export type { ApiTokenView };
 
 // API tokens for scripts: shown once at creation, stored as SHA-256, scoped, expiring, revocable.
-
-export interface ApiTokenView {
-  id: string;
-  name: string;
-  prefix: string;
-  scopes: Scope[];
-  createdAt: string;
-  expiresAt: string;
-  lastUsedAt: string | null;
-  revokedAt: string | null;
-  state: 'active' | 'expired' | 'revoked';
-}
 
 const view = (t: ApiTokenInfo, now = new Date()): ApiTokenView => ({
   id: t.id,

@@ -66,6 +66,8 @@ import type {
   RecordStatus,
   TransitionAction,
 } from '../shared/record.ts';
+import type { DecisionResult } from '#lib/shared/curation.ts';
+export type { DecisionResult };
 
 // The curator's work: the queue, claims, decisions with field comments, possible duplicates,
 // flags. Status moves go through records.ts (the one status machine); each decision is one
@@ -438,13 +440,6 @@ function decisionMail(
       : `See it: ${origin()}/windows/${a.handle}`,
   ];
   return { subject: `${a.handle} ${t.subject}`, text: lines.join('\n') + SIGNATURE };
-}
-
-export interface DecisionResult {
-  handle: string;
-  status: RecordStatus;
-  version: number;
-  reviewId: string;
 }
 
 /**

@@ -10,15 +10,12 @@ import { AppError, ValidationError, type FieldError } from './errors.ts';
 import { authorize, type Principal, type UserPrincipal } from './policy.ts';
 import { insertDraft, prepareDraft, type PreparedDraft } from './records.ts';
 import { insertAuditEvent } from './repositories/audit.ts';
+import type { ImportResult } from '#lib/shared/answers.ts';
+export type { ImportResult };
 
 // Bulk import of stated records from the CSV template: every row is checked (shape, units,
 // vocabulary names, lab) before anything is written, then all drafts are written in one
 // transaction — a file imports whole or not at all.
-
-export interface ImportResult {
-  count: number;
-  records: { line: number; handle: string }[];
-}
 
 class ImportRefused extends AppError {
   constructor(detail: string, errors: FieldError[]) {

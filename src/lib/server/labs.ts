@@ -14,27 +14,12 @@ import {
 import { findUserByEmail, findUserById, isUuid } from './repositories/users.ts';
 import { deliver, mailAccountChange } from './auth/mails.ts';
 import type { LabRole, Principal } from '../shared/principal.ts';
+import type { LabView, LabMemberView } from '#lib/shared/answers.ts';
+export type { LabView, LabMemberView };
 
 // Labs and their members. Names and slugs are public; the member list is for the lab's own
 // members and admins; managers (and admins) add, remove and promote members. Every change is
 // audited in its transaction and mailed to the person concerned.
-
-export interface LabMemberView {
-  userId: string;
-  email: string;
-  name: string | null;
-  role: LabRole;
-  since: string;
-}
-
-export interface LabView {
-  id: string;
-  slug: string;
-  name: string;
-  /** Present only for those who may read the member list. */
-  members?: LabMemberView[];
-  mayManage: boolean;
-}
 
 async function labOr404(db: Db, slug: string): Promise<Lab> {
   const lab = await findLabBySlug(db, slug);

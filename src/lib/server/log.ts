@@ -5,7 +5,7 @@ import { config } from './config.ts';
 
 // One structured logger for the server process: JSON lines (one per request from
 // scripts/app-server.ts, errors with their stack and the request id), or readable lines when the
-// output is a terminal. docs/decisions/005-structured-logs.md says why it looks like this.
+// output is a terminal. docs/decisions/006-structured-logs.md says why it looks like this.
 
 let root: Logger | undefined;
 

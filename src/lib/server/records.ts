@@ -67,6 +67,8 @@ import type {
   RecordDetail,
   RecordSummary,
 } from '../shared/record-views.ts';
+import type { Change, VersionSummary } from '#lib/shared/answers.ts';
+export type { Change, VersionSummary };
 export type { LimitView, RecordSummary };
 
 // Window records: drafts, edits as new versions, the status machine, and the record views the
@@ -913,15 +915,6 @@ async function detail(
   };
 }
 
-export interface VersionSummary {
-  version: number;
-  createdAt: string;
-  authorId: string;
-  changeNote: string | null;
-  evidenceLevel: EvidenceLevel;
-  rawFileCount: number;
-}
-
 export async function listRecordVersions(
   db: Db,
   principal: Principal,
@@ -958,13 +951,6 @@ export async function getRecordVersion(
     { what: 'record' },
   );
   return detail(db, principal, head, version);
-}
-
-export interface Change {
-  /** Dotted path into the content (`electrolyte.salts.0.concentration.value`), or `rawFiles`. */
-  path: string;
-  before: unknown;
-  after: unknown;
 }
 
 /** Field-by-field differences between two versions of a record. */

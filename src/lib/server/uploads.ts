@@ -11,7 +11,6 @@ import {
   attachRawFile,
   policyObject,
   toRawFileView,
-  type RawFileView,
 } from './records.ts';
 import { termRefs } from './record-derive.ts';
 import { insertAuditEvent } from './repositories/audit.ts';
@@ -33,6 +32,8 @@ import {
 } from './repositories/uploads.ts';
 import { deleteObject, getObjectBytes, presignPut } from './storage.ts';
 import { resolveTerms } from './vocabulary.ts';
+import type { UploadTicket, UploadResult } from '#lib/shared/answers.ts';
+export type { UploadTicket, UploadResult };
 
 // Raw files in two phases: the client declares a file and gets a short-lived URL to PUT it to;
 // on `complete` the server reads the object back, checks size and SHA-256, analyses it and only
@@ -40,30 +41,6 @@ import { resolveTerms } from './vocabulary.ts';
 
 /** How long a presigned PUT stays valid (s). */
 export const UPLOAD_URL_SECONDS = 300;
-
-export interface UploadTicket {
-  id: string;
-  status: UploadRow['status'];
-  /** PUT the bytes here with the same Content-Type before `expiresAt`. */
-  url: string;
-  method: 'PUT';
-  headers: { 'content-type': string };
-  expiresAt: string;
-}
-
-export interface UploadResult {
-  id: string;
-  status: 'complete';
-  rawFile: RawFileView;
-  analysis: {
-    id: string;
-    direction: 'anodic' | 'cathodic';
-    limitV: number | null;
-    limitStatus: string;
-    warnings: string[];
-  };
-  record: { handle: string; version: number; evidenceLevel: string };
-}
 
 /** A file name safe for object metadata and Content-Disposition: ASCII letters, digits, dot, dash, underscore. */
 export function safeFileName(name: string): string {

@@ -31,6 +31,8 @@ import type {
   referenceValueBody,
 } from '../shared/curation.ts';
 import { lookupKey, termKeys, type VocabularyTerm } from '../shared/vocabulary.ts';
+import type { MergeResult } from '#lib/shared/answers.ts';
+export type { MergeResult };
 
 // Keeping the vocabulary clean: proposed terms accepted or rejected, duplicates merged (the old
 // name stays as a synonym and every record follows), reference-electrode values revised with
@@ -218,13 +220,6 @@ export async function decideProposal(
   });
   wakeOutbox();
   return toProposal((await getProposal(db, id))!);
-}
-
-export interface MergeResult {
-  from: VocabularyTerm;
-  into: VocabularyTerm;
-  /** Records that gained a version naming the surviving term. */
-  records: { handle: string; version: number }[];
 }
 
 /**

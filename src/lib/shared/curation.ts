@@ -2,12 +2,11 @@ import { z } from 'zod';
 import {
   EVIDENCE_LEVELS,
   METHOD_KINDS,
-  type EvidenceLevel,
-  type MethodKind,
-  type RecordContent,
+  RECORD_STATUSES,
+  recordContentSchema,
   type RecordStatus,
 } from './record.ts';
-import { VOCABULARY_KINDS, type VocabularyKind } from './vocabulary.ts';
+import { VOCABULARY_KINDS } from './vocabulary.ts';
 
 // The curator's side of the API: request bodies, query parameters and the shapes answered.
 // Plain zod and types, no server imports (islands import the types only).
@@ -183,173 +182,225 @@ export const notificationsQuery = z.strictObject({
   offset: z.coerce.number().int().min(0).max(100_000).default(0),
 });
 
-// ---- answers ----
+// ---- answers (zod, so the OpenAPI document publishes exactly what the server builds) ----
 
-export interface ClaimView {
-  curator: string;
-  mine: boolean;
-  claimedAt: string;
-  expiresAt: string;
-}
+const isoTime = z.string().describe('ISO 8601 date and time');
+const recordStatus = z.enum(RECORD_STATUSES);
+
+export const claimViewSchema = z.strictObject({
+  curator: z.string(),
+  mine: z.boolean(),
+  claimedAt: isoTime,
+  expiresAt: isoTime,
+});
+export type ClaimView = z.infer<typeof claimViewSchema>;
 
 /** Reported vs computed, per side, on one scale (SHE where both convert, else the record's own). */
-export interface Disagreement {
-  side: 'cathodic' | 'anodic';
-  reportedV: number;
-  computedV: number;
-  scale: string;
+export const disagreementSchema = z.strictObject({
+  side: z.enum(['cathodic', 'anodic']),
+  reportedV: z.number(),
+  computedV: z.number(),
+  scale: z.string(),
   /** computed − reported (V). */
-  differenceV: number;
+  differenceV: z.number(),
   /** Beyond the 50 mV that counts as agreement. */
-  disagrees: boolean;
-}
+  disagrees: z.boolean(),
+});
+export type Disagreement = z.infer<typeof disagreementSchema>;
 
-export interface QueueItem {
-  handle: string;
-  version: number;
-  status: RecordStatus;
-  title: string | null;
-  lab: { slug: string; name: string } | null;
-  contributor: string;
-  own: boolean;
-  method: MethodKind;
-  evidenceLevel: EvidenceLevel;
-  hasRaw: boolean;
+export const queueItemSchema = z.strictObject({
+  handle: z.string(),
+  version: z.number().int(),
+  status: recordStatus,
+  title: z.string().nullable(),
+  lab: z.strictObject({ slug: z.string(), name: z.string() }).nullable(),
+  contributor: z.string(),
+  own: z.boolean(),
+  method: z.enum(METHOD_KINDS),
+  evidenceLevel: z.enum(EVIDENCE_LEVELS),
+  hasRaw: z.boolean(),
   /** Largest |computed − reported| (V), null when nothing was computed. */
-  disagreementV: number | null;
-  submittedAt: string;
-  claim: ClaimView | null;
-  summary: string;
-}
+  disagreementV: z.number().nullable(),
+  submittedAt: isoTime,
+  claim: claimViewSchema.nullable(),
+  summary: z.string(),
+});
+export type QueueItem = z.infer<typeof queueItemSchema>;
 
-export interface QueueResult {
-  counts: Record<RecordStatus | 'openFlags' | 'proposals', number>;
-  total: number;
-  limit: number;
-  offset: number;
-  items: QueueItem[];
-}
+export const queueResultSchema = z.strictObject({
+  /** Records per status (drafts are their owners' own business), open flags, open proposals. */
+  counts: z.strictObject(
+    Object.fromEntries(
+      [...RECORD_STATUSES.filter((s) => s !== 'draft'), 'openFlags', 'proposals'].map((k) => [
+        k,
+        z.number().int(),
+      ]),
+    ) as Record<Exclude<RecordStatus, 'draft'> | 'openFlags' | 'proposals', z.ZodNumber>,
+  ),
+  total: z.number().int(),
+  limit: z.number().int(),
+  offset: z.number().int(),
+  items: z.array(queueItemSchema),
+});
+export type QueueResult = z.infer<typeof queueResultSchema>;
 
-export interface ChecklistItem {
-  key: string;
-  label: string;
-  ok: boolean;
+export const checklistItemSchema = z.strictObject({
+  key: z.string(),
+  label: z.string(),
+  ok: z.boolean(),
   /** Where in the record to look (a field path). */
-  path: string;
-}
+  path: z.string(),
+});
+export type ChecklistItem = z.infer<typeof checklistItemSchema>;
 
-export interface DuplicateView {
-  handle: string;
-  version: number;
-  status: RecordStatus;
-  title: string | null;
-  reasons: string[];
+export const duplicateViewSchema = z.strictObject({
+  handle: z.string(),
+  version: z.number().int(),
+  status: recordStatus,
+  title: z.string().nullable(),
+  reasons: z.array(z.string()),
   /** Field by field, this record's value beside the other's. */
-  fields: { label: string; path: string; mine: string; theirs: string; same: boolean }[];
-}
+  fields: z.array(
+    z.strictObject({
+      label: z.string(),
+      path: z.string(),
+      mine: z.string(),
+      theirs: z.string(),
+      same: z.boolean(),
+    }),
+  ),
+});
+export type DuplicateView = z.infer<typeof duplicateViewSchema>;
 
-export interface ReviewHistoryItem {
-  version: number;
-  decision: string;
-  reason: string | null;
-  at: string;
-  reviewer: string | null;
-  comments: FieldComment[];
-}
+export const reviewHistoryItemSchema = z.strictObject({
+  version: z.number().int(),
+  decision: z.string(),
+  reason: z.string().nullable(),
+  at: isoTime,
+  reviewer: z.string().nullable(),
+  comments: z.array(fieldCommentSchema),
+});
+export type ReviewHistoryItem = z.infer<typeof reviewHistoryItemSchema>;
 
-export interface ReferenceValueNote {
-  term: string;
-  termName: string;
+export const referenceValueNoteSchema = z.strictObject({
+  term: z.string(),
+  termName: z.string(),
   /** The offset (E_SHE = E_ref + offset) the record was computed with. */
-  usedOffsetV: number;
-  currentV: number;
-  currentSource: string | null;
-  changedAt: string | null;
-  newer: boolean;
-}
+  usedOffsetV: z.number(),
+  currentV: z.number(),
+  currentSource: z.string().nullable(),
+  changedAt: isoTime.nullable(),
+  newer: z.boolean(),
+});
+export type ReferenceValueNote = z.infer<typeof referenceValueNoteSchema>;
 
-export interface ReviewDetail {
-  handle: string;
-  version: number;
-  status: RecordStatus;
-  title: string | null;
-  contributor: { name: string; lab: string | null };
-  own: boolean;
-  content: RecordContent;
-  evidenceLevel: EvidenceLevel;
-  checklist: ChecklistItem[];
-  disagreement: Disagreement[];
-  rawFiles: { id: string; name: string; bytes: number; sha256: string }[];
-  changeNote: string | null;
+export const reviewDetailSchema = z.strictObject({
+  handle: z.string(),
+  version: z.number().int(),
+  status: recordStatus,
+  title: z.string().nullable(),
+  contributor: z.strictObject({ name: z.string(), lab: z.string().nullable() }),
+  own: z.boolean(),
+  content: recordContentSchema,
+  evidenceLevel: z.enum(EVIDENCE_LEVELS),
+  checklist: z.array(checklistItemSchema),
+  disagreement: z.array(disagreementSchema),
+  rawFiles: z.array(
+    z.strictObject({ id: z.string(), name: z.string(), bytes: z.number(), sha256: z.string() }),
+  ),
+  changeNote: z.string().nullable(),
   /** Change notes of every version, newest first. */
-  changeNotes: { version: number; note: string | null; at: string }[];
-  previousVersion: number | null;
-  diff: { path: string; before: unknown; after: unknown }[];
-  history: ReviewHistoryItem[];
-  duplicates: DuplicateView[];
-  claim: ClaimView | null;
-  referenceValues: ReferenceValueNote[];
-  openFlags: { id: string; reason: string; at: string }[];
+  changeNotes: z.array(
+    z.strictObject({ version: z.number().int(), note: z.string().nullable(), at: isoTime }),
+  ),
+  previousVersion: z.number().int().nullable(),
+  diff: z.array(z.strictObject({ path: z.string(), before: z.unknown(), after: z.unknown() })),
+  history: z.array(reviewHistoryItemSchema),
+  duplicates: z.array(duplicateViewSchema),
+  claim: claimViewSchema.nullable(),
+  referenceValues: z.array(referenceValueNoteSchema),
+  openFlags: z.array(z.strictObject({ id: z.string(), reason: z.string(), at: isoTime })),
   /** What this curator may do now. */
-  canDecide: boolean;
-}
+  canDecide: z.boolean(),
+});
+export type ReviewDetail = z.infer<typeof reviewDetailSchema>;
 
-export interface FlagItem {
-  id: string;
-  handle: string;
-  title: string | null;
-  recordStatus: RecordStatus;
-  version: number;
-  currentVersion: number;
-  reason: string;
-  reporter: string;
-  status: 'open' | 'resolved';
-  createdAt: string;
-  resolvedAt: string | null;
-  resolvedBy: string | null;
-}
+export const flagItemSchema = z.strictObject({
+  id: z.string(),
+  handle: z.string(),
+  title: z.string().nullable(),
+  recordStatus: recordStatus,
+  version: z.number().int(),
+  currentVersion: z.number().int(),
+  reason: z.string(),
+  reporter: z.string(),
+  status: z.enum(['open', 'resolved']),
+  createdAt: isoTime,
+  resolvedAt: isoTime.nullable(),
+  resolvedBy: z.string().nullable(),
+});
+export type FlagItem = z.infer<typeof flagItemSchema>;
 
-export interface ProposalView {
-  id: string;
-  kind: VocabularyKind;
-  name: string;
-  abbreviations: string[];
-  synonyms: string[];
-  formula: string | null;
-  note: string | null;
-  proposer: string;
-  status: 'proposed' | 'accepted' | 'rejected';
-  termId: string | null;
-  decidedBy: string | null;
-  decidedAt: string | null;
-  reason: string | null;
-  createdAt: string;
-}
+export const proposalViewSchema = z.strictObject({
+  id: z.string(),
+  kind: z.enum(VOCABULARY_KINDS),
+  name: z.string(),
+  abbreviations: z.array(z.string()),
+  synonyms: z.array(z.string()),
+  formula: z.string().nullable(),
+  note: z.string().nullable(),
+  proposer: z.string(),
+  status: z.enum(['proposed', 'accepted', 'rejected']),
+  termId: z.string().nullable(),
+  decidedBy: z.string().nullable(),
+  decidedAt: isoTime.nullable(),
+  reason: z.string().nullable(),
+  createdAt: isoTime,
+});
+export type ProposalView = z.infer<typeof proposalViewSchema>;
 
-export interface ReferenceValueView {
-  potentialVsSheV: number;
-  tempCoefficientMVPerK: number | null;
-  source: string;
-  note: string | null;
-  changedBy: string | null;
-  validFrom: string;
-}
+export const referenceValueViewSchema = z.strictObject({
+  potentialVsSheV: z.number(),
+  tempCoefficientMVPerK: z.number().nullable(),
+  source: z.string(),
+  note: z.string().nullable(),
+  changedBy: z.string().nullable(),
+  validFrom: isoTime,
+});
+export type ReferenceValueView = z.infer<typeof referenceValueViewSchema>;
 
-export interface AuditEventView {
-  id: string;
-  at: string;
-  actor: { id: string; name: string | null; email: string } | null;
-  action: string;
-  subjectType: string;
-  subjectId: string;
-  details: Record<string, unknown>;
-}
+export const auditEventViewSchema = z.strictObject({
+  id: z.string(),
+  at: isoTime,
+  actor: z
+    .strictObject({ id: z.string(), name: z.string().nullable(), email: z.string() })
+    .nullable(),
+  action: z.string(),
+  subjectType: z.string(),
+  subjectId: z.string(),
+  details: z.record(z.string(), z.unknown()),
+});
+export type AuditEventView = z.infer<typeof auditEventViewSchema>;
 
-export interface NotificationView {
-  id: string;
-  kind: string;
-  subject: string;
-  text: string;
-  createdAt: string;
-  delivered: boolean;
-}
+export const notificationViewSchema = z.strictObject({
+  id: z.string(),
+  kind: z.string(),
+  subject: z.string(),
+  text: z.string(),
+  createdAt: isoTime,
+  delivered: z.boolean(),
+});
+export type NotificationView = z.infer<typeof notificationViewSchema>;
+
+/** A curator's decision (or a flag's resolution) as answered. */
+export const decisionResultSchema = z.strictObject({
+  handle: z.string(),
+  status: recordStatus,
+  version: z.number().int(),
+  reviewId: z.string(),
+});
+export type DecisionResult = z.infer<typeof decisionResultSchema>;
+
+/** A page of something: the total and the items of this page. */
+export const pageOf = <T extends z.ZodType>(item: T) =>
+  z.strictObject({ total: z.number().int(), items: z.array(item) });

@@ -2,15 +2,15 @@
 // as a prop; it is resolved once per request in src/middleware.ts from the session cookie or an
 // `Authorization: Bearer` token, always from the database (never trusted from the token).
 
-export type Role = 'reader' | 'contributor' | 'curator' | 'admin';
-export const ROLES: readonly Role[] = ['reader', 'contributor', 'curator', 'admin'];
+export const ROLES = ['reader', 'contributor', 'curator', 'admin'] as const;
+export type Role = (typeof ROLES)[number];
 
-export type LabRole = 'member' | 'manager';
-export const LAB_ROLES: readonly LabRole[] = ['member', 'manager'];
+export const LAB_ROLES = ['member', 'manager'] as const;
+export type LabRole = (typeof LAB_ROLES)[number];
 
 /** What an API token may do; a browser session has both. */
-export type Scope = 'read' | 'write';
-export const SCOPES: readonly Scope[] = ['read', 'write'];
+export const SCOPES = ['read', 'write'] as const;
+export type Scope = (typeof SCOPES)[number];
 
 export interface LabMembership {
   labId: string;

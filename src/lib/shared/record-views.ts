@@ -1,109 +1,159 @@
-// What the API answers about records, their limits, files and analyses: one definition for the
-// server and the islands (types only).
-import type { EvidenceLevel, RecordContent, RecordStatus, TransitionAction } from './record.ts';
+import { z } from 'zod';
+import {
+  EVIDENCE_LEVELS,
+  RECORD_STATUSES,
+  TRANSITION_ACTIONS,
+  recordContentSchema,
+} from './record.ts';
+
+// What the API answers about records, their limits, files and analyses: one zod definition for
+// the server (which builds its answers to these types), the OpenAPI document (which publishes them
+// as JSON Schema) and the islands (which read the inferred types). Answer objects are strict, so
+// the document says exactly which fields come back.
+
+const isoTime = z.string().describe('ISO 8601 date and time');
 
 /** A verified raw file as the API shows it. */
-export interface RawFileView {
-  id: string;
-  name: string;
-  bytes: number;
-  sha256: string;
-  mediaType: string;
-  uploadedAt: string;
-  downloadUrl: string;
-}
+export const rawFileViewSchema = z.strictObject({
+  id: z.string(),
+  name: z.string(),
+  bytes: z.number().int(),
+  sha256: z.string(),
+  mediaType: z.string(),
+  uploadedAt: isoTime,
+  downloadUrl: z.string(),
+});
+export type RawFileView = z.infer<typeof rawFileViewSchema>;
 
 /** One stored analysis of a raw file. */
-export interface AnalysisView {
-  id: string;
-  rawFileId: string;
-  direction: 'anodic' | 'cathodic';
-  limitV: number | null;
-  limitStatus: string;
-  engineVersion: string;
-  parameters: unknown;
-  result: unknown;
-}
+export const analysisViewSchema = z.strictObject({
+  id: z.string(),
+  rawFileId: z.string(),
+  direction: z.enum(['anodic', 'cathodic']),
+  limitV: z.number().nullable(),
+  limitStatus: z.string(),
+  engineVersion: z.string(),
+  parameters: z.unknown().describe('The analysis options the engine ran with'),
+  result: z.unknown().describe('The engine’s result, as POST /analyses answers it'),
+});
+export type AnalysisView = z.infer<typeof analysisViewSchema>;
 
-export interface LimitView {
-  valueV: number;
+export const limitViewSchema = z.strictObject({
+  valueV: z.number(),
   /** Reference term id, or "cell" for a cell voltage. */
-  reference: string;
+  reference: z.string().describe('Reference term id, or "cell" for a cell voltage'),
   /** The same limit vs SHE (null where no conversion exists: cell voltages, ferrocene, RHE without pH). */
-  sheV: number | null;
+  sheV: z.number().nullable(),
   /** E(SHE) = E(reference) + offsetV, from the engine's reference table. */
-  offsetV: number | null;
-  approximate: boolean;
-}
+  offsetV: z.number().nullable(),
+  approximate: z.boolean(),
+});
+export type LimitView = z.infer<typeof limitViewSchema>;
 
-export interface RecordSummary {
-  handle: string;
-  version: number;
-  status: RecordStatus;
-  title: string | null;
-  lab: { slug: string; name: string } | null;
-  evidenceLevel: EvidenceLevel;
+export const labRefSchema = z.strictObject({ slug: z.string(), name: z.string() });
+
+export const recordSummaryShape = {
+  handle: z.string(),
+  version: z.number().int(),
+  status: z.enum(RECORD_STATUSES),
+  title: z.string().nullable(),
+  lab: labRefSchema.nullable(),
+  evidenceLevel: z.enum(EVIDENCE_LEVELS),
   /** 'cell-voltage' for two-electrode cells: never mix these with electrode potentials. */
-  limitKind: 'electrode-potential' | 'cell-voltage';
-  limits: { cathodic: LimitView | null; anodic: LimitView | null };
-  computed: {
-    cathodicV: number | null;
-    anodicV: number | null;
-    cathodicSheV: number | null;
-    anodicSheV: number | null;
-  };
-  content: RecordContent;
-  updatedAt: string;
-}
+  limitKind: z.enum(['electrode-potential', 'cell-voltage']),
+  limits: z.strictObject({
+    cathodic: limitViewSchema.nullable(),
+    anodic: limitViewSchema.nullable(),
+  }),
+  computed: z.strictObject({
+    cathodicV: z.number().nullable(),
+    anodicV: z.number().nullable(),
+    cathodicSheV: z.number().nullable(),
+    anodicSheV: z.number().nullable(),
+  }),
+  content: recordContentSchema,
+  updatedAt: isoTime,
+};
+export const recordSummarySchema = z.strictObject(recordSummaryShape);
+export type RecordSummary = z.infer<typeof recordSummarySchema>;
 
-export interface CommonCriterionResult {
-  criterion: string;
+export const commonCriterionResultSchema = z.strictObject({
+  criterion: z.string(),
   /** True when Edgewise recomputed this record's limits at the common criterion. */
-  applied: boolean;
+  applied: z.boolean(),
   /** Why not, when not applied (the record keeps its own criterion). */
-  reason?: string;
-  cathodicV: number | null;
-  anodicV: number | null;
+  reason: z.string().optional(),
+  cathodicV: z.number().nullable(),
+  anodicV: z.number().nullable(),
   /** 'reached', 'not-reached' or 'exceeded-at-first' per direction recomputed. */
-  status: { cathodic?: string; anodic?: string };
-}
+  status: z.strictObject({ cathodic: z.string().optional(), anodic: z.string().optional() }),
+});
+export type CommonCriterionResult = z.infer<typeof commonCriterionResultSchema>;
 
-export interface SearchItem extends RecordSummary {
-  onScale: { scale: string; cathodic: number | null; anodic: number | null; note?: string };
-  commonCriterion?: CommonCriterionResult;
-}
+export const searchItemSchema = z.strictObject({
+  ...recordSummaryShape,
+  onScale: z.strictObject({
+    scale: z.string(),
+    cathodic: z.number().nullable(),
+    anodic: z.number().nullable(),
+    note: z.string().optional(),
+  }),
+  commonCriterion: commonCriterionResultSchema.optional(),
+});
+export type SearchItem = z.infer<typeof searchItemSchema>;
 
 /** The facets a search counts over its whole result. */
-export type FacetName =
-  | 'electrode'
-  | 'method'
-  | 'criterionKind'
-  | 'cellType'
-  | 'evidence'
-  | 'status'
-  | 'lab'
-  | 'concentrationBasis'
-  | 'salt'
-  | 'solvent'
-  | 'additive';
+export const FACET_NAMES = [
+  'electrode',
+  'method',
+  'criterionKind',
+  'cellType',
+  'evidence',
+  'status',
+  'lab',
+  'concentrationBasis',
+  'salt',
+  'solvent',
+  'additive',
+] as const;
+export type FacetName = (typeof FACET_NAMES)[number];
+
+const facetCounts = z.array(z.strictObject({ value: z.string(), count: z.number().int() }));
 
 /** GET /api/v1/records. */
-export interface SearchResult {
-  total: number;
-  limit: number;
-  offset: number;
-  items: SearchItem[];
-  facets?: Record<FacetName, { value: string; count: number }[]>;
-}
+export const searchResultSchema = z.strictObject({
+  total: z.number().int(),
+  limit: z.number().int(),
+  offset: z.number().int(),
+  items: z.array(searchItemSchema),
+  facets: z
+    .strictObject(
+      Object.fromEntries(FACET_NAMES.map((f) => [f, facetCounts])) as Record<
+        FacetName,
+        typeof facetCounts
+      >,
+    )
+    .optional(),
+});
+export type SearchResult = z.infer<typeof searchResultSchema>;
 
 /** GET /api/v1/records/{handle}. */
-export interface RecordDetail extends RecordSummary {
-  ownerId: string;
-  publishedAt: string | null;
-  changeNote: string | null;
-  rawFiles: RawFileView[];
-  analyses: AnalysisView[];
-  reviews: { version: number; decision: string; reason: string | null; at: string }[];
+export const recordDetailSchema = z.strictObject({
+  ...recordSummaryShape,
+  ownerId: z.string(),
+  publishedAt: isoTime.nullable(),
+  changeNote: z.string().nullable(),
+  rawFiles: z.array(rawFileViewSchema),
+  analyses: z.array(analysisViewSchema),
+  reviews: z.array(
+    z.strictObject({
+      version: z.number().int(),
+      decision: z.string(),
+      reason: z.string().nullable(),
+      at: isoTime,
+    }),
+  ),
   /** Status moves this principal may make now. */
-  allowedActions: TransitionAction[];
-}
+  allowedActions: z.array(z.enum(TRANSITION_ACTIONS)),
+});
+export type RecordDetail = z.infer<typeof recordDetailSchema>;

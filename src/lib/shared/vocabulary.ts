@@ -38,22 +38,24 @@ export const vocabularyTermSchema = z.strictObject({
 
 export type VocabularyTermInput = z.input<typeof vocabularyTermSchema>;
 
-/** A term as the API returns it. */
-export interface VocabularyTerm {
-  id: string;
-  kind: VocabularyKind;
-  name: string;
-  abbreviations: string[];
-  synonyms: string[];
-  formula: string | null;
-  smiles: string | null;
-  inchikey: string | null;
-  scale: string | null;
-  potentialVsSheV: number | null;
-  tempCoefficientMVPerK: number | null;
-  potentialSource: string | null;
-  mergedInto: string | null;
-}
+/** A term as the API returns it (nulls where a term has no such value). */
+export const vocabularyTermViewSchema = z.strictObject({
+  id: z.string(),
+  kind: z.enum(VOCABULARY_KINDS),
+  name: z.string(),
+  abbreviations: z.array(z.string()),
+  synonyms: z.array(z.string()),
+  formula: z.string().nullable(),
+  smiles: z.string().nullable(),
+  inchikey: z.string().nullable(),
+  scale: z.string().nullable(),
+  potentialVsSheV: z.number().nullable(),
+  tempCoefficientMVPerK: z.number().nullable(),
+  potentialSource: z.string().nullable(),
+  /** The surviving term's id when this one was merged into it. */
+  mergedInto: z.string().nullable(),
+});
+export type VocabularyTerm = z.infer<typeof vocabularyTermViewSchema>;
 
 /** The key a name is matched by: case, spacing and typographic variants folded. */
 export function lookupKey(name: string): string {

@@ -1,4 +1,8 @@
-// Errors leave the API as RFC 9457 problem details (application/problem+json).
+import type { z } from 'zod';
+import { config } from '../config.ts';
+
+// Errors leave the API as RFC 9457 problem details (application/problem+json); answers leave it
+// as JSON built to the zod schema the OpenAPI document publishes for them.
 
 export interface Problem {
   type?: string;
@@ -25,6 +29,29 @@ export function problem(p: Problem, init: { headers?: Record<string, string> } =
 /** A JSON response. */
 export function json(body: unknown, status = 200, headers: Record<string, string> = {}): Response {
   return jsonText(JSON.stringify(body), status, headers);
+}
+
+/**
+ * An API answer: `body` must have the type of `schema` (the one the OpenAPI document publishes
+ * for this operation). Under APP_ENV=test the server also checks it at run time, so every answer
+ * a test provokes is held to the document; a mismatch is a 500 naming the fields.
+ */
+export function answer<S extends z.ZodType>(
+  schema: S,
+  body: z.output<S>,
+  status = 200,
+  headers: Record<string, string> = {},
+): Response {
+  if (config().APP_ENV === 'test') {
+    const checked = schema.safeParse(body);
+    if (!checked.success)
+      throw new Error(
+        `answer does not match its schema: ${checked.error.issues
+          .map((i) => `${i.path.join('.') || '(answer)'}: ${i.message}`)
+          .join('; ')}`,
+      );
+  }
+  return json(body, status, headers);
 }
 
 /** A JSON response from text that is already serialised. */

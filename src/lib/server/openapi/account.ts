@@ -11,6 +11,7 @@ export const accountPaths = {
       summary: 'Who the request is from, as the server sees it',
       responses: {
         '200': ok(
+          'Principal',
           '`kind` anonymous, or the user with role, labs, how they came (session or token) and scopes',
         ),
       },
@@ -22,7 +23,7 @@ export const accountPaths = {
       tags: ['Account'],
       summary: 'Your profile',
       security: signedIn,
-      responses: { '200': ok('The profile'), ...errors(401) },
+      responses: { '200': ok('Profile', 'The profile'), ...errors(401) },
     },
     patch: {
       operationId: 'updateAccount',
@@ -30,7 +31,7 @@ export const accountPaths = {
       summary: 'Change your name, affiliation or ORCID iD',
       security: signedIn,
       requestBody: body('ProfileChange'),
-      responses: { '200': ok('The profile'), ...errors(400, 401, 413) },
+      responses: { '200': ok('Profile', 'The profile'), ...errors(400, 401, 413) },
     },
   },
   '/account/signup': {
@@ -44,7 +45,7 @@ export const accountPaths = {
         'a network address that makes too many requests that send e-mail within an hour gets 429.',
       requestBody: body('SignUp'),
       responses: {
-        '202': ok('Check your e-mail'),
+        '202': ok('StatusMessage', 'Check your e-mail'),
         ...errors(
           [400, 'Invalid request, or a password that is too weak (`errors` says why)'],
           413,
@@ -60,7 +61,7 @@ export const accountPaths = {
       summary: 'Confirm an e-mail address with the token from the mailed link',
       requestBody: body('EmailToken'),
       responses: {
-        '200': ok('Confirmed'),
+        '200': ok('StatusMessage', 'Confirmed'),
         ...errors(400, [404, 'The link is unknown, used or expired'], 413),
       },
     },
@@ -88,7 +89,7 @@ export const accountPaths = {
         `At most ${MESSAGES_PER_ADDRESS} reset links go to one address per hour (further requests answer 202 and send nothing); ` +
         'a network address that makes too many requests that send e-mail within an hour gets 429.',
       requestBody: body('EmailAddress'),
-      responses: { '202': ok('Check your e-mail'), ...errors(400, 413, 429) },
+      responses: { '202': ok('StatusMessage', 'Check your e-mail'), ...errors(400, 413, 429) },
     },
   },
   '/account/password/reset': {
@@ -98,7 +99,7 @@ export const accountPaths = {
       summary: 'Set a new password with the token from the mailed link; every session ends',
       requestBody: body('PasswordReset'),
       responses: {
-        '200': ok('Password changed'),
+        '200': ok('StatusMessage', 'Password changed'),
         ...errors(
           [400, 'Invalid request, or a weak password'],
           [404, 'The link is unknown, used or expired'],
@@ -113,7 +114,10 @@ export const accountPaths = {
       tags: ['Account'],
       summary: 'Your API tokens (never their secrets)',
       security: signedIn,
-      responses: { '200': ok('`tokens`, each active, expired or revoked'), ...errors(401) },
+      responses: {
+        '200': ok('ApiTokenList', '`tokens`, each active, expired or revoked'),
+        ...errors(401),
+      },
     },
     post: {
       operationId: 'createApiToken',
@@ -123,7 +127,7 @@ export const accountPaths = {
       security: [{ session: [] }],
       requestBody: body('CreateApiToken'),
       responses: {
-        '201': ok('The token with its secret'),
+        '201': ok('NewApiToken', 'The token with its secret'),
         ...errors(400, 401, [403, 'Tokens are made from a browser session only'], 413),
       },
     },
@@ -145,7 +149,10 @@ export const accountPaths = {
       summary: 'The messages about your records, flags and proposals, newest first',
       security: signedIn,
       parameters: queryParameters(notificationsQuery),
-      responses: { '200': ok('Total and a page of messages'), ...errors(400, 401) },
+      responses: {
+        '200': ok('NotificationPage', 'Total and a page of messages'),
+        ...errors(400, 401),
+      },
     },
   },
 };

@@ -10,7 +10,10 @@ export const adminPaths = {
       summary: 'Accounts, searched by name or e-mail address',
       security: signedIn,
       parameters: queryParameters(accountsQuerySchema),
-      responses: { '200': ok('Total and a page of accounts'), ...errors(400, 401, 403) },
+      responses: {
+        '200': ok('AccountPage', 'Total and a page of accounts'),
+        ...errors(400, 401, 403),
+      },
     },
   },
   '/admin/users/{id}': {
@@ -23,7 +26,7 @@ export const adminPaths = {
         'The change applies from the person’s next request, and they are told by e-mail. Administrators cannot change or disable themselves.',
       security: signedIn,
       requestBody: body('AccountChange'),
-      responses: { '200': ok('The account'), ...errors(400, 401, 403, 404, 413) },
+      responses: { '200': ok('AdminAccount', 'The account'), ...errors(400, 401, 403, 404, 413) },
     },
   },
 };

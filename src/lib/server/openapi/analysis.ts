@@ -35,7 +35,7 @@ export const analysisPaths = {
         },
       },
       responses: {
-        '200': ok('The analysis result'),
+        '200': ok('AnalysisResult', 'The analysis result'),
         ...errors(
           400,
           [413, 'The file is over the analysis limit'],

@@ -10,7 +10,10 @@ export const curationPaths = {
       summary: 'Submitted records waiting for a curator, oldest first, with counts per status',
       security: signedIn,
       parameters: queryParameters(queueQuery),
-      responses: { '200': ok('Counts, total and a page of items'), ...errors(400, 401, 403) },
+      responses: {
+        '200': ok('ReviewQueue', 'Counts, total and a page of items'),
+        ...errors(400, 401, 403),
+      },
     },
   },
   '/review/records/{handle}': {
@@ -22,7 +25,10 @@ export const curationPaths = {
       description:
         'Content, checklist, reported against computed limits, changes since the previous version, history, possible duplicates, claim and open flags.',
       security: signedIn,
-      responses: { '200': ok('The review view of the record'), ...errors(401, 403, 404) },
+      responses: {
+        '200': ok('ReviewDetail', 'The review view of the record'),
+        ...errors(401, 403, 404),
+      },
     },
   },
   '/review/records/{handle}/claim': {
@@ -35,7 +41,7 @@ export const curationPaths = {
       security: signedIn,
       requestBody: body('Claim'),
       responses: {
-        '200': ok('The claim'),
+        '200': ok('Claim', 'The claim'),
         ...errors(400, 401, 403, 404, [409, 'Another curator holds the claim'], 413),
       },
     },
@@ -60,7 +66,7 @@ export const curationPaths = {
       security: signedIn,
       requestBody: body('Decision'),
       responses: {
-        '200': ok('Handle, new status, version and review id'),
+        '200': ok('DecisionResult', 'Handle, new status, version and review id'),
         ...errors(
           400,
           401,
@@ -83,7 +89,7 @@ export const curationPaths = {
       summary: 'Records that may be duplicates of this one, field by field',
       security: signedIn,
       responses: {
-        '200': ok('`duplicates`, each with its reasons and fields side by side'),
+        '200': ok('DuplicateList', '`duplicates`, each with its reasons and fields side by side'),
         ...errors(401, 403, 404),
       },
     },
@@ -95,7 +101,7 @@ export const curationPaths = {
       summary: 'Readers’ flags on published records, open ones unless asked otherwise',
       security: signedIn,
       parameters: queryParameters(flagsQuery),
-      responses: { '200': ok('Total and a page of flags'), ...errors(400, 401, 403) },
+      responses: { '200': ok('FlagPage', 'Total and a page of flags'), ...errors(400, 401, 403) },
     },
   },
   '/review/flags/{id}/resolution': {
@@ -109,7 +115,7 @@ export const curationPaths = {
       security: signedIn,
       requestBody: body('FlagResolution'),
       responses: {
-        '200': ok('Handle, new status, version and review id'),
+        '200': ok('DecisionResult', 'Handle, new status, version and review id'),
         ...errors(400, 401, 403, 404, [409, 'Already resolved, or the record changed first'], 413),
       },
     },
@@ -121,7 +127,7 @@ export const curationPaths = {
       summary: 'The audit log, newest first, filtered by actor, record, action and dates',
       security: signedIn,
       parameters: queryParameters(auditQuery),
-      responses: { '200': ok('Total and a page of events'), ...errors(400, 401, 403) },
+      responses: { '200': ok('AuditPage', 'Total and a page of events'), ...errors(400, 401, 403) },
     },
   },
 };

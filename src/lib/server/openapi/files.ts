@@ -10,7 +10,7 @@ export const filesPaths = {
       security: signedIn,
       requestBody: body('CreateUpload'),
       responses: {
-        '201': ok('Upload id and URL'),
+        '201': ok('UploadTicket', 'Upload id and URL'),
         ...errors(
           400,
           401,
@@ -29,7 +29,7 @@ export const filesPaths = {
       tags: ['Files'],
       summary: 'State of one of your uploads',
       security: signedIn,
-      responses: { '200': ok('The upload'), ...errors(404) },
+      responses: { '200': ok('UploadState', 'The upload'), ...errors(404) },
     },
   },
   '/uploads/{id}/complete': {
@@ -40,7 +40,7 @@ export const filesPaths = {
       summary: 'Verify size and SHA-256, analyse and attach the file (idempotent)',
       security: signedIn,
       responses: {
-        '200': ok('The attached file, its analysis and the record version'),
+        '200': ok('UploadResult', 'The attached file, its analysis and the record version'),
         ...errors(
           403,
           404,
@@ -58,11 +58,14 @@ export const filesPaths = {
       tags: ['Files'],
       summary: 'Download a raw file as an attachment',
       responses: {
-        '200': ok(
-          'The file',
-          { type: 'string', contentMediaType: 'application/octet-stream' },
-          'application/octet-stream',
-        ),
+        '200': {
+          description: 'The file',
+          content: {
+            'application/octet-stream': {
+              schema: { type: 'string', contentMediaType: 'application/octet-stream' },
+            },
+          },
+        },
         ...errors(404, 503),
       },
     },

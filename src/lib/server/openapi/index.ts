@@ -1,6 +1,6 @@
 import { analysisOptionsSchema } from '#lib/shared/analysis-options.ts';
 import { recordContentSchema } from '#lib/shared/record.ts';
-import { vocabularyTermSchema } from '#lib/shared/vocabulary.ts';
+import { ANSWERS } from './answers.ts';
 import { schemaOf, BODIES, type Json } from './parts.ts';
 import { recordsPaths } from './records.ts';
 import { filesPaths } from './files.ts';
@@ -83,7 +83,9 @@ export function openApiDocument(serverUrl: string): Json {
         RecordContent: schemaOf(recordContentSchema, 'output'),
         ...Object.fromEntries(Object.entries(BODIES).map(([name, s]) => [name, schemaOf(s)])),
         AnalysisOptions: schemaOf(analysisOptionsSchema),
-        VocabularyTerm: schemaOf(vocabularyTermSchema, 'output'),
+        ...Object.fromEntries(
+          Object.entries(ANSWERS).map(([name, a]) => [name, schemaOf(a, 'output')]),
+        ),
         Problem: {
           type: 'object',
           required: ['title', 'status'],

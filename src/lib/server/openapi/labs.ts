@@ -7,7 +7,7 @@ export const labsPaths = {
       operationId: 'listLabs',
       tags: ['Labs'],
       summary: 'Every lab’s slug and name',
-      responses: { '200': ok('`labs`') },
+      responses: { '200': ok('LabList', '`labs`') },
     },
     post: {
       operationId: 'createLab',
@@ -16,7 +16,7 @@ export const labsPaths = {
       security: signedIn,
       requestBody: body('CreateLab'),
       responses: {
-        '201': ok('Slug and name of the new lab'),
+        '201': ok('LabCreated', 'Slug and name of the new lab'),
         ...errors(400, 401, 403, [409, 'A lab with this slug exists'], 413),
       },
     },
@@ -27,7 +27,7 @@ export const labsPaths = {
       operationId: 'getLab',
       tags: ['Labs'],
       summary: 'A lab; its member list only for its members and administrators',
-      responses: { '200': ok('The lab, and whether you may manage it'), ...errors(404) },
+      responses: { '200': ok('Lab', 'The lab, and whether you may manage it'), ...errors(404) },
     },
   },
   '/labs/{slug}/members': {
@@ -37,7 +37,7 @@ export const labsPaths = {
       tags: ['Labs'],
       summary: 'The members of a lab, for its members and administrators',
       security: signedIn,
-      responses: { '200': ok('`members`'), ...errors(401, 403, 404) },
+      responses: { '200': ok('LabMemberList', '`members`'), ...errors(401, 403, 404) },
     },
     post: {
       operationId: 'addLabMember',
@@ -46,7 +46,7 @@ export const labsPaths = {
       security: signedIn,
       requestBody: body('AddMember'),
       responses: {
-        '201': ok('The member'),
+        '201': ok('LabMember', 'The member'),
         ...errors(
           [400, 'Invalid request, or no active account has this address'],
           401,
@@ -65,7 +65,7 @@ export const labsPaths = {
       summary: 'Make a member a manager, or a manager a member',
       security: signedIn,
       requestBody: body('MemberChange'),
-      responses: { '200': ok('The member'), ...errors(400, 401, 403, 404, 413) },
+      responses: { '200': ok('LabMember', 'The member'), ...errors(400, 401, 403, 404, 413) },
     },
     delete: {
       operationId: 'removeLabMember',

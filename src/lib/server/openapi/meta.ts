@@ -7,7 +7,7 @@ export const metaPaths = {
       operationId: 'openapi',
       tags: ['Meta'],
       summary: 'This document',
-      responses: { '200': ok('OpenAPI 3.1 document') },
+      responses: { '200': ok('OpenApiDocument', 'OpenAPI 3.1 document') },
     },
   },
 };

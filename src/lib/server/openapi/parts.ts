@@ -27,6 +27,7 @@ import {
   editRecordBody,
   transitionBody,
 } from '#lib/shared/record.ts';
+import type { AnswerName } from './answers.ts';
 
 // The pieces every tag's operations are made of: JSON Schema from zod, request bodies by name,
 // problem answers, path parameters and the security of signed-in operations.
@@ -107,11 +108,11 @@ export const errors = (...codes: (number | [number, string])[]): Json =>
       ];
     }),
   );
-export const ok = (
-  description: string,
-  schema: Json = { type: 'object' },
-  type = 'application/json',
-): Json => ({ description, content: { [type]: { schema } } });
+/** A JSON success answer: the named schema of ANSWERS (./answers.ts), which the route builds to. */
+export const ok = (name: AnswerName, description: string): Json => ({
+  description,
+  content: { 'application/json': { schema: { $ref: `#/components/schemas/${name}` } } },
+});
 export const noContent = (description: string): Json => ({ description });
 
 export const pathParam = (name: string, schema: Json, description: string): Json => ({

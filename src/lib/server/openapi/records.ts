@@ -18,7 +18,7 @@ export const recordsPaths = {
       parameters: queryParameters(recordQuerySchema),
       responses: {
         '200': {
-          ...ok('A page of records with facet counts'),
+          ...ok('SearchResult', 'A page of records with facet counts'),
           headers: {
             ETag: { description: 'Entity tag of this answer', schema: { type: 'string' } },
           },
@@ -33,7 +33,7 @@ export const recordsPaths = {
       summary: 'Create a draft record (version 1)',
       security: signedIn,
       requestBody: body('CreateRecord'),
-      responses: { '201': ok('The new record'), ...errors(400, 401, 403, 413) },
+      responses: { '201': ok('RecordDetail', 'The new record'), ...errors(400, 401, 403, 413) },
     },
   },
   '/records/{handle}': {
@@ -42,7 +42,7 @@ export const recordsPaths = {
       operationId: 'getRecord',
       tags: ['Records'],
       summary: 'A record with its current version',
-      responses: { '200': ok('The record'), ...errors(404) },
+      responses: { '200': ok('RecordDetail', 'The record'), ...errors(404) },
     },
     put: {
       operationId: 'editRecord',
@@ -51,7 +51,7 @@ export const recordsPaths = {
       security: signedIn,
       requestBody: body('EditRecord'),
       responses: {
-        '200': ok('The record at its new version'),
+        '200': ok('RecordDetail', 'The record at its new version'),
         ...errors(400, 401, 403, 404, [409, 'Stale version: the record changed first'], 413),
       },
     },
@@ -65,7 +65,7 @@ export const recordsPaths = {
       security: signedIn,
       requestBody: body('Transition'),
       responses: {
-        '200': ok('The record in its new status'),
+        '200': ok('RecordDetail', 'The record in its new status'),
         ...errors(
           400,
           401,
@@ -83,7 +83,7 @@ export const recordsPaths = {
       operationId: 'listVersions',
       tags: ['Records'],
       summary: 'Version history',
-      responses: { '200': ok('Versions, oldest first'), ...errors(404) },
+      responses: { '200': ok('VersionList', 'Versions, oldest first'), ...errors(404) },
     },
   },
   '/records/{handle}/versions/{n}': {
@@ -92,7 +92,7 @@ export const recordsPaths = {
       operationId: 'getVersion',
       tags: ['Records'],
       summary: 'One version of a record',
-      responses: { '200': ok('The version'), ...errors(404) },
+      responses: { '200': ok('RecordDetail', 'The version'), ...errors(404) },
     },
   },
   '/records/{handle}/diff': {
@@ -102,7 +102,7 @@ export const recordsPaths = {
       tags: ['Records'],
       summary: 'Field-by-field differences between two versions',
       parameters: queryParameters(diffQuerySchema),
-      responses: { '200': ok('The changes'), ...errors(400, 404) },
+      responses: { '200': ok('Diff', 'The changes'), ...errors(400, 404) },
     },
   },
   '/records/{handle}/reviews': {
@@ -112,7 +112,7 @@ export const recordsPaths = {
       tags: ['Records'],
       summary: 'The curators’ decisions on a record, with their comments on fields',
       description: 'Curators’ names are shown to curators and administrators only.',
-      responses: { '200': ok('`reviews`, oldest first'), ...errors(404) },
+      responses: { '200': ok('RecordReviews', '`reviews`, oldest first'), ...errors(404) },
     },
   },
   '/records/{handle}/reference-values': {
@@ -123,7 +123,7 @@ export const recordsPaths = {
       summary:
         'The reference potentials the current version was computed with, and whether newer ones exist',
       responses: {
-        '200': ok('`references`, one per reference electrode used'),
+        '200': ok('RecordReferenceValues', '`references`, one per reference electrode used'),
         ...errors(404),
       },
     },
@@ -135,7 +135,7 @@ export const recordsPaths = {
       summary:
         'Listed records counted per salt, solvent, working electrode and evidence level (what you may read)',
       parameters: queryParameters(coverageQuerySchema),
-      responses: { '200': ok('Electrodes and rows of counts'), ...errors(400) },
+      responses: { '200': ok('Coverage', 'Electrodes and rows of counts'), ...errors(400) },
     },
   },
   '/imports': {
@@ -147,7 +147,7 @@ export const recordsPaths = {
       security: signedIn,
       requestBody: { required: true, content: { 'text/csv': { schema: { type: 'string' } } } },
       responses: {
-        '201': ok('The drafts made, with the line of each'),
+        '201': ok('ImportResult', 'The drafts made, with the line of each'),
         ...errors(
           400,
           401,

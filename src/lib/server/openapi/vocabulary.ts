@@ -11,12 +11,7 @@ export const vocabularyPaths = {
       summary: 'Vocabulary terms with abbreviations and synonyms',
       parameters: queryParameters(vocabularyQuerySchema),
       responses: {
-        '200': ok('Terms', {
-          type: 'object',
-          properties: {
-            terms: { type: 'array', items: { $ref: '#/components/schemas/VocabularyTerm' } },
-          },
-        }),
+        '200': ok('TermList', 'Terms'),
         ...errors(400),
       },
     },
@@ -28,7 +23,10 @@ export const vocabularyPaths = {
       summary: 'Proposed terms: every proposal for curators, your own for contributors',
       security: signedIn,
       parameters: queryParameters(proposalsQuery),
-      responses: { '200': ok('Total and a page of proposals'), ...errors(400, 401, 403) },
+      responses: {
+        '200': ok('ProposalPage', 'Total and a page of proposals'),
+        ...errors(400, 401, 403),
+      },
     },
     post: {
       operationId: 'proposeTerm',
@@ -37,7 +35,7 @@ export const vocabularyPaths = {
       security: signedIn,
       requestBody: body('TermProposal'),
       responses: {
-        '201': ok('The proposal'),
+        '201': ok('Proposal', 'The proposal'),
         ...errors(
           400,
           401,
@@ -57,7 +55,7 @@ export const vocabularyPaths = {
       security: signedIn,
       requestBody: body('ProposalDecision'),
       responses: {
-        '200': ok('The decided proposal'),
+        '200': ok('Proposal', 'The decided proposal'),
         ...errors(
           400,
           401,
@@ -79,7 +77,7 @@ export const vocabularyPaths = {
       security: signedIn,
       requestBody: body('TermMerge'),
       responses: {
-        '200': ok('Both terms and the records that gained a version'),
+        '200': ok('MergeResult', 'Both terms and the records that gained a version'),
         ...errors(400, 401, 403, [409, 'The duplicate was already merged'], 413),
       },
     },
@@ -90,7 +88,7 @@ export const vocabularyPaths = {
       operationId: 'referenceValueHistory',
       tags: ['Vocabulary'],
       summary: 'A reference electrode’s potential vs SHE and the values it has had, newest first',
-      responses: { '200': ok('The term and its values'), ...errors(404) },
+      responses: { '200': ok('ReferenceHistory', 'The term and its values'), ...errors(404) },
     },
     post: {
       operationId: 'reviseReferenceValue',
@@ -101,7 +99,7 @@ export const vocabularyPaths = {
       security: signedIn,
       requestBody: body('ReferenceValue'),
       responses: {
-        '201': ok('The term and its values'),
+        '201': ok('ReferenceHistory', 'The term and its values'),
         ...errors(
           400,
           401,

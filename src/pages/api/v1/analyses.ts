@@ -3,8 +3,9 @@ import { analysisOptionsSchema } from '#lib/shared/analysis-options.ts';
 import { analyzeInWorker } from '#lib/server/analysis-pool.ts';
 import { config } from '#lib/server/config.ts';
 import { PayloadTooLargeError, ValidationError } from '#lib/server/errors.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readLimitedBytes, zodErrors } from '#lib/server/http/route.ts';
+import { analysisResultSchema } from '#lib/shared/answers.ts';
 
 /**
  * Analyse one raw export without storing it: multipart with `file` and `options` (JSON text of
@@ -45,5 +46,5 @@ export const POST: APIRoute = endpoint(async ({ request }) => {
       zodErrors(options.error).map((e) => ({ ...e, path: `options.${e.path}` })),
     );
   const result = await analyzeInWorker(new Uint8Array(await file.arrayBuffer()), options.data);
-  return json(result);
+  return answer(analysisResultSchema, result);
 });

@@ -1,5 +1,6 @@
 import { endpoint } from '#lib/server/http/route.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
+import { principalSchema } from '#lib/shared/answers.ts';
 
 /** Who the request is from, as the server sees it (anonymous, or the user with role and labs). */
-export const GET = endpoint(({ locals }) => json(locals.principal));
+export const GET = endpoint(({ locals }) => answer(principalSchema, locals.principal));

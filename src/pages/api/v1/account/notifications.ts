@@ -1,9 +1,13 @@
 import { db } from '#lib/server/db/index.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readQuery } from '#lib/server/http/route.ts';
 import { listNotifications } from '#lib/server/curation-log.ts';
 import { notificationsQuery } from '#lib/shared/curation.ts';
+import { notificationPageSchema } from '#lib/shared/answers.ts';
 
 export const GET = endpoint(async ({ locals, url }) =>
-  json(await listNotifications(db(), locals.principal, readQuery(url, notificationsQuery))),
+  answer(
+    notificationPageSchema,
+    await listNotifications(db(), locals.principal, readQuery(url, notificationsQuery)),
+  ),
 );

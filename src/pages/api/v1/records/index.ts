@@ -1,9 +1,10 @@
 import { db } from '#lib/server/db/index.ts';
-import { cachedJson, json } from '#lib/server/http/problem.ts';
+import { cachedJson, answer } from '#lib/server/http/problem.ts';
 import { endpoint, readJson, readQuery } from '#lib/server/http/route.ts';
 import { recordQuerySchema, searchRecordAnswer } from '#lib/server/record-search.ts';
 import { createRecord } from '#lib/server/records.ts';
 import { createRecordBody } from '#lib/shared/record.ts';
+import { recordDetailSchema } from '#lib/shared/record-views.ts';
 
 export const GET = endpoint(async ({ locals, request, url }) =>
   cachedJson(
@@ -18,5 +19,5 @@ export const POST = endpoint(async ({ locals, request }) => {
     locals.principal,
     await readJson(request, createRecordBody),
   );
-  return json(record, 201, { location: `/api/v1/records/${record.handle}` });
+  return answer(recordDetailSchema, record, 201, { location: `/api/v1/records/${record.handle}` });
 });

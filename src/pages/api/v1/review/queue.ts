@@ -1,9 +1,10 @@
 import { db } from '#lib/server/db/index.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readQuery } from '#lib/server/http/route.ts';
 import { reviewQueue } from '#lib/server/curation.ts';
 import { queueQuery } from '#lib/shared/curation.ts';
+import { queueResultSchema } from '#lib/shared/curation.ts';
 
 export const GET = endpoint(async ({ locals, url }) =>
-  json(await reviewQueue(db(), locals.principal, readQuery(url, queueQuery))),
+  answer(queueResultSchema, await reviewQueue(db(), locals.principal, readQuery(url, queueQuery))),
 );

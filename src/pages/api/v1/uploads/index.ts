@@ -1,10 +1,15 @@
 import { db } from '#lib/server/db/index.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readJson } from '#lib/server/http/route.ts';
 import { declareUpload } from '#lib/server/uploads.ts';
 import { createUploadBody } from '#lib/shared/record.ts';
+import { uploadTicketSchema } from '#lib/shared/answers.ts';
 
 /** Declare a raw file: name, size, SHA-256, media type → an upload id and a short-lived PUT URL. */
 export const POST = endpoint(async ({ locals, request }) =>
-  json(await declareUpload(db(), locals.principal, await readJson(request, createUploadBody)), 201),
+  answer(
+    uploadTicketSchema,
+    await declareUpload(db(), locals.principal, await readJson(request, createUploadBody)),
+    201,
+  ),
 );

@@ -1,9 +1,10 @@
 import { db } from '#lib/server/db/index.ts';
 import { endpoint } from '#lib/server/http/route.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { getLab } from '#lib/server/labs.ts';
+import { labViewSchema } from '#lib/shared/answers.ts';
 
 /** The lab; its member list only for its members and admins. */
 export const GET = endpoint(async ({ locals, params }) =>
-  json(await getLab(db(), locals.principal, params.slug ?? '')),
+  answer(labViewSchema, await getLab(db(), locals.principal, params.slug ?? '')),
 );

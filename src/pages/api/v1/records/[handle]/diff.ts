@@ -1,9 +1,13 @@
 import { db } from '#lib/server/db/index.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readQuery } from '#lib/server/http/route.ts';
 import { diffQuerySchema, diffRecordVersions } from '#lib/server/records.ts';
+import { diffSchema } from '#lib/shared/answers.ts';
 
 export const GET = endpoint(async ({ locals, params, url }) => {
   const q = readQuery(url, diffQuerySchema);
-  return json(await diffRecordVersions(db(), locals.principal, params.handle!, q.from, q.to));
+  return answer(
+    diffSchema,
+    await diffRecordVersions(db(), locals.principal, params.handle!, q.from, q.to),
+  );
 });

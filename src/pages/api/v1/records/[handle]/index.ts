@@ -1,16 +1,18 @@
 import { db } from '#lib/server/db/index.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readJson } from '#lib/server/http/route.ts';
 import { editRecord, getRecord } from '#lib/server/records.ts';
 import { editRecordBody } from '#lib/shared/record.ts';
+import { recordDetailSchema } from '#lib/shared/record-views.ts';
 
 export const GET = endpoint(async ({ locals, params }) =>
-  json(await getRecord(db(), locals.principal, params.handle!)),
+  answer(recordDetailSchema, await getRecord(db(), locals.principal, params.handle!)),
 );
 
 /** An edit: the whole content, the version it is based on and a change note; a new version. */
 export const PUT = endpoint(async ({ locals, params, request }) =>
-  json(
+  answer(
+    recordDetailSchema,
     await editRecord(
       db(),
       locals.principal,

@@ -1,8 +1,11 @@
 import { db } from '#lib/server/db/index.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint } from '#lib/server/http/route.ts';
 import { recordReferenceValues } from '#lib/server/curation.ts';
+import { recordReferenceValuesSchema } from '#lib/shared/answers.ts';
 
 export const GET = endpoint(async ({ locals, params }) =>
-  json({ references: await recordReferenceValues(db(), locals.principal, params.handle!) }),
+  answer(recordReferenceValuesSchema, {
+    references: await recordReferenceValues(db(), locals.principal, params.handle!),
+  }),
 );

@@ -1,10 +1,11 @@
 import { decide } from '#lib/server/curation.ts';
 import { db } from '#lib/server/db/index.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readJson } from '#lib/server/http/route.ts';
 import { getRecord, transitionRecord } from '#lib/server/records.ts';
 import { DECISIONS, decisionBody } from '#lib/shared/curation.ts';
 import { transitionBody } from '#lib/shared/record.ts';
+import { recordDetailSchema } from '#lib/shared/record-views.ts';
 
 const isDecision = (action: string): action is (typeof DECISIONS)[number] =>
   (DECISIONS as readonly string[]).includes(action);
@@ -28,7 +29,10 @@ export const POST = endpoint(async ({ locals, params, request }) => {
       ...(body.reason ? { reason: body.reason } : {}),
     });
     await decide(db(), locals.principal, params.handle!, decision);
-    return json(await getRecord(db(), locals.principal, params.handle!));
+    return answer(recordDetailSchema, await getRecord(db(), locals.principal, params.handle!));
   }
-  return json(await transitionRecord(db(), locals.principal, params.handle!, body));
+  return answer(
+    recordDetailSchema,
+    await transitionRecord(db(), locals.principal, params.handle!, body),
+  );
 });

@@ -1,9 +1,10 @@
 import { db } from '#lib/server/db/index.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readQuery } from '#lib/server/http/route.ts';
 import { flagQueue } from '#lib/server/curation.ts';
 import { flagsQuery } from '#lib/shared/curation.ts';
+import { flagPageSchema } from '#lib/shared/answers.ts';
 
 export const GET = endpoint(async ({ locals, url }) =>
-  json(await flagQueue(db(), locals.principal, readQuery(url, flagsQuery))),
+  answer(flagPageSchema, await flagQueue(db(), locals.principal, readQuery(url, flagsQuery))),
 );

@@ -1,9 +1,10 @@
 import { db } from '#lib/server/db/index.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint } from '#lib/server/http/route.ts';
 import { completeUpload } from '#lib/server/uploads.ts';
+import { uploadResultSchema } from '#lib/shared/answers.ts';
 
 /** The server re-reads the object, checks size and SHA-256, analyses and attaches it. Idempotent. */
 export const POST = endpoint(async ({ locals, params }) =>
-  json(await completeUpload(db(), locals.principal, params.id!)),
+  answer(uploadResultSchema, await completeUpload(db(), locals.principal, params.id!)),
 );

@@ -1,12 +1,14 @@
 import { db } from '#lib/server/db/index.ts';
 import { endpoint, readJson } from '#lib/server/http/route.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { changeMember, removeMember } from '#lib/server/labs.ts';
 import { memberChangeInput } from '#lib/shared/account.ts';
+import { labMemberViewSchema } from '#lib/shared/answers.ts';
 
 export const PATCH = endpoint(async ({ locals, params, request }) => {
   const { role } = await readJson(request, memberChangeInput);
-  return json(
+  return answer(
+    labMemberViewSchema,
     await changeMember(db(), locals.principal, params.slug ?? '', params.userId ?? '', role),
   );
 });

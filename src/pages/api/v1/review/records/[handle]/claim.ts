@@ -1,11 +1,13 @@
 import { db } from '#lib/server/db/index.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readJson } from '#lib/server/http/route.ts';
 import { claimRecord, releaseClaim } from '#lib/server/curation.ts';
 import { claimBody } from '#lib/shared/curation.ts';
+import { claimViewSchema } from '#lib/shared/curation.ts';
 
 export const POST = endpoint(async ({ locals, params, request }) =>
-  json(
+  answer(
+    claimViewSchema,
     await claimRecord(db(), locals.principal, params.handle!, await readJson(request, claimBody)),
   ),
 );

@@ -1,8 +1,11 @@
 import { db } from '#lib/server/db/index.ts';
-import { json } from '#lib/server/http/problem.ts';
+import { answer } from '#lib/server/http/problem.ts';
 import { endpoint } from '#lib/server/http/route.ts';
 import { possibleDuplicates } from '#lib/server/curation.ts';
+import { duplicateListSchema } from '#lib/shared/answers.ts';
 
 export const GET = endpoint(async ({ locals, params }) =>
-  json({ duplicates: await possibleDuplicates(db(), locals.principal, params.handle!) }),
+  answer(duplicateListSchema, {
+    duplicates: await possibleDuplicates(db(), locals.principal, params.handle!),
+  }),
 );
