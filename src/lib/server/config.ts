@@ -56,6 +56,11 @@ export function parseConfig(env: Record<string, string | undefined>): Config {
   return result.data;
 }
 
+/** The log settings alone: the logger must work before (and whether or not) the rest is valid. */
+export function logConfig(): Pick<Config, 'LOG_LEVEL' | 'LOG_FORMAT'> {
+  return schema.pick({ LOG_LEVEL: true, LOG_FORMAT: true }).parse(process.env);
+}
+
 let cached: Config | undefined;
 
 /** The process's configuration, parsed from process.env on first use. */

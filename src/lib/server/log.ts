@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import pino, { type Logger } from 'pino';
 import pretty from 'pino-pretty';
-import { config } from './config.ts';
+import { logConfig } from './config.ts';
 
 // One structured logger for the server process: JSON lines (one per request from
 // scripts/app-server.ts, errors with their stack and the request id), or readable lines when the
@@ -12,7 +12,7 @@ let root: Logger | undefined;
 /** The process's logger, made on first use from LOG_LEVEL and LOG_FORMAT. */
 export function log(): Logger {
   if (root) return root;
-  const { LOG_LEVEL, LOG_FORMAT } = config();
+  const { LOG_LEVEL, LOG_FORMAT } = logConfig();
   const readable = LOG_FORMAT === 'pretty' || (LOG_FORMAT === 'auto' && process.stdout.isTTY);
   const options = {
     level: LOG_LEVEL,
