@@ -269,6 +269,19 @@ export const analysisResultSchema = z.strictObject({
     })
     .nullable()
     .optional(),
+  /** CV: the vertex grouping tolerance used (V), given or found from the vertices. */
+  vertexToleranceV: z.number().optional(),
+  /** A density column with no area or mass given: currents in this unit, charges per cm² or g. */
+  currentUnit: z.enum(['A/cm2', 'A/g']).optional(),
+  /** The reference the file's potential header names, where it names one. */
+  fileReference: z
+    .strictObject({
+      text: z.string(),
+      scale: z.string().nullable(),
+      line: z.number().int(),
+      column: z.number().int(),
+    })
+    .optional(),
 });
 export type AnalysisResult = z.infer<typeof analysisResultSchema>;
 
@@ -278,6 +291,10 @@ const _toSchema = (r: EngineResult): AnalysisResult => r;
 const _toEngine = (r: AnalysisResult): EngineResult => r;
 void _toSchema;
 void _toEngine;
+// …and a field the engine adds that the schema lacks (which assignment alone lets through).
+const _sameKeys: Exclude<keyof EngineResult, keyof AnalysisResult> extends never ? true : never =
+  true;
+void _sameKeys;
 
 // ---- pages and wrappers of the views defined beside their request schemas ----
 
