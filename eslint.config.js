@@ -72,6 +72,27 @@ export default tseslint.config(
     },
   },
   {
+    // An API answer names its schema (answer(schema, body)), the one the OpenAPI document
+    // publishes; json() is for the few plain answers outside /api/v1.
+    files: ['src/pages/api/v1/**'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [noDeepClimb],
+          paths: [
+            {
+              name: '#lib/server/http/problem.ts',
+              importNames: ['json'],
+              message:
+                'Answer with answer(schema, body) and the answer’s schema from src/lib/shared.',
+            },
+          ],
+        },
+      ],
+    },
+  },
+  {
     // Migrations take Kysely<any> by design: they must not depend on today's Database type.
     files: ['migrations/**', 'src/lib/server/db/migrate.ts'],
     rules: { '@typescript-eslint/no-explicit-any': 'off' },
