@@ -1,9 +1,10 @@
-import type { VocabularyTermInput } from '../src/lib/shared/vocabulary.ts';
+import { REFERENCE_ELECTRODES } from '#lib/analysis/references.ts';
+import type { VocabularyTermInput } from '#lib/shared/vocabulary.ts';
 
 // The starting vocabulary: common solvents, salts, additives, electrode materials, separators and
-// reference electrodes. Reference potentials are those of METHODS.md §4 (25 °C, V vs SHE), each
-// with its source; `scale` is the analysis engine's id for the same electrode, so conversions use
-// the engine's table. Temperature coefficients are left empty until a sourced value is added.
+// reference electrodes. Reference electrodes are the engine's table (docs/methods.md §4, 25 °C,
+// V vs SHE) with the names people write for them; `scale` is the engine's id, so conversions use
+// the engine's values, uncertainties and temperature coefficients.
 
 const solvents: VocabularyTermInput[] = [
   {
@@ -479,160 +480,114 @@ const separators: VocabularyTermInput[] = [
   },
 ];
 
-const BF = 'Bard & Faulkner, Electrochemical Methods';
-const CRC = 'CRC Handbook of Chemistry and Physics, electrochemical series';
-
-const references: VocabularyTermInput[] = [
-  {
-    id: 'ref-she',
-    kind: 'reference-electrode',
-    name: 'standard hydrogen electrode',
-    abbreviations: ['SHE', 'NHE'],
-    synonyms: ['normal hydrogen electrode'],
-    scale: 'SHE',
-    potentialVsSheV: 0,
-    potentialSource: 'definition of the scale',
-  },
-  {
+/**
+ * Names of the engine's reference electrodes as vocabulary terms. Potentials, sources and
+ * temperature coefficients come from the engine's table (src/lib/analysis/references.ts), so the
+ * two never drift apart; only the term ids and the names people write live here.
+ */
+const REFERENCE_NAMES: Record<
+  string,
+  { id: string; name?: string; abbreviations: string[]; synonyms: string[] }
+> = {
+  SHE: { id: 'ref-she', abbreviations: ['SHE', 'NHE'], synonyms: ['normal hydrogen electrode'] },
+  'Ag/AgCl-sat': {
     id: 'ref-ag-agcl-sat',
-    kind: 'reference-electrode',
-    name: 'Ag/AgCl, sat. KCl',
-    abbreviations: ['Ag/AgCl'],
+    abbreviations: [],
     synonyms: ['Ag/AgCl (saturated KCl)', 'silver/silver chloride, saturated KCl'],
-    scale: 'Ag/AgCl-sat',
-    potentialVsSheV: 0.197,
-    potentialSource: BF,
   },
-  {
-    id: 'ref-ag-agcl-3.5m',
-    kind: 'reference-electrode',
-    name: 'Ag/AgCl, 3.5 M KCl',
-    abbreviations: [],
-    synonyms: ['Ag/AgCl (3.5 M KCl)'],
-    scale: 'Ag/AgCl-3.5M',
-    potentialVsSheV: 0.205,
-    potentialSource: 'Sawyer, Sobkowiak, Roberts, Electrochemistry for Chemists (1995)',
+  'Ag/AgCl-3.5M': { id: 'ref-ag-agcl-3.5m', abbreviations: [], synonyms: ['Ag/AgCl (3.5 M KCl)'] },
+  'Ag/AgCl-3M': { id: 'ref-ag-agcl-3m', abbreviations: [], synonyms: ['Ag/AgCl (3 M KCl)'] },
+  'Ag/AgCl-1M': { id: 'ref-ag-agcl-1m', abbreviations: [], synonyms: ['Ag/AgCl (1 M KCl)'] },
+  'Ag/AgCl': {
+    id: 'ref-ag-agcl',
+    abbreviations: ['Ag/AgCl'],
+    synonyms: ['silver/silver chloride'],
   },
-  {
-    id: 'ref-ag-agcl-3m',
-    kind: 'reference-electrode',
-    name: 'Ag/AgCl, 3 M KCl',
-    abbreviations: [],
-    synonyms: ['Ag/AgCl (3 M KCl)'],
-    scale: 'Ag/AgCl-3M',
-    potentialVsSheV: 0.21,
-    potentialSource: 'common table value (common practice)',
-  },
-  {
-    id: 'ref-ag-agcl-1m',
-    kind: 'reference-electrode',
-    name: 'Ag/AgCl, 1 M KCl',
-    abbreviations: [],
-    synonyms: ['Ag/AgCl (1 M KCl)'],
-    scale: 'Ag/AgCl-1M',
-    potentialVsSheV: 0.236,
-    potentialSource: 'tables after Ives & Janz',
-  },
-  {
+  SCE: {
     id: 'ref-sce',
-    kind: 'reference-electrode',
     name: 'saturated calomel electrode',
     abbreviations: ['SCE'],
     synonyms: ['Hg/Hg2Cl2, sat. KCl', 'calomel (saturated KCl)'],
-    scale: 'SCE',
-    potentialVsSheV: 0.2412,
-    potentialSource: BF,
   },
-  {
+  NCE: {
     id: 'ref-nce',
-    kind: 'reference-electrode',
     name: 'normal calomel electrode',
     abbreviations: ['NCE'],
     synonyms: ['Hg/Hg2Cl2, 1 M KCl'],
-    scale: 'NCE',
-    potentialVsSheV: 0.2801,
-    potentialSource: 'published tables',
   },
-  {
+  'Hg/HgO-0.1M-NaOH': {
     id: 'ref-hg-hgo-0.1m-naoh',
-    kind: 'reference-electrode',
-    name: 'Hg/HgO, 0.1 M NaOH',
     abbreviations: [],
     synonyms: ['mercury/mercury oxide, 0.1 M NaOH'],
-    scale: 'Hg/HgO-0.1M-NaOH',
-    potentialVsSheV: 0.165,
-    potentialSource: 'published tables',
   },
-  {
+  'Hg/HgO-1M-KOH': {
     id: 'ref-hg-hgo-1m-koh',
-    kind: 'reference-electrode',
-    name: 'Hg/HgO, 1 M KOH',
-    abbreviations: ['Hg/HgO'],
+    abbreviations: [],
     synonyms: ['mercury/mercury oxide, 1 M KOH'],
-    scale: 'Hg/HgO-1M-KOH',
-    potentialVsSheV: 0.098,
-    potentialSource: 'usual figure (common practice); published values spread by tens of mV',
   },
-  {
+  'Hg/HgO': { id: 'ref-hg-hgo', abbreviations: ['Hg/HgO'], synonyms: ['mercury/mercury oxide'] },
+  'Hg/Hg2SO4-sat': {
     id: 'ref-hg-hg2so4-sat',
-    kind: 'reference-electrode',
-    name: 'Hg/Hg2SO4, sat. K2SO4',
     abbreviations: ['MSE'],
-    synonyms: ['mercury/mercurous sulfate', 'Hg/Hg₂SO₄'],
-    scale: 'Hg/Hg2SO4-sat',
-    potentialVsSheV: 0.64,
-    potentialSource: BF,
+    synonyms: ['mercury/mercurous sulfate, sat. K2SO4'],
   },
-  {
+  'Hg/Hg2SO4': {
+    id: 'ref-hg-hg2so4',
+    abbreviations: [],
+    synonyms: ['Hg/Hg₂SO₄', 'mercury/mercurous sulfate'],
+  },
+  'Li+/Li': {
     id: 'ref-li',
-    kind: 'reference-electrode',
     name: 'Li+/Li',
     abbreviations: [],
     synonyms: ['Li/Li+', 'lithium reference'],
-    scale: 'Li+/Li',
-    potentialVsSheV: -3.04,
-    potentialSource: CRC,
   },
-  {
+  'Na+/Na': {
     id: 'ref-na',
-    kind: 'reference-electrode',
     name: 'Na+/Na',
     abbreviations: [],
     synonyms: ['Na/Na+', 'sodium reference'],
-    scale: 'Na+/Na',
-    potentialVsSheV: -2.71,
-    potentialSource: CRC,
   },
-  {
+  'K+/K': {
     id: 'ref-k',
-    kind: 'reference-electrode',
     name: 'K+/K',
     abbreviations: [],
     synonyms: ['K/K+', 'potassium reference'],
-    scale: 'K+/K',
-    potentialVsSheV: -2.931,
-    potentialSource: CRC,
   },
-  {
+  'Mg2+/Mg': {
     id: 'ref-mg',
-    kind: 'reference-electrode',
     name: 'Mg2+/Mg',
     abbreviations: [],
     synonyms: ['Mg/Mg2+', 'magnesium reference'],
-    scale: 'Mg2+/Mg',
-    potentialVsSheV: -2.372,
-    potentialSource: CRC,
   },
-  {
+  'Zn2+/Zn': {
     id: 'ref-zn',
-    kind: 'reference-electrode',
     name: 'Zn2+/Zn',
     abbreviations: [],
     synonyms: ['Zn/Zn2+', 'zinc reference'],
-    scale: 'Zn2+/Zn',
-    potentialVsSheV: -0.7618,
-    potentialSource: CRC,
   },
+};
+
+const TAG_TEXT = { pub: 'published', mem: 'from memory', cp: 'common practice' } as const;
+
+const references: VocabularyTermInput[] = [
+  ...REFERENCE_ELECTRODES.map((e): VocabularyTermInput => {
+    const names = REFERENCE_NAMES[e.id];
+    if (!names) throw new Error(`no vocabulary names for the engine's reference ${e.id}`);
+    return {
+      id: names.id,
+      kind: 'reference-electrode',
+      name: names.name ?? e.name,
+      abbreviations: names.abbreviations,
+      synonyms: names.synonyms,
+      scale: e.id,
+      potentialVsSheV: e.vsSheV,
+      ...(e.temperatureCoefficient
+        ? { tempCoefficientMVPerK: e.temperatureCoefficient.mVPerK }
+        : {}),
+      potentialSource: `${e.source} (${TAG_TEXT[e.tag]})`,
+    };
+  }),
   // Scales without a fixed potential: RHE moves with pH; ferrocene depends on the electrolyte.
   {
     id: 'ref-rhe',

@@ -100,7 +100,10 @@ export function CriterionChooser({
 }
 
 export const SCALE_OPTIONS = [
-  ...REFERENCE_ELECTRODES.map((r) => ({ id: r.id, label: r.id === 'SHE' ? 'SHE' : r.name })),
+  ...REFERENCE_ELECTRODES.filter((r) => r.fillingStated).map((r) => ({
+    id: r.id,
+    label: r.id === 'SHE' ? 'SHE' : r.name,
+  })),
   { id: 'RHE', label: 'RHE (each record’s pH)' },
 ];
 

@@ -31,6 +31,7 @@ import {
 import { MAX_OVERLAY, overlayHref, pickedHandles } from '#lib/client/overlay.ts';
 import { useSearchState } from '#lib/client/url-state.ts';
 import WindowLadder, { type LadderRow } from '../charts/WindowLadder.tsx';
+import ConversionNote from '../ConversionNote.tsx';
 import {
   buttonPrimary,
   buttonQuiet,
@@ -53,14 +54,32 @@ interface Row {
   /** Why the record keeps its own criterion (a common one was chosen but could not be applied). */
   own: string | null;
   electrode: string;
+  /** What the shown values' conversion is worth. */
+  conversion: { uncertaintyV: number | null; flags: string[]; approximate: boolean };
 }
 
 function toRow(item: SearchItem, common: boolean, terms: Map<string, IndexTerm> | undefined): Row {
   let cathodic = item.onScale.cathodic;
   let anodic = item.onScale.anodic;
   let own: string | null = null;
+  const u = item.onScale.uncertaintyV;
+  const known = [u.cathodic, u.anodic].filter((x): x is number => x !== null);
+  let conversion = {
+    uncertaintyV: known.length ? Math.max(...known) : null,
+    flags: item.onScale.conversionFlags,
+    approximate: item.onScale.approximate,
+  };
   if (common && item.commonCriterion) {
     if (item.commonCriterion.applied) {
+      if (item.limitKind === 'electrode-potential' && item.computed.uncertaintyV !== null)
+        conversion = {
+          uncertaintyV: Math.max(
+            conversion.uncertaintyV ?? 0,
+            item.computed.uncertaintyV + item.onScale.scaleUncertaintyV,
+          ),
+          flags: [...new Set([...conversion.flags, ...item.computed.conversionFlags])],
+          approximate: conversion.approximate || item.computed.approximate,
+        };
       // A side without raw data keeps its reported limit, and the row says so.
       const st = item.commonCriterion.status;
       if (st.cathodic) cathodic = commonOnScale(item, 'cathodic');
@@ -78,6 +97,7 @@ function toRow(item: SearchItem, common: boolean, terms: Map<string, IndexTerm> 
     width: cathodic !== null && anodic !== null ? anodic - cathodic : null,
     own,
     electrode: longName(terms, item.content.workingElectrode.material),
+    conversion,
   };
 }
 
@@ -104,6 +124,7 @@ const COLUMN_NAMES: Record<string, string> = {
   electrode: 'Electrode',
   method: 'Method',
   scanRate: 'Scan rate',
+  conversion: 'Conversion',
   criterion: 'Criterion',
   temperature: 'T',
   evidence: 'Evidence',
@@ -149,6 +170,18 @@ function columns(scale: string, terms: Map<string, IndexTerm> | undefined): Colu
       ),
     },
     { id: 'width', header: 'Width / V', cell: ({ row }) => V(row.original.width) },
+    {
+      id: 'conversion',
+      header: 'Conversion',
+      cell: ({ row }) => (
+        <ConversionNote
+          uncertaintyV={row.original.conversion.uncertaintyV}
+          flags={row.original.conversion.flags}
+          approximate={row.original.conversion.approximate}
+          compact
+        />
+      ),
+    },
     {
       id: 'criterion',
       header: 'Criterion',
@@ -217,6 +250,7 @@ const HIDEABLE = [
   'electrolyte',
   'electrode',
   'width',
+  'conversion',
   'criterion',
   'method',
   'scanRate',

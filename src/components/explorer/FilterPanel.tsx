@@ -15,7 +15,14 @@ import {
 } from '#lib/client/records.ts';
 import { buttonQuiet, input, muted } from '../ui.tsx';
 
-type ListKey = 'component' | 'electrode' | 'method' | 'criterionKind' | 'cellType' | 'evidence';
+type ListKey =
+  | 'component'
+  | 'electrode'
+  | 'method'
+  | 'criterionKind'
+  | 'cellType'
+  | 'evidence'
+  | 'reference';
 type TextKey =
   | 'concentrationMin'
   | 'concentrationMax'
@@ -24,6 +31,7 @@ type TextKey =
   | 'scanRateMax'
   | 'temperatureMin'
   | 'temperatureMax'
+  | 'conversion'
   | 'q';
 
 interface Props {
@@ -172,6 +180,9 @@ export default function FilterPanel({ query, facets, terms, onList, onText, onCl
     ? [...terms.values()].filter(
         (t) => t.kind === 'salt' || t.kind === 'solvent' || t.kind === 'additive',
       )
+    : [];
+  const referenceTerms = terms
+    ? [...terms.values()].filter((t) => t.kind === 'reference-electrode')
     : [];
   const addComponent = () => {
     const v = component.trim();
@@ -338,6 +349,39 @@ export default function FilterPanel({ query, facets, terms, onList, onText, onCl
         counts={counts('cellType')}
         label={(v) => v}
       />
+      <fieldset className="grid gap-1">
+        <legend className="text-sm font-semibold mb-1">Reference conversion</legend>
+        <label htmlFor={`${id}-exact`} className="flex items-center gap-2 text-sm">
+          <input
+            id={`${id}-exact`}
+            type="checkbox"
+            checked={query.conversion === 'exact'}
+            onChange={(e) => onText('conversion', e.target.checked ? 'exact' : '')}
+            className="size-4 accent-cobalt"
+          />
+          <span>Exact conversions only</span>
+        </label>
+        <p className={`text-xs ${muted}`}>
+          Leaves out unstated fillings, aqueous references in non-aqueous electrolytes, metal/ion
+          scales and 25 °C values at other temperatures.
+        </p>
+        <label htmlFor={`${id}-ref`} className="text-sm mt-1">
+          Measured against
+        </label>
+        <select
+          id={`${id}-ref`}
+          value={query.reference?.[0] ?? ''}
+          onChange={(e) => onList('reference', e.target.value ? [e.target.value] : [])}
+          className={`${input} text-sm`}
+        >
+          <option value="">any reference</option>
+          {referenceTerms.map((t) => (
+            <option key={t.id} value={t.id}>
+              {t.name}
+            </option>
+          ))}
+        </select>
+      </fieldset>
       <Checks
         legend="Evidence"
         options={EVIDENCE_LEVELS}

@@ -2,6 +2,8 @@ import { QueryClientProvider, useQuery, useQueryClient } from '@tanstack/react-q
 import { useId, useMemo, useState } from 'react';
 import { referenceConversion, REFERENCE_ELECTRODES } from '#lib/analysis/references.ts';
 import { sendJson, errorMessage } from '#lib/client/api.ts';
+import { isAqueousElectrolyte } from '#lib/shared/record.ts';
+import ConversionNote from '../ConversionNote.tsx';
 import { queryClient } from '#lib/client/query.ts';
 import {
   criterionText,
@@ -96,7 +98,10 @@ function Conditions({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTer
 }
 
 const SCALES = [
-  ...REFERENCE_ELECTRODES.map((r) => ({ id: r.id, label: r.id === 'SHE' ? 'SHE' : r.name })),
+  ...REFERENCE_ELECTRODES.filter((r) => r.fillingStated).map((r) => ({
+    id: r.id,
+    label: r.id === 'SHE' ? 'SHE' : r.name,
+  })),
   { id: 'RHE', label: 'RHE' },
 ];
 
@@ -108,22 +113,46 @@ function Limits({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTerm> |
   const temperatureK =
     r.content.temperatureC !== undefined ? r.content.temperatureC + 273.15 : undefined;
   let offset: number | null = 0;
+  let toScale: { uncertaintyV: number; flags: string[]; approximate: boolean } = {
+    uncertaintyV: 0,
+    flags: [],
+    approximate: false,
+  };
   let note = '';
   if (!cell) {
     try {
-      offset = referenceConversion('SHE', scale, {
+      const info = referenceConversion('SHE', scale, {
         ...(pH !== undefined ? { pH } : {}),
         ...(temperatureK !== undefined ? { temperatureK } : {}),
-      }).offsetV;
+        aqueousElectrolyte: isAqueousElectrolyte(r.content),
+      });
+      offset = info.offsetV;
+      toScale = info;
     } catch (e) {
       offset = null;
       note = errorMessage(e);
     }
   }
+  // What each shown value's conversion is worth: its own conversion to SHE plus SHE → the scale.
+  // Back on the limit's own reference, the two cancel and the reported number is exact.
+  const worth = (
+    c: { uncertaintyV: number | null; conversionFlags: string[]; approximate: boolean },
+    ownOffset: number | null,
+  ) => {
+    const identity = ownOffset !== null && offset !== null && Math.abs(ownOffset + offset) < 1e-9;
+    if (identity) return { uncertaintyV: 0, flags: [], approximate: false };
+    const flags = [...new Set([...c.conversionFlags, ...toScale.flags])];
+    return {
+      uncertaintyV: c.uncertaintyV === null ? null : c.uncertaintyV + toScale.uncertaintyV,
+      flags,
+      approximate: c.approximate || toScale.approximate,
+    };
+  };
   const approx =
     r.limits.cathodic?.approximate ||
     r.limits.anodic?.approximate ||
-    (REFERENCE_ELECTRODES.find((x) => x.id === scale)?.metalIon ?? false);
+    r.computed.approximate ||
+    toScale.approximate;
   const on = (she: number | null | undefined) =>
     she === null || she === undefined || offset === null ? null : she + offset;
   const f = (v: number | null | undefined) =>
@@ -194,8 +223,24 @@ function Limits({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTerm> |
                     ? `${f(s.rep.valueV)} vs ${s.rep.reference === 'cell' ? 'cell' : longName(terms, s.rep.reference)}`
                     : '—'}
                 </td>
-                <td className="py-1 pr-3 num">{cell ? f(s.rep?.valueV) : f(on(s.rep?.sheV))}</td>
-                <td className="py-1 pr-3 num">{cell ? f(s.comp) : f(on(s.compShe))}</td>
+                <td className="py-1 pr-3 num">
+                  {cell ? f(s.rep?.valueV) : f(on(s.rep?.sheV))}
+                  {!cell && s.rep && on(s.rep.sheV) !== null && (
+                    <>
+                      {' '}
+                      <ConversionNote {...worth(s.rep, s.rep.offsetV)} />
+                    </>
+                  )}
+                </td>
+                <td className="py-1 pr-3 num">
+                  {cell ? f(s.comp) : f(on(s.compShe))}
+                  {!cell && on(s.compShe) !== null && (
+                    <>
+                      {' '}
+                      <ConversionNote {...worth(r.computed, null)} />
+                    </>
+                  )}
+                </td>
               </tr>
             ))}
           </tbody>
@@ -204,8 +249,16 @@ function Limits({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTerm> |
       {note && <p className={`mt-2 text-sm ${muted}`}>{note}</p>}
       {!cell && approx && (
         <p className={`mt-2 text-sm ${muted}`}>
-          Approximate: metal/ion scales in non-aqueous electrolytes differ from their aqueous
-          standard values.
+          Approximate: an unknown potential is left out of the conversion — metal/ion scales in
+          non-aqueous electrolytes differ from their aqueous standard values, and an aqueous
+          reference in a non-aqueous electrolyte adds a liquid-junction potential of tens to
+          hundreds of mV.
+        </p>
+      )}
+      {!cell && (
+        <p className={`mt-2 text-xs ${muted}`}>
+          ± beside a value bounds the known error of its conversion: the spread of table values, an
+          unstated reference filling, the reference's temperature dependence.
         </p>
       )}
       {cell && (

@@ -115,6 +115,10 @@ export interface RecordQuery {
   scanRateMax?: string;
   temperatureMin?: string;
   temperatureMax?: string;
+  /** Reference electrode terms the limits were measured against (any of them). */
+  reference?: string[];
+  /** 'exact': only conversions to SHE that are exact within their uncertainty. */
+  conversion?: string;
   scale?: string;
   criterion?: string;
   sort?: string;
@@ -129,6 +133,7 @@ export const LIST_PARAMS = [
   'criterionKind',
   'cellType',
   'evidence',
+  'reference',
 ] as const;
 export const TEXT_PARAMS = [
   'q',
@@ -139,6 +144,7 @@ export const TEXT_PARAMS = [
   'scanRateMax',
   'temperatureMin',
   'temperatureMax',
+  'conversion',
   'scale',
   'criterion',
   'sort',

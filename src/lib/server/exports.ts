@@ -53,6 +53,9 @@ const CSV_COLUMNS = [
   'scale',
   'cathodic_on_scale_v',
   'anodic_on_scale_v',
+  'cathodic_on_scale_uncertainty_v',
+  'anodic_on_scale_uncertainty_v',
+  'conversion',
   'cathodic_computed_v',
   'anodic_computed_v',
   'common_criterion',
@@ -105,6 +108,20 @@ function criterionText(c: SearchItem['content']['criterion']): string {
   }
 }
 
+/**
+ * What the shown values' conversion is worth, in words: "exact", "not converted", or the engine's
+ * flags joined by "+" (filling-not-stated, liquid-junction, metal-ion, reference-at-25c), with
+ * "approximate" first where an unknown term is left out.
+ */
+export function conversionText(o: SearchItem['onScale']): string {
+  if (o.scale === 'cell' || (o.cathodic === null && o.anodic === null)) return 'not converted';
+  const flags = o.conversionFlags.filter((f) => f !== 'temperature-corrected');
+  if (o.exact) return o.conversionFlags.length ? `exact+${o.conversionFlags.join('+')}` : 'exact';
+  if (o.uncertaintyV.cathodic === null && o.uncertaintyV.anodic === null && !flags.length)
+    return 'not judged';
+  return [...(o.approximate ? ['approximate'] : []), ...flags].join('+');
+}
+
 function csvRow(r: SearchItem, origin: string): string {
   const e = r.content.electrolyte;
   const vals: Record<(typeof CSV_COLUMNS)[number], unknown> = {
@@ -138,6 +155,9 @@ function csvRow(r: SearchItem, origin: string): string {
     scale: r.onScale.scale,
     cathodic_on_scale_v: r.onScale.cathodic,
     anodic_on_scale_v: r.onScale.anodic,
+    cathodic_on_scale_uncertainty_v: r.onScale.uncertaintyV.cathodic,
+    anodic_on_scale_uncertainty_v: r.onScale.uncertaintyV.anodic,
+    conversion: conversionText(r.onScale),
     cathodic_computed_v: r.computed.cathodicV,
     anodic_computed_v: r.computed.anodicV,
     common_criterion: r.commonCriterion?.criterion,
@@ -193,12 +213,17 @@ function bibEntry(r: SearchItem, origin: string): string {
   return `@${type}{${key},\n${fields.map(([k, v]) => `  ${k} = {${v}}`).join(',\n')}\n}\n\n`;
 }
 
+function uncertaintyNote(o: SearchItem['onScale']): string {
+  const u = [o.uncertaintyV.cathodic, o.uncertaintyV.anodic].filter((x): x is number => x !== null);
+  return u.length ? ` (± ${Math.round(Math.max(...u) * 1000)} mV)` : '';
+}
+
 /** A CSL-JSON item for a record: the source publication, with the record named in the note. */
 export function cslItem(r: SearchItem, origin: string): Record<string, unknown> {
   const s = r.content.source;
   const item: Record<string, unknown> = {
     id: `${r.handle}-v${r.version}`,
-    note: `Edgewise window record ${r.handle} v${r.version}`,
+    note: `Edgewise window record ${r.handle} v${r.version}; limits on ${r.onScale.scale}: conversion ${conversionText(r.onScale)}${uncertaintyNote(r.onScale)}`,
     URL: `${origin}/windows/${r.handle}`,
   };
   if (s?.kind === 'published') {

@@ -1,5 +1,15 @@
-import { AnalysisError, referenceConversion, type ScaleContext } from '../analysis/index.ts';
-import { CELL_VOLTAGE, type EvidenceLevel, type RecordContent } from '../shared/record.ts';
+import {
+  AnalysisError,
+  referenceConversion,
+  type ConversionFlag,
+  type ScaleContext,
+} from '../analysis/index.ts';
+import {
+  CELL_VOLTAGE,
+  isAqueousElectrolyte,
+  type EvidenceLevel,
+  type RecordContent,
+} from '../shared/record.ts';
 import type { VocabularyKind } from '../shared/vocabulary.ts';
 import type { TermRef } from './vocabulary.ts';
 import type { VocabularyTermRow } from './repositories/vocabulary.ts';
@@ -69,25 +79,33 @@ export interface SheConversion {
   /** E(SHE) = E(ref) + offsetV. */
   offsetV: number;
   approximate: boolean;
+  /** Bound on the conversion's known error terms (V): table spread, unstated filling, temperature. */
+  uncertaintyV: number;
+  flags: ConversionFlag[];
 }
 
-/** The scale context (pH, temperature) of a record, for RHE. */
+/** The offset of a scale to SHE with what it is worth (no value: `sheV`). */
+export type SheOffset = Omit<SheConversion, 'sheV'>;
+
+/** The scale context of a record: pH (RHE), temperature (RHE slope, reference coefficients), solvent (junction). */
 export function scaleContext(c: RecordContent): ScaleContext {
-  const ctx: ScaleContext = {};
+  const ctx: ScaleContext = { aqueousElectrolyte: isAqueousElectrolyte(c) };
   if (c.electrolyte.pH !== undefined) ctx.pH = c.electrolyte.pH;
   if (c.temperatureC !== undefined) ctx.temperatureK = c.temperatureC + 273.15;
   return ctx;
 }
 
 /** Offset (V) from a scale to SHE with the engine's table, or null where no conversion exists (ferrocene, RHE without pH). */
-export function offsetToShe(
-  scale: string | null,
-  ctx: ScaleContext,
-): { offsetV: number; approximate: boolean } | null {
+export function offsetToShe(scale: string | null, ctx: ScaleContext): SheOffset | null {
   if (!scale) return null;
   try {
     const info = referenceConversion(scale, 'SHE', ctx);
-    return { offsetV: info.offsetV, approximate: info.approximate };
+    return {
+      offsetV: info.offsetV,
+      approximate: info.approximate,
+      uncertaintyV: info.uncertaintyV,
+      flags: info.flags,
+    };
   } catch (err) {
     if (err instanceof AnalysisError) return null;
     throw err;
@@ -95,16 +113,23 @@ export function offsetToShe(
 }
 
 /**
- * Offset (V) from a reference term to SHE: the term's curated potential when it carries one (a
- * curator may revise it, with its source), else the engine's table. RHE and ferrocene carry none.
+ * Offset (V) from a reference term to SHE: the term's curated potential (and temperature
+ * coefficient) when it carries one (a curator may revise it, with its source), else the engine's
+ * table. RHE and ferrocene carry none.
  */
 export function termOffsetToShe(
   term: VocabularyTermRow | undefined,
   ctx: ScaleContext,
-): { offsetV: number; approximate: boolean } | null {
-  const off = offsetToShe(term?.scale ?? null, ctx);
-  if (!off || !term || term.potential_vs_she_v === null) return off;
-  return { offsetV: Number(term.potential_vs_she_v), approximate: off.approximate };
+): SheOffset | null {
+  const scale = term?.scale ?? null;
+  if (!scale || !term || term.potential_vs_she_v === null) return offsetToShe(scale, ctx);
+  const curated = {
+    vsSheV: Number(term.potential_vs_she_v),
+    tempCoefficientMVPerK:
+      term.temp_coefficient_mv_per_k === null ? null : Number(term.temp_coefficient_mv_per_k),
+    ...(term.potential_source ? { source: term.potential_source } : {}),
+  };
+  return offsetToShe(scale, { ...ctx, values: { ...ctx.values, [scale]: curated } });
 }
 
 export const ENGINE_METHOD = {
@@ -131,6 +156,8 @@ export interface DerivedLimits {
     anodic: number | null;
     cathodicShe: number | null;
     anodicShe: number | null;
+    /** The record reference's conversion to SHE that the computed SHE limits use. */
+    sheConversion: SheOffset | null;
     atOwnCriterion: boolean;
   };
 }
@@ -171,6 +198,7 @@ export function deriveLimits(
       anodic: anod?.limitV ?? null,
       cathodicShe: she(cath?.limitV ?? null),
       anodicShe: she(anod?.limitV ?? null),
+      sheConversion: recOffset,
       atOwnCriterion: own !== null && [cath, anod].every((a) => !a || a.criterion === own),
     },
   };

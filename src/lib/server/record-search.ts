@@ -7,6 +7,8 @@ import {
   lsvLimitFromEnvelope,
   parseCriterion,
   referenceConversion,
+  conversionIsExact,
+  type ConversionFlag,
   sCutoff,
   AnalysisError,
   type CycleCharge,
@@ -119,6 +121,17 @@ export const recordQuerySchema = z.strictObject({
     .describe(
       'Words to find in titles, components, electrodes, notes and sources; "quoted phrases" and -excluded words work',
     ),
+  conversion: z
+    .enum(['exact'])
+    .optional()
+    .describe(
+      'exact: only electrode potentials whose conversion to SHE is exact within its stated uncertainty (reference filling stated, no unknown liquid junction or metal/ion scale, reference potential valid at the record temperature)',
+    ),
+  reference: many(z.string().min(1).max(200))
+    .optional()
+    .describe(
+      'Reference electrode the limits were measured or reported against (SCE, Ag/AgCl sat. KCl, Li+/Li); repeated: any of them',
+    ),
   scale: z
     .string()
     .trim()
@@ -172,11 +185,18 @@ async function toFilter(db: Db, q: RecordQuery): Promise<RecordFilter> {
       name,
       kinds: ['electrode-material'] as const,
     })),
+    ...(q.reference ?? []).map((name, i) => ({
+      path: `reference.${i}`,
+      name,
+      kinds: ['reference-electrode'] as const,
+    })),
   ].map((r) => ({ ...r, kinds: [...r.kinds] }));
   const terms = refs.length ? await resolveTerms(db, refs) : new Map();
   const f: RecordFilter = { statuses: q.status ?? [...LISTED] };
   if (q.component) f.componentIds = q.component.map((_, i) => terms.get(`component.${i}`)!.id);
   if (q.electrode) f.electrodeIds = q.electrode.map((_, i) => terms.get(`electrode.${i}`)!.id);
+  if (q.reference) f.referenceIds = q.reference.map((_, i) => terms.get(`reference.${i}`)!.id);
+  if (q.conversion === 'exact') f.exactConversion = true;
   if (q.concentrationMin !== undefined) f.concentrationMin = q.concentrationMin;
   if (q.concentrationMax !== undefined) f.concentrationMax = q.concentrationMax;
   if (q.concentrationBasis) f.concentrationBasis = q.concentrationBasis;
@@ -221,30 +241,74 @@ function checkParams(q: RecordQuery) {
   }
 }
 
-/** Limits of a row on a scale: from their SHE values; cell voltages stay cell voltages. */
+/**
+ * Limits of a row on a scale: from their SHE values, with what the conversion is worth (the
+ * stored conversion to SHE plus the one from SHE to the scale); cell voltages stay cell voltages.
+ * A scale that is the record's own reference gives back the reported numbers, exact.
+ */
 function onScale(row: SearchRow, scale: string | undefined): SearchItem['onScale'] {
   const target = scale ?? 'SHE';
+  const none = {
+    uncertaintyV: { cathodic: null, anodic: null },
+    scaleUncertaintyV: 0,
+    approximate: false,
+    exact: false,
+  };
   if (row.cell_type === 'two-electrode')
     return {
       scale: 'cell',
       cathodic: row.reported_cathodic_v,
       anodic: row.reported_anodic_v,
       note: 'cell voltage',
+      ...none,
+      conversionFlags: [],
     };
-  let offset: number;
+  let info;
   try {
-    offset = referenceConversion(
+    info = referenceConversion(
       'SHE',
       target,
       scaleContext(row.content as unknown as RecordContent),
-    ).offsetV;
+    );
   } catch (err) {
     if (err instanceof AnalysisError)
-      return { scale: target, cathodic: null, anodic: null, note: err.message };
+      return {
+        scale: target,
+        cathodic: null,
+        anodic: null,
+        note: err.message,
+        ...none,
+        conversionFlags: [],
+      };
     throw err;
   }
-  const move = (v: number | null) => (v === null ? null : v + offset);
-  return { scale: target, cathodic: move(row.cathodic_she_v), anodic: move(row.anodic_she_v) };
+  const stored = (row.she_flags ?? []) as ConversionFlag[];
+  const side = (she: number | null, offset: number | null, u: number | null) => {
+    if (she === null) return { v: null, u: null, identity: false };
+    // Back on the record's own scale: the two conversions cancel.
+    const identity = offset !== null && Math.abs(offset + info.offsetV) < 1e-9;
+    return {
+      v: she + info.offsetV,
+      u: identity ? 0 : u === null || row.she_flags === null ? null : u + info.uncertaintyV,
+      identity,
+    };
+  };
+  const c = side(row.cathodic_she_v, row.cathodic_offset_v, row.cathodic_she_uncertainty_v);
+  const a = side(row.anodic_she_v, row.anodic_offset_v, row.anodic_she_uncertainty_v);
+  const used = [c, a].filter((x) => x.v !== null);
+  const identity = used.length > 0 && used.every((x) => x.identity);
+  const flags = identity ? [] : [...new Set([...stored, ...info.flags])].sort();
+  const judged = row.she_flags !== null && used.every((x) => x.u !== null);
+  return {
+    scale: target,
+    cathodic: c.v,
+    anodic: a.v,
+    uncertaintyV: { cathodic: c.u, anodic: a.u },
+    conversionFlags: flags,
+    scaleUncertaintyV: info.uncertaintyV,
+    approximate: flags.some((f) => f === 'liquid-junction' || f === 'metal-ion'),
+    exact: used.length > 0 && (identity || (judged && conversionIsExact({ flags }))),
+  };
 }
 
 type StoredCycle = {

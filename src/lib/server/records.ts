@@ -1,4 +1,4 @@
-import type { AnalysisOptions } from '../analysis/index.ts';
+import { conversionIsExact, type AnalysisOptions, type ConversionFlag } from '../analysis/index.ts';
 import {
   CELL_VOLTAGE,
   recordContentSchema,
@@ -100,9 +100,31 @@ function limitView(
   she: number | null,
   offset: number | null,
   approximate: boolean,
+  uncertaintyV: number | null,
+  flags: string[] | null,
 ): LimitView | null {
   if (v === null || ref === null) return null;
-  return { valueV: v, reference: ref, sheV: she, offsetV: offset, approximate };
+  return {
+    valueV: v,
+    reference: ref,
+    sheV: she,
+    offsetV: offset,
+    approximate,
+    ...conversionView(she === null ? null : uncertaintyV, flags),
+  };
+}
+
+/** What a conversion to SHE is worth, as plain data beside a converted limit. */
+function conversionView(
+  uncertaintyV: number | null,
+  flags: string[] | null,
+): Pick<LimitView, 'uncertaintyV' | 'conversionFlags' | 'exact'> {
+  const f = (flags ?? []) as ConversionFlag[];
+  return {
+    uncertaintyV,
+    conversionFlags: f,
+    exact: flags !== null && uncertaintyV !== null && conversionIsExact({ flags: f }),
+  };
 }
 
 export function toSummary(
@@ -130,6 +152,8 @@ export function toSummary(
         v.cathodic_she_v,
         v.cathodic_offset_v,
         v.she_approximate,
+        v.cathodic_she_uncertainty_v,
+        v.she_flags,
       ),
       anodic: limitView(
         v.reported_anodic_v,
@@ -137,6 +161,8 @@ export function toSummary(
         v.anodic_she_v,
         v.anodic_offset_v,
         v.she_approximate,
+        v.anodic_she_uncertainty_v,
+        v.she_flags,
       ),
     },
     computed: {
@@ -144,6 +170,13 @@ export function toSummary(
       anodicV: v.computed_anodic_v,
       cathodicSheV: v.computed_cathodic_she_v,
       anodicSheV: v.computed_anodic_she_v,
+      ...conversionView(
+        v.computed_cathodic_she_v === null && v.computed_anodic_she_v === null
+          ? null
+          : v.computed_she_uncertainty_v,
+        v.she_flags,
+      ),
+      approximate: (v.she_flags ?? []).some((f) => f === 'liquid-junction' || f === 'metal-ion'),
     },
     content: v.content as unknown as RecordContent,
     updatedAt: head.updated_at.toISOString(),
@@ -266,6 +299,21 @@ function versionRow(
     anodic_she_v: limits.anodic?.she?.sheV ?? null,
     anodic_offset_v: limits.anodic?.she?.offsetV ?? null,
     she_approximate: Boolean(limits.cathodic?.she?.approximate || limits.anodic?.she?.approximate),
+    cathodic_she_uncertainty_v: limits.cathodic?.she?.uncertaintyV ?? null,
+    anodic_she_uncertainty_v: limits.anodic?.she?.uncertaintyV ?? null,
+    computed_she_uncertainty_v:
+      limits.computed.cathodicShe !== null || limits.computed.anodicShe !== null
+        ? (limits.computed.sheConversion?.uncertaintyV ?? null)
+        : null,
+    she_flags: [
+      ...new Set([
+        ...(limits.cathodic?.she?.flags ?? []),
+        ...(limits.anodic?.she?.flags ?? []),
+        ...(limits.computed.cathodicShe !== null || limits.computed.anodicShe !== null
+          ? (limits.computed.sheConversion?.flags ?? [])
+          : []),
+      ]),
+    ].sort(),
     computed_cathodic_v: limits.computed.cathodic,
     computed_anodic_v: limits.computed.anodic,
     computed_cathodic_she_v: limits.computed.cathodicShe,

@@ -255,6 +255,19 @@ export const analysisResultSchema = z.strictObject({
       toVsSheV: z.number(),
       sources: z.array(z.string()),
       approximate: z.boolean(),
+      uncertaintyV: z
+        .number()
+        .describe('Bound (V) on the known error terms of the conversion (docs/methods.md §4)'),
+      flags: z.array(
+        z.enum([
+          'filling-not-stated',
+          'liquid-junction',
+          'metal-ion',
+          'reference-at-25c',
+          'temperature-corrected',
+        ]),
+      ),
+      notes: z.array(z.string()),
     })
     .nullable(),
   warnings: z.array(z.string()),

@@ -46,7 +46,26 @@ export const limitViewSchema = z.strictObject({
   sheV: z.number().nullable(),
   /** E(SHE) = E(reference) + offsetV, from the engine's reference table. */
   offsetV: z.number().nullable(),
+  /** An unknown term is left out of the conversion (liquid junction, metal/ion scale). */
   approximate: z.boolean(),
+  /**
+   * What the conversion to SHE is worth: a bound (V) on its known error terms (table spread,
+   * unstated filling, temperature), null where no conversion was made or it was not judged.
+   */
+  uncertaintyV: z
+    .number()
+    .nullable()
+    .describe(
+      'Bound (V) on the known error terms of the conversion to SHE: table spread, unstated filling, temperature; null where none was made or it was not judged',
+    ),
+  /** Engine conversion flags: filling-not-stated, liquid-junction, metal-ion, reference-at-25c, temperature-corrected. */
+  conversionFlags: z
+    .array(z.string())
+    .describe(
+      'filling-not-stated, liquid-junction, metal-ion, reference-at-25c, temperature-corrected',
+    ),
+  /** True where the conversion is exact within `uncertaintyV` (no unknown term, filling stated, temperature handled). */
+  exact: z.boolean(),
 });
 export type LimitView = z.infer<typeof limitViewSchema>;
 
@@ -65,17 +84,28 @@ export const recordSummaryShape = {
     cathodic: limitViewSchema.nullable(),
     anodic: limitViewSchema.nullable(),
   }),
+  /** Computed limits, with the record reference's conversion to SHE that their SHE values use. */
   computed: z.strictObject({
     cathodicV: z.number().nullable(),
     anodicV: z.number().nullable(),
     cathodicSheV: z.number().nullable(),
     anodicSheV: z.number().nullable(),
+    uncertaintyV: z.number().nullable(),
+    conversionFlags: z.array(z.string()),
+    exact: z.boolean(),
+    approximate: z.boolean(),
   }),
   content: recordContentSchema,
   updatedAt: isoTime,
 };
 export const recordSummarySchema = z.strictObject(recordSummaryShape);
 export type RecordSummary = z.infer<typeof recordSummarySchema>;
+
+/** A computed limit pair's conversion to SHE (the record reference's). */
+export type ConversionView = Pick<
+  LimitView,
+  'uncertaintyV' | 'conversionFlags' | 'exact' | 'approximate'
+>;
 
 export const commonCriterionResultSchema = z.strictObject({
   criterion: z.string(),
@@ -97,6 +127,17 @@ export const searchItemSchema = z.strictObject({
     cathodic: z.number().nullable(),
     anodic: z.number().nullable(),
     note: z.string().optional(),
+    /** Bound on the known error terms of each shown value's conversion (V); null where not judged. */
+    uncertaintyV: z.strictObject({
+      cathodic: z.number().nullable(),
+      anodic: z.number().nullable(),
+    }),
+    conversionFlags: z.array(z.string()),
+    /** The part of the uncertainty from SHE to this scale (V); add it to `computed.uncertaintyV` for computed limits. */
+    scaleUncertaintyV: z.number(),
+    approximate: z.boolean(),
+    /** True where every shown value's conversion is exact within its uncertainty. */
+    exact: z.boolean(),
   }),
   commonCriterion: commonCriterionResultSchema.optional(),
 });

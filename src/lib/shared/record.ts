@@ -321,3 +321,16 @@ export const createUploadBody = z.strictObject({
 });
 
 export type CreateUploadBody = z.infer<typeof createUploadBody>;
+
+/** Term ids of solvents that make an electrolyte aqueous. */
+const WATER_TERMS = new Set(['water']);
+
+/**
+ * Whether a (canonical) record's electrolyte is aqueous: water is its only solvent. Electrolytes
+ * without a solvent (ionic liquids, melts) and mixtures with organic solvents are not: an aqueous
+ * reference electrode in them sits behind a liquid junction of unknown potential.
+ */
+export function isAqueousElectrolyte(c: Pick<RecordContent, 'electrolyte'>): boolean {
+  const solvents = c.electrolyte.solvents.map((s) => s.term);
+  return solvents.length > 0 && solvents.every((t) => WATER_TERMS.has(t));
+}

@@ -10,13 +10,15 @@ import {
   nernstSlopeV,
   REFERENCE_ELECTRODES,
   referenceConversion,
+  conversionIsExact,
+  formatUncertainty,
   specificEnergyWhPerKg,
   symmetricCellCapacitanceFPerG,
   waterWindow,
 } from '#lib/analysis/index.ts';
 import { expectToDigits } from '../../support/digits';
 
-describe('METHODS.md §8 B: reference conversion', () => {
+describe('docs/methods.md §8 B: reference conversion', () => {
   // SCE 0.2412 V and Ag/AgCl (sat. KCl) 0.197 V vs SHE: Bard & Faulkner, Electrochemical Methods.
   // RHE: E(RHE) = E(SHE) + (ln10·RT/F)·pH with CODATA 2018 constants.
   it('0.100 V vs SCE = 0.3412 V vs SHE = 0.1442 V vs Ag/AgCl (sat. KCl) = 0.7553 V vs RHE at pH 7', () => {
@@ -85,7 +87,7 @@ describe('METHODS.md §8 B: reference conversion', () => {
     expect(() => findScale('Cu/CuSO4')).toThrow(/^unknown reference scale "Cu\/CuSO4"/);
   });
 
-  it('holds every value of the METHODS.md §4 table with its source and tag', () => {
+  it('holds every value of the docs/methods.md §4 table with its source and tag', () => {
     const table = Object.fromEntries(REFERENCE_ELECTRODES.map((r) => [r.id, [r.vsSheV, r.tag]]));
     expect(table).toEqual({
       SHE: [0, 'pub'],
@@ -93,11 +95,14 @@ describe('METHODS.md §8 B: reference conversion', () => {
       'Ag/AgCl-3.5M': [0.205, 'pub'],
       'Ag/AgCl-3M': [0.21, 'cp'],
       'Ag/AgCl-1M': [0.236, 'pub'],
+      'Ag/AgCl': [0.197, 'pub'],
       SCE: [0.2412, 'pub'],
       NCE: [0.2801, 'pub'],
       'Hg/HgO-0.1M-NaOH': [0.165, 'pub'],
       'Hg/HgO-1M-KOH': [0.098, 'cp'],
+      'Hg/HgO': [0.098, 'cp'],
       'Hg/Hg2SO4-sat': [0.64, 'pub'],
+      'Hg/Hg2SO4': [0.64, 'pub'],
       'Li+/Li': [-3.04, 'pub'],
       'Na+/Na': [-2.71, 'pub'],
       'K+/K': [-2.931, 'pub'],
@@ -108,7 +113,93 @@ describe('METHODS.md §8 B: reference conversion', () => {
   });
 });
 
-describe('METHODS.md §8 C: water window (CODATA 2018 constants; E°(T) slope from standard thermodynamic data of water)', () => {
+describe('docs/methods.md §4: what a conversion is worth', () => {
+  it('gives an unstated Ag/AgCl filling ± 40 mV, covering the sat., 3 M and 1 M values', () => {
+    // sat. KCl 0.197 V (Bard & Faulkner), 3 M 0.210 V (common table value), 1 M 0.236 V (tables after Ives & Janz).
+    const info = referenceConversion('Ag/AgCl', 'SHE');
+    expect(info.offsetV).toBe(0.197);
+    expect(info.uncertaintyV).toBe(0.04);
+    expect(info.flags).toEqual(['filling-not-stated']);
+    expect(info.approximate).toBe(false);
+    expect(conversionIsExact(info)).toBe(false);
+    for (const id of ['Ag/AgCl-sat', 'Ag/AgCl-3.5M', 'Ag/AgCl-3M', 'Ag/AgCl-1M']) {
+      const stated = findScale(id) as { vsSheV: number };
+      expect(Math.abs(stated.vsSheV - info.offsetV)).toBeLessThanOrEqual(info.uncertaintyV);
+    }
+    expect(formatUncertainty(info)).toBe('± 40 mV');
+    // A stated filling converts exactly within the spread of table values.
+    const sat = referenceConversion('Ag/AgCl, sat. KCl', 'SHE');
+    expect(sat.flags).toEqual([]);
+    expect(conversionIsExact(sat)).toBe(true);
+    expect(sat.uncertaintyV).toBe(0.003);
+    // "Hg/HgO" alone is not silently 1 M KOH: it carries the range of its fillings.
+    const hgo = referenceConversion('Hg/HgO', 'SHE');
+    expect(hgo.flags).toEqual(['filling-not-stated']);
+    expect(Math.abs(0.165 - hgo.offsetV)).toBeLessThanOrEqual(hgo.uncertaintyV);
+  });
+
+  it('adds both ends: SCE → Ag/AgCl (sat.) carries both table spreads', () => {
+    const info = referenceConversion('SCE', 'Ag/AgCl-sat');
+    expect(info.uncertaintyV).toBeCloseTo(0.006, 12);
+    expect(referenceConversion('SCE', 'SCE').uncertaintyV).toBe(0);
+  });
+
+  it('marks an aqueous reference in a non-aqueous electrolyte approximate (unknown liquid junction)', () => {
+    const acn = referenceConversion('Ag/AgCl-sat', 'SHE', { aqueousElectrolyte: false });
+    expect(acn.approximate).toBe(true);
+    expect(acn.flags).toContain('liquid-junction');
+    expect(acn.notes.join(' ')).toMatch(/liquid-junction potential is unknown/);
+    expect(conversionIsExact(acn)).toBe(false);
+    // In water the same conversion is exact; with the electrolyte unknown nothing is claimed.
+    expect(
+      referenceConversion('Ag/AgCl-sat', 'SHE', { aqueousElectrolyte: true }).approximate,
+    ).toBe(false);
+    expect(referenceConversion('Ag/AgCl-sat', 'SHE').flags).toEqual([]);
+    // A number already on SHE, or on RHE, is not an electrode dipped in the cell.
+    expect(referenceConversion('SHE', 'RHE', { pH: 7, aqueousElectrolyte: false }).flags).toEqual(
+      [],
+    );
+    // Metal/ion scales stay approximate as before.
+    expect(referenceConversion('Li+/Li', 'SHE', { aqueousElectrolyte: false }).flags).toEqual([
+      'metal-ion',
+    ]);
+  });
+
+  it('moves SCE and Ag/AgCl (sat.) with their temperature coefficients and flags the rest as 25 °C-based', () => {
+    // SCE −0.66 mV/K (linear term of the polynomial in Bard & Faulkner, from memory): at 45 °C
+    // 0.2412 − 0.66e-3·20 = 0.2280 V, uncertainty 3 mV + 0.1 mV/K·20 K = 5 mV.
+    const sce = referenceConversion('SCE', 'SHE', { temperatureK: 318.15 });
+    expectToDigits(sce.offsetV, '0.2280');
+    expect(sce.uncertaintyV).toBeCloseTo(0.005, 12);
+    expect(sce.flags).toEqual(['temperature-corrected']);
+    expect(conversionIsExact(sce)).toBe(true);
+    expect(sce.sources.join(' ')).toMatch(/Bard & Faulkner.*from memory/);
+    // Ag/AgCl in sat. KCl, −1.01 mV/K (tabulated value, from memory): at 60 °C 0.197 − 0.03535 V.
+    expectToDigits(
+      referenceConversion('Ag/AgCl-sat', 'SHE', { temperatureK: 333.15 }).offsetV,
+      '0.16165',
+    );
+    // No coefficient kept for 3 M KCl: the 25 °C value is used and the conversion says so.
+    const threeM = referenceConversion('Ag/AgCl-3M', 'SHE', { temperatureK: 333.15 });
+    expect(threeM.offsetV).toBe(0.21);
+    expect(threeM.flags).toEqual(['reference-at-25c']);
+    expect(conversionIsExact(threeM)).toBe(false);
+    // At 25 °C (within 0.5 K) nothing moves.
+    expect(referenceConversion('SCE', 'SHE', { temperatureK: 298.4 }).flags).toEqual([]);
+  });
+
+  it('uses a curated value only where it differs from the table', () => {
+    const same = referenceConversion('SCE', 'SHE', { values: { SCE: { vsSheV: 0.2412 } } });
+    expect(same.sources[0]).toMatch(/\[pub\]$/);
+    const revised = referenceConversion('SCE', 'SHE', {
+      values: { SCE: { vsSheV: 0.244, source: 'a revised table' } },
+    });
+    expect(revised.offsetV).toBe(0.244);
+    expect(revised.sources[0]).toMatch(/a revised table\) \[curated\]$/);
+  });
+});
+
+describe('docs/methods.md §8 C: water window (CODATA 2018 constants; E°(T) slope from standard thermodynamic data of water)', () => {
   it('Nernst slope 0.059159 V per pH at 298.15 K', () => {
     expectToDigits(nernstSlopeV(298.15), '0.059159');
   });
@@ -130,7 +221,7 @@ describe('METHODS.md §8 C: water window (CODATA 2018 constants; E°(T) slope fr
   });
 });
 
-describe('METHODS.md §8 E: energy (½CV²; symmetric cell C_sp/4: Kötz & Carlen, Electrochimica Acta 45 (2000) 2483)', () => {
+describe('docs/methods.md §8 E: energy (½CV²; symmetric cell C_sp/4: Kötz & Carlen, Electrochimica Acta 45 (2000) 2483)', () => {
   it('100 F/g per electrode → 25 F/g per cell; 2.7 V → 25.31 Wh/kg; 3.0 V → 31.25 Wh/kg (+23.46 %)', () => {
     const c = symmetricCellCapacitanceFPerG(100);
     expect(c).toBe(25);

@@ -249,6 +249,12 @@ export interface RecordVersionTable {
   computed_anodic_v: number | null;
   computed_cathodic_she_v: number | null;
   computed_anodic_she_v: number | null;
+  /** Bounds on the known error terms of each conversion to SHE (V); NULL where none was made. */
+  cathodic_she_uncertainty_v: number | null;
+  anodic_she_uncertainty_v: number | null;
+  computed_she_uncertainty_v: number | null;
+  /** Flags of the conversions used (engine ConversionFlag); NULL on versions written before they were judged. */
+  she_flags: string[] | null;
   evidence_level: string;
   source_kind: string | null;
   source_doi: string | null;

@@ -368,6 +368,10 @@ export interface RecordFilter {
   q?: string;
   /** Only records that carry raw data. */
   rawBacked?: boolean;
+  /** Reference electrode term ids: the record's reference or a reported limit's. */
+  referenceIds?: string[];
+  /** Only electrode potentials whose conversion to SHE is exact (engine flags none but temperature-corrected). */
+  exactConversion?: boolean;
 }
 
 export type SortKey =
@@ -426,6 +430,24 @@ function conditions(f: RecordFilter, scope: ReadScope) {
     );
   if (f.q) c.push(sql<SqlBool>`s.search @@ websearch_to_tsquery('simple', ${f.q})`);
   if (f.rawBacked) c.push(sql<SqlBool>`s.raw_backed`);
+  // Conditions on the current version's own columns: one primary-key probe per candidate row.
+  const version = (cond: RawBuilder<unknown>) =>
+    sql<SqlBool>`EXISTS (SELECT 1 FROM record_versions v WHERE v.record_id = s.record_id AND v.version = s.version AND ${cond})`;
+  if (f.referenceIds?.length) {
+    const ids = sql`${sql.val(f.referenceIds)}::text[]`;
+    c.push(
+      version(
+        sql`(v.reference_id = ANY(${ids}) OR v.reported_cathodic_ref = ANY(${ids}) OR v.reported_anodic_ref = ANY(${ids}))`,
+      ),
+    );
+  }
+  if (f.exactConversion)
+    c.push(
+      version(
+        sql`s.cell_type <> 'two-electrode' AND v.she_flags IS NOT NULL AND v.she_flags <@ ARRAY['temperature-corrected']::text[]
+            AND coalesce(v.cathodic_she_v, v.anodic_she_v, v.computed_cathodic_she_v, v.computed_anodic_she_v) IS NOT NULL`,
+      ),
+    );
   return sql.join(c, sql` AND `);
 }
 
