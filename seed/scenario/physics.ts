@@ -1,8 +1,10 @@
 // A small physical model of where an electrolyte starts to decompose on an electrode, and the
-// engine's synthetic curves built from it. Every number here is an invented model parameter
-// chosen to follow the qualitative practice of METHODS.md §7 (platinum catalyses decomposition,
-// glassy carbon is more inert, activated carbon's huge area, slower scans narrower) and, for
-// water, the HER/OER lines of METHODS.md §5 plus kinetic overpotentials. None of it is measured.
+// engine's synthetic curves built from it (docs/methods.md §10). The numbers are model parameters
+// chosen to follow the practice of docs/methods.md §7 (platinum catalyses decomposition, glassy
+// carbon is more inert, activated carbon's huge area, slower scans narrower). For water: the
+// HER/OER lines of docs/methods.md §5 at the pH the electrode surface sees, plus Tafel kinetics
+// (exchange current density and slope) per electrode, reaction and medium. Where a value has an
+// outside anchor it is named beside it; the rest is invented and marked so. None of it is measured.
 import {
   convertPotential,
   cvWindowOpeningSamples,
@@ -19,7 +21,7 @@ export type Side = 'anodic' | 'cathodic';
 export const J_ONSET_A_PER_CM2 = 1e-7;
 /** Double-layer capacitance per active area, 10–40 µF cm⁻² is the usual range (common practice). */
 export const CDL_F_PER_CM2 = 20e-6;
-/** Specific capacitance of an activated-carbon electrode; METHODS.md §8 E uses 100 F g⁻¹ per electrode. */
+/** Specific capacitance of an activated-carbon electrode; docs/methods.md §8 E uses 100 F g⁻¹ per electrode. */
 export const AC_F_PER_G = 100;
 /** Onsets move inward by this much per kelvin above 25 °C (model parameter: decomposition is faster warm). */
 const INWARD_V_PER_K = 0.002;
@@ -32,50 +34,127 @@ export type ElectrodeId =
   | 'stainless-steel'
   | 'aluminium';
 
+/** Tafel kinetics of one reaction: exchange current density per active area and slope. */
+export interface Kinetics {
+  /** Exchange current density (A cm⁻² of active area). */
+  j0: number;
+  /** Tafel slope (V per decade). */
+  b: number;
+}
+
+/** Water's two reactions on an electrode, in acid (surface pH < 7) and alkaline (≥ 7) media. */
+export interface AqueousKinetics {
+  her: { acid: Kinetics; alkaline: Kinetics };
+  /** Water oxidation, lumped with the electrode's own oxidation (carbon corrosion, transpassive steel). */
+  oer: { acid: Kinetics; alkaline: Kinetics };
+}
+
 interface ElectrodeModel {
   /** Active area ÷ geometric area of a planar electrode (activated carbon goes by mass instead). */
   roughness: number;
   /** Shift of the organic/ionic-liquid onsets relative to glassy carbon (V; negative = earlier anodic). */
   organic: { anodic: number; cathodic: number };
-  /** Kinetic overpotentials (V) beyond the HER and OER lines at the onset current density. */
-  aqueous: { her: number; oer: number };
+  aqueous: AqueousKinetics;
 }
 
+const k = (j0: number, b: number): Kinetics => ({ j0, b });
+
 export const ELECTRODES: Readonly<Record<ElectrodeId, ElectrodeModel>> = {
+  // Invented model values, placed so that glassy carbon's practical LSV window at 50 µA cm⁻² is
+  // about 2.0 V in strong acid or base and about 2.4 V in neutral salts (common practice).
   'glassy-carbon': {
     roughness: 1.2,
     organic: { anodic: 0, cathodic: 0 },
-    aqueous: { her: 0.45, oer: 0.55 },
+    aqueous: {
+      her: { acid: k(5e-9, 0.1), alkaline: k(1.5e-9, 0.1) },
+      oer: { acid: k(5e-9, 0.1), alkaline: k(2.5e-8, 0.1) },
+    },
   },
-  // Platinum catalyses both reduction and oxidation of solvent and water.
+  // Platinum catalyses both reduction and oxidation of solvent and water. HER in acid: exchange
+  // current density about 1 mA cm⁻² and a 30 mV/decade Tafel slope (common practice, from memory),
+  // so it passes tens of µA cm⁻² within a few tens of mV of 0 V vs RHE; in base HER is about two
+  // orders slower (common practice, from memory). OER values invented (Pt is a poor OER catalyst).
   platinum: {
     roughness: 1.4,
     organic: { anodic: -0.3, cathodic: 0.25 },
-    aqueous: { her: 0.03, oer: 0.38 },
+    aqueous: {
+      her: { acid: k(1e-3, 0.03), alkaline: k(1e-5, 0.12) },
+      oer: { acid: k(1e-7, 0.12), alkaline: k(3e-7, 0.12) },
+    },
   },
+  // Gold: HER a few hundred mV past the line, OER late (invented model values).
   gold: {
     roughness: 1.3,
     organic: { anodic: -0.15, cathodic: 0.15 },
-    aqueous: { her: 0.22, oer: 0.5 },
+    aqueous: {
+      her: { acid: k(1e-6, 0.12), alkaline: k(1e-7, 0.12) },
+      oer: { acid: k(1e-10, 0.12), alkaline: k(1e-9, 0.12) },
+    },
   },
-  // Surface groups of activated carbon react earlier than a glassy-carbon surface; its area is counted by mass.
+  // Surface groups of activated carbon react earlier than a glassy-carbon surface; its area is
+  // counted by mass. In base the oxidation of the carbon is fast (invented values placing a
+  // symmetric cell in 6 M KOH near 0.9 V, and one in neutral sulfate near 1.6 V: common practice).
   'activated-carbon': {
     roughness: 1,
     organic: { anodic: -0.12, cathodic: 0.1 },
-    aqueous: { her: 0.35, oer: 0.45 },
+    aqueous: {
+      her: { acid: k(6e-9, 0.1), alkaline: k(2.5e-9, 0.1) },
+      oer: { acid: k(8e-9, 0.1), alkaline: k(8e-7, 0.1) },
+    },
   },
-  // Steel dissolves (transpassive) before most solvents oxidise.
+  // Steel dissolves (transpassive) before most solvents oxidise (invented values).
   'stainless-steel': {
     roughness: 2,
     organic: { anodic: -0.35, cathodic: 0.05 },
-    aqueous: { her: 0.3, oer: 0.35 },
+    aqueous: {
+      her: { acid: k(5e-7, 0.12), alkaline: k(5e-7, 0.12) },
+      oer: { acid: k(5e-7, 0.1), alkaline: k(1e-7, 0.08) },
+    },
   },
+  // Aluminium: slow HER on its oxide, anodic oxide growth lumped with OER (invented values).
   aluminium: {
     roughness: 1.5,
     organic: { anodic: 0, cathodic: 0.1 },
-    aqueous: { her: 0.6, oer: 0.2 },
+    aqueous: {
+      her: { acid: k(1e-9, 0.12), alkaline: k(1e-9, 0.12) },
+      oer: { acid: k(1e-6, 0.12), alkaline: k(1e-6, 0.12) },
+    },
   },
 };
+
+/**
+ * The model keeps only the forward exponential of each reaction (no back reaction), so a fast
+ * reaction would show current on the wrong side of its equilibrium line; the current at the
+ * line is therefore held to at most this (A cm⁻²; model choice).
+ */
+export const J_AT_EQUILIBRIUM_CAP = 1e-5;
+
+/**
+ * The pH the electrode surface sees while water decomposes. In an unbuffered near-neutral salt
+ * solution hydrogen evolution makes OH⁻ (the surface turns alkaline) and oxygen evolution makes
+ * H⁺ (it turns acidic), which moves both lines outward: the usual explanation of the wider
+ * practical window of neutral electrolytes (common practice). Model values: the cathode surface
+ * goes to pH 10.5 and the anode surface to pH 3.5; the effect fades over 3 pH units towards strong
+ * acid (protons supplied from the bulk) and strong base (hydroxide supplied).
+ */
+export const SURFACE_PH = { cathode: 10.5, anode: 3.5, fadePh: 3 } as const;
+
+/** The pH at the electrode surface on one side (see SURFACE_PH). */
+export function surfacePh(bulkPh: number, side: Side): number {
+  const clamp = (x: number) => Math.min(1, Math.max(0, x));
+  if (side === 'cathodic') {
+    const w = clamp((bulkPh - 2) / SURFACE_PH.fadePh);
+    return Math.max(bulkPh, bulkPh + (SURFACE_PH.cathode - bulkPh) * w);
+  }
+  const w = clamp((12 - bulkPh) / SURFACE_PH.fadePh);
+  return Math.min(bulkPh, bulkPh - (bulkPh - SURFACE_PH.anode) * w);
+}
+
+/** The kinetics of water's reaction on one side at a surface pH. */
+export function waterKinetics(electrode: ElectrodeId, side: Side, pH: number): Kinetics {
+  const r = ELECTRODES[electrode].aqueous[side === 'anodic' ? 'oer' : 'her'];
+  return pH < 7 ? r.acid : r.alkaline;
+}
 
 /** Aluminium pits where the anion forms no fluoride film: onset vs SHE (model value). */
 const AL_PITTING_SHE_V = 0.76;
@@ -102,8 +181,8 @@ export interface ElectrolyteSystem {
   /** Non-aqueous: onsets on glassy carbon at 25 °C (V vs SHE). */
   anodicSheV?: number;
   cathodicSheV?: number;
-  /** Tafel slopes (V per decade). */
-  slopes: { anodic: number; cathodic: number };
+  /** Tafel slopes of the non-aqueous onsets (V per decade); water's come from the electrode (ELECTRODES). */
+  slopes?: { anodic: number; cathodic: number };
   /** Rest (open-circuit) potential vs SHE where a window-opening run starts. */
   restSheV?: number;
   /** Molality (mol/kg) that widens a concentrated aqueous electrolyte. */
@@ -118,9 +197,13 @@ export interface Onset {
   slopeV: number;
 }
 
-/** Extra kinetic stability of concentrated aqueous electrolytes: 0.35 V per decade of molality above 1 mol/kg (model). */
+/**
+ * Extra kinetic stability of concentrated aqueous electrolytes on each side: 0.15 V per decade of
+ * molality above 1 mol/kg (model value, placing 17 mol/kg NaClO₄ on glassy carbon near the usual
+ * 2.7 V at 10 µA cm⁻²: common practice).
+ */
 export function waterInSaltWideningV(molality: number | undefined): number {
-  return molality && molality > 1 ? 0.35 * Math.log10(molality) : 0;
+  return molality && molality > 1 ? 0.15 * Math.log10(molality) : 0;
 }
 
 /** Onset of decomposition on one side for an electrolyte on an electrode at a temperature. */
@@ -132,22 +215,27 @@ export function onset(
 ): Onset {
   const el = ELECTRODES[electrode];
   const inward = Math.max(0, temperatureC - 25) * INWARD_V_PER_K;
-  const slopeV = sys.slopes[side];
   if (sys.family === 'aqueous') {
-    const w = waterWindow(sys.electrolyte.pH ?? 7, temperatureC + 273.15);
+    // The water line at the surface pH, then the overpotential at which the reaction's Tafel
+    // current reaches J_ONSET (negative where it passes J_ONSET before the line).
+    const pH = surfacePh(sys.electrolyte.pH ?? 7, side);
+    const w = waterWindow(pH, temperatureC + 273.15);
+    const kin = waterKinetics(electrode, side, pH);
+    const jAtLine = Math.min(kin.j0, J_AT_EQUILIBRIUM_CAP);
+    const eta = kin.b * Math.log10(J_ONSET_A_PER_CM2 / jAtLine);
     const wide = waterInSaltWideningV(sys.molality);
     return side === 'anodic'
-      ? { sheV: w.oerV + el.aqueous.oer + wide - inward, slopeV }
-      : { sheV: w.herV - el.aqueous.her - wide + inward, slopeV };
+      ? { sheV: w.oerV + eta + wide - inward, slopeV: kin.b }
+      : { sheV: w.herV - eta - wide + inward, slopeV: kin.b };
   }
   if (side === 'anodic') {
     const e = sys.anodicSheV! + el.organic.anodic - inward;
     // Pitting of aluminium is steep (a breakdown, not a slow film growth).
     if (electrode === 'aluminium' && !sys.passivatesAluminium && AL_PITTING_SHE_V < e)
       return { sheV: AL_PITTING_SHE_V - inward, slopeV: 0.08 };
-    return { sheV: e, slopeV };
+    return { sheV: e, slopeV: sys.slopes![side] };
   }
-  return { sheV: sys.cathodicSheV! + el.organic.cathodic + inward, slopeV };
+  return { sheV: sys.cathodicSheV! + el.organic.cathodic + inward, slopeV: sys.slopes![side] };
 }
 
 /** Open-circuit potential vs SHE: the middle of the water lines for aqueous electrolytes. */

@@ -2,7 +2,9 @@
 // where the faradaic current density reaches the model's onset value). Invented model values in
 // the usual order of stability: ionic liquids and nitriles widest anodically, ethers oxidise
 // first, carbonates reduce early; lithium and sodium values are set on their metal scales
-// (Li⁺/Li −3.040 V, Na⁺/Na −2.71 V vs SHE, METHODS.md §4) and moved to SHE here.
+// (Li⁺/Li −3.040 V, Na⁺/Na −2.71 V vs SHE, docs/methods.md §4) and moved to SHE here.
+// Aqueous electrolytes carry no onsets: water's lines and each electrode's kinetics place them
+// (physics.ts).
 import type { ElectrolyteSystem } from './physics.ts';
 
 const LI = -3.04;
@@ -59,7 +61,6 @@ const aqueous = (
   label,
   family: 'aqueous',
   electrolyte: { solvents: one('water'), salts: [salt], pH },
-  slopes: { anodic: 0.09, cathodic: 0.12 },
   ...(molality !== undefined ? { molality } : {}),
 });
 

@@ -30,7 +30,7 @@ import {
 // retried), the computed limit beside the reported one, submission and the receipt mail. Then
 // the same record comes back with changes requested, on a phone in dark mode.
 
-// METHODS.md §8 A (derived from the formulas there): the model's limit at S = 0.1, log-interpolated, is 1.0898 V.
+// docs/methods.md §8 A (derived from the formulas there): the model's limit at S = 0.1, log-interpolated, is 1.0898 V.
 const MODEL_LIMIT = '1.090 V';
 const goodCsv = formatExport(cvWindowOpeningSamples());
 // Potentials written in mV under a header that says V: the contributor corrects the unit.

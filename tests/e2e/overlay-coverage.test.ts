@@ -53,7 +53,7 @@ beforeAll(async () => {
   const contributor = await signIn(await makeUser({ role: 'contributor' }));
   const curator = await signIn(await makeUser({ role: 'curator' }));
   const cols = { columns: ['time', 'potential', 'current', 'cycle'] as const };
-  // METHODS.md §8 A model on glassy carbon; an earlier, steeper onset on platinum; no raw file on activated carbon.
+  // docs/methods.md §8 A model on glassy carbon; an earlier, steeper onset on platinum; no raw file on activated carbon.
   h.gc = await publishThroughApi(
     contributor,
     curator,

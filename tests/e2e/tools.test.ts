@@ -57,7 +57,7 @@ afterAll(async () => {
 });
 
 describe('reference scale converter', () => {
-  it('converts with the table values and names their sources (METHODS.md §8 B)', async () => {
+  it('converts with the table values and names their sources (docs/methods.md §8 B)', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL('/tools/scales', appUrl()).href);
     await hydrated(page);
@@ -112,7 +112,7 @@ describe('reference scale converter', () => {
 });
 
 describe('water window tool', () => {
-  it('draws the HER and OER lines and moves them with temperature (METHODS.md §8 C)', async () => {
+  it('draws the HER and OER lines and moves them with temperature (docs/methods.md §8 C)', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL('/tools/water', appUrl()).href);
     await page.getByRole('img', { name: /Thermodynamic water window/ }).waitFor();
@@ -213,7 +213,7 @@ describe('window-opening planner', () => {
     ]);
     expect(await page.getByTestId('plan-cathodic').count()).toBe(0);
 
-    // METHODS.md §8 E (Kötz & Carlen, Electrochim. Acta 45 (2000) 2483): 100 F/g per electrode → 25 F/g
+    // docs/methods.md §8 E (Kötz & Carlen, Electrochim. Acta 45 (2000) 2483): 100 F/g per electrode → 25 F/g
     // per cell; 2.7 V → 25.31 Wh/kg, 3.0 V → 31.25 Wh/kg, +23.46 %.
     expect(await text(page, 'energy-gain')).toBe('+23.46 %');
     expect(await text(page, 'energy')).toContain('25.31 Wh/kg');

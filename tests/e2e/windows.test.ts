@@ -59,7 +59,7 @@ const publish = (content: unknown, raw?: string) =>
 beforeAll(async () => {
   contributor = await signIn(await makeUser({ role: 'contributor' }));
   curator = await signIn(await makeUser({ role: 'curator' }));
-  // METHODS.md §8 A model: S-values 3.7e-4 … 0.116 at vertices 0.7 … 1.1 V; S = 0.1 crossed near 1.09 V.
+  // docs/methods.md §8 A model: S-values 3.7e-4 … 0.116 at vertices 0.7 … 1.1 V; S = 0.1 crossed near 1.09 V.
   const raw = formatExport(cvWindowOpeningSamples(), {
     columns: ['time', 'potential', 'current', 'cycle'],
   });
@@ -144,7 +144,7 @@ describe("the formulator's path", () => {
     await expect.poll(() => page.url()).toContain('criterion=s%3A0.1');
     await page.getByLabel('Reference scale').selectOption('Li+/Li');
     await expect.poll(() => text(page, 'result-count')).toContain('vs Li⁺/Li');
-    // Recomputed from the raw file at S ≤ 0.1: 1.0898 V vs Ag/AgCl (METHODS.md §8 A) → 1.0898 + 0.197 + 3.040 = 4.327 V.
+    // Recomputed from the raw file at S ≤ 0.1: 1.0898 V vs Ag/AgCl (docs/methods.md §8 A) → 1.0898 + 0.197 + 3.040 = 4.327 V.
     await expect.poll(async () => gcRow.innerText()).toContain('4.327');
     // The record without raw data keeps its own criterion, and says so.
     await expect
@@ -205,7 +205,7 @@ describe("the formulator's path", () => {
     );
     expect(ld['@type']).toBe('Dataset');
     expect(ld.identifier).toBe(handles.gc);
-    // Stored analysis at S ≤ 0.1: 1.090 V (METHODS.md §8 A, log-interpolated 1.0898 V).
+    // Stored analysis at S ≤ 0.1: 1.090 V (docs/methods.md §8 A, log-interpolated 1.0898 V).
     await expect.poll(() => text(page, 'limit-anodic')).toContain('1.090 V');
     await page.getByLabel('Criterion kind').last().selectOption('ce');
     // CE ≥ 99 % is S ≤ 0.0101: crossed between the 0.9 V (S 6.3e-3) and 1.0 V (S 2.6e-2) vertices.

@@ -15,7 +15,7 @@ const post = (body: FormData | string, headers: Record<string, string> = {}) =>
   api('/api/v1/analyses', { method: 'POST', body, headers });
 
 describe('POST /api/v1/analyses', () => {
-  it('returns the per-cycle S-values of a generated window-opening CV (METHODS.md §8 A)', async () => {
+  it('returns the per-cycle S-values of a generated window-opening CV (docs/methods.md §8 A)', async () => {
     const text = formatExport(cvWindowOpeningSamples({ sampleIntervalS: 0.05 }), {
       separator: ';',
       decimalComma: true,
@@ -24,7 +24,7 @@ describe('POST /api/v1/analyses', () => {
     const res = await post(form(text, { method: 'cv', criterion: 's:0.1' }));
     expect(res.status).toBe(200);
     const out = await res.json();
-    // Check values of METHODS.md §8 A, derived there from the S-value definition of Weingarth et al.,
+    // Check values of docs/methods.md §8 A, derived there from the S-value definition of Weingarth et al.,
     // Electrochimica Acta 103 (2013) (from memory): S at vertices 0.7…1.1 V.
     const expected = ['3.723e-4', '1.513e-3', '6.257e-3', '0.02640', '0.1164'];
     expect(out.cycles).toHaveLength(5);

@@ -87,7 +87,7 @@ describe('creating a draft', () => {
     expect(r.content.electrolyte.salts[0].term).toBe('lipf6');
     expect(r.content.workingElectrode.material).toBe('glassy-carbon');
     expect(r.content.licence).toBe('CC-BY-4.0');
-    // SCE = 0.2412 V vs SHE (METHODS.md §4, Bard & Faulkner): 1.0 V vs SCE = 1.2412 V vs SHE.
+    // SCE = 0.2412 V vs SHE (docs/methods.md §4, Bard & Faulkner): 1.0 V vs SCE = 1.2412 V vs SHE.
     expect(r.limits.anodic.reference).toBe('ref-sce');
     expect(r.limits.anodic.offsetV).toBeCloseTo(0.2412, 6);
     expect(r.limits.anodic.sheV).toBeCloseTo(1.2412, 6);
@@ -467,7 +467,7 @@ describe('vocabulary', () => {
   });
 
   it('carries the reference potentials of the engine table, each with a source', () => {
-    // Both follow METHODS.md §4 (25 °C, V vs SHE); the seed must not drift from the engine.
+    // Both follow docs/methods.md §4 (25 °C, V vs SHE); the seed must not drift from the engine.
     for (const e of REFERENCE_ELECTRODES) {
       const term = VOCABULARY.find((t) => t.scale === e.id);
       expect(term, e.id).toBeDefined();

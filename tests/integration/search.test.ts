@@ -162,10 +162,10 @@ describe('filters', () => {
   it('shows limits on a chosen scale; cell voltages stay cell voltages', async () => {
     const r = await list('scale=Li%2B%2FLi&sort=handle');
     const water = r.items.find((i) => i.handle === handles.water)!;
-    // Li⁺/Li → SHE → Li⁺/Li round trip: the reported 4.9 V vs Li⁺/Li comes back (METHODS.md §4, CRC −3.040 V).
+    // Li⁺/Li → SHE → Li⁺/Li round trip: the reported 4.9 V vs Li⁺/Li comes back (docs/methods.md §4, CRC −3.040 V).
     expect(water.onScale.anodic).toBeCloseTo(4.9, 9);
     const pc = r.items.find((i) => i.handle === handles.pcGc)!;
-    // 1.0 V vs SCE = 1.2412 V vs SHE = 4.2812 V vs Li⁺/Li (SCE 0.2412, Li −3.040: METHODS.md §4).
+    // 1.0 V vs SCE = 1.2412 V vs SHE = 4.2812 V vs Li⁺/Li (SCE 0.2412, Li −3.040: docs/methods.md §4).
     expect(pc.onScale.anodic).toBeCloseTo(4.2812, 6);
     const cell = r.items.find((i) => i.handle === handles.cell)!;
     expect(cell.onScale).toMatchObject({ scale: 'cell', anodic: 2.7 });
@@ -323,7 +323,7 @@ describe('exports', () => {
     const pc = rows.find((r) => r.handle === handles.pcGc)!;
     expect(pc.version).toBe('1');
     expect(pc.salts).toBe('lipf6:1 mol/L');
-    expect(Number(pc.anodic_on_scale_v)).toBeCloseTo(1.2412, 6); // SCE 0.2412 V vs SHE (METHODS.md §4)
+    expect(Number(pc.anodic_on_scale_v)).toBeCloseTo(1.2412, 6); // SCE 0.2412 V vs SHE (docs/methods.md §4)
     expect(pc.citation).toContain('An invented window study');
     expect(pc.doi).toBe('10.5555/ew.test.1');
   });

@@ -30,7 +30,7 @@ let curator: string;
 let other: string;
 const token = tag('upl');
 
-// The synthetic window-opening CV of METHODS.md §8 A (C = 0.010 F, 5 mV/s, vertices 0.7…1.1 V,
+// The synthetic window-opening CV of docs/methods.md §8 A (C = 0.010 F, 5 mV/s, vertices 0.7…1.1 V,
 // Tafel current 1e-5 A·10^((E−1)/0.15)), written out by the engine's own export writer.
 const cvFile = formatExport(cvWindowOpeningSamples());
 const sha = (s: string | Uint8Array) => createHash('sha256').update(s).digest('hex');
@@ -95,7 +95,7 @@ describe('the upload flow', () => {
     expect(result.rawFile.sha256).toBe(sha(cvFile));
     expect(result.rawFile.bytes).toBe(Buffer.byteLength(cvFile));
     expect(result.analysis.direction).toBe('anodic');
-    // Limit at S = 0.1, interpolated in log10 S: 1.0898 V (METHODS.md §8 A check value).
+    // Limit at S = 0.1, interpolated in log10 S: 1.0898 V (docs/methods.md §8 A check value).
     expect(result.analysis.limitV).toBeCloseTo(1.0898, 3);
     // Within 50 mV of the reported 1.09 V at the record's own criterion → confirmed.
     expect(result.record).toEqual({ handle, version: 2, evidenceLevel: 'confirmed' });
@@ -194,7 +194,7 @@ describe('the upload flow', () => {
     const s01 = await get('s:0.1');
     expect(s01).toHaveLength(2);
     const raw = s01.find((x) => x.handle === handle)!;
-    // METHODS.md §8 A: log-interpolated limit at S = 0.1 is 1.0898 V.
+    // docs/methods.md §8 A: log-interpolated limit at S = 0.1 is 1.0898 V.
     expect(raw.commonCriterion.applied).toBe(true);
     expect(raw.commonCriterion.anodicV).toBeCloseTo(1.0898, 3);
     const own = s01.find((x) => x.handle === stated.handle)!;
@@ -202,10 +202,10 @@ describe('the upload flow', () => {
     expect(own.commonCriterion.reason).toMatch(/own criterion/);
 
     // At S = 0.01 the crossing lies between the 0.9 V and 1.0 V vertices: log10-interpolating the
-    // METHODS.md §8 A S-values 6.257e-3 and 0.02640 gives 0.9 + 0.1·(−2 − log10 6.257e-3)/(log10 0.0264 − log10 6.257e-3) = 0.93257 V.
+    // docs/methods.md §8 A S-values 6.257e-3 and 0.02640 gives 0.9 + 0.1·(−2 − log10 6.257e-3)/(log10 0.0264 − log10 6.257e-3) = 0.93257 V.
     const s001 = (await get('s:0.01')).find((x) => x.handle === handle)!;
     expect(s001.commonCriterion.anodicV).toBeCloseTo(0.93257, 3);
-    // CE ≥ 90.91 % is S ≤ 0.1 (CE = 1/(1+S), METHODS.md §1).
+    // CE ≥ 90.91 % is S ≤ 0.1 (CE = 1/(1+S), docs/methods.md §1).
     const ce = (await get('ce:90.909%')).find((x) => x.handle === handle)!;
     expect(ce.commonCriterion.anodicV).toBeCloseTo(1.0898, 3);
     // A current cutoff does not apply to window-opening CV: the record keeps its own criterion.

@@ -17,7 +17,7 @@ import TermInput from './TermInput.tsx';
 // Steps 1–4 of the contribute form: the electrolyte, the electrode and cell, the method with its
 // criterion and the reported limits, and the source with licence and visibility.
 
-/** Safety reminders for the chosen materials (METHODS.md §9), deferring to local rules. */
+/** Safety reminders for the chosen materials (docs/methods.md §9), deferring to local rules. */
 export function Cautions() {
   const v = useWatch<FormValues>() as FormValues;
   const ids = [

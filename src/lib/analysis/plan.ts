@@ -1,7 +1,7 @@
 import { AnalysisError } from './errors';
 
 // A window-opening schedule: vertices stepping outward from a start potential, one direction per
-// cell, and how long the sweeps take at a given scan rate (METHODS.md §7, common practice).
+// cell, and how long the sweeps take at a given scan rate (docs/methods.md §7, common practice).
 
 export interface PlanInput {
   /** Start (and return) potential, near open circuit (V). */

@@ -6,7 +6,7 @@ import { unitFactor } from './units';
 
 /**
  * Model data for tests, benchmarks and demos: the window-opening CV and the potentiostatic holds
- * of METHODS.md §8, and a linear sweep, written out as export text in many shapes.
+ * of docs/methods.md §8, and a linear sweep, written out as export text in many shapes.
  */
 
 /** Samples of a model in s, V, A (IUPAC sign); cycle and step numbers are 1-based. */
@@ -85,7 +85,7 @@ function tafelCurrent(t: Tafel | null, e: number, dir: Direction): number {
     : -t.i0A * 10 ** ((t.onsetV - e) / t.slopeVPerDecade);
 }
 
-/** Window-opening CV: a capacitor plus an irreversible Tafel current (METHODS.md §8 A by default). */
+/** Window-opening CV: a capacitor plus an irreversible Tafel current (docs/methods.md §8 A by default). */
 export interface CvModel {
   capacitanceF?: number;
   scanRateVPerS?: number;
@@ -162,7 +162,7 @@ export function cvWindowOpeningSamples(model: CvModel = {}): ModelSamples {
   );
 }
 
-/** Closed-form S-value of the CV model for a vertex (METHODS.md §8 A), valid while the return current stays cathodic. */
+/** Closed-form S-value of the CV model for a vertex (docs/methods.md §8 A), valid while the return current stays cathodic. */
 export function cvModelS(vertexV: number, model: CvModel = {}): number {
   const c = model.capacitanceF ?? 0.01;
   const v = model.scanRateVPerS ?? 0.005;
@@ -181,7 +181,7 @@ export function cvModelS(vertexV: number, model: CvModel = {}): number {
   return qPos / qNeg - 1;
 }
 
-/** Potentiostatic holds: Tafel leakage plus a decaying charging current a/√t (METHODS.md §8 D by default). */
+/** Potentiostatic holds: Tafel leakage plus a decaying charging current a/√t (docs/methods.md §8 D by default). */
 export interface HoldModel {
   stepsV?: number[];
   holdS?: number;

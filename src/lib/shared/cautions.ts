@@ -1,4 +1,4 @@
-// Safety cautions for the materials of a window record or a planned experiment (METHODS.md §9).
+// Safety cautions for the materials of a window record or a planned experiment (docs/methods.md §9).
 // Pure data and matching by vocabulary ids; no imports, so pages and islands can both use it.
 // The cautions point readers to their own rules; they never replace them.
 

@@ -25,7 +25,7 @@ function cli(args: string[]) {
 }
 
 describe('command line', () => {
-  it('prints one JSON object with the stable names for a CV file (METHODS.md §8 A model, vs SCE reported vs SHE)', () => {
+  it('prints one JSON object with the stable names for a CV file (docs/methods.md §8 A model, vs SCE reported vs SHE)', () => {
     const file = join(dir, 'cv.txt');
     // Opposite sign convention, decimal comma, semicolons, µA and mV, no time column.
     writeFileSync(
@@ -83,7 +83,7 @@ describe('command line', () => {
     expect(out.reference.offsetV).toBe(0.2412);
   });
 
-  it('prints steps for holds (METHODS.md §8 D model)', () => {
+  it('prints steps for holds (docs/methods.md §8 D model)', () => {
     const file = join(dir, 'hold.csv');
     writeFileSync(file, formatExport(holdSamples()));
     const r = cli([

@@ -13,7 +13,7 @@ import {
 } from '#lib/analysis/index.ts';
 import { expectToDigits } from '../../support/digits';
 
-// METHODS.md §8 A model: C = 0.010 F, v = 5 mV/s, start 0 V, vertices 0.7…1.1 V, Tafel current
+// docs/methods.md §8 A model: C = 0.010 F, v = 5 mV/s, start 0 V, vertices 0.7…1.1 V, Tafel current
 // 1.0e-5 A·10^((E − 1.0 V)/0.150 V) on both sweeps. Sampled every 0.05 s (0.25 mV) so trapezoid
 // error stays far below the digits checked.
 const FINE = 0.05;
@@ -49,7 +49,7 @@ describe('S-value and charges, by hand', () => {
     expect(sValue({ qPosC: 1.1, qNegC: 1 }, 'anodic')).toBeCloseTo(0.1, 15);
     expect(sValue({ qPosC: 1, qNegC: 1.1 }, 'cathodic')).toBeCloseTo(0.1, 15);
     expect(sValue({ qPosC: 1, qNegC: 0 }, 'anodic')).toBe(Infinity);
-    // METHODS.md §1: S = 0.1 ↔ CE 90.91 %; CE 99 % ↔ S 0.0101 (from the definition of Weingarth,
+    // docs/methods.md §1: S = 0.1 ↔ CE 90.91 %; CE 99 % ↔ S 0.0101 (from the definition of Weingarth,
     // Noh, Foelske-Schmitz, Wokaun, Kötz, "A reliable determination method of stability limits for
     // electrochemical double layer capacitors", Electrochimica Acta 103 (2013) 119–124 — from memory).
     expectToDigits(ceFromS(0.1) * 100, '90.91');
@@ -57,10 +57,10 @@ describe('S-value and charges, by hand', () => {
   });
 });
 
-describe('METHODS.md §8 A: window-opening CV generated, written and read back', () => {
-  // Check values derived in METHODS.md §8 A from the S-value of Weingarth, Noh, Foelske-Schmitz,
+describe('docs/methods.md §8 A: window-opening CV generated, written and read back', () => {
+  // Check values derived in docs/methods.md §8 A from the S-value of Weingarth, Noh, Foelske-Schmitz,
   // Wokaun, Kötz, Electrochimica Acta 103 (2013) 119–124 (from memory); cutoff 0.1 is common practice.
-  // METHODS.md gives CE only at the ends (0.99963 … 0.89578); the three between are CE = 1/(1 + S)
+  // docs/methods.md gives CE only at the ends (0.99963 … 0.89578); the three between are CE = 1/(1 + S)
   // of the §8 A closed form, rounded to the same five digits.
   const expected: [number, string, string][] = [
     [0.7, '3.723e-4', '0.99963'],

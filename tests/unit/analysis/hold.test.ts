@@ -8,7 +8,7 @@ import {
 } from '#lib/analysis/index.ts';
 import { expectToDigits } from '../../support/digits';
 
-// METHODS.md §8 D: active mass 2.0 mg, 1200 s holds at 0.80…1.00 V in 50 mV steps, current
+// docs/methods.md §8 D: active mass 2.0 mg, 1200 s holds at 0.80…1.00 V in 50 mV steps, current
 // I = 1e-6 A·10^((E − 0.80)/0.100) + 2.0e-4 A·s^½/√t, cutoff 10 mA/g (2.0e-5 A). Leakage at the
 // end of each hold, log-linear interpolation between steps: common practice [cp]; holds as a test
 // of stability: Nunes et al., Scientific Reports 10 (2020), DOI 10.1038/s41598-020-75851-7.
@@ -16,7 +16,7 @@ const THREE_COLUMNS = {
   columns: ['time', 'potential', 'current'] as ('time' | 'potential' | 'current')[],
 };
 
-describe('METHODS.md §8 D: potentiostatic holds generated, written and read back', () => {
+describe('docs/methods.md §8 D: potentiostatic holds generated, written and read back', () => {
   it('reproduces end-of-hold currents and the limit (end current = last sample, as the check values are)', () => {
     // The §8 D currents are the model at t = 1200 s exactly, so the tail fraction is 0 (last sample).
     const text = formatExport(holdSamples(), { ...THREE_COLUMNS, units: { current: 'uA' } });

@@ -14,7 +14,7 @@ import {
 
 // The envelope of a linear sweep: the limit at any other current cutoff, found again without the
 // curve. The engine's own `lsvLimit` on the full curve is the reference throughout; check values
-// from METHODS.md are named where they are used.
+// from docs/methods.md are named where they are used.
 
 const tafel = { i0A: 1e-6, onsetV: 1.0, slopeVPerDecade: 0.12 };
 
@@ -135,7 +135,7 @@ describe('linear sweep envelope', () => {
         lsvLimit(s.potential, s.current, { cutoff: c, divisor: 0.5 }).limit,
       );
     }
-    // METHODS.md §2: each tenfold change of the cutoff moves the limit by one Tafel slope (0.12 V here).
+    // docs/methods.md §2: each tenfold change of the cutoff moves the limit by one Tafel slope (0.12 V here).
     const a = lsvLimitFromEnvelope(env, 10e-6, 0.5).interpolatedV!;
     const b = lsvLimitFromEnvelope(env, 100e-6, 0.5).interpolatedV!;
     expect(Math.abs(b - a - 0.12)).toBeLessThan(2e-5);
@@ -204,7 +204,7 @@ describe('linear sweep envelope', () => {
   });
 
   it('travels in the analysis result, moved to the reported scale with the limit', () => {
-    // A cathodic sweep vs SCE reported vs SHE (+0.2412 V, Bard & Faulkner, METHODS.md §4).
+    // A cathodic sweep vs SCE reported vs SHE (+0.2412 V, Bard & Faulkner, docs/methods.md §4).
     const text = formatExport(
       lsvSamples({
         startV: 0,

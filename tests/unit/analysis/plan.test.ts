@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { windowOpeningPlan } from '#lib/analysis/plan.ts';
 
-// Window-opening schedule (METHODS.md §7, common practice): a cycle runs out to the vertex and
+// Window-opening schedule (docs/methods.md §7, common practice): a cycle runs out to the vertex and
 // back, so it takes 2·|E_vertex − E_start| / v.
 
 const base = {

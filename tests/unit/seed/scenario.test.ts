@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
-import { analyzeText, waterWindow } from '#lib/analysis/index.ts';
+import { analyzeText, convertPotential, waterWindow } from '#lib/analysis/index.ts';
 import { TRANSITIONS, EDITABLE } from '#lib/server/record-status.ts';
 import {
   CELL_TYPES,
@@ -300,7 +300,7 @@ describe('raw files through the engine', () => {
     );
   });
 
-  it('slower scans give narrower windows (common practice; METHODS.md §8 A)', () => {
+  it('slower scans give narrower windows (common practice; docs/methods.md §8 A)', () => {
     const groups = inSeries('scan:');
     expect(groups.length).toBeGreaterThanOrEqual(4);
     for (const [name, rs] of groups) {
@@ -320,7 +320,7 @@ describe('raw files through the engine', () => {
   it('stricter criteria give narrower windows', () => {
     const strictness = (r: ScenarioRecord) => {
       const c = r.content.criterion!;
-      // Smaller S-value or current cutoff is stricter; CE converts to S = 1/CE − 1 (METHODS.md §1).
+      // Smaller S-value or current cutoff is stricter; CE converts to S = 1/CE − 1 (docs/methods.md §1).
       return c.kind === 'ce' ? 100 / c.threshold - 1 : c.threshold;
     };
     const groups = [...inSeries('crit:'), ...inSeries('crit-lsv:')];
@@ -338,6 +338,62 @@ describe('raw files through the engine', () => {
     expect(limits(rec('acn-gc-cv5-ce99')).anodic!).toBeLessThan(limits(rec('acn-gc-cv5')).anodic!);
   });
 
+  it('neutral salt solutions have the wider practical window on glassy carbon; strong acid and base the narrower', () => {
+    // Common practice: in an unbuffered neutral electrolyte the surface turns alkaline at the
+    // cathode and acidic at the anode, which moves both decomposition lines outward.
+    const width = (key: string) => limits(rec(key)).anodic! - limits(rec(key)).cathodic!;
+    const neutral = width('k2so4-ph7-gc-lsv');
+    for (const key of ['h2so4-gc-lsv', 'koh-gc-lsv', 'k2so4-ph3-gc-lsv', 'k2so4-ph11-gc-lsv'])
+      expect(width(key), key).toBeLessThan(neutral - 0.1);
+    expect(width('h2so4-gc-lsv')).toBeLessThan(width('k2so4-ph3-gc-lsv'));
+    expect(width('koh-gc-lsv')).toBeLessThan(width('k2so4-ph11-gc-lsv'));
+    // Usual practical windows of glassy carbon in dilute aqueous electrolytes by LSV at
+    // 10–50 µA cm⁻²: about 2.4 V at most (common practice, from memory).
+    const dilute = scenario.records.filter(
+      (r) =>
+        r.content.electrolyte.solvents?.some((x) => x.term === 'water') &&
+        r.content.workingElectrode.material === 'GC' &&
+        r.content.method.kind === 'lsv' &&
+        r.content.electrolyte.salts!.every((x) => x.concentration.value <= 1) &&
+        limits(r).anodic !== undefined &&
+        limits(r).cathodic !== undefined,
+    );
+    expect(dilute.length).toBeGreaterThanOrEqual(5);
+    for (const r of dilute) {
+      const w = limits(r).anodic! - limits(r).cathodic!;
+      expect(w, r.key).toBeGreaterThan(1.8);
+      expect(w, r.key).toBeLessThan(2.55);
+    }
+    // 17 mol/kg NaClO4 on glassy carbon at 10 µA cm⁻²: about 2.7 V (common practice, from memory).
+    expect(width('naclo4-17-gc-lsv')).toBeGreaterThan(2.55);
+    expect(width('naclo4-17-gc-lsv')).toBeLessThan(2.85);
+  });
+
+  it('a symmetric activated-carbon cell in 6 M KOH stops near 0.8–1.0 V, one in neutral sulfate near 1.6–1.8 V', () => {
+    // Usual cell voltages of aqueous activated-carbon supercapacitors (common practice, from memory).
+    const koh = limits(rec('cell-koh6')).anodic!;
+    expect(koh).toBeGreaterThan(0.8);
+    expect(koh).toBeLessThan(1.0);
+    const sulfate = limits(rec('cell-na2so4')).anodic!;
+    expect(sulfate).toBeGreaterThan(1.5);
+    expect(sulfate).toBeLessThan(1.9);
+  });
+
+  it('hydrogen evolution on platinum in 0.5 M H2SO4 reaches 50 µA cm⁻² near 0 V vs RHE', () => {
+    // Platinum is the fastest HER catalyst: exchange current density about 1 mA cm⁻² in acid
+    // (common practice, from memory), so the cathodic limit sits within tens of mV of the RHE line.
+    const r = rec('h2so4-pt-lsv');
+    expect(r.content.criterion).toEqual({ kind: 'j-area', threshold: 50 });
+    const ctx = {
+      pH: r.content.electrolyte.pH!,
+      temperatureK: r.content.temperatureC! + 273.15,
+    };
+    const scale = REFERENCES[r.content.referenceElectrode as keyof typeof REFERENCES];
+    const vsRhe = convertPotential(limits(r).cathodic!, scale, 'RHE', ctx);
+    expect(vsRhe).toBeLessThan(0);
+    expect(vsRhe).toBeGreaterThan(-0.06);
+  });
+
   it('water-in-salt electrolytes are wider than dilute ones, and wider than the thermodynamic 1.229 V', () => {
     const groups = inSeries('wis:').filter(([n]) => !n.endsWith('-none'));
     expect(groups.length).toBeGreaterThanOrEqual(3);
@@ -347,7 +403,7 @@ describe('raw files through the engine', () => {
       const width = (r: ScenarioRecord) => limits(r).anodic! - limits(r).cathodic!;
       for (let i = 1; i < sorted.length; i++)
         expect(width(sorted[i - 1]!), name).toBeLessThan(width(sorted[i]!));
-      // METHODS.md §5: the thermodynamic width is 1.229 V at any pH.
+      // docs/methods.md §5: the thermodynamic width is 1.229 V at any pH.
       expect(width(sorted.at(-1)!)).toBeGreaterThan(waterWindow(7).widthV + 1);
     }
   });
