@@ -392,3 +392,136 @@ describe('the OpenAPI document', () => {
     expect(doc.components.schemas.CreateRecord.additionalProperties).toBe(false);
   });
 });
+
+describe('what a conversion is worth', () => {
+  // Reference values and uncertainties of docs/methods.md §4: SCE 0.2412 V ± 3 mV (Bard &
+  // Faulkner; spread of table values, common practice), Ag/AgCl without a filling 0.197 V ± 40 mV.
+  const conv = tag('conv');
+  const own: Record<string, string> = {};
+  const water = {
+    solvents: [{ term: 'water', fraction: 1 }],
+    salts: [{ term: 'Na2SO4', concentration: { value: 1, basis: 'mol/L' as const } }],
+    pH: 7,
+  };
+  const both = (reference: string) => ({
+    cathodic: { valueV: -1.0, reference },
+    anodic: { valueV: 1.0, reference },
+  });
+  type Item = {
+    handle: string;
+    limits: { anodic: { uncertaintyV: number | null; conversionFlags: string[]; exact: boolean } };
+    onScale: {
+      anodic: number | null;
+      uncertaintyV: { anodic: number | null };
+      conversionFlags: string[];
+      approximate: boolean;
+      exact: boolean;
+    };
+  };
+  const find = async (query: string) => {
+    const res = await as(null, `/api/v1/records?q=${conv}&sort=handle&${query}`);
+    expect(res.status).toBe(200);
+    return (await res.json()) as { items: Item[] };
+  };
+  const item = (r: { items: Item[] }, key: string) => r.items.find((i) => i.handle === own[key])!;
+
+  beforeAll(async () => {
+    const mk = async (key: string, over: NonNullable<Parameters<typeof makeRecord>[0]>['over']) => {
+      const { record } = await makeRecord({
+        status: 'published',
+        over: { title: `${key} ${conv}`, ...over },
+      });
+      own[key] = record.handle;
+    };
+    await mk('sceWater', {
+      electrolyte: water,
+      referenceElectrode: 'SCE',
+      temperatureC: 25,
+      reportedLimits: both('SCE'),
+    });
+    await mk('agWater', {
+      electrolyte: water,
+      referenceElectrode: 'Ag/AgCl',
+      temperatureC: 25,
+      reportedLimits: both('Ag/AgCl'),
+    });
+    await mk('sceAcn', {
+      electrolyte: {
+        solvents: [{ term: 'MeCN', fraction: 1 }],
+        salts: [{ term: 'TEABF4', concentration: { value: 1, basis: 'mol/L' } }],
+      },
+      referenceElectrode: 'SCE',
+      temperatureC: 25,
+      reportedLimits: both('SCE'),
+    });
+    await mk('hgoWarm', {
+      electrolyte: { ...water, pH: 14 },
+      referenceElectrode: 'Hg/HgO, 1 M KOH',
+      temperatureC: 60,
+      reportedLimits: both('Hg/HgO, 1 M KOH'),
+    });
+    await mk('sceWarm', {
+      electrolyte: water,
+      referenceElectrode: 'SCE',
+      temperatureC: 45,
+      reportedLimits: both('SCE'),
+    });
+  });
+
+  it('carries the uncertainty and flags of each converted limit', async () => {
+    const r = await find('');
+    const sce = item(r, 'sceWater');
+    expect(sce.onScale.anodic).toBeCloseTo(1.2412, 9);
+    expect(sce.onScale.uncertaintyV.anodic).toBeCloseTo(0.003, 9);
+    expect(sce.onScale.exact).toBe(true);
+    expect(sce.limits.anodic).toMatchObject({ conversionFlags: [], exact: true });
+    // "Ag/AgCl" without its filling is not read as saturated KCl: ± 40 mV, not exact.
+    const ag = item(r, 'agWater');
+    expect(ag.onScale.anodic).toBeCloseTo(1.197, 9);
+    expect(ag.onScale.uncertaintyV.anodic).toBeCloseTo(0.04, 9);
+    expect(ag.onScale.conversionFlags).toEqual(['filling-not-stated']);
+    expect(ag.onScale.exact).toBe(false);
+    // An aqueous SCE in acetonitrile: the junction potential is unknown, so approximate.
+    const acn = item(r, 'sceAcn');
+    expect(acn.onScale.conversionFlags).toEqual(['liquid-junction']);
+    expect(acn.onScale.approximate).toBe(true);
+    // At 60 °C Hg/HgO keeps its 25 °C value, and says so; SCE at 45 °C moves by −0.66 mV/K
+    // (Bard & Faulkner's polynomial, linear term, from memory): 1.0 + 0.2412 − 0.0132 V.
+    expect(item(r, 'hgoWarm').onScale.conversionFlags).toEqual(['reference-at-25c']);
+    const warm = item(r, 'sceWarm');
+    expect(warm.onScale.anodic).toBeCloseTo(1.228, 9);
+    expect(warm.onScale.conversionFlags).toEqual(['temperature-corrected']);
+    expect(warm.onScale.exact).toBe(true);
+    // Back on the record's own scale the conversion cancels: the reported number, exact.
+    const onSce = item(await find('scale=SCE'), 'sceAcn');
+    expect(onSce.onScale.anodic).toBeCloseTo(1.0, 9);
+    expect(onSce.onScale).toMatchObject({ exact: true, conversionFlags: [] });
+    expect(onSce.onScale.uncertaintyV.anodic).toBe(0);
+  });
+
+  it('restricts a comparison to exact conversions, or to one reference electrode', async () => {
+    const hs = (r: { items: Item[] }) => r.items.map((i) => i.handle).sort();
+    expect(hs(await find('conversion=exact'))).toEqual([own.sceWater!, own.sceWarm!].sort());
+    expect(hs(await find('reference=SCE'))).toEqual(
+      [own.sceWater!, own.sceAcn!, own.sceWarm!].sort(),
+    );
+    expect(hs(await find('reference=Ag%2FAgCl'))).toEqual([own.agWater!]);
+    expect((await as(null, '/api/v1/records?conversion=maybe')).status).toBe(400);
+  });
+
+  it('exports the uncertainty and the conversion beside each converted limit', async () => {
+    const res = await api(`/api/v1/exports?format=csv&q=${conv}&sort=handle`);
+    const rows = parseCsv(await res.text(), { columns: true }) as Record<string, string>[];
+    const row = (key: string) => rows.find((x) => x.handle === own[key])!;
+    expect(Number(row('agWater').anodic_on_scale_uncertainty_v)).toBeCloseTo(0.04, 9);
+    expect(row('agWater').conversion).toBe('filling-not-stated');
+    expect(row('sceAcn').conversion).toBe('approximate+liquid-junction');
+    expect(row('sceWater').conversion).toBe('exact');
+    const csl = JSON.parse(
+      await (await api(`/api/v1/exports?format=csljson&q=${conv}&sort=handle`)).text(),
+    ) as { id: string; note: string }[];
+    expect(csl.find((x) => x.id.startsWith(own.agWater!))!.note).toContain(
+      'conversion filling-not-stated (± 40 mV)',
+    );
+  });
+});
