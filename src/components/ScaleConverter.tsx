@@ -259,6 +259,13 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
                 {Math.abs(outcome.info.offsetV).toFixed(4)} V
               </span>
             </p>
+            <p className={`mt-1 text-sm ${muted}`} data-testid="scale-uncertainty">
+              {outcome.info.uncertaintyV > 0
+                ? `Good to ± ${Math.round(outcome.info.uncertaintyV * 1000)} mV (spread of the table values${outcome.info.flags.includes('filling-not-stated') ? ', filling not stated' : ''})`
+                : 'No uncertainty from the tables'}
+              {outcome.info.approximate ? ', plus an unknown term (see below).' : '.'} The reference
+              potentials are their 25 °C values.
+            </p>
             <table className="mt-4 w-full text-sm">
               <caption className="sr-only">Values used</caption>
               <thead>
@@ -303,7 +310,9 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
                 className="mt-4 rounded-md border border-copper/40 bg-copper-soft/50 dark:bg-copper/15 p-3 text-sm"
                 data-testid="scale-warning"
               >
-                Approximate: {w.replace(/^conversion between \S+ and \S+ is approximate: /, '')}.
+                {/^conversion between \S+ and \S+ is approximate: /.test(w)
+                  ? `Approximate: ${w.replace(/^conversion between \S+ and \S+ is approximate: /, '')}.`
+                  : `Note: ${w}.`}
               </p>
             ))}
           </>
