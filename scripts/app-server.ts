@@ -53,13 +53,14 @@ applySecurityHeaders(baseline, { https: false });
  */
 function accessLog(req: http.IncomingMessage, res: http.ServerResponse, id: string) {
   const started = process.hrtime.bigint();
+  const method = req.method; // as sent (an unanswerable one is renamed on its way to Astro)
   res.once('close', () => {
     const ms = Number(process.hrtime.bigint() - started) / 1e6;
     const path = (req.url ?? '/').split('?', 1)[0];
     log().info(
       {
         reqId: id,
-        method: req.method,
+        method,
         route: takeRoute(id) ?? path,
         path,
         status: res.statusCode,
@@ -70,6 +71,8 @@ function accessLog(req: http.IncomingMessage, res: http.ServerResponse, id: stri
     );
   });
 }
+
+const FETCH_FORBIDDEN_METHODS = new Set(['CONNECT', 'TRACE', 'TRACK']);
 
 const server = http.createServer((req, res) => {
   for (const [name, value] of baseline) res.setHeader(name, value);
@@ -89,8 +92,12 @@ const server = http.createServer((req, res) => {
       .end('Bad request: the path is not valid percent-encoding.');
     return;
   }
-  if (pathname.startsWith(ASSETS) || topLevelFiles.has(pathname)) serveStatic(req, res, pathname);
-  else void entry.handler(req, res);
+  // The Fetch API cannot carry these methods into Astro (constructing the request throws); they
+  // reach the middleware under a name no route answers, which refuses them with 405 and Allow.
+  if (FETCH_FORBIDDEN_METHODS.has(req.method ?? '')) req.method = 'UNANSWERED';
+  else if (pathname.startsWith(ASSETS) || topLevelFiles.has(pathname))
+    return serveStatic(req, res, pathname);
+  void entry.handler(req, res);
 });
 server.keepAliveTimeout = 5_000;
 const host = process.env.HOST ?? '127.0.0.1';
@@ -102,3 +109,9 @@ server.listen(port, host, () =>
 const stop = () => server.close(() => process.exit(0));
 process.on('SIGTERM', stop);
 process.on('SIGINT', stop);
+
+// A promise nobody awaited that fails (a background job during a database outage, say) is
+// logged; it must not end a server whose requests are all answered by their own handlers.
+process.on('unhandledRejection', (reason) => {
+  log().error({ err: reason }, 'unhandled rejection');
+});

@@ -19,9 +19,23 @@ export function createDb(connectionString: string, max = 10): Db {
     connectionTimeoutMillis: 5_000,
     idleTimeoutMillis: 30_000,
   });
-  // A dropped connection (server restart) must not crash the process; the pool replaces it.
-  pool.on('error', () => {});
+  // A dropped connection (server restart, crash, `pg_ctl stop -m immediate`) must not crash the
+  // process. An idle client's error reaches the pool; a client checked out for a query or a
+  // transaction emits its error on itself, where an unheard 'error' event would end the process.
+  // The query under way fails with the same error (503 at the boundary) and the pool discards the
+  // client, so serving resumes by itself once PostgreSQL is back.
+  pool.on('error', (err) => noteConnectionLost(err));
+  pool.on('connect', (client) => client.on('error', (err) => noteConnectionLost(err)));
   return new Kysely<Database>({ dialect: new PostgresDialect({ pool }) });
+}
+
+let lastLogged = 0;
+/** Logs a lost database connection, at most once a second (an outage drops every client at once). */
+function noteConnectionLost(err: Error): void {
+  const now = Date.now();
+  if (now - lastLogged < 1_000) return;
+  lastLogged = now;
+  console.error(`[edgewise] database connection lost: ${err.message}`);
 }
 
 /** The process's single Kysely instance. */
