@@ -3,6 +3,7 @@ import { config } from './lib/server/config.ts';
 import { applySecurityHeaders } from './lib/server/http/headers.ts';
 import { checkStateChangingRequest } from './lib/server/http/origin.ts';
 import { problem } from './lib/server/http/problem.ts';
+import { apiMethodTable, boundaryRefusal } from './lib/server/http/boundary.ts';
 import { toProblem } from './lib/server/http/route.ts';
 import { noteRoute, REQUEST_ID_HEADER } from './lib/server/log.ts';
 import { resolvePrincipal } from './lib/server/auth/principal.ts';
@@ -17,6 +18,9 @@ startJobs();
 const FORM_ROUTES = [/^\/api\/auth\//];
 const MULTIPART_ROUTES = [/^\/api\/v1\/analyses$/];
 
+// The methods each API route answers, from its page file's exports (loaded when first asked).
+const apiMethods = apiMethodTable(import.meta.glob('./pages/api/**/*.ts'), './pages');
+
 export const onRequest = defineMiddleware(async (context, next) => {
   const url = context.url;
   const own = new URL(config().PUBLIC_ORIGIN).origin;
@@ -27,7 +31,11 @@ export const onRequest = defineMiddleware(async (context, next) => {
   const isApi = url.pathname.startsWith('/api/');
   const reqId = context.request.headers.get(REQUEST_ID_HEADER);
   noteRoute(reqId, context.routePattern);
-  {
+  // Methods a route does not answer (405 with Allow) and text no request may carry (400).
+  const refusedAtBoundary = await boundaryRefusal(context.request, url, apiMethods);
+  if (refusedAtBoundary) {
+    response = refusedAtBoundary;
+  } else {
     // Pages take same-origin form posts; JSON routes take JSON only, except the listed ones.
     const opts = {
       allowForm: !isApi || FORM_ROUTES.some((r) => r.test(url.pathname)),

@@ -236,12 +236,12 @@ export const ROWS: Row[] = [
     path: '/api/v1/records/{draft}',
     prepare: async (_h, v) => ({ draft: await labDraft(v.labA!) }),
   }),
-  row('PUT', '/api/v1/records/[handle]', '404 404 403 200 404 404 404', {
+  row('PUT', '/api/v1/records/[handle]', '401 404 403 200 404 404 404', {
     path: '/api/v1/records/{draft}',
     json: { version: 1, changeNote: 'matrix edit', content: content({ visibility: 'lab' }) },
     prepare: async (_h, v) => ({ draft: await labDraft(v.labA!) }),
   }),
-  row('POST', '/api/v1/records/[handle]/transitions', '404 404 403 200 404 404 404', {
+  row('POST', '/api/v1/records/[handle]/transitions', '401 404 403 200 404 404 404', {
     path: '/api/v1/records/{draft}/transitions',
     json: { action: 'submit', version: 1 },
     prepare: async (_h, v) => ({ draft: await labDraft(v.labA!) }),
@@ -258,7 +258,7 @@ export const ROWS: Row[] = [
     path: '/api/v1/records/{pub}/diff?from=1&to=1',
     prepare: async () => ({ pub: await publishedRecord() }),
   }),
-  row('POST', '/api/v1/uploads', '404 404 403 201 404 404 404', {
+  row('POST', '/api/v1/uploads', '401 404 403 201 404 404 404', {
     json: (v: Vars) => ({
       record: v.draft,
       name: 'run.csv',
@@ -273,7 +273,7 @@ export const ROWS: Row[] = [
     path: '/api/v1/uploads/{upload}',
     prepare: async (_h, v) => ({ upload: await pendingUpload(v.labA!) }),
   }),
-  row('POST', '/api/v1/uploads/[id]/complete', '404', {
+  row('POST', '/api/v1/uploads/[id]/complete', '401 404 404 404 404 404 404', {
     path: '/api/v1/uploads/{upload}/complete',
     prepare: async (_h, v) => ({ upload: await pendingUpload(v.labA!) }),
   }),

@@ -85,7 +85,7 @@ describe('the upload flow', () => {
     expect(res.status).toBe(201);
     expect(ticket.status).toBe('pending');
     expect(ticket.url).toContain('X-Amz-Expires=300');
-    expect(ticket.url).toMatch(/\/raw\/[0-9a-f-]{36}\?/); // a server-generated key, not the file name
+    expect(ticket.url).toMatch(/\/uploads\/[0-9a-f-]{36}\?/); // a server-generated key, not the file name
     expect((await put(ticket, cvFile)).status).toBe(200);
 
     const done = await complete(ticket.id);
@@ -127,10 +127,12 @@ describe('the upload flow', () => {
     expect(body.record.version).toBe(2);
     const files = await appDb()
       .selectFrom('raw_files')
-      .select('id')
-      .where('object_key', '=', `raw/${u.id}`)
+      .innerJoin('records', 'records.id', 'raw_files.record_id')
+      .select('raw_files.object_key')
+      .where('records.handle', '=', handle)
       .execute();
-    expect(files).toHaveLength(1);
+    // One file, stored under the key its content names (never the upload URL's key).
+    expect(files).toEqual([{ object_key: `raw/sha256/${sha(cvFile)}` }]);
   });
 
   it('downloads through the server as an attachment with a safe name; not for those who cannot see the record', async () => {
@@ -447,7 +449,7 @@ describe('uploads that go wrong', () => {
       .executeTakeFirstOrThrow();
     expect(row.status).toBe('failed');
     expect(row.raw_file_id).toBeNull();
-    expect(await getObjectBytes(`raw/${ticket.id}`)).toBeNull();
+    expect(await getObjectBytes(`uploads/${ticket.id}`)).toBeNull();
     const r = await (await as(owner, `/api/v1/records/${rec.handle}`)).json();
     expect(r.rawFiles).toEqual([]);
     expect(r.version).toBe(1);
@@ -509,7 +511,7 @@ describe('uploads that go wrong', () => {
     expect(r.analyses[0].parameters.vertexToleranceV).toBe(0.004);
   });
 
-  it('keeps uploads to their owner: anyone else gets the same 404 as for a missing id', async () => {
+  it('keeps uploads to their owner: anyone else signed in gets the same 404 as for a missing id', async () => {
     const rec = await newRecord();
     const { json: ticket } = await declare(rec.handle, cvFile);
     expect((await complete(ticket.id, other)).status).toBe(404);
@@ -535,7 +537,7 @@ describe('uploads that go wrong', () => {
           mediaType: 'text/csv',
         })
       ).status,
-    ).toBe(404);
+    ).toBe(401); // anonymous: sign in first, whatever the record (nothing about it is told)
     expect(
       (
         await asJson(owner, '/api/v1/uploads', 'POST', {
@@ -553,7 +555,7 @@ describe('uploads that go wrong', () => {
   it('cleans pending uploads whose URL expired long ago, and their objects', async () => {
     const rec = await newRecord();
     const { json: stale } = await declare(rec.handle, cvFile);
-    await putObject(`raw/${stale.id}`, cvFile, 'text/csv');
+    await putObject(`uploads/${stale.id}`, cvFile, 'text/csv');
     const { json: fresh } = await declare(rec.handle, cvFile);
     await appDb()
       .updateTable('uploads')
@@ -571,7 +573,7 @@ describe('uploads that go wrong', () => {
       [stale.id]: 'expired',
       [fresh.id]: 'pending',
     });
-    expect(await getObjectBytes(`raw/${stale.id}`)).toBeNull();
+    expect(await getObjectBytes(`uploads/${stale.id}`)).toBeNull();
     expect((await complete(stale.id)).status).toBe(409);
   });
 

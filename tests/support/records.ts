@@ -123,7 +123,7 @@ export async function labRawFile(lab: string): Promise<string> {
   const { putObject } = await import('#lib/server/storage.ts');
   const { owner, record } = await makeRecord({ lab, over: { visibility: 'lab' } });
   const t = await declareUpload(appDb(), owner, uploadBody(record.handle, smallCv));
-  await putObject(`raw/${t.id}`, smallCv, 'text/csv');
+  await putObject(`uploads/${t.id}`, smallCv, 'text/csv');
   return (await completeUpload(appDb(), owner, t.id)).rawFile.id;
 }
 

@@ -12,6 +12,7 @@ import { insertDraft, prepareDraft, type PreparedDraft } from './records.ts';
 import { insertAuditEvent } from './repositories/audit.ts';
 import type { ImportResult } from '#lib/shared/answers.ts';
 export type { ImportResult };
+import { claimIdempotentChange } from './idempotency.ts';
 
 // Bulk import of stated records from the CSV template: every row is checked (shape, units,
 // vocabulary names, lab) before anything is written, then all drafts are written in one
@@ -128,6 +129,7 @@ export async function importRecords(
   }
 
   const records = await db.transaction().execute(async (trx) => {
+    await claimIdempotentChange(trx);
     const out: ImportResult['records'] = [];
     for (const r of ready)
       out.push({

@@ -1,11 +1,13 @@
 import { forgetOldMailRequests } from './auth/mail-limits.ts';
 import { db } from './db/index.ts';
 import { log } from './log.ts';
+import { forgetOldIdempotencyKeys } from './idempotency.ts';
 import { startOutbox } from './outbox.ts';
 import { cleanStaleUploads } from './uploads.ts';
 
 // Background work of a server process: mail delivery, removing uploads that were declared but
-// never completed (their objects too), and dropping mail-limit counters that no longer count.
+// never completed (their objects too), and dropping mail-limit counters and idempotency keys
+// that no longer count.
 // All are safe with several processes running.
 
 const CLEANUP_EVERY_MS = 10 * 60 * 1000;
@@ -18,6 +20,9 @@ export function startJobs(): void {
   startOutbox();
   const cleanup = () => {
     void cleanStaleUploads(db()).catch((err) => log().error({ err }, 'upload cleanup failed'));
+    void forgetOldIdempotencyKeys().catch((err) =>
+      log().error({ err }, 'idempotency-key cleanup failed'),
+    );
     void forgetOldMailRequests(db()).catch((err) =>
       log().error({ err }, 'mail-limit cleanup failed'),
     );

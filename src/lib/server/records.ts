@@ -12,7 +12,14 @@ import {
 import { z } from 'zod';
 import { AnalysisRefused, analyzeInWorker } from './analysis-pool.ts';
 import type { Db } from './db/index.ts';
-import { ConflictError, NotFoundError, UnavailableError, ValidationError } from './errors.ts';
+import {
+  ConflictError,
+  ForbiddenError,
+  NotFoundError,
+  UnauthorizedError,
+  UnavailableError,
+  ValidationError,
+} from './errors.ts';
 import {
   authorize,
   can,
@@ -58,7 +65,8 @@ import {
 import type { VocabularyTermRow } from './repositories/vocabulary.ts';
 import { config } from './config.ts';
 import { queueMail, wakeOutbox, type OutgoingMail } from './outbox.ts';
-import { getObjectBytes } from './storage.ts';
+import { claimIdempotentChange } from './idempotency.ts';
+import { readVerifiedRawFile } from './raw-objects.ts';
 import { resolveTerms } from './vocabulary.ts';
 import type {
   AnalysisView,
@@ -472,7 +480,10 @@ export async function createRecord(
   body: z.infer<typeof createRecordBody>,
 ): Promise<RecordDetail> {
   const draft = await prepareDraft(db, principal, body);
-  const handle = await db.transaction().execute((trx) => insertDraft(trx, draft));
+  const handle = await db.transaction().execute(async (trx) => {
+    await claimIdempotentChange(trx);
+    return insertDraft(trx, draft);
+  });
   return getRecord(db, principal, handle);
 }
 
@@ -528,7 +539,7 @@ async function reanalyse(
       keep.push(last);
       continue;
     }
-    const bytes = await getObjectBytes(f.object_key);
+    const bytes = await readVerifiedRawFile(f);
     if (same) {
       // Only brought up to date (a linear sweep analysed before the envelope was kept): the old
       // analysis stays when the file or the engine cannot give a new one.
@@ -810,7 +821,18 @@ export async function applyTransition(
 ): Promise<AppliedTransition> {
   const t = TRANSITIONS[body.action];
   const head = await visibleHead(trx, principal, handle, { lock: true });
+  await claimIdempotentChange(trx);
   const obj = policyObject(head);
+  // Who may make this move at all is asked first: a stale version or a wrong status (and the
+  // record's current version) is told only to someone who could make it from a status it starts from.
+  const mayMove = (o: RecordObject) =>
+    t.policy === 'flag.resolve'
+      ? can(principal, 'flag.resolve', { type: 'flag', reporterId: '', record: o })
+      : can(principal, t.policy as 'record.read', o);
+  if (!t.from.some((status) => mayMove({ ...obj, status }))) {
+    if (principal.kind === 'anonymous') throw new UnauthorizedError();
+    throw new ForbiddenError();
+  }
   if (body.version !== head.current_version) {
     await refuseIfDecided(trx, principal, head, body);
     throw new ConflictError(

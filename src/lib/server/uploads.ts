@@ -30,6 +30,8 @@ import {
   stalePendingUploads,
   type UploadRow,
 } from './repositories/uploads.ts';
+import { claimIdempotentChange } from './idempotency.ts';
+import { readVerifiedRawFile, sealVerifiedBytes, stagingKey } from './raw-objects.ts';
 import { deleteObject, getObjectBytes, presignPut } from './storage.ts';
 import { resolveTerms } from './vocabulary.ts';
 import type { UploadTicket, UploadResult } from '#lib/shared/answers.ts';
@@ -76,10 +78,11 @@ export async function declareUpload(
   );
   const user = principal as UserPrincipal;
   const id = randomUUID();
-  const key = `raw/${id}`;
+  const key = stagingKey(id);
   const expiresAt = new Date(Date.now() + UPLOAD_URL_SECONDS * 1000);
   const url = await presignPut(key, body.mediaType, UPLOAD_URL_SECONDS);
   await db.transaction().execute(async (trx) => {
+    await claimIdempotentChange(trx);
     await insertUpload(trx, {
       id,
       recordId: head.id,
@@ -215,12 +218,14 @@ export async function completeUpload(
     throw err;
   }
 
+  // The verified bytes themselves go to their content-addressed key, out of reach of the URL.
+  const objectKey = await sealVerifiedBytes(bytes, sha, u.media_type);
   const outcome = await db.transaction().execute(async (trx) => {
     const locked = (await getUpload(trx, u.id, { lock: true }))!;
     if (locked.status !== 'pending') return locked.status === 'complete' ? 'already' : 'gone';
     const rawFileId = await insertRawFile(trx, {
       recordId: u.record_id,
-      objectKey: u.object_key,
+      objectKey,
       originalName: u.declared_name,
       safeName: safeFileName(u.declared_name),
       bytes: bytes.byteLength,
@@ -256,7 +261,18 @@ export async function completeUpload(
   });
   if (outcome === 'gone')
     throw new ConflictError('this upload was cancelled meanwhile; declare the file again');
+  await dropStagingObject(u.object_key);
   return completedResult(db, (await getUpload(db, u.id))!);
+}
+
+/** Removes a staging object once its bytes are sealed; a failure leaves only an unused object. */
+async function dropStagingObject(key: string): Promise<void> {
+  await deleteObject(key).catch((err: unknown) =>
+    console.error(
+      `[edgewise] staging object ${key} not removed:`,
+      err instanceof Error ? err.message : err,
+    ),
+  );
 }
 
 /** The state of one of the principal's uploads. */
@@ -308,7 +324,7 @@ export async function downloadRawFile(
     { type: 'rawFile', record: policyObject(head) },
     { what: 'raw file' },
   );
-  const bytes = await getObjectBytes(f.object_key);
+  const bytes = await readVerifiedRawFile(f);
   if (!bytes) throw new NotFoundError('raw file');
   return {
     bytes,

@@ -100,6 +100,19 @@ export interface SignInFailureTable {
   at: Generated<Date>;
 }
 
+/** A creating request's `Idempotency-Key`, what the request was, and the answer it got. */
+export interface IdempotencyKeyTable {
+  user_id: string;
+  key: string;
+  fingerprint: string;
+  created_at: Generated<Date>;
+  lease_until: Date;
+  committed: Generated<boolean>;
+  status: number | null;
+  headers: ColumnType<Record<string, string> | null, string | null, string | null>;
+  body: Buffer | null;
+}
+
 /** Mail-sending requests per client address and messages per recipient, for the mail limits. */
 export interface MailRequestTable {
   id: Generated<string>;
@@ -411,6 +424,7 @@ export interface Database {
   account_tokens: AccountTokenTable;
   sign_in_failures: SignInFailureTable;
   mail_requests: MailRequestTable;
+  idempotency_keys: IdempotencyKeyTable;
   api_tokens: ApiTokenTable;
   vocabulary_terms: VocabularyTermTable;
   records: RecordTable;

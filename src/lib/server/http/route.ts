@@ -2,15 +2,37 @@ import type { APIContext, APIRoute } from 'astro';
 import { z } from 'zod';
 import { AppError, PayloadTooLargeError, ValidationError, type FieldError } from '../errors.ts';
 import { log, REQUEST_ID_HEADER } from '../log.ts';
+import { IDEMPOTENCY_HEADER, withIdempotencyKey } from '../idempotency.ts';
+import { authorizeAttempt, type Action } from '../policy.ts';
 import { StorageUnavailableError } from '../storage.ts';
+import { jsonProblems, unacceptableText } from './boundary.ts';
 import { problem } from './problem.ts';
 
 // The one way an API route turns input into a service call and failures into problem+json.
 
-/** Wraps an endpoint: typed errors become problem+json, anything else a logged 500. */
-export function endpoint(fn: (ctx: APIContext) => Promise<Response> | Response): APIRoute {
+/**
+ * Wraps an endpoint: typed errors become problem+json, anything else a logged 500. With
+ * `attempt`, the caller is authenticated and authorised for that action (policy.ts,
+ * `authorizeAttempt`) before the handler reads any query or body. With `idempotent`, a request
+ * carrying `Idempotency-Key` is answered as idempotency.ts describes.
+ */
+export function endpoint(
+  fn: (ctx: APIContext) => Promise<Response> | Response,
+  opts: { attempt?: Action; idempotent?: boolean } = {},
+): APIRoute {
   return async (ctx) => {
     try {
+      if (opts.attempt) authorizeAttempt(ctx.locals.principal, opts.attempt);
+      const key = opts.idempotent ? ctx.request.headers.get(IDEMPOTENCY_HEADER) : null;
+      if (key !== null) {
+        return await withIdempotencyKey(ctx.request, ctx.locals.principal, key, async () => {
+          try {
+            return await fn(ctx);
+          } catch (err) {
+            return toProblem(err, ctx.url.pathname, ctx.request.headers.get(REQUEST_ID_HEADER));
+          }
+        });
+      }
       return await fn(ctx);
     } catch (err) {
       return toProblem(err, ctx.url.pathname, ctx.request.headers.get(REQUEST_ID_HEADER));
@@ -119,14 +141,19 @@ export async function readJson<S extends z.ZodType>(
       'The body is not valid JSON.',
     );
   }
+  const refused = jsonProblems(data);
+  if (refused.length) throw new ValidationError(refused, 'The body has text that is not accepted.');
   const parsed = schema.safeParse(data);
   if (!parsed.success) throw new ValidationError(zodErrors(parsed.error));
   return parsed.data;
 }
 
-/** Reads at most limitBytes of a body as text; 413 beyond. */
+/** Reads at most limitBytes of a body as text (413 beyond); a NUL character is a 400. */
 export async function readLimitedText(request: Request, limitBytes: number): Promise<string> {
-  return new TextDecoder().decode(await readLimitedBytes(request, limitBytes));
+  const text = new TextDecoder().decode(await readLimitedBytes(request, limitBytes));
+  const why = unacceptableText(text);
+  if (why) throw new ValidationError([{ path: '(body)', message: why }]);
+  return text;
 }
 
 /** Reads at most limitBytes of a body; 413 beyond, without reading further. */

@@ -42,6 +42,7 @@ export const filesPaths = {
       responses: {
         '200': ok('UploadResult', 'The attached file, its analysis and the record version'),
         ...errors(
+          401,
           403,
           404,
           [409, 'The upload is no longer pending, or the file has not arrived in storage'],

@@ -5,6 +5,8 @@ import { auditLog } from '#lib/server/curation-log.ts';
 import { auditQuery } from '#lib/shared/curation.ts';
 import { auditPageSchema } from '#lib/shared/answers.ts';
 
-export const GET = endpoint(async ({ locals, url }) =>
-  answer(auditPageSchema, await auditLog(db(), locals.principal, readQuery(url, auditQuery))),
+export const GET = endpoint(
+  async ({ locals, url }) =>
+    answer(auditPageSchema, await auditLog(db(), locals.principal, readQuery(url, auditQuery))),
+  { attempt: 'audit.read' },
 );

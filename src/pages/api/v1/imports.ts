@@ -8,14 +8,17 @@ import { importResultSchema } from '#lib/shared/answers.ts';
 const IMPORT_LIMIT = 2 * 1024 * 1024;
 
 /** Bulk import: the CSV template's rows as drafts, all or none; 422 with line-numbered errors. */
-export const POST = endpoint(async ({ locals, request }) => {
-  const csv = await readLimitedText(request, IMPORT_LIMIT);
-  return answer(
-    importResultSchema,
-    await importRecords(db(), locals.principal, {
-      mediaType: request.headers.get('content-type') ?? '',
-      csv,
-    }),
-    201,
-  );
-});
+export const POST = endpoint(
+  async ({ locals, request }) => {
+    const csv = await readLimitedText(request, IMPORT_LIMIT);
+    return answer(
+      importResultSchema,
+      await importRecords(db(), locals.principal, {
+        mediaType: request.headers.get('content-type') ?? '',
+        csv,
+      }),
+      201,
+    );
+  },
+  { attempt: 'record.create', idempotent: true },
+);

@@ -9,7 +9,10 @@ export const GET = endpoint(async ({ locals }) =>
   answer(profileSchema, await getProfile(db(), locals.principal)),
 );
 
-export const PATCH = endpoint(async ({ locals, request }) => {
-  const input = await readJson(request, profileInput);
-  return answer(profileSchema, await updateProfile(db(), locals.principal, input));
-});
+export const PATCH = endpoint(
+  async ({ locals, request }) => {
+    const input = await readJson(request, profileInput);
+    return answer(profileSchema, await updateProfile(db(), locals.principal, input));
+  },
+  { attempt: 'account.update' },
+);

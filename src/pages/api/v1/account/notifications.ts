@@ -5,9 +5,11 @@ import { listNotifications } from '#lib/server/curation-log.ts';
 import { notificationsQuery } from '#lib/shared/curation.ts';
 import { notificationPageSchema } from '#lib/shared/answers.ts';
 
-export const GET = endpoint(async ({ locals, url }) =>
-  answer(
-    notificationPageSchema,
-    await listNotifications(db(), locals.principal, readQuery(url, notificationsQuery)),
-  ),
+export const GET = endpoint(
+  async ({ locals, url }) =>
+    answer(
+      notificationPageSchema,
+      await listNotifications(db(), locals.principal, readQuery(url, notificationsQuery)),
+    ),
+  { attempt: 'notification.list' },
 );

@@ -9,7 +9,10 @@ export const GET = endpoint(async ({ locals }) =>
   answer(labRefListSchema, { labs: await allLabs(db(), locals.principal) }),
 );
 
-export const POST = endpoint(async ({ locals, request }) => {
-  const lab = await createLab(db(), locals.principal, await readJson(request, labCreateInput));
-  return answer(labCreatedSchema, { slug: lab.slug, name: lab.name }, 201);
-});
+export const POST = endpoint(
+  async ({ locals, request }) => {
+    const lab = await createLab(db(), locals.principal, await readJson(request, labCreateInput));
+    return answer(labCreatedSchema, { slug: lab.slug, name: lab.name }, 201);
+  },
+  { attempt: 'lab.create' },
+);

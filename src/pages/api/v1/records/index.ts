@@ -13,11 +13,16 @@ export const GET = endpoint(async ({ locals, request, url }) =>
   ),
 );
 
-export const POST = endpoint(async ({ locals, request }) => {
-  const record = await createRecord(
-    db(),
-    locals.principal,
-    await readJson(request, createRecordBody),
-  );
-  return answer(recordDetailSchema, record, 201, { location: `/api/v1/records/${record.handle}` });
-});
+export const POST = endpoint(
+  async ({ locals, request }) => {
+    const record = await createRecord(
+      db(),
+      locals.principal,
+      await readJson(request, createRecordBody),
+    );
+    return answer(recordDetailSchema, record, 201, {
+      location: `/api/v1/records/${record.handle}`,
+    });
+  },
+  { attempt: 'record.create', idempotent: true },
+);

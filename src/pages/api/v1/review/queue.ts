@@ -5,6 +5,11 @@ import { reviewQueue } from '#lib/server/curation.ts';
 import { queueQuery } from '#lib/shared/curation.ts';
 import { queueResultSchema } from '#lib/shared/curation.ts';
 
-export const GET = endpoint(async ({ locals, url }) =>
-  answer(queueResultSchema, await reviewQueue(db(), locals.principal, readQuery(url, queueQuery))),
+export const GET = endpoint(
+  async ({ locals, url }) =>
+    answer(
+      queueResultSchema,
+      await reviewQueue(db(), locals.principal, readQuery(url, queueQuery)),
+    ),
+  { attempt: 'review.queue' },
 );

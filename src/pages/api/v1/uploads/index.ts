@@ -6,10 +6,12 @@ import { createUploadBody } from '#lib/shared/record.ts';
 import { uploadTicketSchema } from '#lib/shared/answers.ts';
 
 /** Declare a raw file: name, size, SHA-256, media type → an upload id and a short-lived PUT URL. */
-export const POST = endpoint(async ({ locals, request }) =>
-  answer(
-    uploadTicketSchema,
-    await declareUpload(db(), locals.principal, await readJson(request, createUploadBody)),
-    201,
-  ),
+export const POST = endpoint(
+  async ({ locals, request }) =>
+    answer(
+      uploadTicketSchema,
+      await declareUpload(db(), locals.principal, await readJson(request, createUploadBody)),
+      201,
+    ),
+  { attempt: 'rawFile.upload', idempotent: true },
 );

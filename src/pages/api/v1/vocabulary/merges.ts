@@ -5,9 +5,11 @@ import { mergeTerms } from '#lib/server/vocabulary-upkeep.ts';
 import { mergeBody } from '#lib/shared/curation.ts';
 import { mergeResultSchema } from '#lib/shared/answers.ts';
 
-export const POST = endpoint(async ({ locals, request }) =>
-  answer(
-    mergeResultSchema,
-    await mergeTerms(db(), locals.principal, await readJson(request, mergeBody)),
-  ),
+export const POST = endpoint(
+  async ({ locals, request }) =>
+    answer(
+      mergeResultSchema,
+      await mergeTerms(db(), locals.principal, await readJson(request, mergeBody)),
+    ),
+  { attempt: 'vocabulary.edit' },
 );

@@ -10,7 +10,14 @@ export const GET = endpoint(async ({ locals }) =>
 );
 
 /** The secret is in this answer only; it cannot be shown again. */
-export const POST = endpoint(async ({ locals, request }) => {
-  const created = await createToken(db(), locals.principal, await readJson(request, apiTokenInput));
-  return answer(newTokenSchema, { token: created.token, ...created.info }, 201);
-});
+export const POST = endpoint(
+  async ({ locals, request }) => {
+    const created = await createToken(
+      db(),
+      locals.principal,
+      await readJson(request, apiTokenInput),
+    );
+    return answer(newTokenSchema, { token: created.token, ...created.info }, 201);
+  },
+  { attempt: 'token.create' },
+);

@@ -6,10 +6,13 @@ import { userChangeInput } from '#lib/shared/account.ts';
 import { adminUserViewSchema } from '#lib/shared/answers.ts';
 
 /** Changes an account's role and/or disables it: `{ "role": "curator" }`, `{ "disabled": true }`. */
-export const PATCH = endpoint(async ({ locals, params, request }) => {
-  const change = await readJson(request, userChangeInput);
-  return answer(
-    adminUserViewSchema,
-    await changeAccount(db(), locals.principal, params.id ?? '', change),
-  );
-});
+export const PATCH = endpoint(
+  async ({ locals, params, request }) => {
+    const change = await readJson(request, userChangeInput);
+    return answer(
+      adminUserViewSchema,
+      await changeAccount(db(), locals.principal, params.id ?? '', change),
+    );
+  },
+  { attempt: 'user.setRole' },
+);

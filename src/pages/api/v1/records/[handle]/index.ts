@@ -10,14 +10,16 @@ export const GET = endpoint(async ({ locals, params }) =>
 );
 
 /** An edit: the whole content, the version it is based on and a change note; a new version. */
-export const PUT = endpoint(async ({ locals, params, request }) =>
-  answer(
-    recordDetailSchema,
-    await editRecord(
-      db(),
-      locals.principal,
-      params.handle!,
-      await readJson(request, editRecordBody),
+export const PUT = endpoint(
+  async ({ locals, params, request }) =>
+    answer(
+      recordDetailSchema,
+      await editRecord(
+        db(),
+        locals.principal,
+        params.handle!,
+        await readJson(request, editRecordBody),
+      ),
     ),
-  ),
+  { attempt: 'record.update' },
 );

@@ -15,24 +15,27 @@ const isDecision = (action: string): action is (typeof DECISIONS)[number] =>
  * take the review path, so they are claimed, commented and mailed the same way from here; anyone
  * else gets the status machine's own answer (404 unseen, 403 not theirs, 409 not now).
  */
-export const POST = endpoint(async ({ locals, params, request }) => {
-  const body = await readJson(request, transitionBody);
-  const p = locals.principal;
-  if (
-    isDecision(body.action) &&
-    p.kind === 'user' &&
-    (p.role === 'curator' || p.role === 'admin')
-  ) {
-    const decision = decisionBody.parse({
-      decision: body.action,
-      version: body.version,
-      ...(body.reason ? { reason: body.reason } : {}),
-    });
-    await decide(db(), locals.principal, params.handle!, decision);
-    return answer(recordDetailSchema, await getRecord(db(), locals.principal, params.handle!));
-  }
-  return answer(
-    recordDetailSchema,
-    await transitionRecord(db(), locals.principal, params.handle!, body),
-  );
-});
+export const POST = endpoint(
+  async ({ locals, params, request }) => {
+    const body = await readJson(request, transitionBody);
+    const p = locals.principal;
+    if (
+      isDecision(body.action) &&
+      p.kind === 'user' &&
+      (p.role === 'curator' || p.role === 'admin')
+    ) {
+      const decision = decisionBody.parse({
+        decision: body.action,
+        version: body.version,
+        ...(body.reason ? { reason: body.reason } : {}),
+      });
+      await decide(db(), locals.principal, params.handle!, decision);
+      return answer(recordDetailSchema, await getRecord(db(), locals.principal, params.handle!));
+    }
+    return answer(
+      recordDetailSchema,
+      await transitionRecord(db(), locals.principal, params.handle!, body),
+    );
+  },
+  { attempt: 'record.submit', idempotent: true },
+);

@@ -5,6 +5,8 @@ import { flagQueue } from '#lib/server/curation.ts';
 import { flagsQuery } from '#lib/shared/curation.ts';
 import { flagPageSchema } from '#lib/shared/answers.ts';
 
-export const GET = endpoint(async ({ locals, url }) =>
-  answer(flagPageSchema, await flagQueue(db(), locals.principal, readQuery(url, flagsQuery))),
+export const GET = endpoint(
+  async ({ locals, url }) =>
+    answer(flagPageSchema, await flagQueue(db(), locals.principal, readQuery(url, flagsQuery))),
+  { attempt: 'flag.queue' },
 );

@@ -5,6 +5,8 @@ import { completeUpload } from '#lib/server/uploads.ts';
 import { uploadResultSchema } from '#lib/shared/answers.ts';
 
 /** The server re-reads the object, checks size and SHA-256, analyses and attaches it. Idempotent. */
-export const POST = endpoint(async ({ locals, params }) =>
-  answer(uploadResultSchema, await completeUpload(db(), locals.principal, params.id!)),
+export const POST = endpoint(
+  async ({ locals, params }) =>
+    answer(uploadResultSchema, await completeUpload(db(), locals.principal, params.id!)),
+  { attempt: 'rawFile.upload' },
 );

@@ -13,10 +13,12 @@ export const GET = endpoint(async ({ locals, url }) =>
   ),
 );
 
-export const POST = endpoint(async ({ locals, request }) =>
-  answer(
-    proposalViewSchema,
-    await proposeTerm(db(), locals.principal, await readJson(request, proposalBody)),
-    201,
-  ),
+export const POST = endpoint(
+  async ({ locals, request }) =>
+    answer(
+      proposalViewSchema,
+      await proposeTerm(db(), locals.principal, await readJson(request, proposalBody)),
+      201,
+    ),
+  { attempt: 'vocabulary.propose' },
 );

@@ -5,15 +5,21 @@ import { changeMember, removeMember } from '#lib/server/labs.ts';
 import { memberChangeInput } from '#lib/shared/account.ts';
 import { labMemberViewSchema } from '#lib/shared/answers.ts';
 
-export const PATCH = endpoint(async ({ locals, params, request }) => {
-  const { role } = await readJson(request, memberChangeInput);
-  return answer(
-    labMemberViewSchema,
-    await changeMember(db(), locals.principal, params.slug ?? '', params.userId ?? '', role),
-  );
-});
+export const PATCH = endpoint(
+  async ({ locals, params, request }) => {
+    const { role } = await readJson(request, memberChangeInput);
+    return answer(
+      labMemberViewSchema,
+      await changeMember(db(), locals.principal, params.slug ?? '', params.userId ?? '', role),
+    );
+  },
+  { attempt: 'lab.members.manage' },
+);
 
-export const DELETE = endpoint(async ({ locals, params }) => {
-  await removeMember(db(), locals.principal, params.slug ?? '', params.userId ?? '');
-  return new Response(null, { status: 204 });
-});
+export const DELETE = endpoint(
+  async ({ locals, params }) => {
+    await removeMember(db(), locals.principal, params.slug ?? '', params.userId ?? '');
+    return new Response(null, { status: 204 });
+  },
+  { attempt: 'lab.members.manage' },
+);

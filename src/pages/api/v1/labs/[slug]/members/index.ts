@@ -12,11 +12,14 @@ export const GET = endpoint(async ({ locals, params }) =>
 );
 
 /** Adds a member by e-mail address (or changes the role of an existing one). */
-export const POST = endpoint(async ({ locals, params, request }) => {
-  const input = await readJson(request, memberAddInput);
-  return answer(
-    labMemberViewSchema,
-    await addMember(db(), locals.principal, params.slug ?? '', input),
-    201,
-  );
-});
+export const POST = endpoint(
+  async ({ locals, params, request }) => {
+    const input = await readJson(request, memberAddInput);
+    return answer(
+      labMemberViewSchema,
+      await addMember(db(), locals.principal, params.slug ?? '', input),
+      201,
+    );
+  },
+  { attempt: 'lab.members.manage' },
+);

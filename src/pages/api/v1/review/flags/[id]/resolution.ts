@@ -5,14 +5,16 @@ import { resolveFlag } from '#lib/server/curation.ts';
 import { flagResolutionBody } from '#lib/shared/curation.ts';
 import { decisionResultSchema } from '#lib/shared/curation.ts';
 
-export const POST = endpoint(async ({ locals, params, request }) =>
-  answer(
-    decisionResultSchema,
-    await resolveFlag(
-      db(),
-      locals.principal,
-      params.id!,
-      await readJson(request, flagResolutionBody),
+export const POST = endpoint(
+  async ({ locals, params, request }) =>
+    answer(
+      decisionResultSchema,
+      await resolveFlag(
+        db(),
+        locals.principal,
+        params.id!,
+        await readJson(request, flagResolutionBody),
+      ),
     ),
-  ),
+  { attempt: 'flag.resolve' },
 );

@@ -4,8 +4,10 @@ import { endpoint } from '#lib/server/http/route.ts';
 import { possibleDuplicates } from '#lib/server/curation.ts';
 import { duplicateListSchema } from '#lib/shared/answers.ts';
 
-export const GET = endpoint(async ({ locals, params }) =>
-  answer(duplicateListSchema, {
-    duplicates: await possibleDuplicates(db(), locals.principal, params.handle!),
-  }),
+export const GET = endpoint(
+  async ({ locals, params }) =>
+    answer(duplicateListSchema, {
+      duplicates: await possibleDuplicates(db(), locals.principal, params.handle!),
+    }),
+  { attempt: 'review.queue' },
 );

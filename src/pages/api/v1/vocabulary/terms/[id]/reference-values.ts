@@ -9,15 +9,17 @@ export const GET = endpoint(async ({ locals, params }) =>
   answer(referenceHistorySchema, await referenceHistory(db(), locals.principal, params.id!)),
 );
 
-export const POST = endpoint(async ({ locals, params, request }) =>
-  answer(
-    referenceHistorySchema,
-    await editReferenceValue(
-      db(),
-      locals.principal,
-      params.id!,
-      await readJson(request, referenceValueBody),
+export const POST = endpoint(
+  async ({ locals, params, request }) =>
+    answer(
+      referenceHistorySchema,
+      await editReferenceValue(
+        db(),
+        locals.principal,
+        params.id!,
+        await readJson(request, referenceValueBody),
+      ),
+      201,
     ),
-    201,
-  ),
+  { attempt: 'vocabulary.edit' },
 );
