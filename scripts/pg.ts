@@ -1,6 +1,7 @@
-// The project's PostgreSQL cluster by hand: `tsx scripts/pg.ts start|stop|kill|urls [DATABASE]`.
-// `kill` stops it abruptly (as a crash would); fault tests use it, and so can a person.
-import { ensureCluster, killCluster, stopCluster } from './lib/postgres.ts';
+// The project's PostgreSQL cluster by hand: `tsx scripts/pg.ts start|stop|kill|crash|urls [DATABASE]`.
+// `kill` stops it abruptly (`pg_ctl stop -m immediate`), `crash` sends the postmaster SIGKILL;
+// fault tests use both, and so can a person.
+import { crashCluster, ensureCluster, killCluster, stopCluster } from './lib/postgres.ts';
 
 const [command, database = 'edgewise'] = process.argv.slice(2);
 switch (command) {
@@ -16,6 +17,10 @@ switch (command) {
     killCluster();
     console.log('killed');
     break;
+  case 'crash':
+    crashCluster();
+    console.log('crashed');
+    break;
   case 'urls': {
     const c = ensureCluster();
     console.log(
@@ -24,6 +29,6 @@ switch (command) {
     break;
   }
   default:
-    console.error('usage: tsx scripts/pg.ts start|stop|kill|urls [DATABASE]');
+    console.error('usage: tsx scripts/pg.ts start|stop|kill|crash|urls [DATABASE]');
     process.exit(2);
 }

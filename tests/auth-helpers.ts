@@ -1,6 +1,7 @@
 // Accounts and sign-in for integration tests: users are made directly in the database (fast,
 // any role and lab), sign-in goes through the real Auth.js endpoint of the server under test.
 import { randomBytes } from 'node:crypto';
+import http from 'node:http';
 import { sql } from 'kysely';
 import { inject } from 'vitest';
 import { createDb, type Db } from '../src/lib/server/db/index.ts';
@@ -93,6 +94,53 @@ export function postSignIn(
     method: 'POST',
     headers: { 'content-type': 'application/x-www-form-urlencoded', ...headers },
     body: new URLSearchParams({ email, password, callbackUrl: `${appUrl()}/account` }).toString(),
+  });
+}
+
+/**
+ * A password sign-in sent from another loopback address (127.0.0.2, …): to the server, another
+ * client, as a person signing in from elsewhere is.
+ */
+export function postSignInFrom(
+  localAddress: string,
+  email: string,
+  password: string,
+): Promise<{ status: number; location: string | null; cookie: string | null }> {
+  const url = new URL('/api/auth/callback/credentials', appUrl());
+  const body = new URLSearchParams({
+    email,
+    password,
+    callbackUrl: `${appUrl()}/account`,
+  }).toString();
+  return new Promise((resolve, reject) => {
+    const req = http.request(
+      url,
+      {
+        method: 'POST',
+        localAddress,
+        headers: {
+          'content-type': 'application/x-www-form-urlencoded',
+          'content-length': Buffer.byteLength(body),
+          origin: appUrl(),
+        },
+      },
+      (res) => {
+        res.resume();
+        res.on('end', () => {
+          const cookies = res.headers['set-cookie'] ?? [];
+          const pair = cookies
+            .map((c) => c.split(';')[0]!)
+            .find((c) => /^(__Secure-)?authjs\.session-token=./.test(c));
+          resolve({
+            status: res.statusCode ?? 0,
+            location: res.headers.location ?? null,
+            cookie: pair ?? null,
+          });
+        });
+      },
+    );
+    req.on('error', reject);
+    req.end(body);
   });
 }
 

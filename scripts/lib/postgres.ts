@@ -175,6 +175,17 @@ export function killCluster(): void {
   pgRun('pg_ctl', ['stop', '-m', 'immediate', '-D', dir], { allowFail: true });
 }
 
+/**
+ * Kills the postmaster with SIGKILL, as the kernel's out-of-memory killer would (fault tests);
+ * its backends notice and exit by themselves, and the next ensureCluster() recovers it.
+ */
+export function crashCluster(): void {
+  const pidFile = path.join(clusterDir(), 'postmaster.pid');
+  if (!existsSync(pidFile)) return;
+  const pid = Number(readFileSync(pidFile, 'utf8').split('\n', 1)[0]);
+  if (pid > 0) process.kill(pid, 'SIGKILL');
+}
+
 async function withAdmin<T>(
   info: ClusterInfo,
   database: string,

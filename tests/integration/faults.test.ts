@@ -1,6 +1,7 @@
 import { spawnSync, type ChildProcess } from 'node:child_process';
 import { createHash, randomBytes } from 'node:crypto';
 import { mkdirSync, rmSync } from 'node:fs';
+import { createServer, type Socket } from 'node:net';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, inject } from 'vitest';
 import { startS3Fake, type S3Fake } from '../../docker-free-s3-fake/s3-fake.ts';
@@ -14,8 +15,9 @@ import { content } from '../support/records.ts';
 
 // Faults, on a stack of this file's own (a PostgreSQL cluster in its own folder, both fakes, a
 // server from the same build), so stopping and killing things disturbs no other test:
-// object storage stopped at each step of an upload, PostgreSQL killed during concurrent
-// submissions, the mail server down while curators decide. Each part prints what it tried and
+// object storage stopped at each step of an upload and frozen (silent), a PUT to the upload URL
+// after completion, PostgreSQL stopped and killed during concurrent submissions that clients
+// repeat with their Idempotency-Keys, the mail server down while curators decide. Each part prints what it tried and
 // what survived.
 
 const work = path.join(dataDir, `faults-${process.pid}`);
@@ -233,92 +235,265 @@ describe('object storage stopped at each step of an upload', () => {
   );
 });
 
-describe('PostgreSQL killed during concurrent submissions', () => {
+/**
+ * A POST with an Idempotency-Key, repeated as a careful client would: after a dropped connection,
+ * a 5xx, or a 409 that asks to wait (Retry-After), until an answer or the deadline.
+ */
+async function persist(
+  path: string,
+  body: unknown,
+  key: string,
+  deadline: number,
+): Promise<{
+  status: number | 'network';
+  json: { handle: string; version: number } | null;
+  tries: number;
+  seen: string[];
+}> {
+  const seen: string[] = [];
+  for (let tries = 1; ; tries++) {
+    const r = await fetch(base + path, {
+      method: 'POST',
+      headers: {
+        authorization: `Bearer ${tokens.contributor}`,
+        'content-type': 'application/json',
+        'idempotency-key': key,
+      },
+      body: JSON.stringify(body),
+    }).catch(() => null);
+    const retryAfter = r?.headers.get('retry-after');
+    seen.push(r ? `${r.status}${retryAfter ? '+RA' : ''}` : 'network');
+    const again = !r || r.status >= 500 || (r.status === 409 && retryAfter);
+    if (!again) return { status: r.status, json: await r.json(), tries, seen };
+    await r?.body?.cancel();
+    if (Date.now() > deadline) return { status: r?.status ?? 'network', json: null, tries, seen };
+    await new Promise((res) => setTimeout(res, 250 + Math.random() * 250));
+  }
+}
+
+/** Starts the cluster again; after SIGKILL the old backends may need a moment to let go. */
+async function startAgain() {
+  for (let i = 0; ; i++) {
+    try {
+      pgCtl('start');
+      return;
+    } catch (err) {
+      if (i > 40) throw err;
+      await new Promise((r) => setTimeout(r, 500));
+    }
+  }
+}
+
+describe.each([
+  { how: 'stopped immediately (pg_ctl stop -m immediate)', command: 'kill' },
+  { how: 'killed (SIGKILL to the postmaster)', command: 'crash' },
+])('PostgreSQL $how during 20 concurrent submissions', ({ how, command }) => {
   it(
-    'keeps every acknowledged submission with its version and audit event; the server recovers by itself',
-    { timeout: 180_000 },
+    'the process lives, answers 503 with Retry-After meanwhile, loses no acknowledged submission, and repeats with their keys make no duplicate',
+    { timeout: 240_000 },
     async () => {
-      const N = 24;
-      const attempts = Array.from({ length: N }, (_, i) =>
+      const N = 20;
+      const run = randomBytes(3).toString('hex');
+      const deadline = Date.now() + 120_000;
+      const clients = Array.from({ length: N }, (_, i) =>
         (async () => {
-          await new Promise((r) => setTimeout(r, i * 40));
-          const created = await call('contributor', '/api/v1/records', 'POST', {
-            content: content({ title: `Fault run ${i}` }),
-          }).catch(() => null);
-          if (!created || created.status !== 201)
-            return {
-              i,
-              created: created?.status ?? 'network',
-              submitted: null as number | string | null,
-              handle: null as string | null,
-            };
-          const rec = await created.json();
-          const sub = await call(
-            'contributor',
-            `/api/v1/records/${rec.handle}/transitions`,
-            'POST',
-            { action: 'submit', version: rec.version },
-          ).catch(() => null);
-          return {
-            i,
-            created: 201,
-            submitted: sub?.status ?? 'network',
-            handle: rec.handle as string,
-          };
+          await new Promise((r) => setTimeout(r, i * 30));
+          const title = `Fault ${command} ${run} ${i}`;
+          const created = await persist(
+            '/api/v1/records',
+            { content: content({ title }) },
+            `create-${run}-${i}`,
+            deadline,
+          );
+          const submitted =
+            created.status === 201
+              ? await persist(
+                  `/api/v1/records/${created.json!.handle}/transitions`,
+                  { action: 'submit', version: created.json!.version },
+                  `submit-${run}-${i}`,
+                  deadline,
+                )
+              : null;
+          return { i, title, created, submitted };
         })(),
       );
-      await new Promise((r) => setTimeout(r, (N / 2) * 40));
-      pgCtl('kill');
+      await new Promise((r) => setTimeout(r, (N / 2) * 30));
+      pgCtl(command);
+      // While the database is away the server is up and says so.
+      const health = await fetch(`${base}/api/health`);
+      const healthBody = await health.json();
       await new Promise((r) => setTimeout(r, 1500));
-      pgCtl('start');
-      const results = await Promise.all(attempts);
+      await startAgain();
+      const results = await Promise.all(clients);
       await waitHealthy();
 
-      const statuses = results.map((r) => `${r.created}/${r.submitted ?? '-'}`);
-      expect(statuses.filter((s) => /\b500\b/.test(s))).toEqual([]);
-      const acknowledged = results.filter((r) => r.created === 201);
-      let checked = 0;
-      for (const r of acknowledged) {
-        const row = await admin
-          .selectFrom('records')
-          .select(['status', 'current_version'])
-          .where('handle', '=', r.handle!)
-          .executeTakeFirst();
-        expect(row, `${r.handle} was acknowledged`).toBeDefined();
-        const create = await admin
-          .selectFrom('audit_events')
-          .select('id')
-          .where('subject_id', '=', r.handle!)
-          .where('action', '=', 'record.create')
+      expect(app.exitCode, 'the server process is still running').toBeNull();
+      expect(app.signalCode).toBeNull();
+      expect(health.status).toBe(503);
+      expect(healthBody.parts.database).toBe('down');
+      const seen = results.flatMap((r) => [...r.created.seen, ...(r.submitted?.seen ?? [])]);
+      // Every refusal during the outage was a 503 with Retry-After (or a 409 asking to wait).
+      expect(seen.filter((s) => /^5/.test(s) && s !== '503+RA')).toEqual([]);
+
+      let duplicates = 0;
+      let lost = 0;
+      for (const r of results) {
+        expect(r.created.status, `creation ${r.i}: ${r.created.seen.join(' ')}`).toBe(201);
+        expect(r.submitted?.status, `submission ${r.i}: ${r.submitted?.seen.join(' ')}`).toBe(200);
+        const rows = await admin
+          .selectFrom('record_versions')
+          .innerJoin('records', 'records.id', 'record_versions.record_id')
+          .select(['records.handle', 'records.status'])
+          .where('record_versions.title', '=', r.title)
+          .where('record_versions.version', '=', 1)
           .execute();
-        expect(create).toHaveLength(1);
-        if (r.submitted === 200) {
-          expect(row!.status).toBe('submitted');
-          const submit = await admin
-            .selectFrom('audit_events')
-            .select('id')
-            .where('subject_id', '=', r.handle!)
-            .where('action', '=', 'record.submit')
-            .execute();
-          expect(submit).toHaveLength(1);
-        }
-        checked++;
+        duplicates += Math.max(0, rows.length - 1);
+        const mine = rows.find((x) => x.handle === r.created.json!.handle);
+        if (!mine || mine.status !== 'submitted') lost++;
+        const events = await admin
+          .selectFrom('audit_events')
+          .select('action')
+          .where('subject_id', '=', r.created.json!.handle)
+          .where('action', 'in', ['record.create', 'record.submit'])
+          .execute();
+        expect(events.map((e) => e.action).sort()).toEqual(['record.create', 'record.submit']);
       }
-      // After recovery, the same server takes new work without a restart.
+      expect({ duplicates, lost }).toEqual({ duplicates: 0, lost: 0 });
+      // The same server takes new work without a restart.
       expect(
         (
           await call('contributor', '/api/v1/records', 'POST', {
-            content: content({ title: 'After the crash' }),
+            content: content({ title: `After the ${command}` }),
           })
         ).status,
       ).toBe(201);
+      const repeated = results.filter((r) => r.created.tries > 1 || (r.submitted?.tries ?? 0) > 1);
       console.log(
-        `database kill: ${N} concurrent create+submit, statuses ${JSON.stringify(countBy(statuses))}; ` +
-          `${acknowledged.length} acknowledged creations and ${results.filter((r) => r.submitted === 200).length} submissions all present with version and audit; server recovered without restart`,
+        `database ${how}: ${N} clients, create + submit with Idempotency-Keys; answers seen ${JSON.stringify(countBy(seen))}; ` +
+          `${repeated.length} clients repeated a request; ${N} creations and ${N} submissions acknowledged, ` +
+          `${lost} lost, ${duplicates} duplicates; health during the outage ${health.status} (database ${healthBody.parts.database}); ` +
+          `server process alive, serving again without restart`,
       );
-      expect(checked).toBe(acknowledged.length);
     },
   );
+});
+
+describe('object storage frozen (connections accepted, nothing answered)', () => {
+  it(
+    'answers completion, download and health within 10 s, with 503 and Retry-After; serves again once it is back',
+    { timeout: 120_000 },
+    async () => {
+      const rec = await (
+        await call('contributor', '/api/v1/records', 'POST', {
+          content: content({ title: 'Frozen storage' }),
+        })
+      ).json();
+      const bytes = Buffer.from(formatExport(cvWindowOpeningSamples({ sampleIntervalS: 0.5 })));
+      const declare = async () =>
+        (
+          await call('contributor', '/api/v1/uploads', 'POST', {
+            record: rec.handle,
+            name: 'cv.csv',
+            size: bytes.byteLength,
+            sha256: createHash('sha256').update(bytes).digest('hex'),
+            mediaType: 'text/csv',
+          })
+        ).json();
+      const first = await declare();
+      await fetch(first.url, { method: 'PUT', body: bytes, headers: first.headers });
+      const attached = await (
+        await call('contributor', `/api/v1/uploads/${first.id}/complete`, 'POST')
+      ).json();
+      const second = await declare();
+      await fetch(second.url, { method: 'PUT', body: bytes, headers: second.headers });
+
+      // Freeze: the port accepts connections and never says a word.
+      await s3.close();
+      const held: Socket[] = [];
+      const frozen = createServer((socket) => void held.push(socket));
+      await new Promise<void>((r) => frozen.listen(s3Port, '127.0.0.1', r));
+      const timed = async (what: string, p: string, method = 'GET') => {
+        const t0 = Date.now();
+        const r = await call('contributor', p, method);
+        const seconds = (Date.now() - t0) / 1000;
+        return { what, status: r.status, retryAfter: r.headers.get('retry-after'), seconds };
+      };
+      const calls = await Promise.all([
+        timed('complete', `/api/v1/uploads/${second.id}/complete`, 'POST'),
+        timed('download', `/api/v1/raw-files/${attached.rawFile.id}`),
+        timed('health', '/api/health'),
+      ]);
+      for (const socket of held) socket.destroy();
+      await new Promise((r) => frozen.close(r));
+      await restartS3();
+
+      // A hang detector, not a speed figure: a frozen store answers nothing for minutes.
+      for (const c of calls) {
+        expect(c.status, c.what).toBe(503);
+        expect(c.seconds, c.what).toBeLessThan(10);
+      }
+      expect(calls.filter((c) => c.what !== 'health' && !c.retryAfter)).toEqual([]);
+      expect(
+        (await call('contributor', `/api/v1/uploads/${second.id}/complete`, 'POST')).status,
+      ).toBe(200);
+      expect((await call('contributor', `/api/v1/raw-files/${attached.rawFile.id}`)).status).toBe(
+        200,
+      );
+      console.log(
+        `frozen storage: ${calls.map((c) => `${c.what} ${c.status} in ${c.seconds.toFixed(1)} s`).join(', ')}; ` +
+          `complete and download work again once storage answers`,
+      );
+    },
+  );
+});
+
+describe('a PUT to the upload URL after completion', () => {
+  it('cannot change the bytes the record points at', { timeout: 60_000 }, async () => {
+    const rec = await (
+      await call('contributor', '/api/v1/records', 'POST', {
+        content: content({ title: 'Swap attempt' }),
+      })
+    ).json();
+    const bytes = Buffer.from(formatExport(cvWindowOpeningSamples({ sampleIntervalS: 0.5 })));
+    const sha = createHash('sha256').update(bytes).digest('hex');
+    const ticket = await (
+      await call('contributor', '/api/v1/uploads', 'POST', {
+        record: rec.handle,
+        name: 'cv.csv',
+        size: bytes.byteLength,
+        sha256: sha,
+        mediaType: 'text/csv',
+      })
+    ).json();
+    expect(
+      (await fetch(ticket.url, { method: 'PUT', body: bytes, headers: ticket.headers })).status,
+    ).toBe(200);
+    const done = await (
+      await call('contributor', `/api/v1/uploads/${ticket.id}/complete`, 'POST')
+    ).json();
+    // The URL is still valid: other bytes are accepted by storage...
+    const other = Buffer.from('time/s,E/V,I/A\n0,0,0\n1,1,1\n');
+    const swap = await fetch(ticket.url, { method: 'PUT', body: other, headers: ticket.headers });
+    expect(swap.status).toBe(200);
+    // ...but they land on the staging key, not on the bytes the record points at.
+    const served = await call('contributor', `/api/v1/raw-files/${done.rawFile.id}`);
+    expect(served.status).toBe(200);
+    const servedBytes = Buffer.from(await served.arrayBuffer());
+    const servedSha = createHash('sha256').update(servedBytes).digest('hex');
+    expect({ bytes: servedBytes.byteLength, sha256: servedSha }).toEqual({
+      bytes: bytes.byteLength,
+      sha256: done.rawFile.sha256,
+    });
+    expect(done.rawFile.sha256).toBe(sha);
+    const again = await (
+      await call('contributor', `/api/v1/uploads/${ticket.id}/complete`, 'POST')
+    ).json();
+    expect(again.rawFile.sha256).toBe(sha);
+    console.log(
+      `PUT after completion: storage took ${other.byteLength} other bytes at the upload URL; ` +
+        `the record still serves ${servedBytes.byteLength} bytes with the recorded SHA-256`,
+    );
+  });
 });
 
 describe('mail server down while curators decide', () => {

@@ -162,8 +162,9 @@ export async function readSessionToken(
 }
 
 /**
- * Every request to /api/auth/*: a password sign-in is refused with 429 while its account or
- * client address has too many recent failures, and a failure is counted when Auth.js refuses it;
+ * Every request to /api/auth/*: a password sign-in waits, or is refused with 429, while its
+ * account from this client (or the client) has too many recent failures (throttle.ts), and a
+ * failure is counted when Auth.js refuses it;
  * a request for a sign-in link counts against the client's mail limit (429 when it is full).
  */
 export async function handleAuthRequest(
@@ -188,7 +189,8 @@ export async function handleAuthRequest(
       .formData()
       .catch(() => null);
     const email = String(form?.get('email') ?? '').slice(0, 320);
-    await assertSignInAllowed(db(), email, clientAddress);
+    const wait = await assertSignInAllowed(db(), email, clientAddress);
+    if (wait > 0) await new Promise((r) => setTimeout(r, wait));
     const response = await Auth(request, authConfig());
     if (isCredentialsFailure(response)) await recordSignInFailure(db(), email, clientAddress);
     return response;
