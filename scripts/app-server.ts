@@ -88,8 +88,14 @@ const server = http.createServer((req, res) => {
     decodeURI(pathname);
   } catch {
     res
-      .writeHead(400, { 'content-type': 'text/plain; charset=utf-8' })
-      .end('Bad request: the path is not valid percent-encoding.');
+      .writeHead(400, { 'content-type': 'application/problem+json' })
+      .end(
+        JSON.stringify({
+          title: 'Invalid request',
+          status: 400,
+          detail: 'The path is not valid percent-encoded UTF-8.',
+        }),
+      );
     return;
   }
   // The Fetch API cannot carry these methods into Astro (constructing the request throws); they
@@ -100,6 +106,29 @@ const server = http.createServer((req, res) => {
   void entry.handler(req, res);
 });
 server.keepAliveTimeout = 5_000;
+
+// Requests Node's parser refuses (headers over its size limit: 431; anything malformed: 400) are
+// answered as problem+json with the security headers, like every other refusal.
+server.on('clientError', (err: NodeJS.ErrnoException, socket) => {
+  if (!socket.writable || err.code === 'ECONNRESET') return void socket.destroy();
+  const tooLarge = err.code === 'HPE_HEADER_OVERFLOW';
+  const status = tooLarge ? 431 : 400;
+  const body = JSON.stringify({
+    title: tooLarge ? 'Request headers too large' : 'Invalid request',
+    status,
+    detail: tooLarge
+      ? 'The request headers are larger than this server accepts.'
+      : 'The request could not be read as HTTP.',
+  });
+  const lines = [
+    `HTTP/1.1 ${status} ${tooLarge ? 'Request Header Fields Too Large' : 'Bad Request'}`,
+    'content-type: application/problem+json',
+    `content-length: ${Buffer.byteLength(body)}`,
+    'connection: close',
+    ...[...baseline].map(([name, value]) => `${name}: ${value}`),
+  ];
+  socket.end(`${lines.join('\r\n')}\r\n\r\n${body}`);
+});
 const host = process.env.HOST ?? '127.0.0.1';
 const port = Number(process.env.PORT ?? 4321);
 server.listen(port, host, () =>

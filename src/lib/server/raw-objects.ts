@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto';
 import { AppError } from './errors.ts';
+import { log } from './log.ts';
 import { getObjectBytes, PRESIGNABLE_PREFIX, putObject } from './storage.ts';
 
 // Where raw files live in object storage, and why their bytes cannot change once verified.
@@ -55,9 +56,9 @@ export async function readVerifiedRawFile(f: {
   if (!bytes) return null;
   const sha = createHash('sha256').update(bytes).digest('hex');
   if (bytes.byteLength !== Number(f.bytes) || sha !== f.sha256) {
-    console.error(
-      `[edgewise] stored object ${f.object_key} no longer matches its record: ` +
-        `${bytes.byteLength} bytes, SHA-256 ${sha}; recorded ${f.bytes} bytes, ${f.sha256}`,
+    log().error(
+      { key: f.object_key, bytes: bytes.byteLength, sha256: sha, recorded: f.sha256 },
+      'stored raw file no longer matches its recorded size and SHA-256',
     );
     throw new RawFileIntegrityError(
       'The stored raw file no longer matches the SHA-256 recorded when it was verified; it is not served.',

@@ -31,6 +31,7 @@ import {
   type UploadRow,
 } from './repositories/uploads.ts';
 import { claimIdempotentChange } from './idempotency.ts';
+import { log } from './log.ts';
 import { readVerifiedRawFile, sealVerifiedBytes, stagingKey } from './raw-objects.ts';
 import { deleteObject, getObjectBytes, presignPut } from './storage.ts';
 import { resolveTerms } from './vocabulary.ts';
@@ -268,10 +269,7 @@ export async function completeUpload(
 /** Removes a staging object once its bytes are sealed; a failure leaves only an unused object. */
 async function dropStagingObject(key: string): Promise<void> {
   await deleteObject(key).catch((err: unknown) =>
-    console.error(
-      `[edgewise] staging object ${key} not removed:`,
-      err instanceof Error ? err.message : err,
-    ),
+    log().warn({ err, key }, 'staging object not removed'),
   );
 }
 

@@ -1,6 +1,7 @@
 import { Kysely, PostgresDialect } from 'kysely';
 import pg from 'pg';
 import { config } from '../config.ts';
+import { log } from '../log.ts';
 import type { Database } from './schema.ts';
 
 export type { Database } from './schema.ts';
@@ -35,7 +36,7 @@ function noteConnectionLost(err: Error): void {
   const now = Date.now();
   if (now - lastLogged < 1_000) return;
   lastLogged = now;
-  console.error(`[edgewise] database connection lost: ${err.message}`);
+  log().error({ err: err.message }, 'database connection lost');
 }
 
 /** The process's single Kysely instance. */

@@ -11,6 +11,7 @@ import { labsPaths } from './labs.ts';
 import { accountPaths } from './account.ts';
 import { adminPaths } from './admin.ts';
 import { metaPaths } from './meta.ts';
+import { withBoundaryAnswers } from './boundary.ts';
 
 // The OpenAPI 3.1 document of /api/v1, generated from the same zod schemas the routes parse with,
 // one file per tag. tests/integration/openapi.test.ts fails when a route under src/pages/api/v1 is
@@ -35,7 +36,12 @@ export function openApiDocument(serverUrl: string): Json {
         '',
         '**Errors** are RFC 9457 problem details (`application/problem+json`); for bad input, `errors` lists each field or line with its `path`. ' +
           'Request bodies are strict: an unknown field is a 400 that names it. Objects you may not see answer 404, like missing ones. ' +
-          'Any operation may answer 503 with `Retry-After` while the database is unavailable.',
+          'Any operation may answer 503 with `Retry-After` while the database or object storage is unavailable; ' +
+          'a NUL character or a lone surrogate in a path segment, query parameter or body field is a 400 naming it.',
+        '',
+        '**Methods.** A method a path does not list answers 405, with an `Allow` header naming the ones it does (HEAD wherever GET is).',
+        '',
+        '**Repeats.** Creating operations (records, uploads, imports, status moves) take an `Idempotency-Key` header: a repeat with the same key gets the first answer instead of a second change.',
       ].join('\n'),
       license: { name: 'CC-BY-4.0 (data)', identifier: 'CC-BY-4.0' },
     },
@@ -108,7 +114,7 @@ export function openApiDocument(serverUrl: string): Json {
       },
     },
     security: [{}, { session: [] }, { token: [] }],
-    paths: {
+    paths: withBoundaryAnswers({
       ...recordsPaths,
       ...filesPaths,
       ...analysisPaths,
@@ -118,6 +124,6 @@ export function openApiDocument(serverUrl: string): Json {
       ...accountPaths,
       ...adminPaths,
       ...metaPaths,
-    },
+    }),
   };
 }
