@@ -321,12 +321,17 @@ describe('the status machine', () => {
     expect(flags).toEqual([{ status: 'resolved', resolved_by: curatorId }]);
   });
 
-  it('refuses moves the status does not allow (409) and people who may not make them (403)', async () => {
+  it('refuses people who may not make a move (403, before anything else) and moves the status does not allow (409)', async () => {
     const r = await create();
     const h = r.handle;
     expect((await move(curator, h, 'publish', 1)).status).toBe(404); // a curator cannot see a draft at all
-    expect((await move(owner, h, 'publish', 1)).status).toBe(409); // draft → published is no move
-    expect((await move(owner, h, 'withdraw', 1)).status).toBe(409);
+    // Moves the owner could never make are refused before status or version are looked at, so
+    // neither is told to them (a stale version's 409 names the current one).
+    expect((await move(owner, h, 'publish', 1)).status).toBe(403);
+    expect((await move(owner, h, 'withdraw', 1)).status).toBe(403);
+    const stale = await move(owner, h, 'publish', 7);
+    expect(stale.status).toBe(403);
+    expect(await stale.json()).not.toHaveProperty('currentVersion');
     expect((await move(owner, h, 'submit', 7)).status).toBe(409); // stale version
     expect((await move(owner, h, 'submit', 1)).status).toBe(200);
     expect((await move(owner, h, 'submit', 1)).status).toBe(409); // already submitted
