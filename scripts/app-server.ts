@@ -87,15 +87,13 @@ const server = http.createServer((req, res) => {
   try {
     decodeURI(pathname);
   } catch {
-    res
-      .writeHead(400, { 'content-type': 'application/problem+json' })
-      .end(
-        JSON.stringify({
-          title: 'Invalid request',
-          status: 400,
-          detail: 'The path is not valid percent-encoded UTF-8.',
-        }),
-      );
+    res.writeHead(400, { 'content-type': 'application/problem+json' }).end(
+      JSON.stringify({
+        title: 'Invalid request',
+        status: 400,
+        detail: 'The path is not valid percent-encoded UTF-8.',
+      }),
+    );
     return;
   }
   // The Fetch API cannot carry these methods into Astro (constructing the request throws); they

@@ -75,7 +75,10 @@ beforeAll(async () => {
     encoding: 'utf8',
   });
   if (m.status !== 0) throw new Error(`migrate: ${m.stderr}`);
-  const urls = JSON.parse(pgCtl('urls')) as { adminUrl: string; appUrl: string };
+  const urls = JSON.parse(pgCtl('urls')) as { adminUrl: string; appUrl: string; port: number };
+  // Restarts after a crash must come back on the same port (the server's DATABASE_URL names it),
+  // not move on while the old one is still held: starting fails until it is free, and is retried.
+  pgEnv.EDGEWISE_PG_PORT = String(urls.port);
   const { loadVocabularySeed } = await import('../../seed/load-vocabulary.ts');
   await loadVocabularySeed(urls.appUrl);
   admin = createDb(urls.adminUrl, 2);
