@@ -181,7 +181,7 @@ describe('contributing a record in a browser', () => {
     // Storage is slow once (cancelled) and then fails once (retried).
     let delayNext = true;
     let failNext = false;
-    await page.route(/\/edgewise-raw\/raw\//, async (route) => {
+    await page.route(/\/edgewise-raw\/uploads\//, async (route) => {
       if (route.request().method() !== 'PUT') return route.continue();
       if (delayNext) {
         delayNext = false;
