@@ -9,61 +9,22 @@ import {
   vocabularyQueries,
   type IndexTerm,
 } from '../lib/client/records.ts';
+import { kindWord, searchHref, SEARCH_KINDS, understand } from '#lib/client/understand.ts';
 import { buttonPrimary, EvidenceBadge, Failed, input, Loading, muted } from './ui.tsx';
-
-const KIND_WORD: Record<string, string> = {
-  salt: 'salt',
-  solvent: 'solvent',
-  additive: 'additive',
-  'electrode-material': 'electrode',
-};
-const SEARCHABLE = new Set(Object.keys(KIND_WORD));
-
-/** The words that join the parts of a search: "LiTFSI in water on glassy carbon". */
-const JOINERS = /\s*(?:,|;|\+|\s(?:in|on|with|and|at|vs)\s)\s*/i;
-
-export interface Understood {
-  terms: IndexTerm[];
-  rest: string[];
-}
-
-/** Splits a search into parts and matches each against the vocabulary (names, abbreviations, synonyms, misspellings). */
-export function understand(fuse: Fuse<IndexTerm>, text: string): Understood {
-  const terms: IndexTerm[] = [];
-  const rest: string[] = [];
-  for (const part of text
-    .split(JOINERS)
-    .map((p) => p.trim())
-    .filter(Boolean)) {
-    const hit = fuse.search(part, { limit: 1 })[0];
-    if (hit && (hit.score ?? 1) <= 0.55) {
-      if (!terms.some((t) => t.id === hit.item.id)) terms.push(hit.item);
-    } else rest.push(part);
-  }
-  return { terms, rest };
-}
-
-/** Where a search leads: the explorer filtered by the understood components and electrodes. */
-export function searchHref(u: Understood): string {
-  const p = new URLSearchParams();
-  for (const t of u.terms)
-    p.append(t.kind === 'electrode-material' ? 'electrode' : 'component', t.id);
-  if (u.rest.length) p.set('q', u.rest.join(' '));
-  const s = p.toString();
-  return `/windows${s ? `?${s}` : ''}`;
-}
+import Understanding from './Understanding.tsx';
 
 function Search({ examples, initialQuery }: { examples: string[]; initialQuery: string }) {
   const id = useId();
   const vocab = useQuery(vocabularyQueries.all());
   const recent = useQuery(recordQueries.recent(6));
   const [text, setText] = useState(initialQuery);
-  const [active, setActive] = useState(0);
+  // -1: nothing highlighted, so Enter runs the text as typed; arrows highlight a suggestion.
+  const [active, setActive] = useState(-1);
   const [open, setOpen] = useState(false);
   const fuse = useMemo(
     () =>
       new Fuse(
-        (vocab.data ?? []).filter((t) => SEARCHABLE.has(t.kind)),
+        (vocab.data ?? []).filter((t) => SEARCH_KINDS.has(t.kind)),
         {
           keys: [
             { name: 'abbreviations', weight: 3 },
@@ -82,19 +43,24 @@ function Search({ examples, initialQuery }: { examples: string[]; initialQuery: 
     () => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined),
     [vocab.data],
   );
-  const parts = text.split(JOINERS);
-  const last = parts[parts.length - 1]!.trim();
-  const suggestions =
-    last.length >= 1 && vocab.data ? fuse.search(last, { limit: 6 }).map((r) => r.item) : [];
-  const understood = vocab.data ? understand(fuse, text) : { terms: [], rest: [] };
+  // Suggestions complete the word being typed (the last one, or the last two for two-word names).
+  const words = text.split(/\s+/);
+  const typing = text.endsWith(' ') ? '' : (words[words.length - 1] ?? '');
+  const twoWords = words.length >= 2 && typing ? words.slice(-2).join(' ') : '';
+  const byOne = typing && vocab.data ? fuse.search(typing, { limit: 6 }) : [];
+  const byTwo = twoWords && vocab.data ? fuse.search(twoWords, { limit: 6 }) : [];
+  const useTwo = byTwo.length > 0 && (byTwo[0]!.score ?? 1) < (byOne[0]?.score ?? 1);
+  const suggestions = (useTwo ? byTwo : byOne).map((r) => r.item);
+  const understood = vocab.data ? understand(text, vocab.data) : null;
 
   const pick = (t: IndexTerm) => {
-    const prefix = text.slice(0, text.length - text.split(JOINERS).pop()!.length);
-    setText(`${prefix}${t.abbreviations[0] ?? t.name} `);
+    const keep = words.slice(0, words.length - (useTwo ? 2 : 1)).join(' ');
+    setText(`${keep ? `${keep} ` : ''}${t.abbreviations[0] ?? t.name} `);
     setOpen(false);
+    setActive(-1);
   };
   const go = (q: string) => {
-    location.href = searchHref(understand(fuse, q));
+    location.href = searchHref(understand(q, vocab.data ?? []));
   };
   const listId = `${id}-list`;
   const showList = open && suggestions.length > 0;
@@ -119,12 +85,12 @@ function Search({ examples, initialQuery }: { examples: string[]; initialQuery: 
             aria-expanded={showList}
             aria-controls={listId}
             aria-autocomplete="list"
-            aria-activedescendant={showList ? `${id}-opt-${active}` : undefined}
+            aria-activedescendant={showList && active >= 0 ? `${id}-opt-${active}` : undefined}
             autoComplete="off"
             value={text}
             onChange={(e) => {
               setText(e.target.value);
-              setActive(0);
+              setActive(-1);
               setOpen(true);
             }}
             onBlur={() => setTimeout(() => setOpen(false), 150)}
@@ -135,11 +101,14 @@ function Search({ examples, initialQuery }: { examples: string[]; initialQuery: 
                 setActive((a) => (a + 1) % suggestions.length);
               } else if (e.key === 'ArrowUp') {
                 e.preventDefault();
-                setActive((a) => (a - 1 + suggestions.length) % suggestions.length);
-              } else if (e.key === 'Enter' || e.key === 'Tab') {
-                if (suggestions[active]) {
+                setActive((a) => (a <= 0 ? suggestions.length - 1 : a - 1));
+              } else if (e.key === 'Enter') {
+                // A suggestion is taken only when one was chosen with the arrows; otherwise the
+                // form submits the text as typed.
+                const chosen = active >= 0 ? suggestions[active] : undefined;
+                if (chosen) {
                   e.preventDefault();
-                  pick(suggestions[active]);
+                  pick(chosen);
                 }
               } else if (e.key === 'Escape') {
                 // Close the list only; a search field would otherwise also clear its text.
@@ -147,7 +116,7 @@ function Search({ examples, initialQuery }: { examples: string[]; initialQuery: 
                 setOpen(false);
               }
             }}
-            placeholder="e.g. LiTFSI in water on glassy carbon"
+            placeholder="e.g. 21 m LiTFSI water glassy carbon"
             className={`${input} flex-1 min-w-0 px-3 py-2`}
           />
           <button type="submit" className={buttonPrimary}>
@@ -174,20 +143,18 @@ function Search({ examples, initialQuery }: { examples: string[]; initialQuery: 
               >
                 <span className="font-semibold">{t.abbreviations[0] ?? t.name}</span>
                 {t.abbreviations[0] && <span className="text-sm">{t.name}</span>}
-                <span className={`ml-auto text-xs ${muted}`}>{KIND_WORD[t.kind]}</span>
+                <span className={`ml-auto text-xs ${muted}`}>{kindWord(t)}</span>
               </li>
             ))}
           </ul>
         </div>
-        <p className={`mt-2 text-sm ${muted} min-h-5`} aria-live="polite" data-testid="understood">
-          {vocab.isError
-            ? 'Suggestions are unavailable; the search still works by words.'
-            : understood.terms.length > 0
-              ? `Looking for ${understood.terms.map((t) => `${t.abbreviations[0] ?? t.name} (${KIND_WORD[t.kind]})`).join(', ')}${understood.rest.length ? ` and the words “${understood.rest.join(' ')}”` : ''}`
-              : text.trim()
-                ? 'No salt, solvent or electrode recognised yet; the words are searched as text.'
-                : ''}
-        </p>
+        {vocab.isError ? (
+          <p className={`mt-2 text-sm ${muted}`} data-testid="understood">
+            Suggestions are unavailable; the search still works by words.
+          </p>
+        ) : (
+          <Understanding understood={understood} typed={text} />
+        )}
       </form>
       <div>
         <p className={`text-sm ${muted}`}>Try one of these:</p>

@@ -19,6 +19,7 @@ import {
   muted,
   panel,
 } from './ui.tsx';
+import { formatNumber } from '#lib/shared/format.ts';
 
 // The window-opening planner: a vertex schedule per direction with its duration, the criteria to
 // judge it by, what a wider window is worth, and the cautions for the chosen materials.
@@ -182,7 +183,7 @@ function DirectionTable({
             {plan.steps.map((s) => (
               <tr key={s.index} className="border-b border-rule/60 dark:border-night-rule/60">
                 <td className="py-1 pr-3 num">{s.index}</td>
-                <td className="py-1 pr-3 num">{s.vertexV.toFixed(3).replace(/^-/, '−')}</td>
+                <td className="py-1 pr-3 num">{formatNumber(s.vertexV)}</td>
                 <td className="py-1 pr-3 num text-right whitespace-nowrap">{duration(s.cycleS)}</td>
                 <td className="py-1 pr-3 num text-right whitespace-nowrap">{duration(s.stepS)}</td>
                 <td className="py-1 num text-right whitespace-nowrap">{duration(s.elapsedS)}</td>

@@ -7,6 +7,7 @@ import {
   type ReferenceInfo,
 } from '../lib/analysis/references.ts';
 import { buttonQuiet, input, muted, panel } from './ui.tsx';
+import { formatNumber, readNumber } from '#lib/shared/format.ts';
 
 /** Every scale the engine knows, in the order offered. */
 export const SCALE_CHOICES: { id: string; label: string }[] = [
@@ -60,10 +61,8 @@ function fromUrl(search: string): State {
 }
 
 function num(text: string): number | undefined {
-  const t = text.trim().replace(',', '.').replace('−', '-');
-  if (t === '') return undefined;
-  const v = Number(t);
-  return Number.isFinite(v) ? v : Number.NaN;
+  if (text.trim() === '') return undefined;
+  return readNumber(text);
 }
 
 type Outcome =
@@ -123,7 +122,7 @@ export default function ScaleConverter({ initialSearch = '' }: { initialSearch?:
 
   const label = (scale: string) =>
     SCALE_CHOICES.find((c) => c.id === scale)?.label.replace(/ \(needs.*\)$/, '') ?? scale;
-  const fmt = (x: number) => x.toFixed(4).replace(/^-/, '−');
+  const fmt = (x: number) => formatNumber(x, 4);
 
   return (
     <div className="grid gap-6 lg:grid-cols-[minmax(0,22rem)_minmax(0,1fr)]">

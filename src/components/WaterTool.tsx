@@ -9,8 +9,9 @@ import {
   type SearchItem,
 } from '../lib/client/records.ts';
 import WaterChart, { type WaterPoint } from './charts/WaterChart.tsx';
-import { seriesColour } from './charts/plot.tsx';
+import { ElectrodeLegend } from './charts/palette.tsx';
 import { Failed, input, muted, panel } from './ui.tsx';
+import { formatNumber } from '#lib/shared/format.ts';
 
 function clamp(v: number, lo: number, hi: number) {
   return Math.min(hi, Math.max(lo, v));
@@ -51,7 +52,7 @@ export function WaterToolView({
     Number.isFinite(v) && setState((s) => ({ ...s, tempC: clamp(v, 0, 100) }));
   const setPh = (v: number) =>
     Number.isFinite(v) && setState((s) => ({ ...s, pH: clamp(Math.round(v * 100) / 100, 0, 14) }));
-  const f = (v: number, d = 3) => v.toFixed(d).replace(/^-/, '−');
+  const f = (v: number, d = 3) => formatNumber(v, d);
 
   return (
     <div className="grid grid-cols-[minmax(0,1fr)] gap-6 lg:grid-cols-[minmax(0,18rem)_minmax(0,1fr)]">
@@ -172,6 +173,7 @@ export function waterPoints(
       cathodicSheV: i.onScale.cathodic,
       anodicSheV: i.onScale.anodic,
       group: electrodeName(i.content.workingElectrode.material),
+      electrode: i.content.workingElectrode.material,
     }));
 }
 
@@ -186,7 +188,6 @@ function WaterWithRecords({ initialSearch }: { initialSearch: string }) {
     () => (records.data ? waterPoints(records.data.items, (id) => longName(terms, id)) : undefined),
     [records.data, terms],
   );
-  const groups = [...new Set((points ?? []).map((p) => p.group))];
   const below = records.isError ? (
     <Failed
       error={records.error}
@@ -210,16 +211,10 @@ function WaterWithRecords({ initialSearch }: { initialSearch: string }) {
               : ''}
             . Hover a bar for its handle.
           </p>
-          <ul className="mt-1 flex flex-wrap gap-x-4 gap-y-1">
-            {groups.map((g, i) => (
-              <li key={g} className="flex min-w-0 items-center gap-1.5 break-words">
-                <svg width="6" height="12" aria-hidden="true">
-                  <rect width="6" height="12" rx="2" fill={seriesColour(i)} />
-                </svg>
-                {g}
-              </li>
-            ))}
-          </ul>
+          <ElectrodeLegend
+            className="mt-1"
+            items={points.map((p) => ({ id: p.electrode, name: p.group }))}
+          />
         </>
       )}
     </div>

@@ -1,5 +1,6 @@
 import type { ReactNode } from 'react';
 import { errorMessage } from '../lib/client/api.ts';
+import { formatVolts } from '#lib/shared/format.ts';
 
 // Small pieces every reader's island uses, so the screens look and behave alike.
 
@@ -91,5 +92,5 @@ export function EvidenceBadge({ level }: { level: string }) {
 /** A potential with its sign and unit, in the number face. */
 export function Volts({ v, digits = 3 }: { v: number | null | undefined; digits?: number }) {
   if (v === null || v === undefined || !Number.isFinite(v)) return <span className={muted}>—</span>;
-  return <span className="num">{v.toFixed(digits).replace(/^-/, '−')} V</span>;
+  return <span className="num">{formatVolts(v, digits)}</span>;
 }

@@ -99,7 +99,9 @@ describe("the formulator's path", () => {
     const box = page.getByRole('combobox', { name: 'Salt, solvent or electrode' });
     await box.fill('litfsi in watr');
     // Misspelt "water" and a lower-case abbreviation are both understood.
-    await expect.poll(() => text(page, 'understood')).toContain('LiTFSI (salt), H2O (solvent)');
+    await expect
+      .poll(() => text(page, 'understood'))
+      .toContain('LiTFSI (salt), H2O (solvent, read from “watr”)');
     expect(await page.getByRole('option').count()).toBeGreaterThan(0);
     await box.press('Escape');
     await page.getByRole('button', { name: 'Search', exact: true }).click();
@@ -161,7 +163,7 @@ describe("the formulator's path", () => {
     await again.goto(shared);
     await expect
       .poll(() => text(again, 'result-count'))
-      .toMatch(new RegExp(`^${gcAndAc} matching · common criterion s:0\\.1 · limits vs Li⁺/Li`));
+      .toMatch(new RegExp(`^${gcAndAc} matching · common criterion S ≤ 0\\.1 · limits vs Li⁺/Li`));
     await expect
       .poll(async () => again.locator(`tr[data-handle="${handles.gc}"]`).innerText())
       .toContain('4.327');
@@ -213,7 +215,7 @@ describe("the formulator's path", () => {
       .poll(async () =>
         (await page.getByRole('region', { name: /Analysis of/ }).innerText()).replace(/\s+/g, ' '),
       )
-      .toMatch(/Recomputed at ce:99%: 0\.9[3-6]\d V/);
+      .toMatch(/Recomputed at CE ≥ 99 %: 0\.9[3-6]\d V/);
     expect(await text(page, 'files')).toMatch(/[0-9a-f]{64}/);
     expect(await page.getByTestId('doi-link').getAttribute('href')).toBe(
       'https://doi.org/10.5555/ew.reader.1',

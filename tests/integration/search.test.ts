@@ -71,7 +71,7 @@ beforeAll(async () => {
     over: {
       electrolyte: {
         solvents: [{ term: 'water', fraction: 1 }],
-        salts: [{ term: 'LiTFSI', concentration: { value: 21, basis: 'mol/kg' } }],
+        salts: [{ term: 'LiTFSI', concentration: { value: 1.2, basis: 'mol/kg' } }],
         pH: 7,
       },
       workingElectrode: { material: 'stainless steel', form: 'foil' },
@@ -135,8 +135,16 @@ describe('filters', () => {
     expect(hs(await list('scanRateMin=2&scanRateMax=6'))).toEqual(names('pcGc', 'cell'));
     expect(hs(await list('temperatureMin=50'))).toEqual(names('acnPt'));
     expect(hs(await list('cellType=two-electrode'))).toEqual(names('cell'));
-    expect(hs(await list('concentrationBasis=mol/kg&concentrationMin=20'))).toEqual(names('water'));
-    expect(hs(await list('concentrationMin=1.2&concentrationMax=2'))).toEqual(names('acnPt'));
+    expect(hs(await list('concentrationBasis=mol/kg&concentrationMin=1.1'))).toEqual(
+      names('water'),
+    );
+    expect(
+      hs(await list('concentrationBasis=mol/L&concentrationMin=1.2&concentrationMax=2')),
+    ).toEqual(names('acnPt'));
+    // Bounds without a basis would compare mol/L, mol/kg and fractions as one number: refused.
+    const mixed = await as(null, '/api/v1/records?concentrationMin=1.2&concentrationMax=2');
+    expect(mixed.status).toBe(400);
+    expect((await mixed.json()).errors[0].path).toBe('concentrationBasis');
     expect(hs(await list('evidence=documented'))).toHaveLength(4);
     expect(hs(await list('evidence=confirmed'))).toEqual([]);
     expect(hs(await list('status=withdrawn'))).toEqual(names('withdrawn'));
@@ -154,6 +162,26 @@ describe('filters', () => {
     expect(second.items.map((i) => i.handle)).toEqual(
       names('pcGc', 'acnPt', 'water', 'cell').slice(2),
     );
+    // Concentration sorts within a basis: each basis in one run, ascending inside it (1.2 mol/kg
+    // lies between 1 and 1.5 mol/L, so one sort by the bare number would interleave them).
+    for (const sort of ['concentration', '-concentration']) {
+      const byConc = (await list(`sort=${sort}`)) as unknown as {
+        items: {
+          content: {
+            electrolyte: { salts: { concentration: { value: number; basis: string } }[] };
+          };
+        }[];
+      };
+      const seq = byConc.items.map((i) => i.content.electrolyte.salts[0]?.concentration ?? null);
+      const bases = seq.filter((c) => c !== null).map((c) => c.basis);
+      expect(bases.filter((b, i) => i === 0 || b !== bases[i - 1])).toEqual([...new Set(bases)]);
+      for (const basis of new Set(bases)) {
+        const v = seq.filter((c) => c?.basis === basis).map((c) => c!.value);
+        const sorted = [...v].sort((a, b) => (sort.startsWith('-') ? b - a : a - b));
+        expect(v, `${sort} ${basis}`).toEqual(sorted);
+      }
+      expect(new Set(bases).size, 'the records here use two bases').toBeGreaterThanOrEqual(2);
+    }
     expect((await as(null, '/api/v1/records?limit=201')).status).toBe(400);
     expect((await as(null, '/api/v1/records?sort=secret')).status).toBe(400);
     expect((await as(null, '/api/v1/records?ownerId=x')).status).toBe(400);
@@ -316,6 +344,21 @@ describe('exports', () => {
     );
     return res.text();
   };
+
+  it('names each format’s file differently, so downloads never overwrite one another', async () => {
+    const names = new Map<string, string>();
+    for (const format of ['csv', 'json', 'bibtex', 'csljson']) {
+      const res = await api(`/api/v1/exports?format=${format}&q=${token}`);
+      await res.arrayBuffer();
+      names.set(
+        format,
+        /filename="([^"]+)"/.exec(res.headers.get('content-disposition') ?? '')![1]!,
+      );
+    }
+    expect(new Set(names.values()).size).toBe(4);
+    expect(names.get('csljson')).toBe('edgewise-windows.csl.json');
+    expect(names.get('json')).toBe('edgewise-windows.json');
+  });
 
   it('CSV parses back with a CSV parser, one row per record with handle, version and citation', async () => {
     const rows = parseCsv(await get('csv'), { columns: true }) as Record<string, string>[];

@@ -1,5 +1,6 @@
 import { waterWindow } from '#lib/analysis/water.ts';
-import { AxisBottom, AxisLeft, ChartFrame, linearScale, niceTicks, seriesColour } from './plot.tsx';
+import { electrodeColour } from './palette.tsx';
+import { AxisBottom, AxisLeft, ChartFrame, linearScale, niceTicks } from './plot.tsx';
 
 /** A published aqueous window placed on the chart: limits on SHE at the record's pH. */
 export interface WaterPoint {
@@ -8,6 +9,8 @@ export interface WaterPoint {
   cathodicSheV: number | null;
   anodicSheV: number | null;
   group: string;
+  /** Working-electrode material id: picks the colour. */
+  electrode: string;
 }
 
 interface Props {
@@ -42,7 +45,6 @@ export default function WaterChart({
   }
   const lo = Math.floor((Math.min(...values) - 0.1) * 5) / 5;
   const hi = Math.ceil((Math.max(...values) + 0.1) * 5) / 5;
-  const groups = [...new Set(points.map((p) => p.group))];
 
   return (
     <ChartFrame
@@ -121,7 +123,7 @@ export default function WaterChart({
               H₂ evolution (HER)
             </text>
             {points.map((p) => {
-              const c = seriesColour(groups.indexOf(p.group));
+              const c = electrodeColour(p.electrode);
               const top = p.anodicSheV ?? p.cathodicSheV!;
               const bottom = p.cathodicSheV ?? p.anodicSheV!;
               return (

@@ -1,42 +1,18 @@
 import { useEffect, useId, useState } from 'react';
 import { REFERENCE_ELECTRODES } from '#lib/analysis/references.ts';
+import { commonText, parseCommon } from '#lib/shared/criteria.ts';
 import { input, muted } from '../ui.tsx';
 
-/** Kinds of common criterion, in the engine's notation, with their threshold unit and a usual default. */
+/** Kinds of common criterion (see parseCommon), with their threshold unit and a usual default. */
 const KINDS = [
-  { kind: '', label: 'each record’s own', unit: '', prefix: '', fallback: '' },
-  { kind: 's', label: 'S-value ≤', unit: '', prefix: 's:', fallback: '0.1' },
-  { kind: 'ce', label: 'coulombic efficiency ≥', unit: '%', prefix: 'ce:', fallback: '99' },
-  { kind: 'j', label: 'current density ≤', unit: 'µA cm⁻²', prefix: 'j:', fallback: '10' },
-  { kind: 'jm', label: 'current per mass ≤', unit: 'mA g⁻¹', prefix: 'jm:', fallback: '10' },
-  { kind: 'leak-m', label: 'hold leakage ≤', unit: 'mA g⁻¹', prefix: 'leak:', fallback: '10' },
-  { kind: 'leak-a', label: 'hold leakage ≤', unit: 'µA cm⁻²', prefix: 'leak:', fallback: '10' },
+  { kind: '', label: 'each record’s own', unit: '', fallback: '' },
+  { kind: 's', label: 'S-value ≤', unit: '', fallback: '0.1' },
+  { kind: 'ce', label: 'coulombic efficiency ≥', unit: '%', fallback: '99' },
+  { kind: 'j', label: 'current density ≤', unit: 'µA cm⁻²', fallback: '10' },
+  { kind: 'jm', label: 'current per mass ≤', unit: 'mA g⁻¹', fallback: '10' },
+  { kind: 'leak-m', label: 'hold leakage ≤', unit: 'mA g⁻¹', fallback: '10' },
+  { kind: 'leak-a', label: 'hold leakage ≤', unit: 'µA cm⁻²', fallback: '10' },
 ] as const;
-const SUFFIX: Record<string, string> = {
-  ce: '%',
-  j: 'uA/cm2',
-  jm: 'mA/g',
-  'leak-m': 'mA/g',
-  'leak-a': 'uA/cm2',
-  s: '',
-};
-
-/** Splits "ce:99%" into the chooser's kind and threshold. */
-export function parseCommon(text: string | undefined): { kind: string; value: string } {
-  if (!text) return { kind: '', value: '' };
-  const m = /^(s|ce|jm|j|leak):\s*([0-9.eE+-]+)\s*(.*)$/.exec(text.trim());
-  if (!m) return { kind: '', value: '' };
-  const [, k, v, unit] = m;
-  if (k === 'leak') return { kind: /cm/.test(unit!) ? 'leak-a' : 'leak-m', value: v! };
-  return { kind: k!, value: v! };
-}
-
-export function commonText(kind: string, value: string): string {
-  const k = KINDS.find((x) => x.kind === kind);
-  if (!k || !k.kind || !value.trim()) return '';
-  return `${k.prefix}${value.trim()}${SUFFIX[kind] ?? ''}`;
-}
-
 /** The common criterion applied to every raw-backed record. */
 export function CriterionChooser({
   value,

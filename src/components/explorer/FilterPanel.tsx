@@ -13,7 +13,9 @@ import {
   type IndexTerm,
   type RecordQuery,
 } from '#lib/client/records.ts';
+import { understand, understoodParams, type Understood } from '#lib/client/understand.ts';
 import { buttonQuiet, input, muted } from '../ui.tsx';
+import Understanding from '../Understanding.tsx';
 
 type ListKey =
   | 'component'
@@ -40,6 +42,8 @@ interface Props {
   terms: Map<string, IndexTerm> | undefined;
   onList: (key: ListKey, values: string[]) => void;
   onText: (key: TextKey, value: string) => void;
+  /** Several parameters changed as one step (a typed search read into filters). */
+  onSearch: (mutate: (p: URLSearchParams) => void) => void;
   onClear: () => void;
 }
 
@@ -51,6 +55,7 @@ function CommitField({
   className,
   inputMode,
   placeholder,
+  disabled,
 }: {
   id: string;
   value: string;
@@ -58,6 +63,7 @@ function CommitField({
   className: string;
   inputMode?: 'decimal' | 'search';
   placeholder?: string;
+  disabled?: boolean;
 }) {
   const [draft, setDraft] = useState(value);
   useEffect(() => setDraft(value), [value]);
@@ -65,6 +71,7 @@ function CommitField({
     <input
       id={id}
       value={draft}
+      disabled={disabled}
       inputMode={inputMode}
       placeholder={placeholder}
       autoComplete="off"
@@ -127,6 +134,7 @@ function Range({
   max,
   onMin,
   onMax,
+  disabled,
 }: {
   legend: string;
   unit: string;
@@ -134,6 +142,7 @@ function Range({
   max: string;
   onMin: (v: string) => void;
   onMax: (v: string) => void;
+  disabled?: boolean;
 }) {
   const id = useId();
   return (
@@ -147,6 +156,7 @@ function Range({
           id={`${id}-lo`}
           value={min}
           onCommit={onMin}
+          disabled={disabled}
           inputMode="decimal"
           placeholder="from"
           className={`${input} num w-full min-w-0 text-sm`}
@@ -157,6 +167,7 @@ function Range({
           id={`${id}-hi`}
           value={max}
           onCommit={onMax}
+          disabled={disabled}
           inputMode="decimal"
           placeholder="to"
           className={`${input} num w-full min-w-0 text-sm`}
@@ -167,9 +178,43 @@ function Range({
 }
 
 /** Every condition a record can be filtered by; each change is one step in the address history. */
-export default function FilterPanel({ query, facets, terms, onList, onText, onClear }: Props) {
+export default function FilterPanel({
+  query,
+  facets,
+  terms,
+  onList,
+  onText,
+  onSearch,
+  onClear,
+}: Props) {
   const id = useId();
   const [component, setComponent] = useState('');
+  const [read, setRead] = useState<{ text: string; understood: Understood } | null>(null);
+  // A typed search becomes filters: recognised components and electrodes are added, a
+  // concentration sets the range in its basis, and the words left over are searched as text.
+  const runSearch = (text: string) => {
+    if (!text) {
+      setRead(null);
+      onText('q', '');
+      return;
+    }
+    const u = understand(text, terms ? [...terms.values()] : []);
+    setRead({ text, understood: u });
+    const params = understoodParams(u);
+    onSearch((p) => {
+      for (const key of ['component', 'electrode'] as const) {
+        const have = p.getAll(key);
+        for (const v of params.getAll(key)) if (!have.includes(v)) p.append(key, v);
+      }
+      for (const key of ['concentrationMin', 'concentrationMax', 'concentrationBasis'] as const) {
+        const v = params.get(key);
+        if (v !== null) p.set(key, v);
+      }
+      const q = params.get('q');
+      if (q) p.set('q', q);
+      else p.delete('q');
+    });
+  };
   const counts = (name: FacetName) =>
     new Map((facets?.[name] ?? []).map((f) => [f.value, f.count]));
   const electrodeCounts = counts('electrode');
@@ -205,16 +250,17 @@ export default function FilterPanel({ query, facets, terms, onList, onText, onCl
     <div className="grid gap-5">
       <div className="grid gap-1">
         <label htmlFor={`${id}-q`} className="text-sm font-semibold">
-          Words
+          Search
         </label>
         <CommitField
           id={`${id}-q`}
           value={query.q ?? ''}
-          onCommit={(v) => onText('q', v)}
+          onCommit={runSearch}
           inputMode="search"
-          placeholder="title, source, name…"
+          placeholder="e.g. 21 m LiTFSI water GC"
           className={`${input} text-sm`}
         />
+        {read && <Understanding understood={read.understood} typed={read.text} />}
       </div>
 
       <div className="grid gap-1">
@@ -272,31 +318,48 @@ export default function FilterPanel({ query, facets, terms, onList, onText, onCl
         )}
       </div>
 
-      <Range
-        legend="Salt concentration"
-        unit={query.concentrationBasis ?? 'any basis'}
-        min={query.concentrationMin ?? ''}
-        max={query.concentrationMax ?? ''}
-        onMin={(v) => onText('concentrationMin', v)}
-        onMax={(v) => onText('concentrationMax', v)}
-      />
-      <div className="grid gap-1 -mt-3">
-        <label htmlFor={`${id}-basis`} className="sr-only">
-          Concentration basis
+      <div className="grid gap-1">
+        <label htmlFor={`${id}-basis`} className="text-sm font-semibold">
+          Salt concentration basis
         </label>
         <select
           id={`${id}-basis`}
           value={query.concentrationBasis ?? ''}
-          onChange={(e) => onText('concentrationBasis', e.target.value)}
+          onChange={(e) => {
+            const basis = e.target.value;
+            // Bounds belong to their basis: a new basis starts without them.
+            onSearch((p) => {
+              p.delete('concentrationMin');
+              p.delete('concentrationMax');
+              if (basis) p.set('concentrationBasis', basis);
+              else p.delete('concentrationBasis');
+            });
+          }}
           className={`${input} text-sm`}
         >
-          <option value="">any basis</option>
+          <option value="">any basis (no range)</option>
           {CONCENTRATION_BASES.map((b) => (
             <option key={b} value={b}>
               {b}
             </option>
           ))}
         </select>
+      </div>
+      <div className="-mt-3">
+        <Range
+          legend="Salt concentration"
+          unit={query.concentrationBasis ?? 'choose a basis first'}
+          min={query.concentrationMin ?? ''}
+          max={query.concentrationMax ?? ''}
+          onMin={(v) => onText('concentrationMin', v)}
+          onMax={(v) => onText('concentrationMax', v)}
+          disabled={!query.concentrationBasis}
+        />
+        {!query.concentrationBasis && (
+          <p className={`text-xs ${muted} mt-1`}>
+            mol/L, mol/kg and fractions are different numbers: a range needs its basis.
+          </p>
+        )}
       </div>
 
       {electrodes.length > 0 && (

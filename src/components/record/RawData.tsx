@@ -10,6 +10,8 @@ import { rawFileQueries, type AnalysisView, type RecordDetail } from '#lib/clien
 import CriterionPlot, { type CriterionPoint } from '../charts/CriterionPlot.tsx';
 import CurveChart, { type Curve } from '../charts/CurveChart.tsx';
 import { CriterionChooser } from '../explorer/Choosers.tsx';
+import { commonCriterionWords } from '#lib/shared/criteria.ts';
+import { formatVolts } from '#lib/shared/format.ts';
 import { Empty, Failed, Loading, muted, panel } from '../ui.tsx';
 
 /** Points, cutoff and labels of the judged quantity, from an analysis result. */
@@ -65,9 +67,9 @@ export function rawSamples(
 function limitLine(res: AnalysisResult, ref: string): string {
   const l = res.limit;
   if (l.status === 'not-reached')
-    return `not reached: stable to at least ${l.lastPassingV?.toFixed(3)} V vs ${ref}`;
+    return `not reached: stable to at least ${formatVolts(l.lastPassingV)} vs ${ref}`;
   if (l.status === 'exceeded-at-first') return 'exceeded already at the first point';
-  return `${l.interpolatedV?.toFixed(3)} V vs ${ref} (last passing ${l.lastPassingV?.toFixed(3)} V)`;
+  return `${formatVolts(l.interpolatedV)} vs ${ref} (last passing ${formatVolts(l.lastPassingV)})`;
 }
 
 function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
@@ -121,7 +123,7 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
           <span className="num text-sm">{file?.name}</span>
         </h3>
         <span className={`text-xs ${muted}`}>
-          {a.engineVersion}, criterion {stored.criterion.text}
+          {a.engineVersion}, criterion {commonCriterionWords(stored.criterion.text)}
         </span>
       </div>
       <div>
@@ -153,7 +155,9 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
         />
         <p className="text-sm" data-testid={`limit-${a.direction}`}>
           <span className="font-semibold">
-            {recomputed?.result ? `Recomputed at ${criterion}:` : `At ${stored.criterion.text}:`}
+            {recomputed?.result
+              ? `Recomputed at ${commonCriterionWords(criterion)}:`
+              : `At ${commonCriterionWords(stored.criterion.text)}:`}
           </span>{' '}
           {limitLine(shown, ref)}
         </p>

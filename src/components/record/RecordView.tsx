@@ -6,7 +6,6 @@ import { isAqueousElectrolyte } from '#lib/shared/record.ts';
 import ConversionNote from '../ConversionNote.tsx';
 import { queryClient } from '#lib/client/query.ts';
 import {
-  criterionText,
   electrolyteText,
   longName,
   METHOD_NAMES,
@@ -28,6 +27,8 @@ import {
 } from '../ui.tsx';
 import RawData from './RawData.tsx';
 import Versions from './Versions.tsx';
+import { formatVolts } from '#lib/shared/format.ts';
+import { criterionWords } from '#lib/shared/criteria.ts';
 
 const h2 = 'text-lg font-semibold';
 
@@ -80,7 +81,7 @@ function Conditions({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTer
         .filter(Boolean)
         .join(', '),
     ],
-    ['Criterion', criterionText(c.criterion)],
+    ['Criterion', criterionWords(c.criterion)],
   ];
   return (
     <dl
@@ -155,8 +156,7 @@ function Limits({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTerm> |
     toScale.approximate;
   const on = (she: number | null | undefined) =>
     she === null || she === undefined || offset === null ? null : she + offset;
-  const f = (v: number | null | undefined) =>
-    v === null || v === undefined ? '—' : `${v.toFixed(3).replace(/^-/, '−')} V`;
+  const f = (v: number | null | undefined) => formatVolts(v);
   const sides = [
     {
       side: 'Cathodic',

@@ -14,6 +14,7 @@ import {
   muted,
   panel,
 } from '../ui.tsx';
+import { formatVolts } from '#lib/shared/format.ts';
 
 // One record under review: what it states and what is missing, reported beside computed limits,
 // possible duplicates side by side, what changed since last time, and the decision with comments
@@ -29,7 +30,7 @@ const show = (v: unknown): string => {
   }
   return String(v);
 };
-const volts = (v: number) => `${v.toFixed(3).replace(/^-/, '−')} V`;
+const volts = (v: number) => formatVolts(v);
 
 /** The fields a comment can point at, with how to show them. */
 function conditionRows(c: RecordContent): { path: string; label: string; value: string }[] {

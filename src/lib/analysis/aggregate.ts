@@ -58,3 +58,27 @@ export function summarizeBy<T>(
   for (const [k, g] of groups) out.set(k, summarize(g));
   return out;
 }
+
+/**
+ * The shift between two samples: every pairwise difference a − b summarised. Its median is the
+ * Hodges–Lehmann two-sample estimate of the shift, robust to a stray value on either side; the
+ * quartiles say how far the differences spread; `count` is the number of pairs (na × nb).
+ */
+export function pairwiseDifference(
+  a: ArrayLike<number | null | undefined>,
+  b: ArrayLike<number | null | undefined>,
+): Summary & { na: number; nb: number } {
+  const finite = (xs: ArrayLike<number | null | undefined>) => {
+    const out: number[] = [];
+    for (let i = 0; i < xs.length; i++) {
+      const x = xs[i];
+      if (typeof x === 'number' && Number.isFinite(x)) out.push(x);
+    }
+    return out;
+  };
+  const fa = finite(a);
+  const fb = finite(b);
+  const d: number[] = [];
+  for (const x of fa) for (const y of fb) d.push(x - y);
+  return { ...summarize(d), na: fa.length, nb: fb.length };
+}

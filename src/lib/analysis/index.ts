@@ -13,6 +13,7 @@ export * from './water';
 export * from './energy';
 export * from './decimate';
 export * from './aggregate';
+export * from './baseline';
 export * from './analyze';
 export * from './synthetic';
 export * from './plan';

@@ -339,31 +339,16 @@ export function electrolyteText(
   return [salts, solvents].filter(Boolean).join(' in ') + additives;
 }
 
-/** The record's own criterion in words, e.g. "S ≤ 0.1". */
-export function criterionText(c: RecordContent['criterion']): string {
-  if (!c) return 'not stated';
-  switch (c.kind) {
-    case 's-value':
-      return `S ≤ ${c.threshold}`;
-    case 'ce':
-      return `CE ≥ ${c.threshold} %`;
-    case 'j-area':
-      return `j ≤ ${c.threshold} µA cm⁻²`;
-    case 'j-mass':
-      return `j ≤ ${c.threshold} mA g⁻¹`;
-    case 'hold-leakage':
-      return `leakage ≤ ${c.threshold} ${c.per === 'area' ? 'µA cm⁻²' : 'mA g⁻¹'}`;
-  }
-}
-
 /**
- * A common-criterion limit moved from the record's own reference to the chosen scale: the
- * record's own offset to SHE, then the shift the API applied to its reported SHE values.
+ * A potential on the record's own reference moved to the chosen scale: the record's own offset to
+ * SHE, then the shift the API applied to its reported SHE values. Cell voltages stay as they are.
  */
-export function commonOnScale(item: SearchItem, side: 'cathodic' | 'anodic'): number | null {
-  const cc = item.commonCriterion;
-  const v = cc?.[side === 'cathodic' ? 'cathodicV' : 'anodicV'];
-  if (!cc?.applied || v === null || v === undefined) return null;
+export function ownToScale(
+  item: SearchItem,
+  side: 'cathodic' | 'anodic',
+  v: number | null | undefined,
+): number | null {
+  if (v === null || v === undefined) return null;
   if (item.limitKind === 'cell-voltage') return v;
   for (const s of [side, side === 'cathodic' ? 'anodic' : 'cathodic'] as const) {
     const lim = item.limits[s];
@@ -372,4 +357,11 @@ export function commonOnScale(item: SearchItem, side: 'cathodic' | 'anodic'): nu
       return v + lim.offsetV + (shown - lim.sheV);
   }
   return null;
+}
+
+/** A common-criterion limit on the chosen scale (null when not reached or not recomputed). */
+export function commonOnScale(item: SearchItem, side: 'cathodic' | 'anodic'): number | null {
+  const cc = item.commonCriterion;
+  if (!cc?.applied) return null;
+  return ownToScale(item, side, cc[side === 'cathodic' ? 'cathodicV' : 'anodicV']);
 }

@@ -1,4 +1,5 @@
 import type { Principal } from '../shared/principal.ts';
+import { criterionWords } from '../shared/criteria.ts';
 import type { Db } from './db/index.ts';
 import {
   eachRecord,
@@ -21,7 +22,7 @@ export const EXPORT_TYPES: Record<ExportFormat, { type: string; ext: string }> =
   csv: { type: 'text/csv; charset=utf-8', ext: 'csv' },
   json: { type: 'application/json; charset=utf-8', ext: 'json' },
   bibtex: { type: 'application/x-bibtex; charset=utf-8', ext: 'bib' },
-  csljson: { type: 'application/vnd.citationstyles.csl+json; charset=utf-8', ext: 'json' },
+  csljson: { type: 'application/vnd.citationstyles.csl+json; charset=utf-8', ext: 'csl.json' },
 };
 
 const CSV_COLUMNS = [
@@ -92,22 +93,6 @@ export function citationText(c: SearchItem['content']): string {
     .join('. ');
 }
 
-function criterionText(c: SearchItem['content']['criterion']): string {
-  if (!c) return '';
-  switch (c.kind) {
-    case 's-value':
-      return `S <= ${c.threshold}`;
-    case 'ce':
-      return `CE >= ${c.threshold} %`;
-    case 'j-area':
-      return `j <= ${c.threshold} uA/cm2`;
-    case 'j-mass':
-      return `j <= ${c.threshold} mA/g`;
-    case 'hold-leakage':
-      return `end-of-hold leakage <= ${c.threshold} ${c.per === 'area' ? 'uA/cm2' : 'mA/g'}`;
-  }
-}
-
 /**
  * What the shown values' conversion is worth, in words: "exact", "not converted", or the engine's
  * flags joined by "+" (filling-not-stated, liquid-junction, metal-ion, reference-at-25c), with
@@ -147,7 +132,7 @@ function csvRow(r: SearchItem, origin: string): string {
     cell_type: r.content.cellType,
     method: r.content.method.kind,
     scan_rate_mv_s: 'scanRateMVs' in r.content.method ? r.content.method.scanRateMVs : undefined,
-    criterion: criterionText(r.content.criterion),
+    criterion: criterionWords(r.content.criterion, 'plain'),
     cathodic_reported_v: r.limits.cathodic?.valueV,
     cathodic_reference: r.limits.cathodic?.reference,
     anodic_reported_v: r.limits.anodic?.valueV,

@@ -24,6 +24,7 @@ import {
   type RecordContent,
 } from '../shared/record.ts';
 import type { Principal } from '../shared/principal.ts';
+import { commonCriterionWords } from '../shared/criteria.ts';
 import type { Db } from './db/index.ts';
 import { ValidationError } from './errors.ts';
 import { LISTED } from './record-status.ts';
@@ -75,10 +76,14 @@ export const recordQuerySchema = z.strictObject({
     ),
   concentrationMin: num
     .optional()
-    .describe('Lowest salt concentration, in the basis of concentrationBasis'),
+    .describe(
+      'Lowest salt concentration, in the basis of concentrationBasis (required with a bound)',
+    ),
   concentrationMax: num
     .optional()
-    .describe('Highest salt concentration, in the basis of concentrationBasis'),
+    .describe(
+      'Highest salt concentration, in the basis of concentrationBasis (required with a bound)',
+    ),
   concentrationBasis: z
     .enum(CONCENTRATION_BASES)
     .optional()
@@ -219,8 +224,19 @@ export interface ScaledLimit {
   scale: string;
 }
 
-/** Checks the scale and common criterion parameters before any query runs. */
+/** Checks the scale, concentration and common criterion parameters before any query runs. */
 function checkParams(q: RecordQuery) {
+  if (
+    (q.concentrationMin !== undefined || q.concentrationMax !== undefined) &&
+    !q.concentrationBasis
+  )
+    throw new ValidationError([
+      {
+        path: 'concentrationBasis',
+        message:
+          'give the basis of the concentration bounds (mol/L, mol/kg, mole fraction or mass fraction): numbers in different bases cannot be compared',
+      },
+    ]);
   if (q.scale) {
     try {
       referenceConversion('SHE', q.scale, { pH: 7 });
@@ -362,7 +378,7 @@ function recompute(
       if (c.kind !== 's' && c.kind !== 'ce')
         return {
           ...base,
-          reason: `criterion ${criterionText} does not apply to window-opening CV`,
+          reason: `${commonCriterionWords(criterionText)} does not apply to window-opening CV`,
         };
       const cycles: CycleCharge[] = (r.cycles ?? []).map((x) => ({
         index: x.index,
@@ -385,7 +401,7 @@ function recompute(
       if (c.kind === 's' || c.kind === 'ce')
         return {
           ...base,
-          reason: `criterion ${criterionText} applies to window-opening CV; ${needs} a current cutoff (e.g. j:10uA/cm2 or jm:10mA/g)`,
+          reason: `${commonCriterionWords(criterionText)} applies to window-opening CV; ${needs} a current cutoff (e.g. j ≤ 10 µA cm⁻² or j ≤ 10 mA g⁻¹)`,
         };
       const divisor =
         c.kind === 'j'
@@ -398,7 +414,7 @@ function recompute(
       if (divisor === null || !(divisor > 0))
         return {
           ...base,
-          reason: `criterion ${criterionText} needs ${c.kind === 'j' ? 'the electrode area' : 'the active mass'}, which the record does not give`,
+          reason: `${commonCriterionWords(criterionText)} needs ${c.kind === 'j' ? 'the electrode area' : 'the active mass'}, which the record does not give`,
         };
       if (r.method === 'hold') {
         const sign = r.direction === 'anodic' ? 1 : -1;
@@ -429,6 +445,8 @@ function recompute(
     if (dir === 'anodic') out.anodicV = v;
     else out.cathodicV = v;
     out.status[dir as 'anodic' | 'cathodic'] = limit.status;
+    if (limit.status === 'not-reached' && limit.lastPassingV !== null)
+      out.beyondV = { ...out.beyondV, [dir]: limit.lastPassingV };
   }
   return out;
 }

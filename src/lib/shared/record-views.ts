@@ -117,6 +117,13 @@ export const commonCriterionResultSchema = z.strictObject({
   anodicV: z.number().nullable(),
   /** 'reached', 'not-reached' or 'exceeded-at-first' per direction recomputed. */
   status: z.strictObject({ cathodic: z.string().optional(), anodic: z.string().optional() }),
+  /**
+   * Where a limit was not reached: the outermost potential that still passed (V, on the record's
+   * own reference, like cathodicV/anodicV); the limit lies at least that far out.
+   */
+  beyondV: z
+    .strictObject({ cathodic: z.number().optional(), anodic: z.number().optional() })
+    .optional(),
 });
 export type CommonCriterionResult = z.infer<typeof commonCriterionResultSchema>;
 

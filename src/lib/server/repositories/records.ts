@@ -460,7 +460,8 @@ const ORDER: Record<SortKey, string> = {
   width: 's.width_key',
   scanRate: 's.scan_rate_mv_s',
   temperature: 's.temperature_c',
-  concentration: 's.salt_concentration',
+  // Grouped by basis first: mol/L, mol/kg and fractions are different numbers, never one scale.
+  concentration: '(s.salt_basis, s.salt_concentration)',
 };
 
 export type SearchRow = VersionRow & {
