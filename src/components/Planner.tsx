@@ -9,6 +9,9 @@ import { windowOpeningPlan, type DirectionPlan } from '../lib/analysis/plan.ts';
 import { errorMessage } from '../lib/client/api.ts';
 import { queryClient } from '../lib/client/query.ts';
 import { vocabularyQueries, type IndexTerm } from '../lib/client/records.ts';
+import { referenceConversion } from '#lib/analysis/references.ts';
+import { formatSigned } from '#lib/shared/format.ts';
+import Evidence, { type EvidenceMedians } from './planner/Evidence.tsx';
 import { CAUTION_AUTHORITY, GAS_CAUTION, cautionsFor } from '../lib/shared/cautions.ts';
 import {
   anodicText,
@@ -225,6 +228,58 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
   const id = useId();
   const vocab = useQuery(vocabularyQueries.all());
   const set = (k: keyof Form) => (v: string) => setF((s) => ({ ...s, [k]: v }));
+  // Where the start and expected limits came from, said beside them.
+  const [origin, setOrigin] = useState<string | null>(null);
+  // Expected limits typed by the reader (or given in the address) are never replaced by evidence.
+  const [touched, setTouched] = useState(() => {
+    const q = new URLSearchParams(initialSearch);
+    return q.has('cathodic') || q.has('anodic');
+  });
+  const typed = (k: 'start' | 'cathodic' | 'anodic') => (v: string) => {
+    setOrigin(null);
+    if (k !== 'start') setTouched(true);
+    set(k)(v);
+  };
+  const scaleOf = (refId: string) => {
+    const t = (vocab.data ?? []).find((x) => x.id === refId);
+    return t?.scale ?? t?.name ?? refId;
+  };
+  /** A new reference moves the start and the expected limits with it: the same potentials, new numbers. */
+  const changeReference = (next: string) => {
+    let offset: number | null = null;
+    let why = '';
+    try {
+      offset = referenceConversion(scaleOf(f.reference), scaleOf(next)).offsetV;
+    } catch (e) {
+      why = errorMessage(e);
+    }
+    const nextName = (vocab.data ?? []).find((x) => x.id === next)?.name ?? next;
+    if (offset === null) {
+      setOrigin(`The numbers were kept as they are: ${why}. Check them against ${nextName}.`);
+      set('reference')(next);
+      return;
+    }
+    const off = offset;
+    const move = (v: string) => (Number.isFinite(num(v)) ? String(+(num(v) + off).toFixed(3)) : v);
+    setF((s) => ({
+      ...s,
+      reference: next,
+      start: move(s.start),
+      cathodic: move(s.cathodic),
+      anodic: move(s.anodic),
+    }));
+    setOrigin(
+      `Start and expected limits moved by ${formatSigned(off)} V to ${nextName} (the same potentials on the new scale).`,
+    );
+  };
+  const useEvidence = (m: EvidenceMedians) => {
+    setF((s) => ({
+      ...s,
+      ...(m.cathodicV !== null ? { cathodic: String(+m.cathodicV.toFixed(2)) } : {}),
+      ...(m.anodicV !== null ? { anodic: String(+m.anodicV.toFixed(2)) } : {}),
+    }));
+    setOrigin(`Expected limits from the collection’s medians (${m.what}).`);
+  };
 
   useEffect(() => {
     const q = new URLSearchParams();
@@ -373,7 +428,7 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
           <select
             id={`${id}-ref`}
             value={f.reference}
-            onChange={(e) => set('reference')(e.target.value)}
+            onChange={(e) => changeReference(e.target.value)}
             className={input}
           >
             {references.length === 0 && <option value={f.reference}>{f.reference}</option>}
@@ -408,7 +463,7 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
             label="Start, near open circuit"
             unit={`V vs ${scale}`}
             value={f.start}
-            onChange={set('start')}
+            onChange={typed('start')}
           />
           <Num
             id={`${id}-beyond`}
@@ -422,16 +477,30 @@ function PlannerView({ initialSearch }: { initialSearch: string }) {
             label="Expected cathodic limit"
             unit="V"
             value={f.cathodic}
-            onChange={set('cathodic')}
+            onChange={typed('cathodic')}
           />
           <Num
             id={`${id}-an`}
             label="Expected anodic limit"
             unit="V"
             value={f.anodic}
-            onChange={set('anodic')}
+            onChange={typed('anodic')}
           />
         </div>
+        {origin && (
+          <p className={`text-xs ${muted}`} role="status" data-testid="plan-origin">
+            {origin}
+          </p>
+        )}
+        <Evidence
+          electrolyte={f.electrolyte}
+          electrode={f.electrode}
+          scale={scaleOf(f.reference)}
+          scaleName={scale}
+          vocabulary={vocab.data}
+          auto={!touched}
+          onUse={useEvidence}
+        />
         <Num
           id={`${id}-rate`}
           label="Scan rate"

@@ -231,19 +231,74 @@ describe('window-opening planner', () => {
     expect(cautions).toContain('safety data sheet');
     await page.getByLabel('Reference electrode').selectOption('ref-sce');
     await expect.poll(() => text(page, 'plan-cautions')).toContain('Mercury-based');
+    // The same potentials on the new scale: Li⁺/Li −3.040 V (CRC Handbook) and SCE +0.2412 V vs SHE
+    // (Bard & Faulkner) → every number moves by −3.2812 V; the schedule's timing does not change.
+    expect(await text(page, 'plan-origin')).toContain('moved by −3.281 V');
+    expect(await page.getByLabel('Start, near open circuit').inputValue()).toBe('-3.281');
+    expect(await page.getByLabel('Expected anodic limit').inputValue()).toBe('-2.981');
+    await expect.poll(() => text(page, 'total-anodic')).toContain('(1800 s)');
 
     // The plan lives in the address: a reload gives the same schedule.
-    await expect.poll(() => page.url()).toContain('anodic=0.3');
+    await expect.poll(() => page.url()).toContain('anodic=-2.981');
     await page.reload();
     await expect.poll(() => text(page, 'total-anodic')).toContain('(1800 s)');
     // A guess on the wrong side of the start is refused in words.
-    await page.getByLabel('Expected anodic limit').fill('-0.2');
+    await page.getByLabel('Expected anodic limit').fill('-3.5');
     await expect
       .poll(() => page.getByRole('alert').first().innerText())
       .toContain('must lie above the start potential');
-    await page.getByLabel('Expected anodic limit').fill('0.3');
+    await page.getByLabel('Expected anodic limit').fill('-2.981');
     expect(await seriousViolations(page)).toEqual([]);
     await screenshot(page, 'tools-plan-light');
+    expect(problems).toEqual([]);
+    await page.close();
+  });
+});
+
+describe('the planner starts from the collection', () => {
+  it('takes the median limits of the named electrolyte on the chosen electrode, on its scale', async () => {
+    // What the API holds for 0.5 mol/L Li2SO4 in water on gold, vs Ag/AgCl (sat. KCl): this file's
+    // record at least (−0.60 and 0.95 V), and any other test's.
+    const res = await fetch(
+      new URL(
+        '/api/v1/records?component=Li2SO4&component=water&electrode=gold&concentrationBasis=mol/L&concentrationMin=0.5&concentrationMax=0.5&scale=Ag/AgCl-sat&limit=200&facets=false',
+        appUrl(),
+      ),
+    );
+    const items = (await res.json()).items as {
+      handle: string;
+      onScale: { cathodic: number | null; anodic: number | null };
+    }[];
+    expect(items.map((i) => i.handle)).toContain(aqueous);
+    const median = (v: (number | null)[]) => {
+      const s = v.filter((x): x is number => x !== null).sort((a, b) => a - b);
+      const m = s.length / 2;
+      return s.length % 2 ? s[Math.floor(m)]! : (s[m - 1]! + s[m]!) / 2;
+    };
+    const cathodic = median(items.map((i) => i.onScale.cathodic));
+    const anodic = median(items.map((i) => i.onScale.anodic));
+
+    const { page, problems } = await watchedPage(browser.context);
+    await page.goto(new URL('/tools/plan?reference=ref-ag-agcl-sat&start=0', appUrl()).href);
+    await hydrated(page);
+    await page.getByLabel('Electrolyte').fill('0.5 M Li2SO4 water');
+    await page.getByLabel('Working electrode').selectOption('gold');
+    await expect.poll(() => text(page, 'plan-evidence')).toContain(`n = ${items.length} published`);
+    // Not typed by the reader, so the expected limits start from the medians.
+    await expect
+      .poll(() => page.getByLabel('Expected anodic limit').inputValue())
+      .toBe(String(+anodic.toFixed(2)));
+    expect(await page.getByLabel('Expected cathodic limit').inputValue()).toBe(
+      String(+cathodic.toFixed(2)),
+    );
+    expect(await text(page, 'plan-origin')).toContain('collection’s medians');
+    // Then to Li⁺/Li (+0.197 + 3.040 = +3.237 V, Bard & Faulkner; CRC Handbook): the start moves
+    // with the scale, and the expected limits are the same medians read on the new scale.
+    await page.getByLabel('Reference electrode').selectOption('ref-li');
+    await expect
+      .poll(() => page.getByLabel('Expected anodic limit').inputValue())
+      .toBe(String(+(anodic + 3.237).toFixed(2)));
+    expect(await page.getByLabel('Start, near open circuit').inputValue()).toBe('3.237');
     expect(problems).toEqual([]);
     await page.close();
   });

@@ -20,7 +20,15 @@ export interface Curve {
   y: Float64Array;
   /** Stroke colour; by default the curve's place in the list picks one. */
   colour?: string;
+  /** Dash pattern, to tell apart curves that share a colour. */
+  dash?: string;
 }
+
+/**
+ * What the vertical axis shows: a current in amperes (optionally per cm² or per g) scaled to a
+ * readable prefix and written "symbol / unit", or a dimensionless ratio with its own label.
+ */
+export type YQuantity = { symbol: string; per?: string } | { label: string };
 
 interface Props {
   curves: Curve[];
@@ -28,6 +36,10 @@ interface Props {
   /** Name of the figure file when downloaded (without extension); no download buttons when absent. */
   figureName?: string;
   height?: number;
+  /** The vertical quantity; a current in A by default. */
+  y?: YQuantity;
+  /** Draw the key inside the plot (false when the page shows it outside). */
+  legend?: boolean;
 }
 
 const M = { top: 16, right: 16, bottom: 48, left: 72 };
@@ -84,7 +96,14 @@ function path(
 }
 
 /** Current against potential, zoomable by dragging across the plot or with the buttons. */
-export default function CurveChart({ curves, xLabel, figureName, height = 360 }: Props) {
+export default function CurveChart({
+  curves,
+  xLabel,
+  figureName,
+  height = 360,
+  y: quantity = { symbol: 'I' },
+  legend = true,
+}: Props) {
   const full = useMemo<[number, number]>(() => {
     let lo = Infinity;
     let hi = -Infinity;
@@ -179,7 +198,9 @@ export default function CurveChart({ curves, xLabel, figureName, height = 360 }:
                 maxAbs = Math.max(maxAbs, Math.abs(v));
               }
           if (!Number.isFinite(ylo)) [ylo, yhi] = [-1e-6, 1e-6];
-          const u = currentUnit(maxAbs);
+          const u =
+            'label' in quantity ? { factor: 1, unit: '' } : currentUnit(maxAbs, quantity.per ?? '');
+          const yLabel = 'label' in quantity ? quantity.label : `${quantity.symbol} / ${u.unit}`;
           const x = linearScale([x0, x1], [M.left, width - M.right]);
           const [dlo, dhi] = padded(ylo * u.factor, yhi * u.factor, 0.06, 1);
           const yu = linearScale([dlo, dhi], [height - M.bottom, M.top]);
@@ -200,7 +221,7 @@ export default function CurveChart({ curves, xLabel, figureName, height = 360 }:
                 ticks={niceTicks(dlo, dhi, 6)}
                 x={M.left}
                 right={width - M.right}
-                label={`I / ${u.unit}`}
+                label={yLabel}
               />
               <clipPath id={clipId}>
                 <rect
@@ -217,12 +238,14 @@ export default function CurveChart({ curves, xLabel, figureName, height = 360 }:
                     d={path(rs, x, y)}
                     fill="none"
                     stroke={curves[i]!.colour ?? seriesColour(i)}
+                    strokeDasharray={curves[i]!.dash}
                     strokeWidth={1.4}
                     strokeLinejoin="round"
                   />
                 ))}
               </g>
-              {curves.length > 1 &&
+              {legend &&
+                curves.length > 1 &&
                 curves.map((c, i) => (
                   <g key={c.label} transform={`translate(${M.left + 10},${M.top + 10 + i * 16})`}>
                     <rect width={14} height={3} y={-2} fill={c.colour ?? seriesColour(i)} />

@@ -178,7 +178,7 @@ export function columns(
       cell: ({ row }) => (
         <a
           href={`/windows/${row.original.item.handle}`}
-          className="num font-semibold text-cobalt dark:text-night-cobalt underline-offset-2 hover:underline"
+          className="num whitespace-nowrap font-semibold text-cobalt dark:text-night-cobalt underline-offset-2 hover:underline"
         >
           {row.original.item.handle}
         </a>
@@ -323,7 +323,7 @@ export function ResultsTable({
                     key={h.id}
                     scope="col"
                     aria-sort={key ? dir : undefined}
-                    className="border-b border-rule dark:border-night-rule px-3 py-2 text-left font-semibold whitespace-nowrap"
+                    className="border-b border-rule dark:border-night-rule px-2 py-2 text-left align-bottom font-semibold"
                   >
                     {key && onSort ? (
                       <button
@@ -359,7 +359,7 @@ export function ResultsTable({
               {r.getVisibleCells().map((c) => (
                 <td
                   key={c.id}
-                  className="border-b border-rule/60 dark:border-night-rule/60 px-3 py-1.5 align-top"
+                  className="border-b border-rule/60 dark:border-night-rule/60 px-2 py-1.5 align-top"
                 >
                   {flexRender(c.column.columnDef.cell, c.getContext())}
                 </td>

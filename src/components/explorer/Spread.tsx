@@ -64,7 +64,7 @@ const cell = (s: Summary | undefined) =>
   !s || s.count === 0 ? (
     <span className={muted}>—</span>
   ) : (
-    <span className="num whitespace-nowrap">
+    <span className="num">
       {formatNumber(s.median)}
       {s.count > 1 && (
         <span className={muted}>
@@ -79,7 +79,7 @@ const diffCell = (d: (Summary & { na: number; nb: number }) | undefined) =>
   !d || d.count === 0 ? (
     <span className={muted}>—</span>
   ) : (
-    <span className="num whitespace-nowrap">
+    <span className="num">
       {formatSigned(d.median)}
       {d.count > 1 && (
         <span className={muted}>

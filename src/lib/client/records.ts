@@ -280,6 +280,8 @@ export interface IndexTerm {
   name: string;
   abbreviations: string[];
   synonyms: string[];
+  /** Reference electrodes: the engine's scale id, for conversions. */
+  scale?: string;
 }
 
 export const vocabularyQueries = {
@@ -297,6 +299,7 @@ export const vocabularyQueries = {
             name: t.name,
             abbreviations: t.abbreviations,
             synonyms: t.synonyms,
+            ...(t.scale ? { scale: t.scale } : {}),
           }));
       },
       staleTime: 10 * 60_000,

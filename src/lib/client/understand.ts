@@ -161,7 +161,7 @@ export function understand(text: string, vocabulary: readonly IndexTerm[]): Unde
     return ' ';
   });
   const words = withoutAmounts
-    .split(/[\s,;+]+/)
+    .split(/[\s,;+:]+/)
     .map((w) => w.trim())
     .filter(Boolean);
   const keys = keysOf(vocabulary);
