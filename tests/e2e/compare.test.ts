@@ -312,7 +312,7 @@ describe('glassy versus activated carbon, two electrolytes, end to end', () => {
     expect(gcLevel).toMatch(/= (49\.\d|50(\.\d)?) nA$/);
     expect(acLevel).toMatch(/= (0\.99\d|1(\.00?)?) mA$/);
     // The legend sits outside the plot.
-    expect(await chart.getByTestId('curve-legend').first().innerText()).toContain(h.gcA1!);
+    expect(await chart.getByTestId('curve-legend').first().textContent()).toContain(h.gcA1!);
     // Per area: the activated-carbon record gives a mass, not an area, and says so.
     await page.getByRole('button', { name: 'per electrode area' }).click();
     await expect.poll(() => chart.getAttribute('data-mode')).toBe('area');

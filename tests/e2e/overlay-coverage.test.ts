@@ -107,17 +107,18 @@ describe('overlay of raw curves', () => {
     await page.waitForURL(/\/windows\/overlay\?records=/);
     const chart = page.getByTestId('overlay-chart');
     await chart.waitFor();
-    // One curve per raw-backed record, named by handle and electrode; the record without raw data says so.
+    // One curve per raw-backed record, named by handle and electrode in the key below the plot;
+    // the record without raw data says so.
     await expect
-      .poll(async () => (await chart.locator('svg').textContent()) ?? '')
+      .poll(async () => (await chart.getByTestId('curve-legend').textContent()) ?? '')
       .toContain(`${h.gc} · glassy carbon`);
-    const legend = (await chart.locator('svg').textContent()) ?? '';
+    const legend = (await chart.getByTestId('curve-legend').textContent()) ?? '';
     expect(legend).toContain(`${h.pt} · platinum`);
     expect(legend).not.toContain(h.ac);
     expect(await page.locator(`li[data-handle="${h.ac}"]`).innerText()).toContain('no raw data');
-    // Two different colours.
+    // Two different colours, those of their electrodes.
     const strokes = await chart
-      .locator('svg path[stroke^="var(--series"]')
+      .locator('svg[role="img"] path[stroke^="var(--electrode"]')
       .evaluateAll((ps) => ps.map((p) => p.getAttribute('stroke')));
     expect(new Set(strokes).size).toBe(2);
 
@@ -235,7 +236,7 @@ describe('coverage matrix', () => {
           .locator(
             name.startsWith('coverage')
               ? '[data-testid="coverage-table"]'
-              : '[data-testid="overlay-chart"] svg',
+              : '[data-testid="overlay-chart"] svg[role="img"]',
           )
           .waitFor();
         await expectReadsWellOnPhone(page, name);

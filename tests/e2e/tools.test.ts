@@ -282,7 +282,7 @@ describe('the planner starts from the collection', () => {
     await page.goto(new URL('/tools/plan?reference=ref-ag-agcl-sat&start=0', appUrl()).href);
     await hydrated(page);
     await page.getByLabel('Electrolyte').fill('0.5 M Li2SO4 water');
-    await page.getByLabel('Working electrode').selectOption('gold');
+    await page.getByLabel('Working electrode', { exact: true }).selectOption('gold');
     await expect.poll(() => text(page, 'plan-evidence')).toContain(`n = ${items.length} published`);
     // Not typed by the reader, so the expected limits start from the medians.
     await expect

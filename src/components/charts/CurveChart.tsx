@@ -38,8 +38,8 @@ interface Props {
   height?: number;
   /** The vertical quantity; a current in A by default. */
   y?: YQuantity;
-  /** Draw the key inside the plot (false when the page shows it outside). */
-  legend?: boolean;
+  /** Where the key goes: over the plot's corner, or below the axis (never covering a curve). */
+  legend?: 'inside' | 'below';
 }
 
 const M = { top: 16, right: 16, bottom: 48, left: 72 };
@@ -102,7 +102,7 @@ export default function CurveChart({
   figureName,
   height = 360,
   y: quantity = { symbol: 'I' },
-  legend = true,
+  legend = 'inside',
 }: Props) {
   const full = useMemo<[number, number]>(() => {
     let lo = Infinity;
@@ -177,7 +177,7 @@ export default function CurveChart({
         )}
       </div>
       <ChartFrame
-        height={height}
+        height={legend === 'below' ? height + 8 + curves.length * 18 : height}
         svgRef={svgRef}
         title={`Current against potential: ${curves.map((c) => c.label).join(', ')}`}
       >
@@ -244,7 +244,7 @@ export default function CurveChart({
                   />
                 ))}
               </g>
-              {legend &&
+              {legend === 'inside' &&
                 curves.length > 1 &&
                 curves.map((c, i) => (
                   <g key={c.label} transform={`translate(${M.left + 10},${M.top + 10 + i * 16})`}>
@@ -254,6 +254,29 @@ export default function CurveChart({
                     </text>
                   </g>
                 ))}
+              {legend === 'below' && (
+                <g data-testid="curve-legend">
+                  {curves.map((c, i) => (
+                    <g key={c.label} transform={`translate(${M.left},${height + 8 + i * 18})`}>
+                      <line
+                        x1={0}
+                        x2={24}
+                        stroke={c.colour ?? seriesColour(i)}
+                        strokeDasharray={c.dash}
+                        strokeWidth={2.5}
+                      />
+                      <text
+                        x={30}
+                        dy="0.32em"
+                        fontSize={12}
+                        className="fill-ink dark:fill-night-ink"
+                      >
+                        {c.label}
+                      </text>
+                    </g>
+                  ))}
+                </g>
+              )}
               {drag && (
                 <rect
                   x={x(Math.min(drag.from, drag.to))}

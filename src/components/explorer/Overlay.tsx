@@ -448,11 +448,10 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
               curves={curves}
               xLabel={xLabel}
               y={Y_QUANTITY[mode]}
-              legend={false}
+              legend="below"
               figureName={`edgewise-overlay-${handles.join('-')}`}
               height={400}
             />
-            <CurveLegend curves={curves} />
           </div>
         )}
       </section>

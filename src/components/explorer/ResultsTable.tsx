@@ -298,7 +298,7 @@ export function ResultsTable({
   });
   return (
     <div
-      className={`${panel} overflow-x-auto ${busy ? 'opacity-70' : ''}`}
+      className={`${panel} relative overflow-x-auto ${busy ? 'opacity-70' : ''}`}
       data-testid={testId}
       // Reachable by keyboard when it scrolls sideways on a narrow screen.
       tabIndex={0}
