@@ -212,7 +212,12 @@ export default function Spread({
                 positive width difference means a wider window on {nameOf(chosen[0])}; a negative
                 cathodic difference means its cathodic limit lies further out.
               </p>
-              <div className="relative overflow-x-auto" tabIndex={0} role="region" aria-label="Differences">
+              <div
+                className="relative overflow-x-auto"
+                tabIndex={0}
+                role="region"
+                aria-label="Differences"
+              >
                 <table className="w-full text-sm" data-testid="difference-table">
                   <thead>
                     <tr className="border-b border-rule dark:border-night-rule">
@@ -271,7 +276,12 @@ export default function Spread({
         </div>
       )}
 
-      <div className="relative overflow-x-auto" tabIndex={0} role="region" aria-label="Spread per group">
+      <div
+        className="relative overflow-x-auto"
+        tabIndex={0}
+        role="region"
+        aria-label="Spread per group"
+      >
         <table className="w-full text-sm" data-testid="spread-table">
           <thead>
             <tr className="border-b border-rule dark:border-night-rule">
