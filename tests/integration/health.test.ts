@@ -71,9 +71,11 @@ describe('every kind of response carries the security headers', () => {
   });
 
   it('a refusal', async () => {
-    const res = await api('/api/health', {
+    // A write to a route that takes POST, from another site.
+    const res = await api('/api/v1/records', {
       method: 'POST',
-      headers: { origin: 'http://evil.test' },
+      headers: { origin: 'http://evil.test', 'content-type': 'application/json' },
+      body: '{}',
     });
     expect(res.status).toBe(403);
     expect(res.headers.get('content-type')).toMatch(/application\/problem\+json/);
@@ -84,14 +86,17 @@ describe('every kind of response carries the security headers', () => {
 
 describe('API paths without a route', () => {
   it('answer problem+json, not an HTML page', async () => {
-    for (const [method, path] of [
-      ['GET', '/api/v1/no-such-thing'],
-      ['DELETE', '/api/health'],
+    // A path no route answers is a 404; a method the route does not answer a 405 naming those
+    // it does, in its Allow header too.
+    for (const [method, path, status, detail] of [
+      ['GET', '/api/v1/no-such-thing', 404, 'GET /api/v1/no-such-thing is not part of the API.'],
+      ['DELETE', '/api/health', 405, '/api/health answers GET, HEAD only.'],
     ] as const) {
       const res = await api(path, { method });
-      expect([404, 405]).toContain(res.status);
+      expect(res.status).toBe(status);
       expect(res.headers.get('content-type')).toMatch(/application\/problem\+json/);
-      expect((await res.json()).detail).toBe(`${method} ${path} is not part of the API.`);
+      expect((await res.json()).detail).toBe(detail);
+      if (status === 405) expect(res.headers.get('allow')).toMatch(/GET/);
       expectSecurityHeaders(res);
     }
   });
