@@ -8,7 +8,7 @@ import { appDb, as, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { api } from '../helpers.ts';
 import { curator, makeRecord, principal, tag } from '../support/records.ts';
 import { can } from '#lib/server/policy.ts';
-import { policyObject } from '#lib/server/records.ts';
+import { policyObject } from '#lib/server/record-views.ts';
 import { readScope } from '#lib/server/record-search.ts';
 import { getRecordHead, searchRecords } from '#lib/server/repositories/records.ts';
 import type { Principal } from '#lib/shared/principal.ts';

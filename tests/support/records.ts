@@ -2,7 +2,9 @@
 // any status made through the services (so every move is the real one, with its audit row).
 import { createHash, randomBytes } from 'node:crypto';
 import { appDb, ensureLab, makeUser } from '../auth-helpers.ts';
-import { createRecord, transitionRecord, type RecordDetail } from '#lib/server/records.ts';
+import { createRecord } from '#lib/server/records.ts';
+import { transitionRecord } from '#lib/server/record-transitions.ts';
+import type { RecordDetail } from '#lib/server/record-views.ts';
 import type { RecordContentInput, RecordStatus } from '#lib/shared/record.ts';
 import type { LabRole, Role, UserPrincipal } from '#lib/shared/principal.ts';
 import { recordContentSchema } from '#lib/shared/record.ts';

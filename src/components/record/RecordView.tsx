@@ -14,6 +14,7 @@ import {
   type IndexTerm,
   type RecordDetail,
 } from '#lib/client/records.ts';
+import { statusLabel } from '#lib/shared/record.ts';
 import { CAUTION_AUTHORITY, cautionsFor, GAS_CAUTION } from '#lib/shared/cautions.ts';
 import {
   buttonPrimary,
@@ -535,8 +536,99 @@ function Cautions({ r }: { r: RecordDetail }) {
   );
 }
 
-function View({ handle, signedIn, origin }: { handle: string; signedIn: boolean; origin: string }) {
-  const q = useQuery(recordQueries.detail(handle));
+const STATUS_WORDS: Record<string, string> = {
+  draft: 'a draft',
+  submitted: 'waiting for a curator',
+  changes_requested: 'back with the contributor for changes',
+  declined: 'declined',
+};
+
+/** What readers see while a revision is worked on, and what the owner, lab and curators see beside it. */
+function LifeNotes({ r, pinned }: { r: RecordDetail; pinned: boolean }) {
+  const notes: React.ReactNode[] = [];
+  const afterFlag = r.reviews.some(
+    (x) => x.decision === 'request-changes' && x.version === r.publishedVersion,
+  );
+  if (pinned && r.version !== r.publishedVersion) {
+    notes.push(
+      <>
+        You are looking at version {r.version}, an earlier version of this record.{' '}
+        <a className="underline" href={`/windows/${r.handle}`}>
+          See the current one
+        </a>
+        .
+      </>,
+    );
+  } else if (r.revision && r.revision.version === null) {
+    notes.push(
+      <>
+        {afterFlag
+          ? 'A reader reported a problem with this record and a curator asked the contributor for changes. '
+          : ''}
+        These are the numbers of version {r.version} as published; a revised version is{' '}
+        {STATUS_WORDS[r.revision.status] ?? statusLabel(r.revision.status)} and replaces them only
+        when a curator publishes it.
+      </>,
+    );
+  } else if (r.revision && r.publishedVersion !== null) {
+    notes.push(
+      <>
+        Version {r.version} is {STATUS_WORDS[r.status] ?? statusLabel(r.status)}. Readers see{' '}
+        <a className="underline" href={`/windows/${r.handle}?version=${r.publishedVersion}`}>
+          version {r.publishedVersion}, as published
+        </a>
+        {afterFlag ? ' (with a note that changes were asked for after a reader’s report)' : ''}{' '}
+        until a curator publishes a revision.
+      </>,
+    );
+  }
+  if (r.privateUntil) {
+    const lab = r.lab?.name ?? 'its lab';
+    notes.push(
+      <>
+        <strong>Private until {r.privateUntil}.</strong>{' '}
+        {r.publishedVersion === null
+          ? `Once published, only the members of ${lab} and Edgewise curators can see it until then.`
+          : `Only the members of ${lab} and Edgewise curators can see it now.`}{' '}
+        From {r.privateUntil} (00:00 UTC) every reader can see it; the embargo lifts by itself and
+        the lab gets an e-mail.
+      </>,
+    );
+  }
+  if (notes.length === 0) return null;
+  return (
+    <>
+      {notes.map((n, i) => (
+        <p
+          key={i}
+          role="note"
+          data-testid="record-note"
+          className="rounded-md border border-rule dark:border-night-rule bg-paper dark:bg-night p-3 text-sm"
+        >
+          {n}
+        </p>
+      ))}
+    </>
+  );
+}
+
+function View({
+  handle,
+  signedIn,
+  origin,
+  version,
+}: {
+  handle: string;
+  signedIn: boolean;
+  origin: string;
+  version: number | null;
+}) {
+  const latest = useQuery({ ...recordQueries.detail(handle), enabled: version === null });
+  const pinned = useQuery({
+    ...recordQueries.version(handle, version ?? 0),
+    enabled: version !== null,
+  });
+  const q = version === null ? latest : pinned;
   const vocab = useQuery(vocabularyQueries.all());
   const terms = useMemo(
     () => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined),
@@ -556,7 +648,7 @@ function View({ handle, signedIn, origin }: { handle: string; signedIn: boolean;
           <span
             className={`rounded border border-rule dark:border-night-rule px-1.5 py-px text-xs ${muted}`}
           >
-            {r.status.replace('_', ' ')}
+            {statusLabel(r.status)}
           </span>
         </p>
         <h1 className="text-2xl font-bold tracking-tight">
@@ -570,6 +662,14 @@ function View({ handle, signedIn, origin }: { handle: string; signedIn: boolean;
           >
             A reader has reported a problem with this record; curators are checking it. The numbers
             stay visible meanwhile.
+          </p>
+        )}
+        <LifeNotes r={r} pinned={version !== null} />
+        {r.allowedActions.includes('submit') && (
+          <p className="text-sm">
+            <a className="underline font-semibold" href={`/contribute?record=${r.handle}`}>
+              Edit and resubmit in the contribution form
+            </a>
           </p>
         )}
       </header>
@@ -614,14 +714,17 @@ export default function RecordView({
   handle,
   signedIn = false,
   origin = '',
+  version = null,
 }: {
   handle: string;
   signedIn?: boolean;
   origin?: string;
+  /** A version asked for in the address (`?version=2`); null for the version this reader sees. */
+  version?: number | null;
 }) {
   return (
     <QueryClientProvider client={queryClient}>
-      <View handle={handle} signedIn={signedIn} origin={origin} />
+      <View handle={handle} signedIn={signedIn} origin={origin} version={version} />
     </QueryClientProvider>
   );
 }

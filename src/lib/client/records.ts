@@ -236,6 +236,16 @@ export const recordQueries = {
       queryFn: ({ signal }) =>
         getJson<RecordDetail>(`/api/v1/records/${encodeURIComponent(handle)}`, signal),
     }),
+  /** One version of a record (readers may open versions up to the published one). */
+  version: (handle: string, version: number) =>
+    queryOptions({
+      queryKey: ['records', 'version', handle, version] as const,
+      queryFn: ({ signal }) =>
+        getJson<RecordDetail>(
+          `/api/v1/records/${encodeURIComponent(handle)}/versions/${version}`,
+          signal,
+        ),
+    }),
   versions: (handle: string) =>
     queryOptions({
       queryKey: ['records', 'versions', handle] as const,

@@ -4,6 +4,7 @@ import type { Db } from './db/index.ts';
 import { ConflictError, NotFoundError } from './errors.ts';
 import { queueMail, wakeOutbox } from './outbox.ts';
 import {
+  audienceOf,
   authorize,
   can,
   canSee,
@@ -11,7 +12,9 @@ import {
   type Principal,
   type UserPrincipal,
 } from './policy.ts';
-import { applyTransition, diffRecordVersions, policyObject } from './records.ts';
+import { diffRecordVersions } from './record-history.ts';
+import { applyTransition } from './record-transitions.ts';
+import { policyObject } from './record-views.ts';
 import { CONFIRM_TOLERANCE_V } from './record-derive.ts';
 import { insertAuditEvent, type DbOrTrx } from './repositories/audit.ts';
 import {
@@ -399,11 +402,11 @@ export async function releaseClaim(db: Db, principal: Principal, handle: string)
 const DECISION_TEXT: Record<string, { subject: string; lead: string }> = {
   publish: {
     subject: 'published',
-    lead: 'A curator published your window record. It is now visible to every reader.',
+    lead: 'A curator published your window record.',
   },
   'request-changes': {
     subject: 'changes requested',
-    lead: 'A curator asks for changes before your window record can be published.',
+    lead: 'A curator asks for changes to your window record. If a version of it is already published, readers keep seeing that version until a curator publishes your revision.',
   },
   decline: { subject: 'declined', lead: 'A curator declined your window record.' },
   'resolve-flag': {
@@ -416,18 +419,30 @@ const DECISION_TEXT: Record<string, { subject: string; lead: string }> = {
   },
 };
 
+/** Who can read a record just published, and from when everyone can, in plain words. */
+export function audienceText(
+  audience: ReturnType<typeof audienceOf>,
+  lab: string | null,
+  subject = 'It',
+): string {
+  if (audience.everyone) return `${subject} is now visible to every reader, signed in or not.`;
+  const day = audience.until.toISOString().slice(0, 10);
+  return `${subject} is private until ${day}: only the members of ${lab ?? 'its lab'} and Edgewise curators can see it. From ${day} (00:00 UTC) every reader can see it; the embargo lifts by itself on that day and the lab gets an e-mail when it does.`;
+}
+
 function decisionMail(
   a: { handle: string; version: number; title: string | null },
   action: string,
   reason: string | null,
   comments: FieldComment[],
+  audience: string | null,
 ) {
   const t = DECISION_TEXT[action] ?? {
     subject: action,
     lead: `A curator decided "${action}" on your window record.`,
   };
   const lines = [
-    t.lead,
+    audience ? `${t.lead} ${audience}` : t.lead,
     '',
     `Record: ${a.handle} v${a.version}${a.title ? ` — ${a.title}` : ''}`,
     ...(reason ? [`Reason: ${reason}`] : []),
@@ -436,7 +451,7 @@ function decisionMail(
       : []),
     '',
     action === 'request-changes'
-      ? `Edit and resubmit it: ${origin()}/windows/${a.handle}`
+      ? `Edit and resubmit it: ${origin()}/contribute?record=${a.handle}`
       : `See it: ${origin()}/windows/${a.handle}`,
   ];
   return { subject: `${a.handle} ${t.subject}`, text: lines.join('\n') + SIGNATURE };
@@ -476,11 +491,16 @@ export async function decideIn(
   await insertComments(trx, applied.reviewId!, body.comments);
   await dropClaim(trx, head.id);
   const owner = await personOf(trx, applied.ownerId);
+  let audience: string | null = null;
+  if (body.decision === 'publish') {
+    const now = (await getRecordHead(trx, handle))!;
+    audience = audienceText(audienceOf(policyObject(now)), now.lab_name);
+  }
   if (owner)
     await queueMail(trx, {
       kind: `review.${body.decision}`,
       to: owner.email,
-      ...decisionMail(applied, body.decision, body.reason ?? null, body.comments),
+      ...decisionMail(applied, body.decision, body.reason ?? null, body.comments, audience),
     });
   return { handle, status: applied.to, version: applied.version, reviewId: applied.reviewId! };
 }
@@ -750,11 +770,13 @@ export async function resolveFlag(
           action,
           body.reason,
           body.outcome === 'request-changes' ? body.comments : [],
+          null,
         ),
       });
     const outcomeText = {
       dismiss: 'dismissed the flag; the record stays published',
-      'request-changes': 'asked the contributor for changes',
+      'request-changes':
+        'asked the contributor for changes; the published version stays readable at the same address until a revised one is published',
       withdraw: 'withdrew the record',
     }[body.outcome];
     for (const rep of reporters) {

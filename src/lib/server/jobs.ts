@@ -1,16 +1,19 @@
 import { forgetOldMailRequests } from './auth/mail-limits.ts';
 import { db } from './db/index.ts';
+import { liftDueEmbargoes } from './embargoes.ts';
 import { log } from './log.ts';
 import { forgetOldIdempotencyKeys } from './idempotency.ts';
 import { startOutbox } from './outbox.ts';
 import { cleanStaleUploads } from './uploads.ts';
 
 // Background work of a server process: mail delivery, removing uploads that were declared but
-// never completed (their objects too), and dropping mail-limit counters and idempotency keys
-// that no longer count.
+// never completed (their objects too), dropping mail-limit counters and idempotency keys that no
+// longer count, and lifting embargoes on their day (checked every few minutes, so within minutes
+// of midnight UTC).
 // All are safe with several processes running.
 
 const CLEANUP_EVERY_MS = 10 * 60 * 1000;
+const EMBARGO_EVERY_MS = 5 * 60 * 1000;
 let started = false;
 
 /** Starts the background jobs once per process. */
@@ -29,4 +32,8 @@ export function startJobs(): void {
   };
   setInterval(cleanup, CLEANUP_EVERY_MS).unref();
   setTimeout(cleanup, 30_000).unref();
+  const embargoes = () =>
+    void liftDueEmbargoes(db()).catch((err) => log().error({ err }, 'embargo lifting failed'));
+  setInterval(embargoes, EMBARGO_EVERY_MS).unref();
+  setTimeout(embargoes, 5_000).unref();
 }

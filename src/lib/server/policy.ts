@@ -8,7 +8,8 @@
 //   record.read          published/flagged/withdrawn: anyone, unless visibility 'lab' with an
 //                        embargo still in the future → owner, lab, curator, admin.
 //                        draft: owner and lab. submitted/changes_requested/declined: owner, lab,
-//                        curator, admin.
+//                        curator, admin — and, once a version was ever published, everyone as
+//                        above (they read the published version; see readsWorkingVersion).
 //   record.create        contributor, curator, admin (no object: pass null)
 //   record.update        owner or manager, while draft or changes_requested (a new version)
 //   record.submit        owner or manager, while draft or changes_requested
@@ -82,6 +83,10 @@ export interface RecordObject {
   labId: string | null;
   /** The contributor who created the record. */
   ownerId: string;
+  /** The version readers see, once a curator has published one; it stays readable while a revision is reviewed. */
+  publishedVersion?: number | null;
+  /** True when the background job lifted the embargo (on its date; it also told the lab). */
+  embargoLifted?: boolean;
 }
 
 /** Versions, raw files and reviews follow the record they belong to. */
@@ -200,9 +205,16 @@ const insider = (p: Principal, r: RecordObject) => owns(p, r.ownerId) || inLab(p
 
 function underEmbargo(r: RecordObject, now: Date): boolean {
   return (
-    r.visibility === 'lab' && r.embargoUntil !== null && r.embargoUntil.getTime() > now.getTime()
+    r.visibility === 'lab' &&
+    r.embargoUntil !== null &&
+    !r.embargoLifted &&
+    r.embargoUntil.getTime() > now.getTime()
   );
 }
+
+/** A record once published stays readable (its published version) while a revision is worked on. */
+const everPublished = (r: RecordObject) =>
+  r.publishedVersion !== undefined && r.publishedVersion !== null;
 
 function canReadRecord(p: Principal, r: RecordObject, now: Date): boolean {
   switch (r.status) {
@@ -215,10 +227,26 @@ function canReadRecord(p: Principal, r: RecordObject, now: Date): boolean {
     case 'submitted':
     case 'changes_requested':
     case 'declined':
-      return insider(p, r) || isStaff(p);
+      return insider(p, r) || isStaff(p) || (everPublished(r) && !underEmbargo(r, now));
     default:
       return false;
   }
+}
+
+/**
+ * True when the principal reads a record's current (working) version; everyone else reads the
+ * published version. The owner, the lab and curators see the revision beside what readers see.
+ */
+export function readsWorkingVersion(p: Principal, r: RecordObject): boolean {
+  return !everPublished(r) || insider(p, r) || isStaff(p);
+}
+
+/** Who may read a published record now and from when everyone may: what pages and mails say. */
+export function audienceOf(
+  r: RecordObject,
+  now: Date = new Date(),
+): { everyone: true } | { everyone: false; until: Date } {
+  return underEmbargo(r, now) ? { everyone: false, until: r.embargoUntil! } : { everyone: true };
 }
 
 const editable = (r: RecordObject) => r.status === 'draft' || r.status === 'changes_requested';

@@ -29,7 +29,7 @@ import type { Db } from './db/index.ts';
 import { ValidationError } from './errors.ts';
 import { LISTED } from './record-status.ts';
 import { scaleContext } from './record-derive.ts';
-import { toSummary } from './records.ts';
+import { toSummary } from './record-views.ts';
 import {
   analysesByIds,
   countRecords,

@@ -4,14 +4,16 @@ import { AnalysisRefused, analyzeInWorker } from './analysis-pool.ts';
 import { config } from './config.ts';
 import type { Db } from './db/index.ts';
 import { AppError, ConflictError, NotFoundError, PayloadTooLargeError } from './errors.ts';
-import { authorize, canSee, type Principal, type UserPrincipal } from './policy.ts';
 import {
-  analysisLimit,
-  analysisOptions,
-  attachRawFile,
-  policyObject,
-  toRawFileView,
-} from './records.ts';
+  authorize,
+  canSee,
+  readsWorkingVersion,
+  type Principal,
+  type UserPrincipal,
+} from './policy.ts';
+import { attachRawFile } from './records.ts';
+import { analysisLimit, analysisOptions } from './record-versions.ts';
+import { policyObject, toRawFileView, versionFor } from './record-views.ts';
 import { termRefs } from './record-derive.ts';
 import { insertAuditEvent } from './repositories/audit.ts';
 import {
@@ -322,6 +324,11 @@ export async function downloadRawFile(
     { type: 'rawFile', record: policyObject(head) },
     { what: 'raw file' },
   );
+  // Readers of a record under revision see the published version's files only.
+  if (!readsWorkingVersion(principal, policyObject(head))) {
+    const shown = await getVersion(db, head.id, versionFor(principal, head));
+    if (!shown?.raw_file_ids.includes(f.id)) throw new NotFoundError('raw file');
+  }
   const bytes = await readVerifiedRawFile(f);
   if (!bytes) throw new NotFoundError('raw file');
   return {

@@ -190,6 +190,17 @@ export const recordDetailSchema = z.strictObject({
   ...recordSummaryShape,
   ownerId: z.string(),
   publishedAt: isoTime.nullable(),
+  /** The version readers see (null until a curator publishes one). */
+  publishedVersion: z.number().int().nullable(),
+  /**
+   * A revision after the published version: its status, and its number for those who may read it
+   * (owner, lab, curators; null for readers, who see the published version).
+   */
+  revision: z
+    .strictObject({ version: z.number().int().nullable(), status: z.enum(RECORD_STATUSES) })
+    .nullable(),
+  /** The version shown is private to its lab and curators until this day (UTC), then public. */
+  privateUntil: z.string().nullable(),
   changeNote: z.string().nullable(),
   rawFiles: z.array(rawFileViewSchema),
   analyses: z.array(analysisViewSchema),

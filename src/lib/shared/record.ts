@@ -47,6 +47,21 @@ export type Visibility = (typeof VISIBILITIES)[number];
 export type EvidenceLevel = (typeof EVIDENCE_LEVELS)[number];
 export type RecordStatus = (typeof RECORD_STATUSES)[number];
 
+/** The one wording of each status, used by every list, header and badge. */
+export const STATUS_LABELS: Readonly<Record<RecordStatus, string>> = {
+  draft: 'draft',
+  submitted: 'submitted for review',
+  changes_requested: 'changes requested',
+  published: 'published',
+  declined: 'declined',
+  flagged: 'published, flagged',
+  withdrawn: 'withdrawn',
+};
+
+/** The label of a status (unknown values as they come, with spaces). */
+export const statusLabel = (s: string): string =>
+  (STATUS_LABELS as Record<string, string>)[s] ?? s.replace(/_/g, ' ');
+
 /** The scale name a two-electrode cell's limits are given on: a cell voltage, not an electrode potential. */
 export const CELL_VOLTAGE = 'cell';
 

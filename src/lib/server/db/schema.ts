@@ -175,9 +175,17 @@ export interface RecordTable {
   created_at: Generated<Date>;
   updated_at: Generated<Date>;
   published_at: Date | null;
+  /** The version readers see: the one a curator last published (null until then). */
+  published_version: number | null;
+  /** The embargo date the background job lifted (with a mail to the lab), if any. */
+  embargo_lifted_for: ColumnType<string | null, string | null, string | null>;
 }
 
-/** One row per record: its head and the filter and sort columns of its current version (kept by triggers). */
+/**
+ * One row per record (kept by triggers): its head and the filter and sort columns of its public
+ * face, the published version once there is one (with the status a reader sees), else the
+ * current version.
+ */
 export interface RecordSearchTable {
   record_id: string;
   handle: string;
@@ -188,6 +196,7 @@ export interface RecordSearchTable {
   version: number;
   visibility: string;
   embargo_until: string | null;
+  embargo_lifted: Generated<boolean>;
   component_ids: string[];
   solvent_ids: string[];
   salt_ids: string[];

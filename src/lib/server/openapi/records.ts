@@ -1,7 +1,7 @@
 import { coverageQuerySchema } from '#lib/server/coverage.ts';
 import { exportQuerySchema } from '#lib/server/exports.ts';
 import { recordQuerySchema } from '#lib/server/record-search.ts';
-import { diffQuerySchema } from '#lib/server/records.ts';
+import { diffQuerySchema } from '#lib/server/record-history.ts';
 import { queryParameters, body, errors, ok, pathParam, handle, signedIn } from './parts.ts';
 
 /** Operations of the Records tag. */

@@ -21,11 +21,16 @@ export interface RecordHead {
   lab_slug: string | null;
   lab_name: string | null;
   current_version: number;
+  /** The version readers see (null until a curator publishes one). */
+  published_version: number | null;
   created_at: Date;
   updated_at: Date;
   published_at: Date | null;
+  /** Visibility and embargo of the public face: the published version, else the current one. */
   visibility: string;
   embargo_until: string | null;
+  /** True when the background job has lifted this embargo. */
+  embargo_lifted: boolean;
 }
 
 export type VersionRow = Omit<Selectable<RecordVersionTable>, 'embargo_until' | 'search'> & {
@@ -43,7 +48,9 @@ function headQuery(db: DbOrTrx) {
   return db
     .selectFrom('records as r')
     .innerJoin('record_versions as v', (j) =>
-      j.onRef('v.record_id', '=', 'r.id').onRef('v.version', '=', 'r.current_version'),
+      j
+        .onRef('v.record_id', '=', 'r.id')
+        .on('v.version', '=', sql<number>`coalesce(r.published_version, r.current_version)`),
     )
     .leftJoin('labs as l', 'l.id', 'r.lab_id')
     .select([
@@ -55,11 +62,13 @@ function headQuery(db: DbOrTrx) {
       'l.slug as lab_slug',
       'l.name as lab_name',
       'r.current_version',
+      'r.published_version',
       'r.created_at',
       'r.updated_at',
       'r.published_at',
       'v.visibility',
       sql<string | null>`v.embargo_until::text`.as('embargo_until'),
+      sql<boolean>`coalesce(v.embargo_until = r.embargo_lifted_for, false)`.as('embargo_lifted'),
     ]);
 }
 
@@ -121,6 +130,22 @@ export async function advanceVersion(
   return Number(r.numUpdatedRows) === 1;
 }
 
+/** Moves the version readers see from `from` to `to` (a version that exists); false when it was not at `from`. */
+export async function movePublishedVersion(
+  db: DbOrTrx,
+  recordId: string,
+  from: number,
+  to: number,
+): Promise<boolean> {
+  const r = await db
+    .updateTable('records')
+    .set({ published_version: to })
+    .where('id', '=', recordId)
+    .where('published_version', '=', from)
+    .executeTakeFirst();
+  return Number(r.numUpdatedRows) === 1;
+}
+
 /** Changes the status if it is still `from` at version `version`; false when someone acted first. */
 export async function compareAndSetStatus(
   db: DbOrTrx,
@@ -134,7 +159,10 @@ export async function compareAndSetStatus(
     .set({
       status: to,
       updated_at: sql`now()`,
-      ...(to === 'published' ? { published_at: sql`coalesce(published_at, now())` } : {}),
+      // Publishing makes this version the one readers see; every other move keeps theirs.
+      ...(to === 'published'
+        ? { published_at: sql`coalesce(published_at, now())`, published_version: version }
+        : {}),
     })
     .where('id', '=', recordId)
     .where('current_version', '=', version)
@@ -251,6 +279,44 @@ export async function resolveOpenFlags(db: DbOrTrx, recordId: string, by: string
     .where('status', '=', 'open')
     .executeTakeFirst();
   return Number(r.numUpdatedRows);
+}
+
+// ---- embargoes ----
+
+/** Lab-private records whose readers' version has an embargo that ended on or before `day` and was not lifted yet. */
+export async function dueEmbargoes(
+  db: DbOrTrx,
+  day: string,
+): Promise<{ id: string; handle: string; lab_id: string | null; embargo_until: string }[]> {
+  const r = await sql<{
+    id: string;
+    handle: string;
+    lab_id: string | null;
+    embargo_until: string;
+  }>`SELECT r.id, r.handle, r.lab_id, v.embargo_until::text AS embargo_until
+       FROM records r
+       JOIN record_versions v ON v.record_id = r.id AND v.version = r.published_version
+      WHERE r.status IN ('published', 'flagged', 'submitted', 'changes_requested', 'declined')
+        AND v.visibility = 'lab' AND v.embargo_until IS NOT NULL AND v.embargo_until <= ${day}::date
+        AND r.embargo_lifted_for IS DISTINCT FROM v.embargo_until
+      ORDER BY v.embargo_until, r.handle
+      LIMIT 200`.execute(db);
+  return r.rows;
+}
+
+/** Notes an embargo as lifted, once: false when another process lifted it first. */
+export async function markEmbargoLifted(
+  db: DbOrTrx,
+  recordId: string,
+  embargoUntil: string,
+): Promise<boolean> {
+  const r = await db
+    .updateTable('records')
+    .set({ embargo_lifted_for: embargoUntil, updated_at: sql`now()` })
+    .where('id', '=', recordId)
+    .where(sql<boolean>`embargo_lifted_for IS DISTINCT FROM ${embargoUntil}::date`)
+    .executeTakeFirst();
+  return Number(r.numUpdatedRows) === 1;
 }
 
 // ---- raw files and analyses ----
@@ -389,7 +455,7 @@ export type SortKey =
  * status, owner and lab with its current version's visibility and embargo).
  */
 export function readable(scope: ReadScope): Expression<SqlBool> {
-  const embargoed = sql`(s.visibility = 'lab' AND s.embargo_until IS NOT NULL AND (s.embargo_until::timestamp AT TIME ZONE 'UTC') > now())`;
+  const embargoed = sql`(s.visibility = 'lab' AND s.embargo_until IS NOT NULL AND NOT s.embargo_lifted AND (s.embargo_until::timestamp AT TIME ZONE 'UTC') > now())`;
   const insider = scope.userId
     ? sql`(s.owner_id = ${scope.userId} OR s.lab_id = ANY(${sql.val(scope.labIds)}::uuid[]))`
     : sql`false`;
@@ -499,7 +565,11 @@ function toSearchRow(row: PageRow): SearchRow {
 /** The full rows of the records `picked` (record_id, version, k, handle), in `order`. */
 function pageOf(picked: RawBuilder<unknown>, order: RawBuilder<unknown>) {
   return sql<PageRow>`
-    SELECT ${versionColumns}, r.handle, r.status, r.owner_id, r.lab_id, l.slug AS lab_slug, l.name AS lab_name, r.updated_at, r.published_at, p.k
+    SELECT ${versionColumns}, r.handle,
+           -- a record under revision is found by its published version, with the status readers see
+           CASE WHEN v.version = r.published_version AND r.status NOT IN ('published', 'flagged', 'withdrawn')
+                THEN 'published' ELSE r.status END AS status,
+           r.owner_id, r.lab_id, l.slug AS lab_slug, l.name AS lab_name, r.updated_at, r.published_at, p.k
       FROM (${picked}) p
       JOIN records r ON r.id = p.record_id
       JOIN record_versions v ON v.record_id = p.record_id AND v.version = p.version

@@ -1,7 +1,8 @@
 import { db } from '#lib/server/db/index.ts';
 import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readJson } from '#lib/server/http/route.ts';
-import { editRecord, getRecord } from '#lib/server/records.ts';
+import { editRecord } from '#lib/server/records.ts';
+import { getRecord } from '#lib/server/record-views.ts';
 import { editRecordBody } from '#lib/shared/record.ts';
 import { recordDetailSchema } from '#lib/shared/record-views.ts';
 

@@ -2,7 +2,7 @@ import { db } from '#lib/server/db/index.ts';
 import { NotFoundError } from '#lib/server/errors.ts';
 import { answer } from '#lib/server/http/problem.ts';
 import { endpoint } from '#lib/server/http/route.ts';
-import { getRecordVersion } from '#lib/server/records.ts';
+import { getRecordVersion } from '#lib/server/record-history.ts';
 import { recordDetailSchema } from '#lib/shared/record-views.ts';
 
 export const GET = endpoint(async ({ locals, params }) => {
