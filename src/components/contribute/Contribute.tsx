@@ -1,7 +1,7 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { QueryClientProvider, useQuery } from '@tanstack/react-query';
 import { useEffect, useMemo, useRef, useState } from 'react';
-import { FormProvider, useForm, type Resolver } from 'react-hook-form';
+import { FormProvider, set, useForm, type FieldErrors, type Resolver } from 'react-hook-form';
 import { ApiError, errorMessage, getJson } from '#lib/client/api.ts';
 import {
   conflictVersion,
@@ -11,8 +11,14 @@ import {
   type UploadDone,
 } from '#lib/client/contribute.ts';
 import { queryClient } from '#lib/client/query.ts';
-import { recordQueries, type RecordDetail } from '#lib/client/records.ts';
-import { recordContentSchema } from '#lib/shared/record.ts';
+import {
+  recordQueries,
+  vocabularyQueries,
+  type IndexTerm,
+  type RecordDetail,
+} from '#lib/client/records.ts';
+import { recordContentSchema, statusLabel } from '#lib/shared/record.ts';
+import { pathLabel } from '#lib/shared/record-labels.ts';
 import { buttonPrimary, buttonQuiet, Failed, Loading, muted, panel } from '../ui.tsx';
 import AnalysisPreview from './AnalysisPreview.tsx';
 import { CuratorNotes } from './fields.tsx';
@@ -22,6 +28,7 @@ import {
   checkContent,
   emptyForm,
   stepOfPath,
+  termIssues,
   toContent,
   toForm,
   type FormValues,
@@ -39,16 +46,24 @@ interface Props {
 }
 
 const LOCAL_KEY = 'edgewise.contribute.new';
+/** Edits to a stored record not yet saved to Edgewise, kept in this browser as they are typed. */
+const editsKey = (handle: string) => `edgewise.contribute.edits.${handle}`;
 const EDITABLE = ['draft', 'changes_requested'];
 
 const zod = zodResolver(recordContentSchema);
-/** The shared schema applied to the content the form stands for (blanks dropped, reference derived). */
-const resolver: Resolver<FormValues> = async (values, ctx, options) => {
-  const r = await zod(toContent(values) as never, ctx, options as never);
-  return (
-    Object.keys(r.errors).length ? { values: {}, errors: r.errors } : { values, errors: {} }
-  ) as never;
-};
+/**
+ * The shared schema applied to the content the form stands for (blanks dropped, reference
+ * derived), and every name checked against the vocabulary where it is typed.
+ */
+function resolverWith(vocabulary: { current: IndexTerm[] | undefined }): Resolver<FormValues> {
+  return async (values, ctx, options) => {
+    const r = await zod(toContent(values) as never, ctx, options as never);
+    const errors = { ...r.errors } as FieldErrors<FormValues>;
+    for (const t of termIssues(values, vocabulary.current))
+      set(errors, t.path, { type: 'vocabulary', message: t.message });
+    return (Object.keys(errors).length ? { values: {}, errors } : { values, errors: {} }) as never;
+  };
+}
 
 type Notice = { tone: 'done' | 'info' | 'error'; text: string } | null;
 type Review = RecordDetail['reviews'][number] & { comments?: { path: string; message: string }[] };
@@ -64,6 +79,12 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
   const [changeNote, setChangeNote] = useState('');
   const files = useRawFiles();
   const labName = labs.find((l) => l.slug === lab)?.name ?? '';
+  // One observer of the vocabulary for the island's whole life: the name checks read it, and the
+  // pickers of each step share it without refetching (or cancelling) as steps change.
+  const vocab = useQuery(vocabularyQueries.all());
+  const vocabulary = useRef<IndexTerm[] | undefined>(undefined);
+  vocabulary.current = vocab.data;
+  const resolver = useMemo(() => resolverWith(vocabulary), []);
   const form = useForm<FormValues>({
     defaultValues: emptyForm(labName),
     resolver,
@@ -90,6 +111,22 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
       loaded.current = true;
       form.reset(toForm(r.content, r.lab?.name ?? ''));
       saved.current = JSON.stringify(toContent(form.getValues()));
+      // Edits typed on this version and not saved (the tab was closed) come back.
+      const kept = localStorage.getItem(editsKey(r.handle));
+      if (kept) {
+        try {
+          const k = JSON.parse(kept) as { version: number; values: FormValues };
+          if (k.version === r.version && EDITABLE.includes(r.status)) {
+            form.reset(k.values);
+            setNotice({
+              tone: 'info',
+              text: `Restored the edits you made to v${r.version} in this browser; they are not saved to Edgewise yet.`,
+            });
+          } else localStorage.removeItem(editsKey(r.handle));
+        } catch {
+          localStorage.removeItem(editsKey(r.handle));
+        }
+      }
     }
   }, [detail.data, form]);
 
@@ -109,8 +146,27 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
 
   const values = form.watch();
   const parsed = useMemo(() => checkContent(values), [JSON.stringify(values)]); // eslint-disable-line react-hooks/exhaustive-deps
-  const problems = parsed.success ? [] : parsed.error.issues;
+  const named = useMemo(() => termIssues(values, vocab.data), [JSON.stringify(values), vocab.data]); // eslint-disable-line react-hooks/exhaustive-deps
+  const problems = [
+    ...(parsed.success ? [] : parsed.error.issues),
+    ...named.map((t) => ({ path: t.path.split('.'), message: t.message })),
+  ];
   const editable = !status || EDITABLE.includes(status);
+
+  // Every change is kept in this browser at once, so closing the tab on a step loses nothing.
+  useEffect(() => {
+    const sub = form.watch((v) => {
+      if (!editable) return;
+      const values = v as FormValues;
+      if (!handle) localStorage.setItem(LOCAL_KEY, JSON.stringify(values));
+      else if (loaded.current) {
+        if (saved.current === JSON.stringify(toContent(values)))
+          localStorage.removeItem(editsKey(handle));
+        else localStorage.setItem(editsKey(handle), JSON.stringify({ version, values }));
+      }
+    });
+    return () => sub.unsubscribe();
+  }, [form, handle, version, editable]);
   // The curator's decisions with their comments on fields, while the record waits for changes.
   const reviews = useQuery({
     queryKey: ['records', 'reviews', handle],
@@ -136,7 +192,10 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
   const save = async (why: string): Promise<{ handle: string; version: number } | null> => {
     const v = form.getValues();
     const check = checkContent(v);
-    if (!check.success) {
+    const unknown = termIssues(v, vocabulary.current);
+    if (!check.success || unknown.length) {
+      for (const t of unknown)
+        form.setError(t.path as never, { type: 'vocabulary', message: t.message });
       if (!handle) localStorage.setItem(LOCAL_KEY, JSON.stringify(v));
       setNotice({
         tone: 'info',
@@ -158,6 +217,7 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
             status === 'changes_requested' && changeNote.trim() ? changeNote.trim() : why,
           )
         : await createDraft(content, lab || undefined);
+      localStorage.removeItem(editsKey(r.handle));
       if (!handle) {
         localStorage.removeItem(LOCAL_KEY);
         loaded.current = true;
@@ -254,7 +314,7 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
   if (handle && detail.isError && !loaded.current)
     return <Failed error={detail.error} retry={() => void detail.refetch()} what="the draft" />;
   const record = detail.data ?? null;
-  const content = parsed.success ? parsed.data : null;
+  const content = parsed.success && named.length === 0 ? parsed.data : null;
 
   return (
     <FormProvider {...form}>
@@ -263,8 +323,8 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
           <span data-testid="record-state">
             {handle ? (
               <>
-                Draft <strong className="num">{handle}</strong> v{version} ·{' '}
-                {status?.replace('_', ' ')}
+                Record <strong className="num">{handle}</strong> v{version} ·{' '}
+                {status ? statusLabel(status) : ''}
               </>
             ) : (
               'New record, not yet saved'
@@ -304,7 +364,7 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
               <ul className="mt-1 list-disc pl-5">
                 {notes.map((n) => (
                   <li key={`${n.path}:${n.text}`}>
-                    <span className="num">{n.path}</span>: {n.text}
+                    <span className="font-semibold">{pathLabel(n.path)}</span>: {n.text}
                   </li>
                 ))}
               </ul>
@@ -320,7 +380,7 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
             className="mt-3 rounded-md border border-rule dark:border-night-rule p-3 text-sm"
             role="status"
           >
-            This record is {status?.replace('_', ' ')}; it cannot be edited now.
+            This record is {status ? statusLabel(status) : ''}; it cannot be edited now.
           </p>
         )}
         {notice && (
@@ -335,10 +395,7 @@ function ContributeForm({ handle: initialHandle, labs }: Props) {
         <nav aria-label="Steps" className="mt-4">
           <ol className="flex gap-1 overflow-x-auto text-sm">
             {STEPS.map((s, i) => {
-              const bad =
-                !parsed.success &&
-                problems.some((p) => stepOfPath(p.path.join('.')) === i) &&
-                i < 4;
+              const bad = problems.some((p) => stepOfPath(p.path.join('.')) === i) && i < 4;
               return (
                 <li key={s.id}>
                   <button

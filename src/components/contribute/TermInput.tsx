@@ -1,15 +1,18 @@
 import { useQuery } from '@tanstack/react-query';
+import Fuse from 'fuse.js';
 import { useEffect, useId, useMemo, useRef, useState } from 'react';
 import { useController, useFormContext } from 'react-hook-form';
 import { ApiError, errorMessage, sendJson } from '#lib/client/api.ts';
 import { vocabularyQueries, type IndexTerm } from '#lib/client/records.ts';
-import { lookupKey, type VocabularyKind } from '#lib/shared/vocabulary.ts';
+import { lookupKey, looseKey, matchName, type VocabularyKind } from '#lib/shared/vocabulary.ts';
 import { buttonQuiet, input, muted } from '../ui.tsx';
 import { FieldFoot } from './fields.tsx';
 import type { FormValues } from './form-model.ts';
 
-// A vocabulary term chosen by typing: matches on names, abbreviations and synonyms; the form
-// keeps the term's id. A name the vocabulary lacks can be proposed to the curators.
+// A vocabulary term chosen by typing: matches on names, abbreviations and synonyms (punctuation
+// and "saturated" folded, as the server does); the form keeps the term's id. A name that is not a
+// term is an error of its step, shown here with the closest terms; it can be proposed to the
+// curators.
 
 const label = (t: IndexTerm) =>
   t.abbreviations[0] && t.abbreviations[0] !== t.name
@@ -17,8 +20,11 @@ const label = (t: IndexTerm) =>
     : t.name;
 
 function rank(t: IndexTerm, q: string): number {
-  const keys = [t.id, t.name, ...t.abbreviations, ...t.synonyms].map(lookupKey);
+  const names = [t.id, t.name, ...t.abbreviations, ...t.synonyms, ...(t.scale ? [t.scale] : [])];
+  const keys = names.map(lookupKey);
   if (keys.includes(q)) return 0;
+  const loose = looseKey(q);
+  if (loose && names.some((n) => looseKey(n) === loose)) return 0;
   if (keys.some((k) => k.startsWith(q))) return 1;
   if (keys.some((k) => k.includes(q))) return 2;
   return -1;
@@ -82,14 +88,34 @@ export default function TermInput({
     setOpen(false);
     const now = latest.current;
     const current = terms.find((t) => t.id === now.value);
-    if (current && label(current) === now.text) return;
+    if (current && label(current) === now.text) return field.onBlur();
     const key = lookupKey(now.text);
-    if (!key) return field.onChange('');
-    const exact = terms.find((t) => rank(t, key) === 0);
-    if (exact) pick(exact);
-    else field.onChange(now.text.trim());
+    if (!key) field.onChange('');
+    else {
+      // One term by its exact or loose name is chosen; several are left to the contributor.
+      const hits = matchName(terms, now.text, kinds);
+      if (hits.length === 1) pick(hits[0]!);
+      else field.onChange(now.text.trim());
+    }
+    field.onBlur();
   };
   const unknown = Boolean(q) && vocab.isSuccess && !terms.some((t) => t.id === value);
+  const fuse = useMemo(
+    () =>
+      new Fuse(terms, {
+        keys: ['name', 'abbreviations', 'synonyms', 'id'],
+        threshold: 0.5,
+        ignoreLocation: true,
+      }),
+    [terms],
+  );
+  // The closest terms to a name that is not one: the ambiguous ones first, then look-alikes.
+  const closest = useMemo(() => {
+    if (!unknown) return [];
+    const hits = matchName(terms, text, kinds);
+    if (hits.length) return hits;
+    return fuse.search(text.trim(), { limit: 3 }).map((r) => r.item);
+  }, [unknown, terms, text, kinds, fuse]);
 
   const propose = async () => {
     try {
@@ -161,11 +187,28 @@ export default function TermInput({
           ))}
         </ul>
       )}
+      <FieldFoot path={path} id={id} />
       {unknown && !open && (
-        <div className="mt-1 text-sm">
-          <p className="text-copper dark:text-night-copper">
-            “{text}” is not in the vocabulary; choose a term from the list.
-          </p>
+        <div className="mt-1 text-sm" data-testid="term-suggestions">
+          {closest.length > 0 && (
+            <p className="flex flex-wrap items-center gap-1">
+              <span>Did you mean</span>
+              {closest.map((t) => (
+                <button
+                  key={t.id}
+                  type="button"
+                  className={buttonQuiet}
+                  onClick={() => {
+                    pick(t);
+                    field.onBlur();
+                  }}
+                >
+                  {label(t)}
+                </button>
+              ))}
+              <span>?</span>
+            </p>
+          )}
           <button type="button" className={`${buttonQuiet} mt-1`} onClick={propose}>
             Propose “{text.trim()}” as a new {kinds[0]?.replace('-', ' ')}
           </button>
@@ -176,7 +219,6 @@ export default function TermInput({
           )}
         </div>
       )}
-      <FieldFoot path={path} id={id} />
     </div>
   );
 }

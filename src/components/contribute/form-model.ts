@@ -1,3 +1,5 @@
+import type { IndexTerm } from '#lib/client/records.ts';
+import { matchName, type VocabularyKind } from '#lib/shared/vocabulary.ts';
 import {
   CELL_VOLTAGE,
   recordContentSchema,
@@ -323,4 +325,63 @@ export function stepOfPath(path: string): number {
   const top = path.split('.')[0] ?? '';
   const i = STEPS.findIndex((st) => (st.fields as readonly string[]).includes(top));
   return i < 0 ? 0 : i;
+}
+
+/** Every field of the form that names a vocabulary term, with the kinds of term it takes. */
+export function termFields(f: FormValues): { path: string; kinds: VocabularyKind[] }[] {
+  const e = f.electrolyte;
+  return [
+    ...e.solvents.map((_, i) => ({
+      path: `electrolyte.solvents.${i}.term`,
+      kinds: ['solvent'] as VocabularyKind[],
+    })),
+    ...e.salts.map((_, i) => ({
+      path: `electrolyte.salts.${i}.term`,
+      kinds: ['salt'] as VocabularyKind[],
+    })),
+    ...e.additives.map((_, i) => ({
+      path: `electrolyte.additives.${i}.term`,
+      kinds: ['additive', 'salt', 'solvent'] as VocabularyKind[],
+    })),
+    { path: 'workingElectrode.material', kinds: ['electrode-material'] },
+    { path: 'counterElectrode.material', kinds: ['electrode-material'] },
+    ...(f.cellType === 'three-electrode'
+      ? [{ path: 'referenceElectrode', kinds: ['reference-electrode'] as VocabularyKind[] }]
+      : []),
+  ];
+}
+
+export interface TermIssue {
+  path: string;
+  message: string;
+  /** Terms the name may mean (several when it is ambiguous). */
+  suggestions: IndexTerm[];
+}
+
+/**
+ * Names typed in the form that are not a term of the vocabulary (the form keeps a chosen term's
+ * id, so anything else is a name still to be chosen): checked where they are typed, so a step
+ * with one is not complete. Nothing is reported until the vocabulary has loaded.
+ */
+export function termIssues(f: FormValues, terms: readonly IndexTerm[] | undefined): TermIssue[] {
+  if (!terms) return [];
+  const out: TermIssue[] = [];
+  for (const { path, kinds } of termFields(f)) {
+    const value = String(
+      path.split('.').reduce<unknown>((o, k) => (o as Record<string, unknown>)?.[k], f) ?? '',
+    ).trim();
+    if (!value || terms.some((t) => t.id === value && kinds.includes(t.kind))) continue;
+    const hits = matchName(terms, value, kinds);
+    out.push({
+      path,
+      message:
+        hits.length > 1
+          ? `“${value}” may mean ${hits.map((t) => t.name).join(' or ')}: choose one`
+          : hits.length === 1
+            ? `“${value}” is not chosen yet: pick ${hits[0]!.name} from the list`
+            : `“${value}” is not a ${kinds[0]!.replace('-', ' ')} in the vocabulary: choose a suggestion or propose it`,
+      suggestions: hits,
+    });
+  }
+  return out;
 }

@@ -13,6 +13,7 @@ import {
 import {
   VOCABULARY_KINDS,
   lookupKey,
+  looseKey,
   termKeys,
   vocabularyTermSchema,
   type VocabularyKind,
@@ -96,12 +97,27 @@ export async function resolveTerms(
   if (targets.length) for (const r of await findTermsByKeys(db, targets)) byId.set(r.id, r);
   const out = new Map<string, VocabularyTermRow>();
   const errors: FieldError[] = [];
+  // Names the exact key misses are tried again by the loose key (punctuation and "saturated"
+  // folded) over the whole vocabulary, read once.
+  let all: VocabularyTermRow[] | null = null;
   for (const ref of refs) {
     const key = lookupKey(ref.name);
     let hits = rows.filter((r) => r.lookup_keys.includes(key) && ref.kinds.includes(r.kind));
     // An exact id wins over synonyms that happen to collide.
     const exact = hits.find((r) => r.id === key);
     if (exact) hits = [exact];
+    if (hits.length === 0) {
+      all ??= await listTerms(db, { includeMerged: true });
+      const loose = looseKey(ref.name);
+      hits = all.filter(
+        (r) => ref.kinds.includes(r.kind) && r.lookup_keys.some((k) => looseKey(k) === loose),
+      );
+      for (const h of hits)
+        if (h.merged_into && !byId.has(h.merged_into)) {
+          const target = all.find((r) => r.id === h.merged_into);
+          if (target) byId.set(target.id, target);
+        }
+    }
     const resolved = [...new Set(hits.map((h) => follow(h, byId)))];
     if (resolved.length === 1) out.set(ref.path, resolved[0]!);
     else if (resolved.length === 0)

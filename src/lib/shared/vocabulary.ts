@@ -67,6 +67,36 @@ export function lookupKey(name: string): string {
     .trim();
 }
 
+/**
+ * A looser key for names typed by hand: punctuation, brackets and hyphens count as spaces and
+ * "saturated" as "sat", so `Ag/AgCl (sat. KCl)`, `Ag/AgCl sat. KCl` and `Ag/AgCl, saturated KCl`
+ * are one key. Used only when the exact key finds nothing; more than one term is never guessed.
+ */
+export function looseKey(name: string): string {
+  return lookupKey(name)
+    .replace(/[.,;:()[\]{}'"’_-]/g, ' ')
+    .replace(/\bsaturated\b/g, 'sat')
+    .replace(/\s+/g, ' ')
+    .trim();
+}
+
+/** What a name given by hand matches among terms: by the exact key, else by the loose key. */
+export function matchName<
+  T extends Pick<VocabularyTermInput, 'id' | 'name' | 'abbreviations' | 'synonyms' | 'scale'> & {
+    kind: string;
+  },
+>(terms: readonly T[], name: string, kinds: readonly string[]): T[] {
+  const of = terms.filter((t) => kinds.includes(t.kind));
+  const key = lookupKey(name);
+  if (!key) return [];
+  const exact = of.filter((t) => termKeys(t).includes(key));
+  const byId = exact.find((t) => t.id === key);
+  if (byId) return [byId];
+  if (exact.length) return exact;
+  const loose = looseKey(name);
+  return of.filter((t) => termKeys(t).some((k) => looseKey(k) === loose));
+}
+
 /** Every key a term can be found by. */
 export function termKeys(
   t: Pick<VocabularyTermInput, 'id' | 'name' | 'abbreviations' | 'synonyms' | 'scale'>,
