@@ -151,7 +151,9 @@ describe('POST /api/v1/imports', () => {
     const body = await res.json();
     expect(res.status).toBe(422);
     expect(res.headers.get('content-type')).toMatch(/problem\+json/);
-    expect(body.detail).toBe('3 of 5 rows have problems; nothing was imported.');
+    expect(body.detail).toMatch(
+      /^3 of 5 rows have problems \(\d+ in all, listed below by line\); nothing was imported\.$/,
+    );
     const paths = body.errors.map((e: { path: string }) => e.path);
     expect(paths).toContain('line 3, salt_concentration');
     expect(paths).toContain('line 4, solvents');
@@ -164,6 +166,62 @@ describe('POST /api/v1/imports', () => {
       false,
     );
     expect(await ownedCount()).toBe(before);
+  });
+
+  it('reads mixed line endings and reports every problem of the file at once, by line, each once', async () => {
+    const before = await ownedCount();
+    const [header, ...rows] = csvOf([
+      good({ reference: 'Ag/AgCl, sat. KCl', cathodic_v: '-3.1', anodic_v: '1.2' }),
+      // A number error, an unknown solvent and an unknown reference in one row: all three at once.
+      good({ temperature_c: 'warm', solvents: 'unobtainium-carbonate', reference: 'Ag/AgCl satt' }),
+      good({ reference: 'Hg/HgO wobbly' }),
+    ])
+      .trimEnd()
+      .split('\n');
+    // A header saved on Windows, rows added on Unix and one more on an old Mac.
+    const csv = `${header}\r\n${rows[0]}\n${rows[1]}\r${rows[2]}\n`;
+    const res = await postCsv(cookie, csv);
+    const body = await res.json();
+    expect(res.status).toBe(422);
+    expect(body.errors).toEqual([
+      { path: 'line 3, temperature_c', message: '"warm" is not a number (use a decimal point)' },
+      {
+        path: 'line 3, solvents',
+        message: '"unobtainium-carbonate" is not a known solvent in the vocabulary',
+      },
+      {
+        path: 'line 3, reference',
+        message: '"Ag/AgCl satt" is not a known reference-electrode in the vocabulary',
+      },
+      {
+        path: 'line 4, reference',
+        message: '"Hg/HgO wobbly" is not a known reference-electrode in the vocabulary',
+      },
+    ]);
+    expect(body.detail).toBe(
+      '2 of 3 rows have problems (4 in all, listed below by line); nothing was imported.',
+    );
+    expect(await ownedCount()).toBe(before);
+  });
+
+  it('accepts synonyms and common spellings of vocabulary names', async () => {
+    const res = await postCsv(
+      cookie,
+      csvOf(
+        [
+          'Ag/AgCl sat',
+          'Ag/AgCl sat.',
+          'Ag/AgCl (sat. KCl)',
+          'silver/silver chloride, saturated KCl',
+        ].map((reference) => good({ reference, cathodic_v: '-3.1', anodic_v: '1.2' })),
+      ),
+    );
+    const body = await res.json();
+    expect(res.status, JSON.stringify(body)).toBe(201);
+    for (const r of body.records) {
+      const rec = await (await as(cookie, `/api/v1/records/${r.handle}`)).json();
+      expect(rec.content.referenceElectrode).toBe('ref-ag-agcl-sat');
+    }
   });
 
   it('counts lines from the top of the file, blank lines and quoted line breaks included', async () => {

@@ -6,6 +6,18 @@ import { buttonPrimary, muted, panel } from '../ui.tsx';
 // Bulk import of stated records from the CSV template: the server checks every row first and
 // imports all of them or none; problems come back by line and column.
 
+/** Problems grouped by the line they are on ("line 3, reference" → "line 3" and "reference"), in file order. */
+function byLine(rows: { path: string; message: string }[]) {
+  const groups = new Map<string, { column: string; message: string }[]>();
+  for (const r of rows) {
+    const m = /^(line \d+), (.*)$/.exec(r.path);
+    const line = m ? m[1]! : 'the file';
+    const column = m ? m[2]! : r.path;
+    groups.set(line, [...(groups.get(line) ?? []), { column, message: r.message }]);
+  }
+  return [...groups];
+}
+
 export default function BulkImport() {
   const [file, setFile] = useState<File | null>(null);
   const [busy, setBusy] = useState(false);
@@ -71,22 +83,24 @@ export default function BulkImport() {
         <div role="alert" className="mt-4 text-sm" data-testid="import-errors">
           <p className="font-semibold">{failure.text}</p>
           {failure.rows.length > 0 && (
-            <table className="mt-2 w-full text-left">
-              <thead className={muted}>
-                <tr>
-                  <th className="pr-3">Where</th>
-                  <th>Problem</th>
-                </tr>
-              </thead>
-              <tbody>
-                {failure.rows.map((r, i) => (
-                  <tr key={i} className="border-t border-rule dark:border-night-rule">
-                    <td className="num pr-3 align-top whitespace-nowrap">{r.path}</td>
-                    <td>{r.message}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+            <ol className="mt-2 grid gap-2">
+              {byLine(failure.rows).map(([line, problems]) => (
+                <li
+                  key={line}
+                  className="border-t border-rule dark:border-night-rule pt-1"
+                  data-testid="import-row"
+                >
+                  <p className="font-semibold">{line}</p>
+                  <ul className="list-disc pl-5">
+                    {problems.map((p, i) => (
+                      <li key={i}>
+                        <span className="num">{p.column}</span>: {p.message}
+                      </li>
+                    ))}
+                  </ul>
+                </li>
+              ))}
+            </ol>
           )}
         </div>
       )}

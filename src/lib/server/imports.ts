@@ -10,13 +10,16 @@ import { AppError, ValidationError, type FieldError } from './errors.ts';
 import { authorize, type Principal, type UserPrincipal } from './policy.ts';
 import { insertDraft, prepareDraft, type PreparedDraft } from './records.ts';
 import { insertAuditEvent } from './repositories/audit.ts';
+import { resolveTerms, type TermRef } from './vocabulary.ts';
 import type { ImportResult } from '#lib/shared/answers.ts';
 export type { ImportResult };
 import { claimIdempotentChange } from './idempotency.ts';
 
 // Bulk import of stated records from the CSV template: every row is checked (shape, units,
 // vocabulary names, lab) before anything is written, then all drafts are written in one
-// transaction — a file imports whole or not at all.
+// transaction — a file imports whole or not at all. Every problem of the file comes back in one
+// answer, ordered by line, each once (a name used in several places of a row is one problem).
+// Lines may end in CRLF, LF or CR, mixed within a file.
 
 class ImportRefused extends AppError {
   constructor(detail: string, errors: FieldError[]) {
@@ -47,6 +50,9 @@ export async function importRecords(
     parsed = parse(csv, {
       bom: true,
       info: true,
+      // Files edited on several systems mix line endings; csv-parse otherwise takes the first
+      // line's ending for every line.
+      record_delimiter: ['\r\n', '\n', '\r'],
       skip_empty_lines: true,
       relax_column_count: false,
       trim: true,
@@ -106,6 +112,18 @@ export async function importRecords(
       errors.push(
         ...shaped.problems.map((p) => ({ path: at(line, p.column), message: p.message })),
       );
+      // The names are checked too, so one answer holds every problem of the row.
+      try {
+        await resolveTerms(db, rowTermRefs(row));
+      } catch (err) {
+        if (!(err instanceof ValidationError)) throw err;
+        errors.push(
+          ...(err.extra.errors ?? []).map((e) => ({
+            path: at(line, columnOfPath(e.path)),
+            message: e.message,
+          })),
+        );
+      }
       continue;
     }
     try {
@@ -121,10 +139,13 @@ export async function importRecords(
     }
   }
   if (errors.length) {
-    const bad = new Set(errors.map((e) => e.path.split(',')[0])).size;
+    const once = [...new Map(errors.map((e) => [`${e.path}\u0000${e.message}`, e])).values()];
+    const lineOf = (e: FieldError) => Number(/^line (\d+)/.exec(e.path)?.[1] ?? 0);
+    once.sort((a, b) => lineOf(a) - lineOf(b));
+    const bad = new Set(once.map(lineOf)).size;
     throw new ImportRefused(
-      `${bad} of ${rows.length} rows have problems; nothing was imported.`,
-      errors,
+      `${bad} of ${rows.length} rows have problems (${once.length} in all, listed below by line); nothing was imported.`,
+      once,
     );
   }
 
@@ -146,4 +167,53 @@ export async function importRecords(
     return out;
   });
   return { count: records.length, records };
+}
+
+/** The vocabulary names a row gives, with the paths a record body would give them. */
+function rowTermRefs(row: Record<string, string>): TermRef[] {
+  const list = (c: string) =>
+    (row[c] ?? '')
+      .split(';')
+      .map((x) => x.trim())
+      .filter(Boolean);
+  const one = (c: string) => row[c]?.trim() || undefined;
+  const refs: TermRef[] = [];
+  list('solvents').forEach((part, i) =>
+    refs.push({
+      path: `content.electrolyte.solvents.${i}.term`,
+      name: part.replace(/:\s*[^:]*$/, '').trim(),
+      kinds: ['solvent'],
+    }),
+  );
+  const salt = one('salt');
+  if (salt) refs.push({ path: 'content.electrolyte.salts.0.term', name: salt, kinds: ['salt'] });
+  list('additives').forEach((name, i) =>
+    refs.push({
+      path: `content.electrolyte.additives.${i}.term`,
+      name,
+      kinds: ['additive', 'salt', 'solvent'],
+    }),
+  );
+  const electrode = one('electrode');
+  if (electrode)
+    refs.push({
+      path: 'content.workingElectrode.material',
+      name: electrode,
+      kinds: ['electrode-material'],
+    });
+  const counter = one('counter');
+  if (counter)
+    refs.push({
+      path: 'content.counterElectrode.material',
+      name: counter,
+      kinds: ['electrode-material'],
+    });
+  const reference = one('reference');
+  if (reference && one('cell_type') !== 'two-electrode')
+    refs.push({
+      path: 'content.referenceElectrode',
+      name: reference,
+      kinds: ['reference-electrode'],
+    });
+  return refs.filter((r) => r.name);
 }
