@@ -196,7 +196,7 @@ describe('curation in the browser', () => {
       .getByTestId('comment-message')
       .fill('The raw data give about 1.09 V at S = 0.1; check the reported anodic limit.');
     await cur.getByTestId('add-comment').click();
-    await cur.getByTestId('draft-comments').getByText('reportedLimits.anodic').waitFor();
+    await cur.getByTestId('draft-comments').getByText('Reported anodic limit').waitFor();
     await cur.getByTestId('request-changes').click();
     await cur
       .getByTestId('decision-done')
@@ -210,7 +210,7 @@ describe('curation in the browser', () => {
     const note = con.getByTestId('notifications').getByText(`${handle} changes requested`);
     await note.waitFor();
     await note.click();
-    await con.getByText('reportedLimits.anodic: The raw data give about 1.09 V').waitFor();
+    await con.getByText('Reported anodic limit: The raw data give about 1.09 V').waitFor();
     await screenshot(con, 'curation-notification');
     const edited = await con.request.put(`${appUrl()}/api/v1/records/${handle}`, {
       headers: { origin: appUrl(), 'content-type': 'application/json' },
@@ -230,10 +230,23 @@ describe('curation in the browser', () => {
     // The curator sees the change note and the difference, and publishes.
     await cur.goto(`${appUrl()}/review/${handle}`);
     await cur.getByTestId('change-notes').getByText('Anodic limit corrected').waitFor();
-    await cur.getByTestId('diff').getByText('reportedLimits.anodic.valueV').waitFor();
+    await cur.getByTestId('diff').getByText('Reported anodic limit: value').waitFor();
     await expect(
       cur.getByTestId('disagreement').locator('td[data-disagrees="true"]').count(),
     ).resolves.toBe(0);
+    // The curves beside the numbers: the raw curve and the S-value plot with both limits marked.
+    await cur
+      .getByRole('img', { name: /S-value against potential/ })
+      .first()
+      .waitFor();
+    await cur.getByTestId('reported-mark').first().waitFor();
+    // No internal slugs or JSON paths on the screen.
+    const screen = await cur.locator('main').innerText();
+    expect(screen).not.toMatch(/ref-ag-agcl|reportedLimits\.|electrolyte\.|workingElectrode\./);
+    // Deciding needs a claim: the buttons wait for it, and claiming is one visible step.
+    expect(await cur.getByTestId('publish').isDisabled()).toBe(true);
+    await cur.getByRole('button', { name: 'Claim and decide' }).click();
+    await cur.getByTestId('claim-box').getByText('You claimed this record').waitFor();
     await cur.getByTestId('publish').click();
     await cur
       .getByTestId('decision-done')

@@ -25,6 +25,8 @@ interface Props {
   /** The limit found: interpolated crossing and last passing point (V), either may be null. */
   limitV: number | null;
   lastPassingV: number | null;
+  /** The limit the contributor reported, on the same scale (V), marked beside the computed one. */
+  reportedV?: number | null;
   height?: number;
 }
 
@@ -39,6 +41,7 @@ export default function CriterionPlot({
   cutoffLabel,
   limitV,
   lastPassingV,
+  reportedV = null,
   height = 300,
 }: Props) {
   const good = points.filter(
@@ -48,9 +51,11 @@ export default function CriterionPlot({
   const vals = [...good.map((p) => p.value), cutoff];
   const ylo = 10 ** Math.floor(Math.log10(Math.min(...vals)));
   const yhi = 10 ** Math.ceil(Math.log10(Math.max(...vals)));
-  const xs = points.map((p) => p.potentialV).concat(limitV !== null ? [limitV] : []);
+  const xs = points
+    .map((p) => p.potentialV)
+    .concat(limitV !== null ? [limitV] : [], reportedV !== null ? [reportedV] : []);
   const [xlo, xhi] = xs.length ? padded(Math.min(...xs), Math.max(...xs), 0.08, 0.05) : [0, 1];
-  const desc = `${good.length} points; cutoff ${cutoffLabel}; ${limitV !== null ? `limit at ${limitV.toFixed(3)} V` : 'cutoff not crossed'}.`;
+  const desc = `${good.length} points; cutoff ${cutoffLabel}; ${limitV !== null ? `limit at ${limitV.toFixed(3)} V` : 'cutoff not crossed'}${reportedV !== null ? `; reported limit ${reportedV.toFixed(3)} V` : ''}.`;
   return (
     <ChartFrame
       height={height}
@@ -146,6 +151,27 @@ export default function CriterionPlot({
                   className="num fill-ink dark:fill-night-ink"
                 >
                   limit {limitV.toFixed(3)} V
+                </text>
+              </g>
+            )}
+            {reportedV !== null && (
+              <g data-testid="reported-mark">
+                <line
+                  x1={x(reportedV)}
+                  x2={x(reportedV)}
+                  y1={M.top}
+                  y2={height - M.bottom}
+                  className="stroke-cobalt dark:stroke-night-cobalt"
+                  strokeDasharray="8 3"
+                  strokeWidth={1.5}
+                />
+                <text
+                  x={x(reportedV) + 4}
+                  y={M.top + 24}
+                  fontSize={11}
+                  className="num fill-cobalt dark:fill-night-cobalt"
+                >
+                  reported {reportedV.toFixed(3)} V
                 </text>
               </g>
             )}

@@ -109,6 +109,11 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
   }, [criterion, text.data]);
   const shown = recomputed?.result ?? stored;
   const series = criterionSeries(shown);
+  // The reported limit is marked only when it is on the record's own reference, the scale the
+  // analysis works on; a limit reported on another scale is not shifted here.
+  const rep = r.limits[a.direction];
+  const reportedV =
+    rep && rep.reference === (r.content.referenceElectrode ?? 'cell') ? rep.valueV : null;
 
   const recompute = setCriterion;
 
@@ -152,6 +157,7 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
           cutoffLabel={series.cutoffLabel}
           limitV={shown.limit.status === 'reached' ? shown.limit.interpolatedV : null}
           lastPassingV={shown.limit.lastPassingV}
+          reportedV={reportedV}
         />
         <p className="text-sm" data-testid={`limit-${a.direction}`}>
           <span className="font-semibold">

@@ -92,7 +92,9 @@ function Log() {
                       `${e.subjectType} ${e.subjectId}`
                     )}
                   </td>
-                  <td className="p-2 num text-xs break-all">{JSON.stringify(e.details)}</td>
+                  <td className="p-2 text-xs break-words">
+                    <Details details={e.details} />
+                  </td>
                 </tr>
               ))}
             </tbody>
@@ -127,6 +129,39 @@ function Log() {
     </div>
   );
 }
+
+/** An audit event's details as labelled lines: words for keys, plain values, nested values indented. */
+function Details({ details }: { details: unknown }) {
+  if (details === null || details === undefined) return <span className={muted}>—</span>;
+  if (typeof details !== 'object') return <>{String(details)}</>;
+  const entries = Object.entries(details as Record<string, unknown>);
+  if (entries.length === 0) return <span className={muted}>—</span>;
+  return (
+    <dl className="grid grid-cols-[auto_1fr] gap-x-2" data-testid="audit-details">
+      {entries.map(([k, v]) => (
+        <div key={k} className="contents">
+          <dt className={muted}>{detailKey(k)}</dt>
+          <dd>
+            {v !== null && typeof v === 'object' && !Array.isArray(v) ? (
+              <Details details={v} />
+            ) : Array.isArray(v) ? (
+              v.map((x) => (typeof x === 'object' ? JSON.stringify(x) : String(x))).join(', ')
+            ) : (
+              String(v)
+            )}
+          </dd>
+        </div>
+      ))}
+    </dl>
+  );
+}
+
+/** `changeNote` → "change note", `labId` → "lab id". */
+const detailKey = (k: string) =>
+  k
+    .replace(/([a-z0-9])([A-Z])/g, '$1 $2')
+    .replace(/_/g, ' ')
+    .toLowerCase();
 
 export default function AuditLog() {
   return (

@@ -1,9 +1,18 @@
 import { QueryClientProvider, useMutation, useQuery } from '@tanstack/react-query';
-import { useRef, useState } from 'react';
+import { useMemo, useRef, useState } from 'react';
 import { errorMessage, queryClient } from '#lib/client/query.ts';
 import { reviewActions, reviewQueries } from '#lib/client/review.ts';
 import type { Decision, FieldComment, ReviewDetail } from '#lib/shared/curation.ts';
-import type { RecordContent } from '#lib/shared/record.ts';
+import {
+  longName,
+  METHOD_NAMES,
+  recordQueries,
+  vocabularyQueries,
+  type IndexTerm,
+} from '#lib/client/records.ts';
+import { CELL_VOLTAGE, statusLabel, type RecordContent } from '#lib/shared/record.ts';
+import { pathLabel } from '#lib/shared/record-labels.ts';
+import RawData from '../record/RawData.tsx';
 import {
   buttonPrimary,
   buttonQuiet,
@@ -14,6 +23,7 @@ import {
   muted,
   panel,
 } from '../ui.tsx';
+import { criterionWords } from '#lib/shared/criteria.ts';
 import { formatVolts } from '#lib/shared/format.ts';
 
 // One record under review: what it states and what is missing, reported beside computed limits,
@@ -30,31 +40,56 @@ const show = (v: unknown): string => {
   }
   return String(v);
 };
+const DECISION_WORDS: Record<string, string> = {
+  publish: 'published',
+  'request-changes': 'asked for changes',
+  decline: 'declined',
+  'resolve-flag': 'dismissed a flag',
+  withdraw: 'withdrew',
+};
+
+/** A value as a curator reads it: a vocabulary id by its name. */
+const showNamed = (v: unknown, terms: Map<string, IndexTerm> | undefined): string =>
+  typeof v === 'string' && terms?.has(v) ? longName(terms, v) : show(v);
 const volts = (v: number) => formatVolts(v);
 
-/** The fields a comment can point at, with how to show them. */
-function conditionRows(c: RecordContent): { path: string; label: string; value: string }[] {
+type Terms = Map<string, IndexTerm> | undefined;
+
+/** The fields a comment can point at, with how to show them: vocabulary names, units, words. */
+function conditionRows(
+  c: RecordContent,
+  terms: Terms,
+): { path: string; label: string; value: string }[] {
   const e = c.electrolyte;
+  const name = (id: string) => longName(terms, id);
+  const m = c.method;
+  const we = c.workingElectrode;
+  const limit = (side: 'cathodic' | 'anodic') => {
+    const l = c.reportedLimits[side];
+    if (!l) return '—';
+    return `${volts(l.valueV)} ${l.reference === CELL_VOLTAGE ? '(cell voltage)' : `vs ${name(l.reference)}`}`;
+  };
   return [
     { path: 'title', label: 'Title', value: show(c.title) },
     {
       path: 'electrolyte.solvents',
       label: 'Solvents',
       value:
-        e.solvents.map((s) => `${s.term} (${s.fraction} ${s.fractionBasis})`).join(', ') || '—',
+        e.solvents.map((s) => `${name(s.term)} (${s.fraction} by ${s.fractionBasis})`).join(', ') ||
+        '—',
     },
     {
       path: 'electrolyte.salts',
       label: 'Salts',
       value:
         e.salts
-          .map((s) => `${s.term} ${s.concentration.value} ${s.concentration.basis}`)
-          .join(', ') || '—',
+          .map((s) => `${name(s.term)}, ${s.concentration.value} ${s.concentration.basis}`)
+          .join('; ') || '—',
     },
     {
       path: 'electrolyte.additives',
       label: 'Additives',
-      value: e.additives.map((s) => s.term).join(', ') || '—',
+      value: e.additives.map((s) => name(s.term)).join(', ') || '—',
     },
     {
       path: 'electrolyte.waterContentPpm',
@@ -67,30 +102,51 @@ function conditionRows(c: RecordContent): { path: string; label: string; value: 
       label: 'Temperature',
       value: c.temperatureC === undefined ? '—' : `${c.temperatureC} °C`,
     },
-    { path: 'workingElectrode', label: 'Working electrode', value: show(c.workingElectrode) },
+    {
+      path: 'workingElectrode',
+      label: 'Working electrode',
+      value: [
+        name(we.material),
+        we.form,
+        we.geometricAreaCm2 !== undefined ? `${we.geometricAreaCm2} cm²` : '',
+        we.activeMassMg !== undefined ? `${we.activeMassMg} mg active mass` : '',
+      ]
+        .filter(Boolean)
+        .join(', '),
+    },
     {
       path: 'counterElectrode',
       label: 'Counter electrode',
-      value: show(c.counterElectrode?.material),
-    },
-    { path: 'referenceElectrode', label: 'Reference electrode', value: show(c.referenceElectrode) },
-    { path: 'cellType', label: 'Cell', value: c.cellType },
-    { path: 'method', label: 'Method', value: show(c.method) },
-    { path: 'criterion', label: 'Criterion', value: show(c.criterion) },
-    {
-      path: 'reportedLimits.cathodic',
-      label: 'Reported cathodic limit',
-      value: c.reportedLimits.cathodic
-        ? `${volts(c.reportedLimits.cathodic.valueV)} vs ${c.reportedLimits.cathodic.reference}`
-        : '—',
+      value: c.counterElectrode ? name(c.counterElectrode.material) : '—',
     },
     {
-      path: 'reportedLimits.anodic',
-      label: 'Reported anodic limit',
-      value: c.reportedLimits.anodic
-        ? `${volts(c.reportedLimits.anodic.valueV)} vs ${c.reportedLimits.anodic.reference}`
-        : '—',
+      path: 'referenceElectrode',
+      label: 'Reference electrode',
+      value: c.referenceElectrode ? name(c.referenceElectrode) : '—',
     },
+    { path: 'cellType', label: 'Cell', value: c.cellType.replace('-', ' ') },
+    {
+      path: 'method',
+      label: 'Method',
+      value: [
+        METHOD_NAMES[m.kind],
+        m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined
+          ? `${m.scanRateMVs} mV s⁻¹`
+          : '',
+        m.kind === 'cv-window-opening' && m.vertexStepMV !== undefined
+          ? `vertex step ${m.vertexStepMV} mV`
+          : '',
+        m.kind === 'potentiostatic-holds' && m.stepMV !== undefined ? `step ${m.stepMV} mV` : '',
+        m.kind === 'potentiostatic-holds' && m.holdTimeS !== undefined
+          ? `hold ${m.holdTimeS} s`
+          : '',
+      ]
+        .filter(Boolean)
+        .join(', '),
+    },
+    { path: 'criterion', label: 'Criterion', value: criterionWords(c.criterion) },
+    { path: 'reportedLimits.cathodic', label: 'Reported cathodic limit', value: limit('cathodic') },
+    { path: 'reportedLimits.anodic', label: 'Reported anodic limit', value: limit('anodic') },
     {
       path: 'source',
       label: 'Source',
@@ -104,9 +160,13 @@ function conditionRows(c: RecordContent): { path: string; label: string; value: 
     {
       path: 'visibility',
       label: 'Visibility',
-      value: `${c.visibility}${c.embargoUntil ? ` until ${c.embargoUntil}` : ''}`,
+      value:
+        c.visibility === 'lab'
+          ? `lab only${c.embargoUntil ? `, public from ${c.embargoUntil}` : ''}`
+          : 'everyone',
     },
     { path: 'notes', label: 'Notes', value: show(c.notes) },
+    { path: 'rawFiles', label: 'Raw files', value: '' },
   ];
 }
 
@@ -184,6 +244,8 @@ function ClaimBox({ r, refresh }: { r: ReviewDetail; refresh: () => void }) {
 
 function Decide({
   r,
+  terms,
+  refresh,
   comments,
   setComments,
   draftPath,
@@ -191,6 +253,8 @@ function Decide({
   messageRef,
 }: {
   r: ReviewDetail;
+  terms: Terms;
+  refresh: () => void;
   comments: FieldComment[];
   setComments: (c: FieldComment[]) => void;
   draftPath: string;
@@ -209,14 +273,18 @@ function Decide({
         ...(decision === 'request-changes' ? { comments } : {}),
       }),
     onSuccess: (res) => {
-      setDone(`Decided: ${res.status.replace('_', ' ')}. The contributor was told by e-mail.`);
+      setDone(`Decided: ${statusLabel(res.status)}. The contributor was told by e-mail.`);
       setComments([]);
       void queryClient.invalidateQueries({ queryKey: ['review'] });
     },
   });
-  const paths = conditionRows(r.content)
-    .map((x) => x.path)
-    .concat(['rawFiles']);
+  const claim = useMutation({
+    mutationFn: () => reviewActions.claim(r.handle),
+    onSettled: refresh,
+  });
+  const fields = conditionRows(r.content, terms);
+  // A decision is made on a claimed record, so no other curator decides it at the same moment.
+  const claimed = r.claim?.mine === true;
   const add = () => {
     if (!message.trim()) return;
     setComments([...comments, { path: draftPath, message: message.trim() }]);
@@ -233,7 +301,7 @@ function Decide({
         <p className={muted}>
           {r.own
             ? 'You contributed this record; another curator decides on it.'
-            : `This record is ${r.status.replace('_', ' ')}; there is nothing to decide.`}
+            : `This record is ${statusLabel(r.status)}; there is nothing to decide.`}
         </p>
       </div>
     );
@@ -250,15 +318,15 @@ function Decide({
           <ul className="mt-1 space-y-1 text-sm" data-testid="draft-comments">
             {comments.map((c, i) => (
               <li key={`${c.path}-${i}`} className="flex gap-2 items-start">
-                <span className="num text-xs rounded border border-rule dark:border-night-rule px-1">
-                  {c.path}
+                <span className="text-xs rounded border border-rule dark:border-night-rule px-1">
+                  {pathLabel(c.path)}
                 </span>
                 <span className="flex-1">{c.message}</span>
                 <button
                   type="button"
                   className="text-xs underline"
                   onClick={() => setComments(comments.filter((_, j) => j !== i))}
-                  aria-label={`Remove the comment on ${c.path}`}
+                  aria-label={`Remove the comment on ${pathLabel(c.path)}`}
                 >
                   remove
                 </button>
@@ -275,9 +343,9 @@ function Decide({
               onChange={(e) => setDraftPath(e.target.value)}
               data-testid="comment-path"
             >
-              {paths.map((p) => (
-                <option key={p} value={p}>
-                  {p}
+              {fields.map((f) => (
+                <option key={f.path} value={f.path}>
+                  {f.label}
                 </option>
               ))}
             </select>
@@ -308,11 +376,38 @@ function Decide({
           data-testid="decision-reason"
         />
       </label>
+      {!claimed && (
+        <div
+          className="rounded-md border border-rule dark:border-night-rule p-3 text-sm"
+          data-testid="claim-first"
+        >
+          <p>
+            {r.claim
+              ? `${r.claim.curator} has claimed this record; the decision is theirs until the claim ends.`
+              : 'Claim this record before deciding, so no other curator decides it at the same time.'}
+          </p>
+          {!r.claim && (
+            <button
+              type="button"
+              className={`${buttonQuiet} mt-2`}
+              onClick={() => claim.mutate()}
+              disabled={claim.isPending}
+            >
+              Claim and decide
+            </button>
+          )}
+          {claim.isError && (
+            <p role="alert" className="mt-1 text-copper dark:text-night-copper">
+              {errorMessage(claim.error)}
+            </p>
+          )}
+        </div>
+      )}
       <div className="flex flex-wrap gap-2">
         <button
           type="button"
           className={buttonPrimary}
-          disabled={decide.isPending || comments.length > 0}
+          disabled={!claimed || decide.isPending || comments.length > 0}
           onClick={() => decide.mutate('publish')}
           data-testid="publish"
         >
@@ -321,7 +416,7 @@ function Decide({
         <button
           type="button"
           className={buttonQuiet}
-          disabled={decide.isPending || (comments.length === 0 && !reason.trim())}
+          disabled={!claimed || decide.isPending || (comments.length === 0 && !reason.trim())}
           onClick={() => decide.mutate('request-changes')}
           data-testid="request-changes"
         >
@@ -331,7 +426,7 @@ function Decide({
         <button
           type="button"
           className={buttonQuiet}
-          disabled={decide.isPending || !reason.trim() || comments.length > 0}
+          disabled={!claimed || decide.isPending || !reason.trim() || comments.length > 0}
           onClick={() => decide.mutate('decline')}
           data-testid="decline"
         >
@@ -363,6 +458,12 @@ function Decide({
 
 function Review({ handle }: { handle: string }) {
   const q = useQuery(reviewQueries.record(handle));
+  const vocab = useQuery(vocabularyQueries.all());
+  const terms = useMemo(
+    () => (vocab.data ? new Map(vocab.data.map((t) => [t.id, t])) : undefined),
+    [vocab.data],
+  );
+  const record = useQuery(recordQueries.detail(handle));
   const [comments, setComments] = useState<FieldComment[]>([]);
   const [draftPath, setDraftPath] = useState('title');
   const messageRef = useRef<HTMLTextAreaElement | null>(null);
@@ -382,7 +483,7 @@ function Review({ handle }: { handle: string }) {
         <div>
           <p className="num text-sm font-semibold">
             {r.handle} v{r.version} ·{' '}
-            <span data-testid="review-status">{r.status.replace('_', ' ')}</span>
+            <span data-testid="review-status">{statusLabel(r.status)}</span>
           </p>
           <h1 className="text-2xl font-bold tracking-tight">{r.title ?? 'Untitled window'}</h1>
           <p className={muted}>
@@ -512,33 +613,48 @@ function Review({ handle }: { handle: string }) {
       <Section title="Conditions" id="conditions">
         <table className="w-full text-sm" data-testid="conditions">
           <tbody>
-            {conditionRows(r.content).map((row) => (
-              <tr
-                key={row.path}
-                className="border-b border-rule/60 dark:border-night-rule/60 align-top"
-              >
-                <th scope="row" className="py-1 pr-3 text-left font-normal w-48">
-                  {row.label}
-                </th>
-                <td className="py-1 pr-3 break-words">{row.value}</td>
-                <td className="py-1 text-right">
-                  {r.canDecide && (
-                    <button
-                      type="button"
-                      className="text-xs underline"
-                      onClick={() => commentOn(row.path)}
-                      aria-label={`Comment on ${row.label}`}
-                      data-testid={`comment-on-${row.path}`}
-                    >
-                      Comment
-                    </button>
-                  )}
-                </td>
-              </tr>
-            ))}
+            {conditionRows(r.content, terms)
+              .filter((row) => row.path !== 'rawFiles')
+              .map((row) => (
+                <tr
+                  key={row.path}
+                  className="border-b border-rule/60 dark:border-night-rule/60 align-top"
+                >
+                  <th scope="row" className="py-1 pr-3 text-left font-normal w-48">
+                    {row.label}
+                  </th>
+                  <td className="py-1 pr-3 break-words">{row.value}</td>
+                  <td className="py-1 text-right">
+                    {r.canDecide && (
+                      <button
+                        type="button"
+                        className="text-xs underline"
+                        onClick={() => commentOn(row.path)}
+                        aria-label={`Comment on ${row.label}`}
+                        data-testid={`comment-on-${row.path}`}
+                      >
+                        Comment
+                      </button>
+                    )}
+                  </td>
+                </tr>
+              ))}
           </tbody>
         </table>
       </Section>
+
+      <section aria-labelledby="curves" className="grid gap-2">
+        <h2 id="curves" className="sr-only">
+          Curves beside the reported limits
+        </h2>
+        {record.isPending ? (
+          <Loading what="the raw data" />
+        ) : record.isError ? (
+          <Failed error={record.error} retry={() => void record.refetch()} what="the raw data" />
+        ) : (
+          <RawData r={record.data} />
+        )}
+      </section>
 
       <Section title={`Possible duplicates (${r.duplicates.length})`} id="duplicates">
         {r.duplicates.length === 0 ? (
@@ -553,7 +669,7 @@ function Review({ handle }: { handle: string }) {
                   <a href={`/windows/${d.handle}`} className="num font-semibold underline">
                     {d.handle}
                   </a>{' '}
-                  v{d.version} ({d.status.replace('_', ' ')}) — {d.reasons.join('; ')}
+                  v{d.version} ({statusLabel(d.status)}) — {d.reasons.join('; ')}
                 </p>
                 <div className="overflow-x-auto">
                   <table className="mt-1 w-full text-xs">
@@ -620,13 +736,13 @@ function Review({ handle }: { handle: string }) {
                     key={c.path}
                     className="border-b border-rule/60 dark:border-night-rule/60 align-top"
                   >
-                    <th scope="row" className="py-1 pr-2 text-left font-normal num">
-                      {c.path}
+                    <th scope="row" className="py-1 pr-2 text-left font-normal">
+                      {pathLabel(c.path)}
                     </th>
                     <td className="py-1 pr-2 num break-all line-through decoration-copper/60">
-                      {show(c.before)}
+                      {showNamed(c.before, terms)}
                     </td>
-                    <td className="py-1 num break-all">{show(c.after)}</td>
+                    <td className="py-1 num break-all">{showNamed(c.after, terms)}</td>
                   </tr>
                 ))}
               </tbody>
@@ -640,14 +756,15 @@ function Review({ handle }: { handle: string }) {
           <ol className="space-y-2 text-sm">
             {r.history.map((h, i) => (
               <li key={i}>
-                <span className="num text-xs">v{h.version}</span> <strong>{h.decision}</strong> by{' '}
+                <span className="num text-xs">v{h.version}</span>{' '}
+                <strong>{DECISION_WORDS[h.decision] ?? h.decision}</strong> by{' '}
                 {h.reviewer ?? 'a curator'} on {h.at.slice(0, 10)}
                 {h.reason && <span> — {h.reason}</span>}
                 {h.comments.length > 0 && (
                   <ul className="ml-6 list-disc">
                     {h.comments.map((c, j) => (
                       <li key={j}>
-                        <span className="num text-xs">{c.path}</span>: {c.message}
+                        <span className="text-xs">{pathLabel(c.path)}</span>: {c.message}
                       </li>
                     ))}
                   </ul>
@@ -661,6 +778,8 @@ function Review({ handle }: { handle: string }) {
       <Section title="Decision" id="decision">
         <Decide
           r={r}
+          terms={terms}
+          refresh={refresh}
           comments={comments}
           setComments={setComments}
           draftPath={draftPath}
