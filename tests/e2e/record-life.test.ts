@@ -17,8 +17,10 @@ import { content } from '../support/records.ts';
 import { liftDueEmbargoes } from '#lib/server/embargoes.ts';
 import type { RecordContentInput } from '#lib/shared/record.ts';
 import {
+  expectReadsWellOnPhone,
   hydrated,
   openBrowser,
+  PHONE,
   screenshot,
   seriousViolations,
   watchedPage,
@@ -65,8 +67,12 @@ afterAll(async () => {
 });
 
 /** A browser whose pages are signed in as `user` (or anonymous), in the given scheme. */
-async function browserAs(user: TestUser | null, colorScheme: 'light' | 'dark' = 'light') {
-  const b = await openBrowser({ colorScheme });
+async function browserAs(
+  user: TestUser | null,
+  colorScheme: 'light' | 'dark' = 'light',
+  viewport?: { width: number; height: number },
+) {
+  const b = await openBrowser({ colorScheme, ...(viewport ? { viewport } : {}) });
   browsers.push(b);
   if (user) {
     const cookie = await signIn(user);
@@ -292,5 +298,26 @@ describe('pages of a record’s life in both colour schemes', () => {
     await axeBoth('/review/flags', curator, 'life-review-flags');
     await axeBoth('/contribute', owner, 'life-contribute');
     void readerCookie;
+  });
+
+  it('shows a curator every header link on a phone, none cut off', async () => {
+    const b = await browserAs(curator, 'dark', PHONE);
+    const { page } = await watchedPage(b.context);
+    lastPage = page;
+    await page.goto(`${appUrl()}/review`);
+    await hydrated(page);
+    const links = page.locator('header a');
+    expect(await links.count()).toBeGreaterThan(8);
+    for (const link of await links.all()) {
+      if (!(await link.isVisible())) continue;
+      const box = (await link.boundingBox())!;
+      expect(box.x, await link.innerText()).toBeGreaterThanOrEqual(0);
+      expect(box.x + box.width, await link.innerText()).toBeLessThanOrEqual(PHONE.width);
+    }
+    for (const name of ['Search', 'Compare', 'Coverage', 'Contribute', 'Review'])
+      expect(
+        await page.locator('header').getByRole('link', { name, exact: true }).isVisible(),
+      ).toBe(true);
+    await expectReadsWellOnPhone(page, 'life-review-phone-dark');
   });
 });
