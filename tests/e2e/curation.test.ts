@@ -196,7 +196,10 @@ describe('curation in the browser', () => {
       .getByTestId('comment-message')
       .fill('The raw data give about 1.09 V at S = 0.1; check the reported anodic limit.');
     await cur.getByTestId('add-comment').click();
-    await cur.getByTestId('draft-comments').getByText('Reported anodic limit').waitFor();
+    await cur
+      .getByTestId('draft-comments')
+      .getByText('Reported anodic limit', { exact: true })
+      .waitFor();
     await cur.getByTestId('request-changes').click();
     await cur
       .getByTestId('decision-done')
