@@ -69,6 +69,7 @@ import type {
   RecordStatus,
   TransitionAction,
 } from '../shared/record.ts';
+import { pathLabel } from '../shared/record-labels.ts';
 import type { DecisionResult } from '#lib/shared/curation.ts';
 export type { DecisionResult };
 
@@ -447,7 +448,11 @@ function decisionMail(
     `Record: ${a.handle} v${a.version}${a.title ? ` — ${a.title}` : ''}`,
     ...(reason ? [`Reason: ${reason}`] : []),
     ...(comments.length
-      ? ['', 'Comments on fields:', ...comments.map((c) => `  • ${c.path}: ${c.message}`)]
+      ? [
+          '',
+          'Comments on fields:',
+          ...comments.map((c) => `  • ${pathLabel(c.path)}: ${c.message}`),
+        ]
       : []),
     '',
     action === 'request-changes'
