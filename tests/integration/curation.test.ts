@@ -432,7 +432,7 @@ describe('decisions', () => {
     );
     expect(staffView.reviews[0].reviewer).toBe(curators[1]!.name);
     const mail = await waitForMail(owner.user.email, new RegExp(`${handle} changes requested`));
-    expect(mail.text).toContain('electrolyte.waterContentPpm: State the water content');
+    expect(mail.text).toContain('Water content: State the water content');
     // Review comments are history: the database refuses to change them.
     await expect(
       sql`UPDATE review_comments SET message = 'x' WHERE review_id = ${r.reviewId}`.execute(
