@@ -196,7 +196,10 @@ describe('a flagged record sent back for changes', () => {
       (u) => u.pathname === '/contribute' && u.searchParams.get('record') === handle,
     );
     await hydrated(page);
-    expect(await page.getByTestId('record-state').innerText()).toContain('changes requested');
+    // The editor loads the record after it hydrates: wait for its state rather than read it once.
+    await expect
+      .poll(() => page.getByTestId('record-state').innerText())
+      .toContain('changes requested');
     const own = page.getByTestId('own-work').locator('li', { hasText: handle });
     expect(await own.innerText()).toContain('changes requested');
   });
