@@ -14,15 +14,13 @@ import {
 } from './curation.ts';
 import { LAB_ROLES, ROLES, SCOPES } from './principal.ts';
 import { EVIDENCE_LEVELS } from './record.ts';
-import { rawFileViewSchema } from './record-views.ts';
+import { isoTime, rawFileViewSchema } from './record-views.ts';
 import { vocabularyTermViewSchema } from './vocabulary.ts';
 
 // The API's answers that are not record, curation or coverage views (those live beside their
 // request schemas): accounts, tokens, labs, versions, uploads, vocabulary upkeep, the engine's
 // result. One zod definition each, used by the server's services for their return types, by the
 // OpenAPI document (src/lib/server/openapi/answers.ts) and by the islands through z.infer.
-
-const isoTime = z.string().describe('ISO 8601 date and time');
 
 /** A plain acknowledgement: `{ "status": "check your e-mail" }`. */
 export const statusMessageSchema = z.strictObject({ status: z.string() });

@@ -6,6 +6,7 @@ import {
   recordContentSchema,
   type RecordStatus,
 } from './record.ts';
+import { isoTime } from './record-views.ts';
 import { VOCABULARY_KINDS } from './vocabulary.ts';
 
 // The curator's side of the API: request bodies, query parameters and the shapes answered.
@@ -184,7 +185,6 @@ export const notificationsQuery = z.strictObject({
 
 // ---- answers (zod, so the OpenAPI document publishes exactly what the server builds) ----
 
-const isoTime = z.string().describe('ISO 8601 date and time');
 const recordStatus = z.enum(RECORD_STATUSES);
 
 export const claimViewSchema = z.strictObject({

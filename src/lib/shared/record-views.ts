@@ -11,7 +11,8 @@ import {
 // as JSON Schema) and the islands (which read the inferred types). Answer objects are strict, so
 // the document says exactly which fields come back.
 
-const isoTime = z.string().describe('ISO 8601 date and time');
+/** A moment as the API writes it. */
+export const isoTime = z.string().describe('ISO 8601 date and time');
 
 /** A verified raw file as the API shows it. */
 export const rawFileViewSchema = z.strictObject({
