@@ -11,6 +11,7 @@ export * from './hold';
 export * from './references';
 export * from './water';
 export * from './energy';
+export * from './cell';
 export * from './decimate';
 export * from './aggregate';
 export * from './baseline';
