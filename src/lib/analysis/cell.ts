@@ -63,6 +63,8 @@ export interface CellResult {
 }
 
 const fmt = (v: number, digits = 3) => v.toFixed(digits).replace(/^-/, '−');
+/** A number written after a minus sign: negative ones in parentheses. */
+const sub = (v: number) => (v < 0 ? `(${fmt(v)})` : fmt(v));
 
 function finite(v: number, what: string): number {
   if (typeof v !== 'number' || !Number.isFinite(v))
@@ -131,8 +133,8 @@ export function cellVoltage(input: CellInput): CellResult {
   const dp = an - rest;
   const dn = rest - ca;
   const steps: string[] = [
-    `ΔE₊ = E₊,lim − E₀ = ${fmt(an)} − ${fmt(rest)} = ${fmt(dp)} V`,
-    `ΔE₋ = E₀ − E₋,lim = ${fmt(rest)} − ${fmt(ca)} = ${fmt(dn)} V`,
+    `ΔE₊ = E₊,lim − E₀ = ${fmt(an)} − ${sub(rest)} = ${fmt(dp)} V`,
+    `ΔE₋ = E₀ − E₋,lim = ${fmt(rest)} − ${sub(ca)} = ${fmt(dn)} V`,
   ];
   const assumptions = [
     'Both electrodes start at the rest potential E₀ when the cell is at 0 V.',

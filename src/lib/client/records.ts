@@ -352,29 +352,4 @@ export function electrolyteText(
   return [salts, solvents].filter(Boolean).join(' in ') + additives;
 }
 
-/**
- * A potential on the record's own reference moved to the chosen scale: the record's own offset to
- * SHE, then the shift the API applied to its reported SHE values. Cell voltages stay as they are.
- */
-export function ownToScale(
-  item: SearchItem,
-  side: 'cathodic' | 'anodic',
-  v: number | null | undefined,
-): number | null {
-  if (v === null || v === undefined) return null;
-  if (item.limitKind === 'cell-voltage') return v;
-  for (const s of [side, side === 'cathodic' ? 'anodic' : 'cathodic'] as const) {
-    const lim = item.limits[s];
-    const shown = item.onScale[s];
-    if (lim && lim.offsetV !== null && lim.sheV !== null && shown !== null)
-      return v + lim.offsetV + (shown - lim.sheV);
-  }
-  return null;
-}
-
-/** A common-criterion limit on the chosen scale (null when not reached or not recomputed). */
-export function commonOnScale(item: SearchItem, side: 'cathodic' | 'anodic'): number | null {
-  const cc = item.commonCriterion;
-  if (!cc?.applied) return null;
-  return ownToScale(item, side, cc[side === 'cathodic' ? 'cathodicV' : 'anodicV']);
-}
+export { commonOnScale, ownToScale } from '../shared/limits-on-scale.ts';

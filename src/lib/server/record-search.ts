@@ -602,6 +602,44 @@ export async function* eachRecord(
   q: RecordQuery,
   batch = 200,
 ): AsyncGenerator<SearchItem> {
+  for await (const rows of batches(db, principal, q, batch))
+    for (const item of await decorate(db, rows, q)) yield item;
+}
+
+/** A record found by a search with the stored analyses of its current raw files (results as stored). */
+export interface ItemWithAnalyses {
+  item: SearchItem;
+  analyses: { direction: 'anodic' | 'cathodic'; result: unknown }[];
+}
+
+/** Every matching record with its stored analyses, a batch at a time. */
+export async function* eachRecordWithAnalyses(
+  db: Db,
+  principal: Principal,
+  q: RecordQuery,
+  batch = 200,
+): AsyncGenerator<ItemWithAnalyses> {
+  for await (const rows of batches(db, principal, q, batch)) {
+    const items = await decorate(db, rows, q);
+    const ids = rows.flatMap((r) => r.analysis_ids);
+    const byId = new Map((await analysesByIds(db, [...new Set(ids)])).map((a) => [a.id, a]));
+    for (const [i, row] of rows.entries()) {
+      const analyses = row.analysis_ids
+        .map((id) => byId.get(id))
+        .filter((a): a is AnalysisRow => a !== undefined)
+        .map((a) => ({ direction: a.direction as 'anodic' | 'cathodic', result: a.result }));
+      yield { item: items[i]!, analyses };
+    }
+  }
+}
+
+/** The rows of a search in handle order, a batch at a time. */
+async function* batches(
+  db: Db,
+  principal: Principal,
+  q: RecordQuery,
+  batch: number,
+): AsyncGenerator<SearchRow[]> {
   checkParams(q);
   const filter = await toFilter(db, q);
   const scope = readScope(principal);
@@ -609,7 +647,7 @@ export async function* eachRecord(
   for (;;) {
     const rows = await searchAfter(db, filter, scope, after, batch);
     if (rows.length === 0) return;
-    for (const item of await decorate(db, rows, q)) yield item;
+    yield rows;
     after = rows[rows.length - 1]!.handle;
     if (rows.length < batch) return;
   }

@@ -33,6 +33,7 @@ describe('cell voltage from two half-windows', () => {
     expect(r.balanced.limitedBy).toBe('both');
     expect(r.assumptions).toContain('Equal specific capacitances on both sides (C₊ = C₋).');
     expect(r.steps[0]).toBe('ΔE₊ = E₊,lim − E₀ = 1.650 − 0.200 = 1.450 V');
+    expect(r.steps[1]).toBe('ΔE₋ = E₀ − E₋,lim = 0.200 − (−2.450) = 2.650 V');
     expect(r.steps).toContain(
       'Equal masses: each electrode moves by V/2, so V = 2·min(ΔE₊, ΔE₋) = 2 × 1.450 = 2.900 V',
     );
@@ -183,16 +184,24 @@ describe('capacitance and rest potential from capacitive cycles', () => {
     expect(fit.restV).toBeCloseTo(0.3, 3);
   });
 
-  it('needs two capacitive vertices', () => {
-    expect(capacitiveFit([{ vertexV: 0.7, outwardC: 0.007, sValue: 0.001 }], 'anodic')).toBeNull();
-    expect(
-      capacitiveFit(
-        [
-          { vertexV: 0.7, outwardC: 0.007, sValue: 0.5 },
-          { vertexV: 0.8, outwardC: 0.008, sValue: 0.5 },
-        ],
-        'anodic',
-      ),
-    ).toBeNull();
+  it('needs two capacitive vertices with a charge that grows outward', () => {
+    const at = (vertexV: number, q: number, sValue: number | null) => ({
+      vertexV,
+      qPosC: q,
+      qNegC: q,
+      sValue,
+    });
+    const two = [at(0.7, 0.007, 0.001), at(0.8, 0.008, 0.001)];
+    const fit = capacitiveFit(two, 'anodic')!;
+    expect(fit.cycles).toBe(2);
+    expect(fit.capacitanceF).toBeCloseTo(0.01, 12);
+    expect(fit.restV).toBeCloseTo(0, 12);
+    expect(capacitiveFit([two[0]!], 'anodic')).toBeNull();
+    // Past the S cutoff, or without an S-value, a cycle is not capacitive.
+    expect(capacitiveFit([two[0]!, at(0.8, 0.008, 0.5)], 'anodic')).toBeNull();
+    expect(capacitiveFit([two[0]!, at(0.8, 0.008, null)], 'anodic')).toBeNull();
+    // Repeated cycles at one vertex count once; charge falling outward is no capacitor.
+    expect(capacitiveFit([two[0]!, two[0]!], 'anodic')).toBeNull();
+    expect(capacitiveFit(two, 'cathodic')).toBeNull();
   });
 });
