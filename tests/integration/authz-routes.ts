@@ -136,6 +136,7 @@ export const ROWS: Row[] = [
     prepare: async () => ({ pub: await publishedRecord() }),
   }),
   row('GET', '/coverage', '200'),
+  row('GET', '/tools/cell', '200'),
   row('GET', '/tools/plan', '200'),
   row('GET', '/docs/api', '200'),
   row('GET', '/windows/[handle]', '404 404 200 200 404 404 404', {
@@ -286,6 +287,10 @@ export const ROWS: Row[] = [
   row('POST', '/api/v1/imports', '401 403 400 400 400 400 400', { json: 'title\nnot a template' }),
   row('GET', '/api/v1/exports', '200', { path: '/api/v1/exports?format=csv&limit=5' }),
   row('GET', '/api/v1/coverage', '200'),
+  row('GET', '/api/v1/cell/choices', '200'),
+  row('GET', '/api/v1/cell', '200', {
+    path: '/api/v1/cell?electrolyte=salt%3Ateabf4%401%20mol%2FL%3Bsolvent%3Aacn%401%20volume&positive=glassy-carbon&negative=glassy-carbon',
+  }),
   row('GET', '/api/v1/openapi.json', '200'),
 
   // curation (the queue and decisions are for curators and admins; records follow record.read)

@@ -7,7 +7,7 @@ import {
   type CellResult,
   type CycleCharges,
 } from '../analysis/index.ts';
-import { cautionsFor, CAUTION_AUTHORITY, GAS_CAUTION, type Caution } from '../shared/cautions.ts';
+import { cautionsFor, CAUTION_AUTHORITY, GAS_CAUTION } from '../shared/cautions.ts';
 import {
   commonOnScale,
   electrolyteKey,

@@ -12,6 +12,7 @@ import { accountPaths } from './account.ts';
 import { adminPaths } from './admin.ts';
 import { metaPaths } from './meta.ts';
 import { withBoundaryAnswers } from './boundary.ts';
+import { cellsPaths } from './cells.ts';
 
 // The OpenAPI 3.1 document of /api/v1, generated from the same zod schemas the routes parse with,
 // one file per tag. tests/integration/openapi.test.ts fails when a route under src/pages/api/v1 is
@@ -78,6 +79,11 @@ export function openApiDocument(serverUrl: string): Json {
         name: 'Admin',
         description: 'Accounts as administrators manage them: roles and disabling.',
       },
+      {
+        name: 'Cells',
+        description:
+          'From windows to a cell: the voltage an electrode pair can take in one electrolyte, with its arithmetic and evidence.',
+      },
       { name: 'Meta', description: 'This document.' },
     ],
     components: {
@@ -123,6 +129,7 @@ export function openApiDocument(serverUrl: string): Json {
       ...labsPaths,
       ...accountPaths,
       ...adminPaths,
+      ...cellsPaths,
       ...metaPaths,
     }),
   };
