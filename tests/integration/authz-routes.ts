@@ -137,6 +137,11 @@ export const ROWS: Row[] = [
   }),
   row('GET', '/coverage', '200'),
   row('GET', '/tools/cell', '200'),
+  row('GET', '/selections/[handle]', '404', { path: '/selections/ES-999999' }),
+  row('GET', '/watches/unsubscribe', '200'),
+  row('POST', '/watches/unsubscribe', '400', {
+    form: (v) => ({ watch: v.missing!, token: 'x'.repeat(43) }),
+  }),
   row('GET', '/tools/plan', '200'),
   row('GET', '/docs/api', '200'),
   row('GET', '/windows/[handle]', '404 404 200 200 404 404 404', {
@@ -288,6 +293,26 @@ export const ROWS: Row[] = [
   row('GET', '/api/v1/exports', '200', { path: '/api/v1/exports?format=csv&limit=5' }),
   row('GET', '/api/v1/coverage', '200'),
   row('GET', '/api/v1/cell/choices', '200'),
+  row('POST', '/api/v1/selections', '401 400 400 400 400 400 400', {
+    json: { title: 'Matrix selection', query: 'q=zzqx-no-such-record' },
+  }),
+  row('GET', '/api/v1/selections/[handle]', '404', { path: '/api/v1/selections/ES-999999' }),
+  row('GET', '/api/v1/selections/[handle]/citation', '404', {
+    path: '/api/v1/selections/ES-999999/citation',
+  }),
+  row('GET', '/api/v1/watches', '401 200 200 200 200 200 200'),
+  row('POST', '/api/v1/watches', '401 201 201 201 201 201 201', {
+    json: { name: 'Matrix watch', query: 'component=water' },
+  }),
+  row('DELETE', '/api/v1/watches/[id]', '401 404 404 404 404 404 404', {
+    path: '/api/v1/watches/{missing}',
+  }),
+  row('POST', '/api/v1/watches/[id]/seen', '401 404 404 404 404 404 404', {
+    path: '/api/v1/watches/{missing}/seen',
+  }),
+  row('POST', '/api/v1/watches/unsubscribe', '400', {
+    json: (v) => ({ watch: v.missing!, token: 'x'.repeat(43) }),
+  }),
   row('GET', '/api/v1/cell', '200', {
     path: '/api/v1/cell?electrolyte=salt%3Ateabf4%401%20mol%2FL%3Bsolvent%3Aacn%401%20volume&positive=glassy-carbon&negative=glassy-carbon',
   }),

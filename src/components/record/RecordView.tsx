@@ -16,6 +16,7 @@ import {
 } from '#lib/client/records.ts';
 import { statusLabel } from '#lib/shared/record.ts';
 import { CAUTION_AUTHORITY, cautionsFor, GAS_CAUTION } from '#lib/shared/cautions.ts';
+import { datasetBibtex, datasetCsl, datasetText, recordDataset } from '#lib/shared/citation.ts';
 import {
   buttonPrimary,
   buttonQuiet,
@@ -366,26 +367,10 @@ function Provenance({ r }: { r: RecordDetail }) {
 
 function CiteBox({ r, origin }: { r: RecordDetail; origin: string }) {
   const [tab, setTab] = useState<'text' | 'bibtex' | 'csl'>('text');
-  const year = (r.publishedAt ?? r.updatedAt).slice(0, 4);
-  const url = `${origin}/windows/${r.handle}`;
-  const title = r.title ?? `Stability window ${r.handle}`;
-  const text = `Edgewise window record ${r.handle}, version ${r.version} (${year}). ${title}. ${url}`;
-  const bib = `@misc{${r.handle.replace('-', '')}v${r.version},\n  title = {{${title}}},\n  howpublished = {Edgewise window record ${r.handle}, version ${r.version}},\n  year = {${year}},\n  url = {${url}},\n  note = {Licence ${r.content.licence}${r.content.source?.kind === 'published' && r.content.source.doi ? `; source doi:${r.content.source.doi}` : ''}}\n}`;
-  const csl = JSON.stringify(
-    [
-      {
-        id: `${r.handle}v${r.version}`,
-        type: 'dataset',
-        title,
-        publisher: 'Edgewise',
-        version: String(r.version),
-        URL: url,
-        issued: { 'date-parts': [[Number(year)]] },
-      },
-    ],
-    null,
-    2,
-  );
+  const d = recordDataset(r, origin);
+  const text = datasetText(d);
+  const bib = datasetBibtex(d);
+  const csl = JSON.stringify([datasetCsl(d)], null, 2);
   const body = tab === 'text' ? text : tab === 'bibtex' ? bib : csl;
   return (
     <div>

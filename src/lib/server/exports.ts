@@ -9,6 +9,7 @@ import {
 } from './record-search.ts';
 import { config } from './config.ts';
 import { z } from 'zod';
+import { sourceBibtex, sourceCitationText, sourceCsl } from '../shared/citation.ts';
 
 // Exports of a search: every row carries the record handle, its version and the source citation.
 // Streamed, so a large selection never sits in memory whole.
@@ -76,23 +77,6 @@ function csvCell(v: unknown): string {
   return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
 }
 
-/** A plain-text citation of a record's source (authors, year, title, journal, DOI). */
-export function citationText(c: SearchItem['content']): string {
-  const s = c.source;
-  if (!s) return '';
-  if (s.kind === 'unpublished')
-    return `Unpublished measurement, ${s.measuredBy}${s.measuredOn ? `, ${s.measuredOn}` : ''}`;
-  const authors = s.authors.map((a) => (a.given ? `${a.family}, ${a.given}` : a.family)).join('; ');
-  return [
-    `${authors} (${s.year})`,
-    s.title,
-    [s.containerTitle, s.volume, s.pages].filter(Boolean).join(' '),
-    s.doi ? `doi:${s.doi}` : '',
-  ]
-    .filter(Boolean)
-    .join('. ');
-}
-
 /**
  * What the shown values' conversion is worth, in words: "exact", "not converted", or the engine's
  * flags joined by "+" (filling-not-stated, liquid-junction, metal-ion, reference-at-25c), with
@@ -151,51 +135,9 @@ function csvRow(r: SearchItem, origin: string): string {
     common_anodic_v: r.commonCriterion?.anodicV,
     licence: r.content.licence,
     doi: r.content.source?.kind === 'published' ? r.content.source.doi : undefined,
-    citation: citationText(r.content),
+    citation: sourceCitationText(r.content),
   };
   return CSV_COLUMNS.map((c) => csvCell(vals[c])).join(',') + '\r\n';
-}
-
-/** BibTeX text: braces balanced, specials escaped. */
-function bib(s: string): string {
-  return s
-    .replace(/\\/g, '\\textbackslash{}')
-    .replace(/[{}]/g, (m) => `\\${m}`)
-    .replace(/([&%$#_])/g, '\\$1')
-    .replace(/~/g, '\\textasciitilde{}')
-    .replace(/\^/g, '\\textasciicircum{}');
-}
-
-function bibEntry(r: SearchItem, origin: string): string {
-  const key = `${r.handle.replace('-', '')}v${r.version}`;
-  const s = r.content.source;
-  const note = `Edgewise window record ${r.handle} v${r.version}`;
-  const fields: [string, string][] = [];
-  let type = 'misc';
-  if (s?.kind === 'published') {
-    type = s.containerTitle ? 'article' : 'misc';
-    fields.push([
-      'author',
-      s.authors
-        .map((a) => (a.given ? `${bib(a.family)}, ${bib(a.given)}` : `{${bib(a.family)}}`))
-        .join(' and '),
-    ]);
-    fields.push(['title', `{${bib(s.title)}}`]);
-    if (s.containerTitle) fields.push(['journal', bib(s.containerTitle)]);
-    fields.push(['year', String(s.year)]);
-    if (s.volume) fields.push(['volume', bib(s.volume)]);
-    if (s.pages) fields.push(['pages', bib(s.pages)]);
-    // doi and url are verbatim fields in BibTeX: no escaping, only braces removed.
-    if (s.doi) fields.push(['doi', s.doi.replace(/[{}]/g, '')]);
-  } else {
-    fields.push(['title', `{${bib(r.content.title ?? `Stability window ${r.handle}`)}}`]);
-    if (s) fields.push(['author', `{${bib(s.measuredBy)}}`]);
-    if (s?.measuredOn) fields.push(['year', s.measuredOn.slice(0, 4)]);
-    fields.push(['howpublished', 'Unpublished measurement']);
-  }
-  fields.push(['note', bib(note)]);
-  fields.push(['url', `${origin}/windows/${r.handle}`]);
-  return `@${type}{${key},\n${fields.map(([k, v]) => `  ${k} = {${v}}`).join(',\n')}\n}\n\n`;
 }
 
 function uncertaintyNote(o: SearchItem['onScale']): string {
@@ -203,37 +145,13 @@ function uncertaintyNote(o: SearchItem['onScale']): string {
   return u.length ? ` (± ${Math.round(Math.max(...u) * 1000)} mV)` : '';
 }
 
-/** A CSL-JSON item for a record: the source publication, with the record named in the note. */
+/** A record's CSL-JSON item: its source, with the record and what its conversion is worth in the note. */
 export function cslItem(r: SearchItem, origin: string): Record<string, unknown> {
-  const s = r.content.source;
-  const item: Record<string, unknown> = {
-    id: `${r.handle}-v${r.version}`,
-    note: `Edgewise window record ${r.handle} v${r.version}; limits on ${r.onScale.scale}: conversion ${conversionText(r.onScale)}${uncertaintyNote(r.onScale)}`,
-    URL: `${origin}/windows/${r.handle}`,
+  const item = sourceCsl(r, origin);
+  return {
+    ...item,
+    note: `${String(item.note)}; limits on ${r.onScale.scale}: conversion ${conversionText(r.onScale)}${uncertaintyNote(r.onScale)}`,
   };
-  if (s?.kind === 'published') {
-    Object.assign(item, {
-      type: s.containerTitle ? 'article-journal' : 'document',
-      title: s.title,
-      author: s.authors.map((a) =>
-        a.given ? { family: a.family, given: a.given } : { family: a.family },
-      ),
-      issued: { 'date-parts': [[s.year]] },
-      ...(s.containerTitle ? { 'container-title': s.containerTitle } : {}),
-      ...(s.volume ? { volume: s.volume } : {}),
-      ...(s.pages ? { page: s.pages } : {}),
-      ...(s.doi ? { DOI: s.doi } : {}),
-    });
-  } else {
-    Object.assign(item, {
-      type: 'dataset',
-      title: r.content.title ?? `Stability window ${r.handle}`,
-      ...(s ? { author: [{ literal: s.measuredBy }] } : {}),
-      ...(s?.measuredOn ? { issued: { 'date-parts': [s.measuredOn.split('-').map(Number)] } } : {}),
-      genre: 'Unpublished measurement',
-    });
-  }
-  return item;
 }
 
 /**
@@ -272,11 +190,11 @@ export async function exportStream(
         if (format === 'csv') controller.enqueue(enc.encode(csvRow(r, origin)));
         else if (format === 'json')
           controller.enqueue(
-            enc.encode(sep + JSON.stringify({ ...r, citation: citationText(r.content) })),
+            enc.encode(sep + JSON.stringify({ ...r, citation: sourceCitationText(r.content) })),
           );
         else if (format === 'csljson')
           controller.enqueue(enc.encode(sep + JSON.stringify(cslItem(r, origin))));
-        else controller.enqueue(enc.encode(bibEntry(r, origin)));
+        else controller.enqueue(enc.encode(`${sourceBibtex(r, origin)}\n`));
       } catch (err) {
         controller.error(err);
       }

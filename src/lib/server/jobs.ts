@@ -5,6 +5,7 @@ import { log } from './log.ts';
 import { forgetOldIdempotencyKeys } from './idempotency.ts';
 import { startOutbox } from './outbox.ts';
 import { cleanStaleUploads } from './uploads.ts';
+import { startWatchDigests } from './watches.ts';
 
 // Background work of a server process: mail delivery, removing uploads that were declared but
 // never completed (their objects too), dropping mail-limit counters and idempotency keys that no
@@ -21,6 +22,7 @@ export function startJobs(): void {
   if (started) return;
   started = true;
   startOutbox();
+  startWatchDigests();
   const cleanup = () => {
     void cleanStaleUploads(db()).catch((err) => log().error({ err }, 'upload cleanup failed'));
     void forgetOldIdempotencyKeys().catch((err) =>

@@ -44,6 +44,11 @@
 //   flag.queue           curator, admin (every reader's flags)
 //   vocabulary.decide    curator, admin (accept or reject proposed terms)
 //   notification.list    any signed-in user (their own messages)
+//   selection.create     any signed-in user (a selection freezes public records only)
+//   watch.create         any signed-in user
+//   watch.list           any signed-in user (their own watches)
+//   watch.read           the owner
+//   watch.manage         the owner (mark seen, remove)
 //
 // `authorize` throws NotFoundError when the principal may not even see the object (so foreign
 // and missing private ids look the same), UnauthorizedError when an anonymous caller could act
@@ -122,6 +127,10 @@ export interface TokenObject {
 export interface VocabularyObject {
   type: 'vocabulary';
 }
+export interface WatchObject {
+  type: 'watch';
+  ownerId: string;
+}
 
 /** Each action and the object it is asked about (null: a collection-level action). */
 export interface ActionObjects {
@@ -159,6 +168,11 @@ export interface ActionObjects {
   'flag.queue': null;
   'vocabulary.decide': VocabularyObject | null;
   'notification.list': null;
+  'selection.create': null;
+  'watch.create': null;
+  'watch.list': null;
+  'watch.read': WatchObject;
+  'watch.manage': WatchObject;
 }
 export type Action = keyof ActionObjects;
 export type PolicyObject = NonNullable<ActionObjects[Action]>;
@@ -180,6 +194,8 @@ const READ_ACTIONS = new Set<Action>([
   'review.queue',
   'flag.queue',
   'notification.list',
+  'watch.list',
+  'watch.read',
 ]);
 
 // ---------------------------------------------------------------------------------------------
@@ -292,6 +308,11 @@ const rules: { [A in Action]: Rule<A> } = {
   'flag.queue': (p) => isStaff(p),
   'vocabulary.decide': (p) => isStaff(p),
   'notification.list': (p) => signedIn(p),
+  'selection.create': (p) => signedIn(p),
+  'watch.create': (p) => signedIn(p),
+  'watch.list': (p) => signedIn(p),
+  'watch.read': (p, w) => owns(p, w.ownerId),
+  'watch.manage': (p, w) => owns(p, w.ownerId),
 };
 
 /** Which action decides whether the object is visible at all (else 404, not 403). */
@@ -313,6 +334,8 @@ function visibleAction(o: PolicyObject): { [A in Action]: [A, ActionObjects[A]] 
       return ['user.read', o];
     case 'token':
       return ['token.read', o];
+    case 'watch':
+      return ['watch.read', o];
     case 'vocabulary':
       return null;
   }

@@ -27,6 +27,7 @@ import type { Principal } from '../shared/principal.ts';
 import { commonCriterionWords } from '../shared/criteria.ts';
 import type { Db } from './db/index.ts';
 import { ValidationError } from './errors.ts';
+import { zodErrors } from './http/route.ts';
 import { LISTED } from './record-status.ts';
 import { scaleContext } from './record-derive.ts';
 import { toSummary } from './record-views.ts';
@@ -255,6 +256,42 @@ function checkParams(q: RecordQuery) {
       throw err;
     }
   }
+}
+
+/** Keys of the comparison page's address that page, sort or pick rather than choose records. */
+const PAGE_KEYS = ['limit', 'offset', 'sort', 'facets', 'picked'];
+
+/**
+ * A comparison as the /windows address holds it (filters, common criterion, scale), checked as
+ * a search checks it, with field paths under `query.`; paging, sorting and `drop` are left out
+ * of both the query and the address returned.
+ */
+export function parseComparison(
+  search: string,
+  drop: string[] = [],
+): { query: RecordQuery; address: string } {
+  const params = new URLSearchParams(search.replace(/^\?/, ''));
+  for (const k of [...PAGE_KEYS, ...drop]) params.delete(k);
+  const raw: Record<string, string | string[]> = {};
+  for (const key of new Set(params.keys())) {
+    const all = params.getAll(key);
+    raw[key] = all.length > 1 ? all : all[0]!;
+  }
+  const under = (errors: { path: string; message: string }[]) =>
+    new ValidationError(
+      errors.map((e) => ({ ...e, path: `query.${e.path}` })),
+      'The comparison has invalid parameters.',
+    );
+  const parsed = recordQuerySchema.safeParse(raw);
+  if (!parsed.success) throw under(zodErrors(parsed.error));
+  try {
+    checkParams(parsed.data);
+  } catch (err) {
+    if (err instanceof ValidationError)
+      throw under((err.extra.errors ?? []) as { path: string; message: string }[]);
+    throw err;
+  }
+  return { query: parsed.data, address: params.toString() };
 }
 
 /**

@@ -5,6 +5,8 @@ import { config } from './config.ts';
 import type { Db } from './db/index.ts';
 import { ConflictError, ForbiddenError, UnauthorizedError, ValidationError } from './errors.ts';
 import { claimIdempotentChange } from './idempotency.ts';
+import { noteRecordEvent } from './watch-events.ts';
+import type { RecordEventKind } from '../shared/watch.ts';
 import { queueMail, wakeOutbox, type OutgoingMail } from './outbox.ts';
 import { authorize, can, type Principal, type RecordObject, type UserPrincipal } from './policy.ts';
 import { TRANSITIONS, nextStatus } from './record-status.ts';
@@ -151,6 +153,9 @@ export async function applyTransition(
   ) {
     await resolveOpenFlags(trx, head.id, user.id);
   }
+  const event = watchedEvent(body.action, head.published_at !== null);
+  if (event)
+    await noteRecordEvent(trx, { recordId: head.id, handle, version: body.version, kind: event });
   await insertAuditEvent(trx, {
     actorId: user.id,
     action: `record.${body.action}`,
@@ -176,6 +181,23 @@ export async function applyTransition(
     reviewId,
     flagId,
   };
+}
+
+/** What watches report of a status move: publication (first, or of a new version), flags, withdrawal. */
+function watchedEvent(
+  action: z.infer<typeof transitionBody>['action'],
+  publishedBefore: boolean,
+): RecordEventKind | null {
+  switch (action) {
+    case 'publish':
+      return publishedBefore ? 'new-version' : 'published';
+    case 'flag':
+      return 'flagged';
+    case 'withdraw':
+      return 'withdrawn';
+    default:
+      return null;
+  }
 }
 
 /** 409 naming the curator who already decided this version (told to curators only). */

@@ -420,6 +420,48 @@ export interface ReferenceValueTable {
   valid_from: ColumnType<Date, Date | undefined, never>;
 }
 
+export interface SelectionTable {
+  id: Generated<string>;
+  handle: Generated<string>;
+  title: string;
+  description: string | null;
+  creator_id: string;
+  creator_name: string;
+  query: ColumnType<unknown, string, never>;
+  criterion: string | null;
+  scale: string;
+  created_at: Generated<Date>;
+}
+
+export interface SelectionItemTable {
+  selection_id: string;
+  position: number;
+  record_id: string;
+  version: number;
+  snapshot: ColumnType<unknown, string, never>;
+}
+
+export interface RecordEventTable {
+  id: Generated<string>;
+  record_id: string;
+  handle: string;
+  version: number;
+  kind: 'published' | 'new-version' | 'flagged' | 'withdrawn';
+  at: Generated<Date>;
+}
+
+export interface WatchTable {
+  id: Generated<string>;
+  user_id: string;
+  name: string;
+  query: string;
+  created_at: Generated<Date>;
+  mailed_through: ColumnType<string, string | undefined, string>;
+  seen_through: ColumnType<string, string | undefined, string>;
+  last_mailed_at: Date | null;
+  unsubscribed_at: Date | null;
+}
+
 export interface Database {
   User: UserTable;
   Account: AccountTable;
@@ -446,6 +488,10 @@ export interface Database {
   reviews: ReviewTable;
   flags: FlagTable;
   mail_outbox: MailOutboxTable;
+  selections: SelectionTable;
+  selection_items: SelectionItemTable;
+  record_events: RecordEventTable;
+  watches: WatchTable;
   review_claims: ReviewClaimTable;
   review_comments: ReviewCommentTable;
   vocabulary_proposals: VocabularyProposalTable;

@@ -13,6 +13,8 @@ import { adminPaths } from './admin.ts';
 import { metaPaths } from './meta.ts';
 import { withBoundaryAnswers } from './boundary.ts';
 import { cellsPaths } from './cells.ts';
+import { selectionsPaths } from './selections.ts';
+import { watchesPaths } from './watches.ts';
 
 // The OpenAPI 3.1 document of /api/v1, generated from the same zod schemas the routes parse with,
 // one file per tag. tests/integration/openapi.test.ts fails when a route under src/pages/api/v1 is
@@ -84,6 +86,16 @@ export function openApiDocument(serverUrl: string): Json {
         description:
           'From windows to a cell: the voltage an electrode pair can take in one electrolyte, with its arithmetic and evidence.',
       },
+      {
+        name: 'Selections',
+        description:
+          'Citable selections: a comparison’s record versions frozen under an ES- handle, with text, BibTeX, CSL-JSON and DataCite-style citations.',
+      },
+      {
+        name: 'Watches',
+        description:
+          'Saved comparisons that mail their owner at most daily when their records change; one-click unsubscribe.',
+      },
       { name: 'Meta', description: 'This document.' },
     ],
     components: {
@@ -130,6 +142,8 @@ export function openApiDocument(serverUrl: string): Json {
       ...accountPaths,
       ...adminPaths,
       ...cellsPaths,
+      ...selectionsPaths,
+      ...watchesPaths,
       ...metaPaths,
     }),
   };

@@ -28,6 +28,8 @@ import {
   transitionBody,
 } from '#lib/shared/record.ts';
 import type { AnswerName } from './answers.ts';
+import { createSelectionBody } from '#lib/shared/selection.ts';
+import { createWatchBody, unsubscribeBody } from '#lib/shared/watch.ts';
 
 // The pieces every tag's operations are made of: JSON Schema from zod, request bodies by name,
 // problem answers, path parameters and the security of signed-in operations.
@@ -78,6 +80,9 @@ export const BODIES = {
   ProposalDecision: proposalDecisionBody,
   TermMerge: mergeBody,
   ReferenceValue: referenceValueBody,
+  CreateSelection: createSelectionBody,
+  CreateWatch: createWatchBody,
+  Unsubscribe: unsubscribeBody,
 } satisfies Record<string, z.ZodType>;
 
 export const body = (name: keyof typeof BODIES): Json => ({
