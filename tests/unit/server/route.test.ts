@@ -1,4 +1,4 @@
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import { z } from 'zod';
 import { ConflictError, TooManyRequestsError } from '#lib/server/errors.ts';
 import { readJson, readQuery, toProblem } from '#lib/server/http/route.ts';
@@ -88,12 +88,18 @@ describe('toProblem', () => {
   it('hides internal errors behind a plain 500', async () => {
     const orig = console.error;
     console.error = () => {};
+    // The error is logged, and the logger reads the configuration: give it one that parses
+    // (unit tests run without the server's environment).
+    vi.stubEnv('DATABASE_URL', process.env.DATABASE_URL ?? 'postgres://unit@127.0.0.1/none');
+    vi.stubEnv('AUTH_SECRET', process.env.AUTH_SECRET ?? 'unit-test-secret-of-at-least-32-chars');
+    vi.stubEnv('LOG_LEVEL', 'silent');
     try {
       const r = toProblem(new Error('secret stack detail'));
       expect(r.status).toBe(500);
       expect(JSON.stringify(await r.json())).not.toContain('secret');
     } finally {
       console.error = orig;
+      vi.unstubAllEnvs();
     }
   });
 });
