@@ -1,5 +1,11 @@
 import { z } from 'zod';
-import type { EvidenceLevel, RecordContent, RecordStatus } from './record.ts';
+import {
+  electrolyteSchema,
+  EVIDENCE_LEVELS,
+  METHOD_KINDS,
+  RECORD_STATUSES,
+  sourceSchema,
+} from './record.ts';
 
 // Citable selections: what the API takes and answers (one definition for server and islands).
 
@@ -20,44 +26,47 @@ export const CITATION_FORMATS = ['text', 'bibtex', 'csljson', 'datacite'] as con
 export type CitationFormat = (typeof CITATION_FORMATS)[number];
 
 /** One record version as the selection froze it, with the numbers shown when it was made. */
-export interface SelectionItemSnapshot {
-  handle: string;
-  version: number;
-  title: string | null;
-  status: RecordStatus;
-  evidenceLevel: EvidenceLevel;
-  limitKind: 'electrode-potential' | 'cell-voltage';
-  electrolyte: RecordContent['electrolyte'];
-  electrode: string;
-  method: RecordContent['method']['kind'];
+export const selectionItemSnapshotSchema = z.strictObject({
+  handle: z.string(),
+  version: z.number().int(),
+  title: z.string().nullable(),
+  status: z.enum(RECORD_STATUSES),
+  evidenceLevel: z.enum(EVIDENCE_LEVELS),
+  limitKind: z.enum(['electrode-potential', 'cell-voltage']),
+  electrolyte: electrolyteSchema,
+  electrode: z.string(),
+  method: z.enum(METHOD_KINDS),
   /** Limits on the selection's scale, at its common criterion where it applied (V). */
-  cathodicV: number | null;
-  anodicV: number | null;
+  cathodicV: z.number().nullable(),
+  anodicV: z.number().nullable(),
   /** Why a limit keeps the record's own criterion (a common criterion was chosen but did not apply). */
-  ownCriterion: string | null;
-  licence: string;
-  source: RecordContent['source'] | null;
-}
+  ownCriterion: z.string().nullable(),
+  licence: z.string(),
+  source: sourceSchema.nullable(),
+});
+export type SelectionItemSnapshot = z.infer<typeof selectionItemSnapshotSchema>;
 
-export interface SelectionItemView extends SelectionItemSnapshot {
+export const selectionItemViewSchema = selectionItemSnapshotSchema.extend({
   /** The record's newest public version, when later than the frozen one. */
-  newerVersion: number | null;
+  newerVersion: z.number().int().nullable(),
   /** The record's status now. */
-  statusNow: RecordStatus;
-}
+  statusNow: z.enum(RECORD_STATUSES),
+});
+export type SelectionItemView = z.infer<typeof selectionItemViewSchema>;
 
-export interface SelectionView {
-  handle: string;
-  title: string;
-  description: string | null;
-  creator: string;
-  createdAt: string;
+export const selectionViewSchema = z.strictObject({
+  handle: z.string(),
+  title: z.string(),
+  description: z.string().nullable(),
+  creator: z.string(),
+  createdAt: z.string(),
   /** The comparison, as the /windows address held it. */
-  query: string;
-  criterion: string | null;
-  scale: string;
-  url: string;
-  items: SelectionItemView[];
+  query: z.string(),
+  criterion: z.string().nullable(),
+  scale: z.string(),
+  url: z.string(),
+  items: z.array(selectionItemViewSchema),
   /** How many records have a newer public version, or were withdrawn, since. */
-  changedSince: number;
-}
+  changedSince: z.number().int(),
+});
+export type SelectionView = z.infer<typeof selectionViewSchema>;

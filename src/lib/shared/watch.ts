@@ -17,22 +17,25 @@ export const RECORD_EVENT_KINDS = ['published', 'new-version', 'flagged', 'withd
 export type RecordEventKind = (typeof RECORD_EVENT_KINDS)[number];
 
 /** One change to a record the watch covers. */
-export interface WatchChange {
-  handle: string;
-  version: number;
-  kind: RecordEventKind;
-  at: string;
-}
+export const watchChangeSchema = z.strictObject({
+  handle: z.string(),
+  version: z.number().int(),
+  kind: z.enum(RECORD_EVENT_KINDS),
+  at: z.string(),
+});
+export type WatchChange = z.infer<typeof watchChangeSchema>;
 
-export interface WatchView {
-  id: string;
-  name: string;
+export const watchViewSchema = z.strictObject({
+  id: z.string(),
+  name: z.string(),
   /** The comparison, as the /windows address holds it. */
-  query: string;
-  createdAt: string;
-  lastMailedAt: string | null;
+  query: z.string(),
+  createdAt: z.string(),
+  lastMailedAt: z.string().nullable(),
   /** Mail stopped by the unsubscribe link (the watch stays listed). */
-  unsubscribed: boolean;
+  unsubscribed: z.boolean(),
   /** What changed since its owner last looked. */
-  newSinceSeen: WatchChange[];
-}
+  newSinceSeen: z.array(watchChangeSchema),
+});
+export type WatchView = z.infer<typeof watchViewSchema>;
+export const watchListSchema = z.strictObject({ watches: z.array(watchViewSchema) });

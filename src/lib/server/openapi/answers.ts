@@ -1,6 +1,9 @@
 import type { z } from 'zod';
 import * as answers from '#lib/shared/answers.ts';
+import { cellAnswerSchema, cellChoicesSchema } from '#lib/shared/cell-views.ts';
 import { coverageSchema } from '#lib/shared/coverage-views.ts';
+import { selectionViewSchema } from '#lib/shared/selection.ts';
+import { watchListSchema, watchViewSchema } from '#lib/shared/watch.ts';
 import {
   claimViewSchema,
   decisionResultSchema,
@@ -52,6 +55,11 @@ export const ANSWERS = {
   Proposal: proposalViewSchema,
   MergeResult: answers.mergeResultSchema,
   ReferenceHistory: answers.referenceHistorySchema,
+  Cell: cellAnswerSchema,
+  CellChoices: cellChoicesSchema,
+  Selection: selectionViewSchema,
+  Watch: watchViewSchema,
+  WatchList: watchListSchema,
 } satisfies Record<string, z.ZodType>;
 
 export type AnswerName = keyof typeof ANSWERS;

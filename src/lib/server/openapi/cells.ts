@@ -16,7 +16,7 @@ export const cellsPaths = {
         'and the records behind each number (used or left out with the reason, evidence levels, disagreeing records). ' +
         '`result` is null and `refusal` says why when the records cannot make a cell.',
       parameters: queryParameters(cellQuerySchema),
-      responses: { '200': ok('The cell, its arithmetic and its evidence'), ...errors(400) },
+      responses: { '200': ok('Cell', 'The cell, its arithmetic and its evidence'), ...errors(400) },
     },
   },
   '/cell/choices': {
@@ -25,7 +25,7 @@ export const cellsPaths = {
       tags: ['Cells'],
       summary:
         'The electrolytes (exact compositions) with three-electrode windows you may read, each with its electrode materials and its key for GET /cell',
-      responses: { '200': ok('Electrolytes with their keys and materials') },
+      responses: { '200': ok('CellChoices', 'Electrolytes with their keys and materials') },
     },
   },
 };

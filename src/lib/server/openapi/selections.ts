@@ -20,7 +20,7 @@ export const selectionsPaths = {
       security: signedIn,
       requestBody: body('CreateSelection'),
       responses: {
-        '201': ok('The selection'),
+        '201': ok('Selection', 'The selection'),
         ...errors(
           [400, 'Invalid request, or the comparison finds no public record or too many'],
           401,
@@ -36,7 +36,7 @@ export const selectionsPaths = {
       tags: ['Selections'],
       summary: 'A selection as frozen, with what changed in its records since',
       parameters: [selectionHandle],
-      responses: { '200': ok('The selection'), ...errors(404) },
+      responses: { '200': ok('Selection', 'The selection'), ...errors(404) },
     },
   },
   '/selections/{handle}/citation': {

@@ -8,7 +8,7 @@ export const watchesPaths = {
       tags: ['Watches'],
       summary: 'Your watches, each with the changes to its records since you last looked',
       security: signedIn,
-      responses: { '200': ok('Your watches'), ...errors(401, 403) },
+      responses: { '200': ok('WatchList', 'Your watches'), ...errors(401, 403) },
     },
     post: {
       operationId: 'createWatch',
@@ -17,7 +17,7 @@ export const watchesPaths = {
         'Watch a comparison (the /windows address): at most one e-mail a day when its public records are published, get a new version, are flagged or withdrawn',
       security: signedIn,
       requestBody: body('CreateWatch'),
-      responses: { '201': ok('The watch'), ...errors(400, 401, 403, 413) },
+      responses: { '201': ok('Watch', 'The watch'), ...errors(400, 401, 403, 413) },
     },
   },
   '/watches/{id}': {
@@ -37,7 +37,7 @@ export const watchesPaths = {
       summary: 'Mark what the watch found so far as seen',
       security: signedIn,
       parameters: [uuid('The watch id')],
-      responses: { '200': ok('The watch'), ...errors(401, 403, 404) },
+      responses: { '200': ok('Watch', 'The watch'), ...errors(401, 403, 404) },
     },
   },
   '/watches/unsubscribe': {
