@@ -6,6 +6,7 @@ import { readdirSync } from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import compression from 'compression';
 import send from 'send';
 import { applySecurityHeaders } from '#lib/server/http/headers.ts';
 import { log, REQUEST_ID_HEADER, requestId, takeRoute } from '#lib/server/log.ts';
@@ -74,6 +75,15 @@ function accessLog(req: http.IncomingMessage, res: http.ServerResponse, id: stri
 
 const FETCH_FORBIDDEN_METHODS = new Set(['CONNECT', 'TRACE', 'TRACK']);
 
+// Brotli or gzip, as the client accepts, for every compressible answer over 1 kB: pages, JSON,
+// scripts, styles, CSV and raw downloads. Answers that arrive already encoded (held search
+// answers) pass as they are.
+const compress = compression({ threshold: 1024 }) as unknown as (
+  req: http.IncomingMessage,
+  res: http.ServerResponse,
+  next: () => void,
+) => void;
+
 const server = http.createServer((req, res) => {
   for (const [name, value] of baseline) res.setHeader(name, value);
   const id = requestId(req.headers[REQUEST_ID_HEADER]);
@@ -99,9 +109,11 @@ const server = http.createServer((req, res) => {
   // The Fetch API cannot carry these methods into Astro (constructing the request throws); they
   // reach the middleware under a name no route answers, which refuses them with 405 and Allow.
   if (FETCH_FORBIDDEN_METHODS.has(req.method ?? '')) req.method = 'UNANSWERED';
-  else if (pathname.startsWith(ASSETS) || topLevelFiles.has(pathname))
-    return serveStatic(req, res, pathname);
-  void entry.handler(req, res);
+  compress(req, res, () => {
+    if (req.method !== 'UNANSWERED' && (pathname.startsWith(ASSETS) || topLevelFiles.has(pathname)))
+      serveStatic(req, res, pathname);
+    else void entry.handler(req, res);
+  });
 });
 server.keepAliveTimeout = 5_000;
 

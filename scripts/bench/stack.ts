@@ -18,6 +18,8 @@ export interface BenchStack {
   url: string;
   env: Record<string, string>;
   adminUrl: string;
+  /** One more server of the same build and services, with settings of its own. */
+  another(settings: Record<string, string>): Promise<{ url: string; stop(): void }>;
   stop(): Promise<void>;
 }
 
@@ -44,6 +46,11 @@ export async function startBenchStack(
     url,
     env,
     adminUrl: cluster.adminUrl(database),
+    another: async (settings) => {
+      const p = await freePort();
+      const child = await startApp(path.join(work, 'dist'), { ...env, ...settings }, p, true);
+      return { url: `http://127.0.0.1:${p}`, stop: () => void child.kill('SIGTERM') };
+    },
     stop: async () => {
       app.kill('SIGTERM');
       await fakes.close();

@@ -25,6 +25,8 @@ const schema = z.object({
   TRUST_PROXY: z.stringbool().default(false),
   /** Requests that send e-mail (sign-up, password reset, sign-in link) per client address per hour. */
   MAIL_LIMIT_PER_CLIENT: z.coerce.number().int().positive().default(20),
+  /** Answer searches from the in-memory index (`off`: every search goes to SQL, as a comparison). */
+  SEARCH_INDEX: z.enum(['on', 'off']).default('on'),
   MAX_UPLOAD_BYTES: z.coerce
     .number()
     .int()

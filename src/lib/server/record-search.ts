@@ -38,6 +38,7 @@ import {
   searchAfter,
   searchGeneration,
   searchRecords,
+  searchRowsByHandles,
   type AnalysisRow,
   type Facets,
   type ReadScope,
@@ -45,6 +46,9 @@ import {
   type SearchRow,
   type SortKey,
 } from './repositories/records.ts';
+import { textMatches } from './repositories/search-index.ts';
+import { config } from './config.ts';
+import { indexAnswers, SearchIndex } from './search-index.ts';
 import { resolveTerms } from './vocabulary.ts';
 import { sharedReads } from './shared-reads.ts';
 import type { CommonCriterionResult, SearchItem, SearchResult } from '../shared/record-views.ts';
@@ -569,6 +573,61 @@ export async function searchRecordList(
   return listAt(db, readScope(principal), q, await currentGeneration(db));
 }
 
+/**
+ * The in-memory index of each database, one per generation, shared by every request of the
+ * process. The first search builds it and waits; later, when the collection has moved on, searches
+ * take the SQL path while a new index is built beside them, so a write never makes searches wait.
+ */
+class IndexHolder {
+  private current: SearchIndex | null = null;
+  private building: Promise<SearchIndex | null> | null = null;
+  private failedAt = 0;
+
+  constructor(private readonly db: Db) {}
+
+  async at(generation: string): Promise<SearchIndex | null> {
+    if (this.current?.generation === generation) return this.current;
+    // After a failed build (logged), searches use SQL and a new build waits half a minute.
+    if (this.failedAt && Date.now() - this.failedAt < 30_000) return null;
+    const build = this.start();
+    if (this.current !== null) return null;
+    const built = await build;
+    return built?.generation === generation ? built : null;
+  }
+
+  private start(): Promise<SearchIndex | null> {
+    this.building ??= SearchIndex.build(this.db)
+      .then((ix) => {
+        this.current = ix;
+        this.failedAt = 0;
+        return ix;
+      })
+      .catch((err: unknown) => {
+        this.failedAt = Date.now();
+        console.error(`[edgewise] search index not built, searches use SQL: ${String(err)}`);
+        return null;
+      })
+      .finally(() => {
+        this.building = null;
+      });
+    return this.building;
+  }
+}
+
+const indexHolders = new WeakMap<Db, IndexHolder>();
+
+/** The search index of a database at a generation, or null when searches should use SQL. */
+export async function searchIndexAt(db: Db, generation: string): Promise<SearchIndex | null> {
+  if (config().SEARCH_INDEX === 'off') return null;
+  let holder = indexHolders.get(db);
+  if (!holder) indexHolders.set(db, (holder = new IndexHolder(db)));
+  return holder.at(generation);
+}
+
+// Text matches of the index path, per generation: the full-text part of a search stays in
+// PostgreSQL and its result joins the index as a bitmap.
+const textSets = new GenerationCache<ReturnType<SearchIndex['textBitmap']>>(100);
+
 /** searchRecordList for a checked query, at a generation already read. */
 async function listAt(
   db: Db,
@@ -579,18 +638,34 @@ async function listAt(
   const filter = await toFilter(db, q);
   const withFacets = q.facets === 'true';
   const page = { ...parseSort(q.sort), limit: q.limit, offset: q.offset };
-  const [rows, counted] = await Promise.all([
-    pages.get(
-      generation,
-      cacheKey(scope, filter, page),
-      async () => (await searchRecords(db, filter, scope, page)).rows,
-    ),
-    summaries.get(generation, cacheKey(scope, filter, withFacets), () =>
-      withFacets
-        ? facetCounts(db, filter, scope)
-        : countRecords(db, filter, scope).then((total) => ({ total })),
-    ),
-  ]);
+  const index = indexAnswers(filter) ? await searchIndexAt(db, generation) : null;
+  let rows: SearchRow[];
+  let counted: { total: number; facets?: Facets };
+  if (index) {
+    const text = filter.q
+      ? await textSets.get(generation, filter.q, async () =>
+          index.textBitmap(await textMatches(db, filter.q!)),
+        )
+      : undefined;
+    const set = index.filtered(filter, scope, text);
+    rows = await pages.get(generation, cacheKey(scope, filter, page), () =>
+      searchRowsByHandles(db, index.page(set, page)),
+    );
+    counted = { total: set.size, ...(withFacets ? { facets: index.facets(set) } : {}) };
+  } else {
+    [rows, counted] = await Promise.all([
+      pages.get(
+        generation,
+        cacheKey(scope, filter, page),
+        async () => (await searchRecords(db, filter, scope, page)).rows,
+      ),
+      summaries.get(generation, cacheKey(scope, filter, withFacets), () =>
+        withFacets
+          ? facetCounts(db, filter, scope)
+          : countRecords(db, filter, scope).then((total) => ({ total })),
+      ),
+    ]);
+  }
   const result: SearchResult = {
     total: counted.total,
     limit: q.limit,

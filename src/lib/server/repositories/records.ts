@@ -594,6 +594,15 @@ export async function searchRecords(
   return { rows: r.rows.map(toSearchRow) };
 }
 
+/** The full rows of the records with these handles, in the order given (missing ones left out). */
+export async function searchRowsByHandles(db: DbOrTrx, handles: string[]): Promise<SearchRow[]> {
+  if (handles.length === 0) return [];
+  const picked = sql`SELECT s.record_id, s.version, p.k FROM unnest(${sql.val(handles)}::text[]) WITH ORDINALITY AS p(handle, k)
+    JOIN record_search s ON s.handle = p.handle`;
+  const r = await pageOf(picked, sql`p.k`).execute(db);
+  return r.rows.map(toSearchRow);
+}
+
 /** Rows after a handle, in handle order (exports walk the whole result this way). */
 export async function searchAfter(
   db: DbOrTrx,

@@ -1,0 +1,412 @@
+import roaring from 'roaring';
+import type { Kysely } from 'kysely';
+import type { Database } from './db/schema.ts';
+import {
+  RANKED_COLUMNS,
+  readIndexSnapshot,
+  type IndexRow,
+  type RankedColumn,
+} from './repositories/search-index.ts';
+import {
+  FACETS,
+  type FacetName,
+  type Facets,
+  type ReadScope,
+  type RecordFilter,
+  type SortKey,
+} from './repositories/records.ts';
+
+// The searchable collection of one generation in memory: one compressed bitmap (roaring) per value
+// of every filter and facet column, the numeric filter columns as typed arrays, and each sort
+// key's order as the database sorts it. Totals and facet counts are then ANDs and popcounts, and
+// a sorted page is the smallest ranks of the filtered set; only the page's rows are read from
+// PostgreSQL. Text queries (`q`) are matched by PostgreSQL's full-text search and joined in as one
+// more bitmap. Every answer equals what the SQL path (repositories/records.ts) gives for the same
+// generation, which a test holds on generated data.
+
+const { RoaringBitmap32 } = roaring;
+type Bitmap = InstanceType<typeof RoaringBitmap32>;
+
+// Record ordinals are positions in handle order. A candidate of a sorted page packs its rank and
+// ordinal into one double (rank × 2^26 + ordinal), so the index serves up to 2^26 records.
+const ORDINAL_BITS = 2 ** 26;
+
+/** Columns kept as one bitmap per value; the *_ids columns are arrays, a bitmap per element. */
+const SET_COLUMNS = [
+  'status',
+  'owner_id',
+  'lab_id',
+  'salt_basis',
+  'we_material_id',
+  'method',
+  'criterion_kind',
+  'cell_type',
+  'evidence_level',
+  'component_ids',
+  'salt_ids',
+  'solvent_ids',
+  'additive_ids',
+] as const;
+type SetColumn = (typeof SET_COLUMNS)[number];
+
+/** Columns kept as numbers for range filters (NaN stands for NULL, which no range matches). */
+const RANGE_COLUMNS = ['salt_concentration', 'scan_rate_mv_s', 'temperature_c'] as const;
+type RangeColumn = (typeof RANGE_COLUMNS)[number];
+
+/**
+ * How each filter of RecordFilter reads the index. A filter the index does not know sends the
+ * search down the SQL path, so a new filter works there first and is added here when needed.
+ */
+const SET_FILTERS = {
+  componentIds: { column: 'component_ids', all: true },
+  electrodeIds: { column: 'we_material_id', all: false },
+  methods: { column: 'method', all: false },
+  criterionKinds: { column: 'criterion_kind', all: false },
+  cellTypes: { column: 'cell_type', all: false },
+  evidence: { column: 'evidence_level', all: false },
+  statuses: { column: 'status', all: false },
+} as const satisfies Partial<Record<keyof RecordFilter, { column: SetColumn; all: boolean }>>;
+const RANGE_FILTERS = {
+  concentrationMin: { column: 'salt_concentration', min: true },
+  concentrationMax: { column: 'salt_concentration', min: false },
+  scanRateMin: { column: 'scan_rate_mv_s', min: true },
+  scanRateMax: { column: 'scan_rate_mv_s', min: false },
+  temperatureMin: { column: 'temperature_c', min: true },
+  temperatureMax: { column: 'temperature_c', min: false },
+} as const satisfies Partial<Record<keyof RecordFilter, { column: RangeColumn; min: boolean }>>;
+const OTHER_FILTERS = new Set<keyof RecordFilter>([
+  'concentrationBasis',
+  'labSlugs',
+  'rawBacked',
+  'q',
+]);
+
+const SORT_COLUMNS: Record<Exclude<SortKey, 'handle'>, RankedColumn> = {
+  updated: 'updated_at',
+  anodic: 'anodic_key',
+  cathodic: 'cathodic_key',
+  width: 'width_key',
+  scanRate: 'scan_rate_mv_s',
+  temperature: 'temperature_c',
+  concentration: 'salt_concentration',
+};
+
+/** True when every filter set in `f` is one the index answers. */
+export function indexAnswers(f: RecordFilter): boolean {
+  return Object.entries(f).every(
+    ([k, v]) =>
+      v === undefined ||
+      k in SET_FILTERS ||
+      k in RANGE_FILTERS ||
+      OTHER_FILTERS.has(k as keyof RecordFilter),
+  );
+}
+
+const handleNumber = (h: string) => Number(h.slice(3));
+const handleText = (n: number) => `EW-${String(n).padStart(6, '0')}`;
+
+class ColumnBuilder {
+  readonly values = new Map<string, number[]>();
+  add(value: string | null, ordinal: number) {
+    if (value === null) return;
+    let list = this.values.get(value);
+    if (!list) this.values.set(value, (list = []));
+    // Array columns may repeat an element; the bitmap holds the record once.
+    if (list[list.length - 1] !== ordinal) list.push(ordinal);
+  }
+  build(): Map<string, Bitmap> {
+    const out = new Map<string, Bitmap>();
+    for (const [v, list] of this.values) {
+      const b = new RoaringBitmap32(Uint32Array.from(list));
+      b.runOptimize();
+      b.shrinkToFit();
+      out.set(v, b);
+    }
+    return out;
+  }
+}
+
+/** Growable typed array of doubles. */
+class Doubles {
+  data = new Float64Array(1024);
+  length = 0;
+  push(v: number) {
+    if (this.length === this.data.length) {
+      const next = new Float64Array(this.data.length * 2);
+      next.set(this.data);
+      this.data = next;
+    }
+    this.data[this.length++] = v;
+  }
+  done(): Float64Array {
+    return this.data.slice(0, this.length);
+  }
+}
+
+export interface IndexPage {
+  total: number;
+  handles: string[];
+  facets?: Facets;
+}
+
+/** Only what the index can answer from: see `indexAnswers`. */
+export class SearchIndex {
+  private constructor(
+    readonly generation: string,
+    readonly size: number,
+    private readonly handleNumbers: Uint32Array,
+    /** handle number → ordinal + 1 (0: no such record). */
+    private readonly byHandleNumber: Uint32Array,
+    private readonly sets: Record<SetColumn, Map<string, Bitmap>>,
+    private readonly embargoed: Bitmap,
+    private readonly rawBacked: Bitmap,
+    private readonly ranges: Record<RangeColumn, Float64Array>,
+    private readonly ranks: Record<RankedColumn, { rank: Uint32Array; nonNull: number }>,
+    private readonly labSlugs: Map<string, string>,
+    private readonly labIdsBySlug: Map<string, string>,
+  ) {}
+
+  /** Reads the collection (one consistent snapshot) and builds its index. */
+  static async build(db: Kysely<Database>): Promise<SearchIndex> {
+    const columns = Object.fromEntries(SET_COLUMNS.map((c) => [c, new ColumnBuilder()])) as Record<
+      SetColumn,
+      ColumnBuilder
+    >;
+    const embargoed: number[] = [];
+    const rawBacked: number[] = [];
+    const ranges = Object.fromEntries(RANGE_COLUMNS.map((c) => [c, new Doubles()])) as Record<
+      RangeColumn,
+      Doubles
+    >;
+    const numbers = new Doubles();
+    let n = 0;
+    let handlesOk = true;
+    const snapshot = await readIndexSnapshot(db, (rows: IndexRow[]) => {
+      for (const row of rows) {
+        const o = n++;
+        const num = handleNumber(row.handle);
+        // The index names records by handle number; a handle it cannot write back keeps the
+        // search on the SQL path.
+        if (handleText(num) !== row.handle) handlesOk = false;
+        numbers.push(num);
+        for (const c of SET_COLUMNS) {
+          const v = row[c];
+          if (Array.isArray(v)) for (const x of v) columns[c].add(x, o);
+          else columns[c].add(v, o);
+        }
+        if (row.embargoed) embargoed.push(o);
+        if (row.raw_backed) rawBacked.push(o);
+        for (const c of RANGE_COLUMNS) ranges[c].push(row[c] ?? Number.NaN);
+      }
+    });
+    if (!handlesOk) throw new Error('a handle is not of the form EW-000000');
+    if (n >= ORDINAL_BITS) throw new Error(`too many records for the search index: ${n}`);
+    const handleNumbers = Uint32Array.from(numbers.done());
+    let max = 0;
+    for (const h of handleNumbers) if (h > max) max = h;
+    const byHandleNumber = new Uint32Array(max + 1);
+    handleNumbers.forEach((h, o) => (byHandleNumber[h] = o + 1));
+    const ranks = {} as Record<RankedColumn, { rank: Uint32Array; nonNull: number }>;
+    for (const col of RANKED_COLUMNS) {
+      const { handles, nonNull } = snapshot.orders[col];
+      const rank = new Uint32Array(n);
+      let r = 0;
+      for (const h of handles === '' ? [] : handles.split(',')) {
+        const o = byHandleNumber[Number(h)];
+        if (!o) throw new Error(`sort order of ${col} names an unknown record`);
+        rank[o - 1] = r++;
+      }
+      if (r !== n) throw new Error(`sort order of ${col} has ${r} of ${n} records`);
+      ranks[col] = { rank, nonNull };
+    }
+    const bitmap = (list: number[]) => {
+      const b = new RoaringBitmap32(Uint32Array.from(list));
+      b.runOptimize();
+      return b;
+    };
+    return new SearchIndex(
+      snapshot.generation,
+      n,
+      handleNumbers,
+      byHandleNumber,
+      Object.fromEntries(SET_COLUMNS.map((c) => [c, columns[c].build()])) as Record<
+        SetColumn,
+        Map<string, Bitmap>
+      >,
+      bitmap(embargoed),
+      bitmap(rawBacked),
+      Object.fromEntries(RANGE_COLUMNS.map((c) => [c, ranges[c].done()])) as Record<
+        RangeColumn,
+        Float64Array
+      >,
+      ranks,
+      new Map(snapshot.labs.map((l) => [l.id, l.slug])),
+      new Map(snapshot.labs.map((l) => [l.slug, l.id])),
+    );
+  }
+
+  /** Bytes held: typed arrays and bitmaps (their serialised size, close to what they occupy). */
+  bytes(): number {
+    let b = this.handleNumbers.byteLength + this.byHandleNumber.byteLength;
+    for (const m of Object.values(this.sets))
+      for (const [k, bm] of m) b += bm.getSerializationSizeInBytes('croaring') + 2 * k.length + 64;
+    b += this.embargoed.getSerializationSizeInBytes('croaring');
+    b += this.rawBacked.getSerializationSizeInBytes('croaring');
+    for (const a of Object.values(this.ranges)) b += a.byteLength;
+    for (const r of Object.values(this.ranks)) b += r.rank.byteLength;
+    return b;
+  }
+
+  /** The records of a text query's handle numbers, as a bitmap (unknown ones left out). */
+  textBitmap(handleNumbers: string): Bitmap {
+    const out: number[] = [];
+    if (handleNumbers !== '')
+      for (const h of handleNumbers.split(',')) {
+        const o = this.byHandleNumber[Number(h)];
+        if (o) out.push(o - 1);
+      }
+    return new RoaringBitmap32(Uint32Array.from(out).sort());
+  }
+
+  private union(column: SetColumn, values: readonly string[]): Bitmap {
+    const m = this.sets[column];
+    return RoaringBitmap32.orMany(
+      values.map((v) => m.get(v)).filter((b): b is Bitmap => b !== undefined),
+    );
+  }
+
+  private value(column: SetColumn, v: string): Bitmap {
+    return this.sets[column].get(v) ?? new RoaringBitmap32();
+  }
+
+  /** The records the scope may read: the policy's record.read rule, as readable() states it in SQL. */
+  private readable(scope: ReadScope): Bitmap {
+    const insider = scope.userId
+      ? RoaringBitmap32.orMany([
+          this.value('owner_id', scope.userId),
+          ...scope.labIds.map((id) => this.value('lab_id', id)),
+        ])
+      : new RoaringBitmap32();
+    const listed = this.union('status', ['published', 'flagged', 'withdrawn']);
+    const open = scope.staff
+      ? listed
+      : RoaringBitmap32.andNot(listed, RoaringBitmap32.andNot(this.embargoed, insider));
+    const drafts = RoaringBitmap32.and(this.value('status', 'draft'), insider);
+    const inReview = this.union('status', ['submitted', 'changes_requested', 'declined']);
+    const reviewed = scope.staff ? inReview : RoaringBitmap32.and(inReview, insider);
+    return RoaringBitmap32.orMany([open, drafts, reviewed]);
+  }
+
+  /** The matching records of a filter the index answers (`text`: the bitmap of `f.q`). */
+  filtered(f: RecordFilter, scope: ReadScope, text?: Bitmap): Bitmap {
+    const set = this.readable(scope);
+    for (const [key, how] of Object.entries(SET_FILTERS)) {
+      const vals = f[key as keyof typeof SET_FILTERS];
+      if (!vals || vals.length === 0) continue;
+      if (how.all) for (const v of vals) set.andInPlace(this.value(how.column, v));
+      else set.andInPlace(this.union(how.column, vals));
+    }
+    if (f.concentrationBasis) set.andInPlace(this.value('salt_basis', f.concentrationBasis));
+    if (f.labSlugs?.length)
+      set.andInPlace(
+        this.union(
+          'lab_id',
+          f.labSlugs.map((s) => this.labIdsBySlug.get(s)).filter((x): x is string => !!x),
+        ),
+      );
+    if (f.rawBacked) set.andInPlace(this.rawBacked);
+    if (f.q !== undefined) {
+      if (!text) throw new Error('a text query needs its matches');
+      set.andInPlace(text);
+    }
+    const tests: { values: Float64Array; bound: number; min: boolean }[] = [];
+    for (const [key, how] of Object.entries(RANGE_FILTERS)) {
+      const bound = f[key as keyof typeof RANGE_FILTERS];
+      if (bound !== undefined) tests.push({ values: this.ranges[how.column], bound, min: how.min });
+    }
+    if (tests.length === 0 || set.size === 0) return set;
+    const ords = set.toUint32Array();
+    let kept = 0;
+    for (let i = 0; i < ords.length; i++) {
+      const o = ords[i]!;
+      let ok = true;
+      for (const t of tests) {
+        const v = t.values[o]!;
+        // NaN (NULL) fails both comparisons, as NULL does in SQL.
+        if (!(t.min ? v >= t.bound : v <= t.bound)) {
+          ok = false;
+          break;
+        }
+      }
+      if (ok) ords[kept++] = o;
+    }
+    return new RoaringBitmap32(ords.subarray(0, kept));
+  }
+
+  /** Counts per value of every facet over a matching set (values with none left out). */
+  facets(set: Bitmap): Facets {
+    const out = {} as Facets;
+    for (const name of Object.keys(FACETS) as FacetName[]) {
+      const column = FACETS[name] as SetColumn;
+      const counts: { value: string; count: number }[] = [];
+      for (const [value, b] of this.sets[column]) {
+        const count = b.andCardinality(set);
+        if (count === 0) continue;
+        if (name === 'lab') {
+          const slug = this.labSlugs.get(value);
+          if (slug !== undefined) counts.push({ value: slug, count });
+        } else counts.push({ value, count });
+      }
+      counts.sort(
+        (a, b) => b.count - a.count || (a.value < b.value ? -1 : a.value > b.value ? 1 : 0),
+      );
+      out[name] = counts;
+    }
+    return out;
+  }
+
+  /** Handles of the records at [offset, offset + limit) of a matching set in a sort order. */
+  page(set: Bitmap, p: { sort: SortKey; desc: boolean; limit: number; offset: number }): string[] {
+    const n = set.size;
+    const want = p.offset + p.limit;
+    if (p.offset >= n) return [];
+    const ords = set.toUint32Array();
+    let picked: ArrayLike<number>;
+    if (p.sort === 'handle') {
+      picked = p.desc
+        ? ords.slice(Math.max(0, n - want), n - p.offset).reverse()
+        : ords.subarray(p.offset, Math.min(n, want));
+    } else {
+      const { rank, nonNull } = this.ranks[SORT_COLUMNS[p.sort]];
+      const size = this.size;
+      // Descending keeps NULLs last: the non-NULL ranks reverse, the NULL block reverses in place.
+      const r = p.desc
+        ? (o: number) => {
+            const a = rank[o]!;
+            return a < nonNull ? nonNull - 1 - a : nonNull + (size - 1 - a);
+          }
+        : (o: number) => rank[o]!;
+      // A threshold on the rank from a histogram of the set's ranks, then only the candidates
+      // below it are sorted.
+      const buckets = Math.min(65_536, size);
+      const width = Math.ceil(size / buckets);
+      const hist = new Uint32Array(buckets);
+      for (let i = 0; i < n; i++) hist[Math.floor(r(ords[i]!) / width)]!++;
+      let seen = 0;
+      let cut = 0;
+      while (cut < buckets && seen + hist[cut]! < want) seen += hist[cut++]!;
+      const limitRank = (cut + 1) * width;
+      const cand = new Float64Array(seen + (hist[cut] ?? 0));
+      let k = 0;
+      for (let i = 0; i < n; i++) {
+        const o = ords[i]!;
+        const x = r(o);
+        if (x < limitRank) cand[k++] = x * ORDINAL_BITS + o;
+      }
+      cand.sort();
+      const slice = cand.subarray(p.offset, Math.min(k, want));
+      picked = Array.from(slice, (x) => x % ORDINAL_BITS);
+    }
+    return Array.from(picked, (o) => handleText(this.handleNumbers[o]!));
+  }
+}
