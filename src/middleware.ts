@@ -8,6 +8,7 @@ import { toProblem } from './lib/server/http/route.ts';
 import { noteRoute, REQUEST_ID_HEADER } from './lib/server/log.ts';
 import { resolvePrincipal } from './lib/server/auth/principal.ts';
 import { ANONYMOUS } from './lib/shared/principal.ts';
+import { OWN_WRITES_COOKIE, OWN_WRITES_SECONDS } from './lib/server/db/index.ts';
 import { startJobs } from './lib/server/jobs.ts';
 
 // The server process delivers queued e-mail (retrying while the mail server is down) and clears
@@ -75,12 +76,26 @@ export const onRequest = defineMiddleware(async (context, next) => {
       detail: `${context.request.method} ${url.pathname} is not part of the API.`,
     });
   }
+  // With read replicas, someone who has just changed something reads from the primary for a
+  // few seconds, so their next page shows their change (see readDb).
+  const wrote =
+    config().DATABASE_REPLICA_URLS.length > 0 &&
+    !['GET', 'HEAD', 'OPTIONS'].includes(context.request.method) &&
+    response.status < 400;
+  const finish = (headers: Headers) => {
+    applySecurityHeaders(headers, { https: url.protocol === 'https:' });
+    if (wrote)
+      headers.append(
+        'set-cookie',
+        `${OWN_WRITES_COOKIE}=1; Max-Age=${OWN_WRITES_SECONDS}; Path=/; HttpOnly; SameSite=Lax${url.protocol === 'https:' ? '; Secure' : ''}`,
+      );
+  };
   // Some responses (redirects, static) come with immutable headers: copy when needed.
   try {
-    applySecurityHeaders(response.headers, { https: url.protocol === 'https:' });
+    finish(response.headers);
   } catch {
     response = new Response(response.body, response);
-    applySecurityHeaders(response.headers, { https: url.protocol === 'https:' });
+    finish(response.headers);
   }
   return response;
 });

@@ -7,6 +7,22 @@ const schema = z.object({
   PUBLIC_ORIGIN: z.url().default('http://localhost:4321'),
   DATABASE_URL: z.string().regex(/^postgres(ql)?:\/\//, 'must be a postgres:// connection string'),
   DATABASE_POOL_SIZE: z.coerce.number().int().min(1).max(100).default(10),
+  /**
+   * Read-only connection strings of streaming replicas, separated by commas: reads that may be a
+   * moment behind go there (the primary serves them when every replica is down).
+   */
+  DATABASE_REPLICA_URLS: z
+    .string()
+    .default('')
+    .transform((s) =>
+      s
+        .split(',')
+        .map((u) => u.trim())
+        .filter((u) => u !== ''),
+    )
+    .pipe(
+      z.array(z.string().regex(/^postgres(ql)?:\/\//, 'must be postgres:// connection strings')),
+    ),
   AUTH_SECRET: z.string().min(32, 'must be at least 32 characters'),
   S3_ENDPOINT: z.url().default('http://127.0.0.1:4580'),
   S3_REGION: z.string().default('us-east-1'),

@@ -25,7 +25,7 @@ import {
 } from '../shared/record.ts';
 import type { Principal } from '../shared/principal.ts';
 import { commonCriterionWords } from '../shared/criteria.ts';
-import type { Db } from './db/index.ts';
+import { primaryOf, type Db } from './db/index.ts';
 import { ValidationError } from './errors.ts';
 import { zodErrors } from './http/route.ts';
 import { LISTED } from './record-status.ts';
@@ -513,31 +513,37 @@ async function decorate(db: Db, rows: SearchRow[], q: RecordQuery): Promise<Sear
 }
 
 /**
- * Answers kept for one generation of the collection (see `searchGeneration`): a request that reads
- * a generation other than the one held drops everything held and starts over with its own, so an
- * answer is never served for data or a day it was not computed on. Least recently used entries go
- * first; concurrent misses on one key share one query.
+ * Answers kept per generation of the collection (see `searchGeneration`), for the two generations
+ * asked for last: an answer is never served for data or a day it was not computed on. Least
+ * recently used entries go first; concurrent misses on one key share one query.
  */
 class GenerationCache<T> {
-  private generation: string | null = null;
-  private readonly entries = new Map<string, Promise<T>>();
+  // The two generations asked for last: a replica a moment behind the primary and the primary
+  // itself may both be read while a change replays, and neither should drop the other's answers.
+  private readonly generations = new Map<string, Map<string, Promise<T>>>();
   constructor(private readonly size: number) {}
 
   get(generation: string, key: string, compute: () => Promise<T>): Promise<T> {
-    if (generation !== this.generation) {
-      this.entries.clear();
-      this.generation = generation;
+    let entries = this.generations.get(generation);
+    if (entries) {
+      this.generations.delete(generation);
+    } else {
+      entries = new Map();
+      if (this.generations.size >= 2)
+        this.generations.delete(this.generations.keys().next().value!);
     }
-    let entry = this.entries.get(key);
+    this.generations.set(generation, entries);
+    let entry = entries.get(key);
     if (entry) {
-      this.entries.delete(key); // re-inserted below: the Map's order is least recently used first
+      entries.delete(key); // re-inserted below: the Map's order is least recently used first
     } else {
       const fresh = compute();
-      fresh.catch(() => this.entries.get(key) === fresh && this.entries.delete(key));
-      if (this.entries.size >= this.size) this.entries.delete(this.entries.keys().next().value!);
+      const held = entries;
+      fresh.catch(() => held.get(key) === fresh && held.delete(key));
+      if (entries.size >= this.size) entries.delete(entries.keys().next().value!);
       entry = fresh;
     }
-    this.entries.set(key, entry);
+    entries.set(key, entry);
     return entry;
   }
 }
@@ -619,8 +625,10 @@ const indexHolders = new WeakMap<Db, IndexHolder>();
 /** The search index of a database at a generation, or null when searches should use SQL. */
 export async function searchIndexAt(db: Db, generation: string): Promise<SearchIndex | null> {
   if (config().SEARCH_INDEX === 'off') return null;
-  let holder = indexHolders.get(db);
-  if (!holder) indexHolders.set(db, (holder = new IndexHolder(db)));
+  // One index per database, whether it is read on the primary or on its replicas.
+  const key = primaryOf(db);
+  let holder = indexHolders.get(key);
+  if (!holder) indexHolders.set(key, (holder = new IndexHolder(db)));
   return holder.at(generation);
 }
 

@@ -143,6 +143,52 @@ class Doubles {
   }
 }
 
+/**
+ * Each record's position in a column's ascending order as PostgreSQL sorts it with NULLS LAST and
+ * the handle as tie-break: -0 equals 0, NaN comes after every number, NULL after NaN. Distinct
+ * values are ranked once; then (value rank, ordinal) pairs packed into doubles sort natively.
+ */
+function rankOf(
+  values: Float64Array,
+  nullOrdinals: number[],
+): { rank: Uint32Array; nonNull: number } {
+  const n = values.length;
+  const isNull = new Uint8Array(n);
+  for (const o of nullOrdinals) isNull[o] = 1;
+  const present = new Float64Array(n - nullOrdinals.length);
+  let k = 0;
+  for (let o = 0; o < n; o++) if (!isNull[o]) present[k++] = values[o]! + 0;
+  present.sort();
+  const distinct: number[] = [];
+  for (const v of present) {
+    if (Number.isNaN(v)) break;
+    if (distinct.length === 0 || distinct[distinct.length - 1] !== v) distinct.push(v);
+  }
+  const d = Float64Array.from(distinct);
+  const packed = new Float64Array(n);
+  for (let o = 0; o < n; o++) {
+    let vr: number;
+    const v = values[o]! + 0;
+    if (isNull[o]) vr = d.length + 1;
+    else if (Number.isNaN(v)) vr = d.length;
+    else {
+      let lo = 0;
+      let hi = d.length - 1;
+      while (lo < hi) {
+        const mid = (lo + hi) >> 1;
+        if (d[mid]! < v) lo = mid + 1;
+        else hi = mid;
+      }
+      vr = lo;
+    }
+    packed[o] = vr * ORDINAL_BITS + o;
+  }
+  packed.sort();
+  const rank = new Uint32Array(n);
+  for (let p = 0; p < n; p++) rank[packed[p]! % ORDINAL_BITS] = p;
+  return { rank, nonNull: n - nullOrdinals.length };
+}
+
 export interface IndexPage {
   total: number;
   handles: string[];
@@ -179,6 +225,14 @@ export class SearchIndex {
       Doubles
     >;
     const numbers = new Doubles();
+    const keys = Object.fromEntries(RANKED_COLUMNS.map((c) => [c, new Doubles()])) as Record<
+      RankedColumn,
+      Doubles
+    >;
+    const nulls = Object.fromEntries(RANKED_COLUMNS.map((c) => [c, [] as number[]])) as Record<
+      RankedColumn,
+      number[]
+    >;
     let n = 0;
     let handlesOk = true;
     const snapshot = await readIndexSnapshot(db, (rows: IndexRow[]) => {
@@ -197,6 +251,11 @@ export class SearchIndex {
         if (row.embargoed) embargoed.push(o);
         if (row.raw_backed) rawBacked.push(o);
         for (const c of RANGE_COLUMNS) ranges[c].push(row[c] ?? Number.NaN);
+        for (const c of RANKED_COLUMNS) {
+          const v = c === 'updated_at' ? Number(row.updated_us) : row[c];
+          if (v === null) nulls[c].push(o);
+          keys[c].push(v ?? 0);
+        }
       }
     });
     if (!handlesOk) throw new Error('a handle is not of the form EW-000000');
@@ -207,18 +266,7 @@ export class SearchIndex {
     const byHandleNumber = new Uint32Array(max + 1);
     handleNumbers.forEach((h, o) => (byHandleNumber[h] = o + 1));
     const ranks = {} as Record<RankedColumn, { rank: Uint32Array; nonNull: number }>;
-    for (const col of RANKED_COLUMNS) {
-      const { handles, nonNull } = snapshot.orders[col];
-      const rank = new Uint32Array(n);
-      let r = 0;
-      for (const h of handles === '' ? [] : handles.split(',')) {
-        const o = byHandleNumber[Number(h)];
-        if (!o) throw new Error(`sort order of ${col} names an unknown record`);
-        rank[o - 1] = r++;
-      }
-      if (r !== n) throw new Error(`sort order of ${col} has ${r} of ${n} records`);
-      ranks[col] = { rank, nonNull };
-    }
+    for (const col of RANKED_COLUMNS) ranks[col] = rankOf(keys[col].done(), nulls[col]);
     const bitmap = (list: number[]) => {
       const b = new RoaringBitmap32(Uint32Array.from(list));
       b.runOptimize();

@@ -12,12 +12,11 @@ export type Db = Kysely<Database>;
 
 let instance: Db | undefined;
 
-/** Creates a Kysely instance over its own pool (scripts and tests that need a second one). */
-export function createDb(connectionString: string, max = 10): Db {
+function newPool(connectionString: string, max: number, connectMs = 5_000): pg.Pool {
   const pool = new pg.Pool({
     connectionString,
     max,
-    connectionTimeoutMillis: 5_000,
+    connectionTimeoutMillis: connectMs,
     idleTimeoutMillis: 30_000,
   });
   // A dropped connection (server restart, crash, `pg_ctl stop -m immediate`) must not crash the
@@ -27,7 +26,14 @@ export function createDb(connectionString: string, max = 10): Db {
   // client, so serving resumes by itself once PostgreSQL is back.
   pool.on('error', (err) => noteConnectionLost(err));
   pool.on('connect', (client) => client.on('error', (err) => noteConnectionLost(err)));
-  return new Kysely<Database>({ dialect: new PostgresDialect({ pool }) });
+  return pool;
+}
+
+/** Creates a Kysely instance over its own pool (scripts and tests that need a second one). */
+export function createDb(connectionString: string, max = 10): Db {
+  return new Kysely<Database>({
+    dialect: new PostgresDialect({ pool: newPool(connectionString, max) }),
+  });
 }
 
 let lastLogged = 0;
@@ -43,4 +49,129 @@ function noteConnectionLost(err: Error): void {
 export function db(): Db {
   instance ??= createDb(config().DATABASE_URL, config().DATABASE_POOL_SIZE);
   return instance;
+}
+
+// ---- reads on streaming replicas ----
+
+/** An error that means the server or the connection is gone (not a fault of the statement). */
+export function isConnectionError(err: unknown): boolean {
+  const e = err as { code?: string; message?: string } | null;
+  if (!e) return false;
+  if (e.code && /^(ECONNREFUSED|ECONNRESET|EPIPE|ETIMEDOUT|57P0[123]|08\d\d\d)$/.test(e.code))
+    return true;
+  return /Connection terminated|connection timeout|Client has encountered a connection error/i.test(
+    e.message ?? '',
+  );
+}
+
+interface Replica {
+  url: string;
+  pool: pg.Pool;
+  /** Not tried again before this time (ms) after it failed. */
+  downUntil: number;
+}
+
+const DOWN_MS = 5_000;
+
+/**
+ * A pool for Kysely that hands out connections to the replicas in turn, skipping one that failed
+ * in the last few seconds, and to the primary when none answers. A statement that fails because
+ * its replica went away is sent again to the primary, unless it was part of a transaction.
+ */
+class ReadPool {
+  private turn = 0;
+  constructor(
+    readonly replicas: Replica[],
+    private readonly primary: () => pg.Pool,
+  ) {}
+
+  async connect(): Promise<pg.PoolClient> {
+    for (let i = 0; i < this.replicas.length; i++) {
+      const r = this.replicas[this.turn++ % this.replicas.length]!;
+      if (r.downUntil > Date.now()) continue;
+      try {
+        return this.guarded(await r.pool.connect(), r);
+      } catch (err) {
+        if (!isConnectionError(err)) throw err;
+        r.downUntil = Date.now() + DOWN_MS;
+      }
+    }
+    return this.primary().connect();
+  }
+
+  private guarded(client: pg.PoolClient, replica: Replica): pg.PoolClient {
+    let inTransaction = false;
+    let fallback: pg.PoolClient | null = null;
+    const query = client.query.bind(client) as (...a: unknown[]) => Promise<unknown>;
+    const release = client.release.bind(client);
+    const wrapped = Object.create(client) as Record<string, unknown>;
+    wrapped.query = async (...args: unknown[]) => {
+      if (fallback) return (fallback.query as (...a: unknown[]) => Promise<unknown>)(...args);
+      const text = typeof args[0] === 'string' ? args[0] : '';
+      if (/^\s*(begin|start transaction)/i.test(text)) inTransaction = true;
+      if (/^\s*(commit|rollback)/i.test(text)) inTransaction = false;
+      try {
+        return await query(...args);
+      } catch (err) {
+        if (!isConnectionError(err) || inTransaction) {
+          if (isConnectionError(err)) replica.downUntil = Date.now() + DOWN_MS;
+          throw err;
+        }
+        replica.downUntil = Date.now() + DOWN_MS;
+        fallback = await this.primary().connect();
+        return (fallback.query as (...a: unknown[]) => Promise<unknown>)(...args);
+      }
+    };
+    wrapped.release = (err?: Error | boolean) => {
+      if (fallback) {
+        fallback.release();
+        release(true);
+      } else release(err);
+    };
+    return wrapped as unknown as pg.PoolClient;
+  }
+
+  async end(): Promise<void> {
+    await Promise.all(this.replicas.map((r) => r.pool.end()));
+  }
+}
+
+let reads: Db | null | undefined;
+const readPools = new WeakMap<Db, Db>();
+
+/** The primary a read instance falls back to (itself when there are no replicas). */
+export function primaryOf(d: Db): Db {
+  return readPools.get(d) ?? d;
+}
+
+/** A Kysely instance over replicas, falling back to `primary`'s pool; for tests and scripts too. */
+export function createReadDb(primary: Db, primaryUrl: string, replicaUrls: string[], max = 10): Db {
+  let primaryPool: pg.Pool | undefined;
+  const pool = new ReadPool(
+    replicaUrls.map((url) => ({ url, pool: newPool(url, max, 2_000), downUntil: 0 })),
+    () => (primaryPool ??= newPool(primaryUrl, Math.max(2, Math.floor(max / 2)))),
+  );
+  const d = new Kysely<Database>({
+    dialect: new PostgresDialect({ pool: pool as unknown as pg.Pool }),
+  });
+  readPools.set(d, primary);
+  return d;
+}
+
+// A person who has just written reads from the primary for this long (the answer to their next
+// page must show their change, however far a replica lags).
+export const OWN_WRITES_COOKIE = 'ew-wrote';
+export const OWN_WRITES_SECONDS = 30;
+
+/**
+ * Where a read that may be a moment behind goes: the replicas when there are some, unless the
+ * request comes from someone who wrote in the last seconds (their own changes must show).
+ */
+export function readDb(request?: Request): Db {
+  const urls = config().DATABASE_REPLICA_URLS;
+  if (urls.length === 0) return db();
+  const cookie = request?.headers.get('cookie') ?? '';
+  if (new RegExp(`(?:^|;\\s*)${OWN_WRITES_COOKIE}=`).test(cookie)) return db();
+  reads ??= createReadDb(db(), config().DATABASE_URL, urls, config().DATABASE_POOL_SIZE);
+  return reads;
 }

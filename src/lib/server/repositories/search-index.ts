@@ -3,9 +3,8 @@ import type { Kysely } from 'kysely';
 import type { Database } from '../db/schema.ts';
 import type { DbOrTrx } from './audit.ts';
 
-// What the in-memory search index reads from record_search: every row's filter and facet columns
-// (never the text-search vector), the order of every sort key as the database sorts it, and the
-// records a text query matches.
+// What the in-memory search index reads from record_search: every row's filter, facet and sort
+// columns (never the text-search vector), and the records a text query matches.
 
 /** One record_search row as the index keeps it; `embargoed` is decided by the database's clock. */
 export interface IndexRow {
@@ -28,6 +27,11 @@ export interface IndexRow {
   salt_concentration: number | null;
   scan_rate_mv_s: number | null;
   temperature_c: number | null;
+  anodic_key: number | null;
+  cathodic_key: number | null;
+  width_key: number | null;
+  /** updated_at in microseconds since 1970 (exact: PostgreSQL keeps microseconds). */
+  updated_us: string;
 }
 
 /** record_search sort columns the index ranks (the handle order is the index's own order). */
@@ -45,13 +49,11 @@ export type RankedColumn = (typeof RANKED_COLUMNS)[number];
 export interface IndexSnapshot {
   generation: string;
   labs: { id: string; slug: string }[];
-  /** Per sort column: handle numbers in ascending order (NULLs last, then handle), and how many are not NULL. */
-  orders: Record<RankedColumn, { handles: string; nonNull: number }>;
 }
 
 /**
  * Reads the whole searchable collection in one repeatable-read, read-only transaction, so the
- * rows, the orders and the generation belong to one moment: rows in handle order, `batch` at a
+ * rows and the generation belong to one moment: rows in the database's handle order, `batch` at a
  * time, handed to `onRows` as they arrive.
  */
 export async function readIndexSnapshot(
@@ -76,7 +78,9 @@ export async function readIndexSnapshot(
                  (visibility = 'lab' AND embargo_until IS NOT NULL
                    AND (embargo_until::timestamp AT TIME ZONE 'UTC') > now()) AS embargoed,
                  salt_basis, we_material_id, method, criterion_kind, cell_type, evidence_level, raw_backed,
-                 component_ids, salt_ids, solvent_ids, additive_ids, salt_concentration, scan_rate_mv_s, temperature_c
+                 component_ids, salt_ids, solvent_ids, additive_ids, salt_concentration, scan_rate_mv_s, temperature_c,
+                 anodic_key, cathodic_key, width_key,
+                 (extract(epoch FROM updated_at) * 1000000)::bigint::text AS updated_us
             FROM record_search
            WHERE ${after === null ? sql`true` : sql`handle > ${after}`}
            ORDER BY handle LIMIT ${batch}`.execute(trx);
@@ -86,15 +90,7 @@ export async function readIndexSnapshot(
         if (r.rows.length < batch) break;
       }
       const labs = await trx.selectFrom('labs').select(['id', 'slug']).execute();
-      const orders = {} as IndexSnapshot['orders'];
-      for (const col of RANKED_COLUMNS) {
-        const o = await sql<{ handles: string | null; non_null: string }>`
-          SELECT string_agg(substr(handle, 4), ',' ORDER BY ${sql.ref(col)} ASC NULLS LAST, handle ASC) AS handles,
-                 count(${sql.ref(col)})::text AS non_null
-            FROM record_search`.execute(trx);
-        orders[col] = { handles: o.rows[0]?.handles ?? '', nonNull: Number(o.rows[0]?.non_null) };
-      }
-      return { generation: g.rows[0]!.g, labs, orders };
+      return { generation: g.rows[0]!.g, labs };
     });
 }
 

@@ -1,4 +1,4 @@
-import { db } from '#lib/server/db/index.ts';
+import { db, readDb } from '#lib/server/db/index.ts';
 import { cachedJson, answer } from '#lib/server/http/problem.ts';
 import { endpoint, readJson, readQuery } from '#lib/server/http/route.ts';
 import { recordQuerySchema, searchRecordAnswer } from '#lib/server/record-search.ts';
@@ -9,7 +9,7 @@ import { recordDetailSchema } from '#lib/shared/record-views.ts';
 export const GET = endpoint(async ({ locals, request, url }) =>
   cachedJson(
     request,
-    await searchRecordAnswer(db(), locals.principal, readQuery(url, recordQuerySchema)),
+    await searchRecordAnswer(readDb(request), locals.principal, readQuery(url, recordQuerySchema)),
   ),
 );
 

@@ -1,4 +1,4 @@
-import { db } from '#lib/server/db/index.ts';
+import { db, readDb } from '#lib/server/db/index.ts';
 import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readJson } from '#lib/server/http/route.ts';
 import { editRecord } from '#lib/server/records.ts';
@@ -6,8 +6,8 @@ import { getRecord } from '#lib/server/record-views.ts';
 import { editRecordBody } from '#lib/shared/record.ts';
 import { recordDetailSchema } from '#lib/shared/record-views.ts';
 
-export const GET = endpoint(async ({ locals, params }) =>
-  answer(recordDetailSchema, await getRecord(db(), locals.principal, params.handle!)),
+export const GET = endpoint(async ({ locals, params, request }) =>
+  answer(recordDetailSchema, await getRecord(readDb(request), locals.principal, params.handle!)),
 );
 
 /** An edit: the whole content, the version it is based on and a change note; a new version. */
