@@ -72,6 +72,7 @@ interface Replica {
 }
 
 const DOWN_MS = 5_000;
+const listening = new WeakSet<pg.PoolClient>();
 
 /**
  * A pool for Kysely that hands out connections to the replicas in turn, skipping one that failed
@@ -100,6 +101,12 @@ class ReadPool {
   }
 
   private guarded(client: pg.PoolClient, replica: Replica): pg.PoolClient {
+    // A replica that goes away while a connection is checked out must not crash the process:
+    // the statement's own error (handled below) says what happened.
+    if (!listening.has(client)) {
+      listening.add(client);
+      client.on('error', () => {});
+    }
     let inTransaction = false;
     let fallback: pg.PoolClient | null = null;
     const query = client.query.bind(client) as (...a: unknown[]) => Promise<unknown>;
