@@ -48,6 +48,7 @@ import {
 } from './repositories/records.ts';
 import { textMatches } from './repositories/search-index.ts';
 import { config } from './config.ts';
+import { log } from './log.ts';
 import { indexAnswers, SearchIndex } from './search-index.ts';
 import { resolveTerms } from './vocabulary.ts';
 import { sharedReads } from './shared-reads.ts';
@@ -610,7 +611,7 @@ class IndexHolder {
       })
       .catch((err: unknown) => {
         this.failedAt = Date.now();
-        console.error(`[edgewise] search index not built, searches use SQL: ${String(err)}`);
+        log().error({ err }, 'search index not built; searches use SQL meanwhile');
         return null;
       })
       .finally(() => {
