@@ -1,7 +1,10 @@
-// Benchmark (not a test): server render time of the main pages on the built server, and the gzip
-// size of the JavaScript each page loads for its islands.
-// Usage: npm run bench:pages [-- --requests 200 --path /windows]
+// Benchmark (not a test): server render time of the main pages on the built server, the gzip
+// size of the JavaScript each page loads for its islands, a record page and its API answer under
+// 32 connections, and what goes out compressed. Ends with one JSON line of figures.
+// Usage: npm run bench:pages [-- --requests 200 --seconds 10 --path /windows]
 import { readFileSync } from 'node:fs';
+import autocannon from 'autocannon';
+import http from 'node:http';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { gzipSync } from 'node:zlib';
@@ -11,12 +14,30 @@ import { percentile, report, startBenchStack } from './stack.ts';
 const { values } = parseArgs({
   options: {
     requests: { type: 'string', default: '200' },
+    seconds: { type: 'string', default: '10' },
     path: { type: 'string', multiple: true },
   },
 });
 const N = Number(values.requests);
 const RENDER_TARGET_MS = 50;
 const ISLAND_TARGET_KB = 150;
+const RECORD_RPS_TARGET = 1_500;
+
+/** autocannon on one path; requests per second and p95 from every response's own time. */
+async function hammer(url: string, connections: number, seconds: number) {
+  const times: number[] = [];
+  const result = await new Promise<autocannon.Result>((resolve, reject) => {
+    const run = autocannon({ url, connections, duration: seconds }, (err, r) =>
+      err ? reject(err) : resolve(r),
+    );
+    run.on('response', (_c, _s, _b, ms) => times.push(ms));
+  });
+  return {
+    rps: result.requests.total / seconds,
+    p95: percentile(times, 95),
+    failed: result.non2xx + result.errors + result.timeouts,
+  };
+}
 
 /** JavaScript a page loads for its islands: module scripts and island components, with their static imports. */
 function pageScripts(html: string): string[] {
@@ -87,12 +108,81 @@ async function main() {
         p !== '/windows' || js.bytes / 1024 <= ISLAND_TARGET_KB,
       );
     }
+
+    const figures: Record<string, number | string> = {};
+    const recordPage = pages.find((p) => p.startsWith('/windows/'));
+    if (recordPage) {
+      const seconds = Number(values.seconds);
+      const handle = recordPage.slice('/windows/'.length);
+      console.log(`\nA record, 32 connections, ${seconds} s each (anonymous reader):`);
+      for (const [what, p] of [
+        ['record page', recordPage],
+        ['record API', `/api/v1/records/${handle}`],
+      ] as const) {
+        const r = await hammer(stack.url + p, 32, seconds);
+        report(
+          `${what} ${p} (p95 ${r.p95.toFixed(1)} ms, ${r.failed} failed)`,
+          `${r.rps.toFixed(0)} req/s`,
+          `≥ ${RECORD_RPS_TARGET} req/s`,
+          r.rps >= RECORD_RPS_TARGET && r.failed === 0,
+        );
+        figures[what === 'record page' ? 'recordPageRps' : 'recordApiRps'] = Math.round(r.rps);
+        figures[what === 'record page' ? 'recordPageP95Ms' : 'recordApiP95Ms'] =
+          Math.round(r.p95 * 10) / 10;
+      }
+    }
+
+    // What goes out compressed when the client accepts it, and how assets are cached.
+    console.log('\nCompression (accept-encoding: br, gzip) and caching:');
+    const home = await (await fetch(stack.url + '/')).text();
+    const script = pageScripts(home)[0];
+    const probes = [
+      ['home page', '/'],
+      ['explorer page', '/windows'],
+      ...(recordPage ? [['record page', recordPage]] : []),
+      ['search API', '/api/v1/records?limit=50'],
+      ...(script ? [['script', script]] : []),
+    ];
+    for (const [what, p] of probes) {
+      const plain = await fetch(stack.url + p!, { headers: { 'accept-encoding': 'identity' } });
+      const plainBytes = (await plain.arrayBuffer()).byteLength;
+      // Node's fetch decodes bodies: the encoded size comes from a raw request.
+      const enc = await rawSize(stack.url + p!, 'br, gzip');
+      report(
+        `${what} ${p!.length > 40 ? p!.slice(0, 40) + '…' : p}`,
+        `${enc.encoding || 'none'}, ${(enc.bytes / 1024).toFixed(1)} of ${(plainBytes / 1024).toFixed(1)} kB`,
+        'br or gzip',
+        enc.encoding === 'br' || enc.encoding === 'gzip',
+      );
+      if (what === 'script') {
+        const cache = plain.headers.get('cache-control') ?? '';
+        report('hashed asset cache-control', cache, 'immutable', cache.includes('immutable'));
+      }
+    }
+    console.log(JSON.stringify(figures));
   } finally {
     await stack.stop();
   }
 }
 
-main().catch((err) => {
-  console.error(err);
-  process.exit(1);
-});
+/** Status, content-encoding and byte count of an answer as it travels (not decoded). */
+function rawSize(url: string, acceptEncoding: string) {
+  return new Promise<{ encoding: string; bytes: number }>((resolve, reject) => {
+    const req = http.get(url, { headers: { 'accept-encoding': acceptEncoding } }, (res) => {
+      let bytes = 0;
+      res.on('data', (d: Buffer) => (bytes += d.byteLength));
+      res.on('end', () =>
+        resolve({ encoding: String(res.headers['content-encoding'] ?? ''), bytes }),
+      );
+    });
+    req.on('error', reject);
+  });
+}
+
+main().then(
+  () => process.exit(0),
+  (err) => {
+    console.error(err);
+    process.exit(1);
+  },
+);

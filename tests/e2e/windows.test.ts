@@ -209,6 +209,27 @@ describe("the formulator's path", () => {
     expect(ld.identifier).toBe(handles.gc);
     // Stored analysis at S ≤ 0.1: 1.090 V (docs/methods.md §8 A, log-interpolated 1.0898 V).
     await expect.poll(() => text(page, 'limit-anodic')).toContain('1.090 V');
+    // The raw curve (read in a Web Worker) zooms and pans from the keyboard and reads out the
+    // sample under the pointer.
+    const first = async (testId: string) =>
+      (await page.getByTestId(testId).first().innerText()).replace(/\s+/g, ' ').trim();
+    const range = () => first('curve-range');
+    await expect.poll(range).toMatch(/V/);
+    const whole = await range();
+    const plot = page.getByTestId('curve-plot').first();
+    await plot.focus();
+    await page.keyboard.press('+');
+    await expect.poll(range).not.toBe(whole);
+    const zoomed = await range();
+    await page.keyboard.press('ArrowLeft');
+    await expect.poll(range).not.toBe(zoomed);
+    await page.keyboard.press('0');
+    await expect.poll(range).toBe(whole);
+    const box = (await plot.locator('svg').first().boundingBox())!;
+    await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
+    await expect
+      .poll(() => first('curve-readout'))
+      .toMatch(/^E = -?\d+\.\d{4} V, I = -?[\d.e+-]+ \S+$/);
     await page.getByLabel('Criterion kind').last().selectOption('ce');
     // CE ≥ 99 % is S ≤ 0.0101: crossed between the 0.9 V (S 6.3e-3) and 1.0 V (S 2.6e-2) vertices.
     await expect

@@ -1,4 +1,4 @@
-import { useId, useMemo, useRef, useState } from 'react';
+import { useId, useMemo, useRef, useState, type KeyboardEvent } from 'react';
 import { decimateMinMax } from '#lib/analysis/decimate.ts';
 import { buttonQuiet } from '../ui.tsx';
 import { downloadPng, downloadSvg } from './figure.ts';
@@ -95,7 +95,30 @@ function path(
   return d;
 }
 
-/** Current against potential, zoomable by dragging across the plot or with the buttons. */
+/** The sample nearest to potential `v` among thinned runs of each curve: curve index, potential, current. */
+function nearest(
+  runs: { x: Float64Array; y: Float64Array }[][],
+  v: number,
+): { curve: number; x: number; y: number } | null {
+  let best: { curve: number; x: number; y: number } | null = null;
+  let gap = Infinity;
+  for (let curve = 0; curve < runs.length; curve++)
+    for (const r of runs[curve]!)
+      for (let i = 0; i < r.x.length; i++) {
+        const d = Math.abs(r.x[i]! - v);
+        if (d < gap && Number.isFinite(r.y[i]!)) {
+          gap = d;
+          best = { curve, x: r.x[i]!, y: r.y[i]! };
+        }
+      }
+  return best;
+}
+
+/**
+ * Current against potential: zoom by dragging across the plot, with the buttons or the keyboard
+ * (+ and − zoom, arrow keys pan, 0 shows all); the pointer reads out the nearest sample. Drawn from
+ * min/max-thinned samples of the part in view, so 10⁶ samples draw as a few thousand.
+ */
 export default function CurveChart({
   curves,
   xLabel,
@@ -117,6 +140,7 @@ export default function CurveChart({
   }, [curves]);
   const [view, setView] = useState<[number, number] | null>(null);
   const [drag, setDrag] = useState<{ from: number; to: number } | null>(null);
+  const [cursor, setCursor] = useState<number | null>(null);
   const svgRef = useRef<SVGSVGElement>(null);
   const clipId = `clip${useId().replace(/[^a-zA-Z0-9]/g, '')}`;
   const [x0, x1] = view ?? full;
@@ -127,6 +151,39 @@ export default function CurveChart({
     const next: [number, number] = [Math.max(full[0], mid - half), Math.min(full[1], mid + half)];
     setView(next[0] <= full[0] && next[1] >= full[1] ? null : next);
   };
+  const pan = (fraction: number) => {
+    if (!view) return;
+    const span = x1 - x0;
+    const lo = Math.min(Math.max(full[0], x0 + fraction * span), full[1] - span);
+    setView([lo, lo + span]);
+  };
+  const onKey = (e: KeyboardEvent<HTMLDivElement>) => {
+    const act: Record<string, () => void> = {
+      '+': () => zoom(0.5),
+      '=': () => zoom(0.5),
+      '-': () => zoom(2),
+      '−': () => zoom(2),
+      '0': () => setView(null),
+      ArrowLeft: () => pan(-0.25),
+      ArrowRight: () => pan(0.25),
+    };
+    const f = act[e.key];
+    if (f) {
+      e.preventDefault();
+      f();
+    }
+  };
+  // Samples for the readout: the part in view, thinned once per view.
+  const readoutRuns = useMemo(
+    () => curves.map((c) => visibleRuns(c, x0, x1, 4000)),
+    [curves, x0, x1],
+  );
+  const read = cursor === null ? null : nearest(readoutRuns, cursor);
+  const readValue = (v: number) => {
+    if ('label' in quantity) return `${quantity.label} = ${v.toPrecision(4)}`;
+    const u = currentUnit(Math.abs(v), quantity.per ?? '');
+    return `${quantity.symbol} = ${(v * u.factor).toPrecision(4)} ${u.unit}`;
+  };
 
   return (
     <div>
@@ -136,6 +193,24 @@ export default function CurveChart({
         </button>
         <button type="button" className={buttonQuiet} onClick={() => zoom(2)} disabled={!view}>
           Zoom out
+        </button>
+        <button
+          type="button"
+          className={buttonQuiet}
+          onClick={() => pan(-0.25)}
+          disabled={!view || x0 <= full[0]}
+          aria-label="Pan to lower potentials"
+        >
+          ←
+        </button>
+        <button
+          type="button"
+          className={buttonQuiet}
+          onClick={() => pan(0.25)}
+          disabled={!view || x1 >= full[1]}
+          aria-label="Pan to higher potentials"
+        >
+          →
         </button>
         <button
           type="button"
@@ -153,7 +228,15 @@ export default function CurveChart({
           <span className="num">
             {x0.toFixed(3)} … {x1.toFixed(3)} V
           </span>
-          <span className="hidden sm:inline"> · drag across the plot to zoom</span>
+          <span className="hidden sm:inline">
+            {' '}
+            · drag across the plot to zoom; + − ← → 0 on the focused plot
+          </span>
+        </span>
+        <span className="num" data-testid="curve-readout">
+          {read
+            ? `${curves.length > 1 ? `${curves[read.curve]!.label}: ` : ''}E = ${read.x.toFixed(4)} V, ${readValue(read.y)}`
+            : ''}
         </span>
         {figureName && (
           <span className="ml-auto flex gap-2">
@@ -176,142 +259,177 @@ export default function CurveChart({
           </span>
         )}
       </div>
-      <ChartFrame
-        height={legend === 'below' ? height + 8 + curves.length * 18 : height}
-        svgRef={svgRef}
-        title={`Current against potential: ${curves.map((c) => c.label).join(', ')}`}
+      <div
+        tabIndex={0}
+        role="group"
+        aria-label="Raw curve: + and − zoom, arrow keys pan, 0 shows all"
+        onKeyDown={onKey}
+        className="rounded focus:outline-2 focus:outline-cobalt"
+        data-testid="curve-plot"
       >
-        {(width) => {
-          const budget = Math.max(200, Math.round((width - M.left - M.right) * 2));
-          const runs = curves.map((c) =>
-            visibleRuns(c, x0, x1, budget / Math.max(1, curves.length)),
-          );
-          let maxAbs = 0;
-          let ylo = Infinity;
-          let yhi = -Infinity;
-          for (const rs of runs)
-            for (const r of rs)
-              for (const v of r.y) {
-                if (!Number.isFinite(v)) continue;
-                ylo = Math.min(ylo, v);
-                yhi = Math.max(yhi, v);
-                maxAbs = Math.max(maxAbs, Math.abs(v));
-              }
-          if (!Number.isFinite(ylo)) [ylo, yhi] = [-1e-6, 1e-6];
+        <ChartFrame
+        height={legend === 'below' ? height + 8 + curves.length * 18 : height}
+          svgRef={svgRef}
+          title={`Current against potential: ${curves.map((c) => c.label).join(', ')}`}
+        >
+          {(width) => {
+            const budget = Math.max(200, Math.round((width - M.left - M.right) * 2));
+            const runs = curves.map((c) =>
+              visibleRuns(c, x0, x1, budget / Math.max(1, curves.length)),
+            );
+            let maxAbs = 0;
+            let ylo = Infinity;
+            let yhi = -Infinity;
+            for (const rs of runs)
+              for (const r of rs)
+                for (const v of r.y) {
+                  if (!Number.isFinite(v)) continue;
+                  ylo = Math.min(ylo, v);
+                  yhi = Math.max(yhi, v);
+                  maxAbs = Math.max(maxAbs, Math.abs(v));
+                }
+            if (!Number.isFinite(ylo)) [ylo, yhi] = [-1e-6, 1e-6];
           const u =
             'label' in quantity ? { factor: 1, unit: '' } : currentUnit(maxAbs, quantity.per ?? '');
           const yLabel = 'label' in quantity ? quantity.label : `${quantity.symbol} / ${u.unit}`;
-          const x = linearScale([x0, x1], [M.left, width - M.right]);
-          const [dlo, dhi] = padded(ylo * u.factor, yhi * u.factor, 0.06, 1);
-          const yu = linearScale([dlo, dhi], [height - M.bottom, M.top]);
-          const y = (v: number) => yu(v * u.factor);
-          const toData = (clientX: number, el: Element) =>
-            x.invert(clientX - el.getBoundingClientRect().left + M.left);
-          return (
-            <>
-              <AxisBottom
-                scale={x}
-                ticks={niceTicks(x0, x1, width < 480 ? 4 : 8)}
-                y={height - M.bottom}
-                top={M.top}
-                label={xLabel}
-              />
-              <AxisLeft
-                scale={yu}
-                ticks={niceTicks(dlo, dhi, 6)}
-                x={M.left}
-                right={width - M.right}
-                label={yLabel}
-              />
-              <clipPath id={clipId}>
-                <rect
-                  x={M.left}
-                  y={M.top}
-                  width={Math.max(0, width - M.left - M.right)}
-                  height={height - M.top - M.bottom}
+            const x = linearScale([x0, x1], [M.left, width - M.right]);
+            const [dlo, dhi] = padded(ylo * u.factor, yhi * u.factor, 0.06, 1);
+            const yu = linearScale([dlo, dhi], [height - M.bottom, M.top]);
+            const y = (v: number) => yu(v * u.factor);
+            const toData = (clientX: number, el: Element) =>
+              x.invert(clientX - el.getBoundingClientRect().left + M.left);
+            return (
+              <>
+                <AxisBottom
+                  scale={x}
+                  ticks={niceTicks(x0, x1, width < 480 ? 4 : 8)}
+                  y={height - M.bottom}
+                  top={M.top}
+                  label={xLabel}
                 />
-              </clipPath>
-              <g clipPath={`url(#${clipId})`}>
-                {runs.map((rs, i) => (
-                  <path
-                    key={curves[i]!.label}
-                    d={path(rs, x, y)}
-                    fill="none"
-                    stroke={curves[i]!.colour ?? seriesColour(i)}
-                    strokeDasharray={curves[i]!.dash}
-                    strokeWidth={1.4}
-                    strokeLinejoin="round"
+                <AxisLeft
+                  scale={yu}
+                  ticks={niceTicks(dlo, dhi, 6)}
+                  x={M.left}
+                  right={width - M.right}
+                label={yLabel}
+                />
+                <clipPath id={clipId}>
+                  <rect
+                    x={M.left}
+                    y={M.top}
+                    width={Math.max(0, width - M.left - M.right)}
+                    height={height - M.top - M.bottom}
                   />
-                ))}
-              </g>
+                </clipPath>
+                <g clipPath={`url(#${clipId})`}>
+                  {runs.map((rs, i) => (
+                    <path
+                      key={curves[i]!.label}
+                      d={path(rs, x, y)}
+                      fill="none"
+                      stroke={curves[i]!.colour ?? seriesColour(i)}
+                    strokeDasharray={curves[i]!.dash}
+                      strokeWidth={1.4}
+                      strokeLinejoin="round"
+                    />
+                  ))}
+                </g>
               {legend === 'inside' &&
                 curves.length > 1 &&
-                curves.map((c, i) => (
-                  <g key={c.label} transform={`translate(${M.left + 10},${M.top + 10 + i * 16})`}>
-                    <rect width={14} height={3} y={-2} fill={c.colour ?? seriesColour(i)} />
-                    <text x={20} dy="0.32em" fontSize={11} className="fill-ink dark:fill-night-ink">
-                      {c.label}
-                    </text>
-                  </g>
-                ))}
-              {legend === 'below' && (
-                <g data-testid="curve-legend">
-                  {curves.map((c, i) => (
-                    <g key={c.label} transform={`translate(${M.left},${height + 8 + i * 18})`}>
-                      <line
-                        x1={0}
-                        x2={24}
-                        stroke={c.colour ?? seriesColour(i)}
-                        strokeDasharray={c.dash}
-                        strokeWidth={2.5}
-                      />
+                  curves.map((c, i) => (
+                    <g key={c.label} transform={`translate(${M.left + 10},${M.top + 10 + i * 16})`}>
+                      <rect width={14} height={3} y={-2} fill={c.colour ?? seriesColour(i)} />
                       <text
-                        x={30}
+                        x={20}
                         dy="0.32em"
-                        fontSize={12}
+                        fontSize={11}
                         className="fill-ink dark:fill-night-ink"
                       >
                         {c.label}
                       </text>
                     </g>
                   ))}
-                </g>
-              )}
-              {drag && (
+                {legend === 'below' && (
+                  <g data-testid="curve-legend">
+                    {curves.map((c, i) => (
+                      <g key={c.label} transform={`translate(${M.left},${height + 8 + i * 18})`}>
+                        <line
+                          x1={0}
+                          x2={24}
+                          stroke={c.colour ?? seriesColour(i)}
+                          strokeDasharray={c.dash}
+                          strokeWidth={2.5}
+                        />
+                        <text
+                          x={30}
+                          dy="0.32em"
+                          fontSize={12}
+                          className="fill-ink dark:fill-night-ink"
+                        >
+                          {c.label}
+                        </text>
+                      </g>
+                    ))}
+                  </g>
+                )}
+                {read && !drag && (
+                  <g pointerEvents="none">
+                    <line
+                      x1={x(read.x)}
+                      x2={x(read.x)}
+                      y1={M.top}
+                      y2={height - M.bottom}
+                      className="stroke-muted dark:stroke-night-muted"
+                      strokeDasharray="3 3"
+                    />
+                    <circle
+                      cx={x(read.x)}
+                      cy={y(read.y)}
+                      r={3.5}
+                      fill={curves[read.curve]!.colour ?? seriesColour(read.curve)}
+                    />
+                  </g>
+                )}
+                {drag && (
+                  <rect
+                    x={x(Math.min(drag.from, drag.to))}
+                    y={M.top}
+                    width={Math.abs(x(drag.to) - x(drag.from))}
+                    height={height - M.top - M.bottom}
+                    className="fill-cobalt/15 stroke-cobalt"
+                  />
+                )}
                 <rect
-                  x={x(Math.min(drag.from, drag.to))}
+                  x={M.left}
                   y={M.top}
-                  width={Math.abs(x(drag.to) - x(drag.from))}
+                  width={Math.max(0, width - M.left - M.right)}
                   height={height - M.top - M.bottom}
-                  className="fill-cobalt/15 stroke-cobalt"
+                  fill="transparent"
+                  className="cursor-crosshair touch-none"
+                  onPointerDown={(e) => {
+                    e.currentTarget.setPointerCapture(e.pointerId);
+                    const v = toData(e.clientX, e.currentTarget);
+                    setDrag({ from: v, to: v });
+                  }}
+                  onPointerMove={(e) => {
+                    const v = toData(e.clientX, e.currentTarget);
+                    if (drag) setDrag({ ...drag, to: v });
+                    else setCursor(v);
+                  }}
+                  onPointerLeave={() => setCursor(null)}
+                  onPointerUp={() => {
+                    if (drag && Math.abs(x(drag.to) - x(drag.from)) > 6)
+                      setView([Math.min(drag.from, drag.to), Math.max(drag.from, drag.to)]);
+                    setDrag(null);
+                  }}
+                  onDoubleClick={() => setView(null)}
                 />
-              )}
-              <rect
-                x={M.left}
-                y={M.top}
-                width={Math.max(0, width - M.left - M.right)}
-                height={height - M.top - M.bottom}
-                fill="transparent"
-                className="cursor-crosshair touch-none"
-                onPointerDown={(e) => {
-                  e.currentTarget.setPointerCapture(e.pointerId);
-                  const v = toData(e.clientX, e.currentTarget);
-                  setDrag({ from: v, to: v });
-                }}
-                onPointerMove={(e) =>
-                  drag && setDrag({ ...drag, to: toData(e.clientX, e.currentTarget) })
-                }
-                onPointerUp={() => {
-                  if (drag && Math.abs(x(drag.to) - x(drag.from)) > 6)
-                    setView([Math.min(drag.from, drag.to), Math.max(drag.from, drag.to)]);
-                  setDrag(null);
-                }}
-                onDoubleClick={() => setView(null)}
-              />
-            </>
-          );
-        }}
-      </ChartFrame>
+              </>
+            );
+          }}
+        </ChartFrame>
+      </div>
     </div>
   );
 }

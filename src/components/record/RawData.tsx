@@ -1,11 +1,9 @@
 import { useQuery } from '@tanstack/react-query';
 import { useMemo, useState } from 'react';
-import { analyzeText, type AnalysisOptions, type AnalysisResult } from '#lib/analysis/analyze.ts';
+import { type AnalysisOptions, type AnalysisResult } from '#lib/analysis/analyze.ts';
 import { sFromCe } from '#lib/analysis/cv.ts';
-import { parseCriterion } from '#lib/analysis/limits.ts';
-import { normalise } from '#lib/analysis/normalise.ts';
-import { readTable } from '#lib/analysis/read.ts';
 import { errorMessage } from '#lib/client/api.ts';
+import { analyseInWorker, rawCurveInWorker, RawReadError } from '#lib/client/raw-in-worker.ts';
 import { rawFileQueries, type AnalysisView, type RecordDetail } from '#lib/client/records.ts';
 import CriterionPlot, { type CriterionPoint } from '../charts/CriterionPlot.tsx';
 import CurveChart, { type Curve } from '../charts/CurveChart.tsx';
@@ -52,17 +50,8 @@ export function criterionSeries(res: AnalysisResult): {
   };
 }
 
-/** A raw file's samples as the engine reads them for its analysis: volts and amperes, IUPAC sign, on the file's own scale. */
-export function rawSamples(
-  text: string,
-  params: AnalysisOptions,
-): { potential: Float64Array; current: Float64Array } {
-  const s = normalise(
-    readTable(text, params.columns ? { columns: params.columns } : {}),
-    params.sign ?? 'iupac',
-  );
-  return { potential: s.potential, current: s.current };
-}
+// Read where the overlay reads it too; kept importable from here.
+export { rawSamples } from '#lib/client/raw-samples.ts';
 
 function limitLine(res: AnalysisResult, ref: string): string {
   const l = res.limit;
@@ -74,39 +63,42 @@ function limitLine(res: AnalysisResult, ref: string): string {
 
 function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
   const file = r.rawFiles.find((f) => f.id === a.rawFileId);
-  const text = useQuery({ ...rawFileQueries.text(a.rawFileId), enabled: Boolean(file) });
   const stored = a.result as AnalysisResult;
   const params = a.parameters as AnalysisOptions;
   const ref = (params.toRef ?? params.fromRef ?? 'the file’s reference').replace(/^ref-/, '');
   const [criterion, setCriterion] = useState('');
+  const shiftV = stored.reference?.offsetV ?? 0;
 
+  // The file's bytes are fetched here and read in a Web Worker; the page only draws the curve.
+  const bytes = useQuery({ ...rawFileQueries.bytes(a.rawFileId), enabled: Boolean(file) });
+  const raw = useQuery({
+    queryKey: ['raw-files', a.rawFileId, 'curve', shiftV, params] as const,
+    queryFn: () => rawCurveInWorker(bytes.data!, params, shiftV),
+    enabled: Boolean(bytes.data),
+    staleTime: Infinity,
+    retry: (n, err) => !(err instanceof RawReadError) && n < 2,
+  });
   const curves = useMemo<Curve[] | { error: string } | null>(() => {
-    if (!text.data) return null;
-    try {
-      const s = rawSamples(text.data, params);
-      const shift = stored.reference?.offsetV ?? 0;
-      const x = shift ? s.potential.map((v) => v + shift) : s.potential;
-      return [{ label: file?.name ?? 'curve', x, y: s.current }];
-    } catch (e) {
-      return { error: errorMessage(e) };
-    }
-    // params, the file and the stored offset belong to the analysis, fixed for this block.
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [text.data]);
+    if (raw.error instanceof RawReadError) return { error: raw.error.message };
+    if (!raw.data) return null;
+    return [{ label: file?.name ?? 'curve', x: raw.data.x, y: raw.data.y }];
+  }, [raw.data, raw.error, file?.name]);
 
-  // Recomputed whenever the criterion or the file changes: the engine runs here, on the raw text.
-  const recomputed = useMemo<{ result?: AnalysisResult; error?: string } | null>(() => {
-    if (!criterion) return null;
-    if (!text.data) return { error: 'the raw file is still loading' };
-    try {
-      parseCriterion(criterion);
-      return { result: analyzeText(text.data, { ...params, criterion }) };
-    } catch (e) {
-      return { error: errorMessage(e) };
-    }
-    // params belong to the analysis, fixed for this block.
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [criterion, text.data]);
+  // Recomputed whenever the criterion changes: the engine runs in the worker, on the raw text.
+  const again = useQuery({
+    queryKey: ['raw-files', a.rawFileId, 'analyse', criterion, params] as const,
+    queryFn: () => analyseInWorker(bytes.data!, params, criterion),
+    enabled: Boolean(bytes.data && criterion),
+    staleTime: Infinity,
+    retry: (n, err) => !(err instanceof RawReadError) && n < 2,
+  });
+  const recomputed: { result?: AnalysisResult; error?: string } | null = !criterion
+    ? null
+    : again.data
+      ? { result: again.data }
+      : again.error
+        ? { error: errorMessage(again.error) }
+        : null;
   const shown = recomputed?.result ?? stored;
   const series = criterionSeries(shown);
   // The reported limit is marked only when it is on the record's own reference, the scale the
@@ -133,8 +125,8 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
       </div>
       <div>
         <h4 className="text-sm font-semibold mb-1">Raw curve</h4>
-        {text.isError ? (
-          <Failed error={text.error} retry={() => void text.refetch()} what="the raw file" />
+        {bytes.isError ? (
+          <Failed error={bytes.error} retry={() => void bytes.refetch()} what="the raw file" />
         ) : !curves ? (
           <Loading what="the raw curve" />
         ) : 'error' in curves ? (

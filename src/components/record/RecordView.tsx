@@ -602,15 +602,26 @@ function View({
   signedIn,
   origin,
   version,
+  initial,
 }: {
   handle: string;
   signedIn: boolean;
   origin: string;
   version: number | null;
+  initial: RecordDetail | undefined;
 }) {
-  const latest = useQuery({ ...recordQueries.detail(handle), enabled: version === null });
+  // The page hands over the record it rendered with (the version asked for, or the one this
+  // reader sees), so the island does not fetch it again.
+  const [renderedAt] = useState(() => Date.now());
+  const seed = initial ? { initialData: initial, initialDataUpdatedAt: renderedAt } : {};
+  const latest = useQuery({
+    ...recordQueries.detail(handle),
+    ...(version === null ? seed : {}),
+    enabled: version === null,
+  });
   const pinned = useQuery({
     ...recordQueries.version(handle, version ?? 0),
+    ...(version !== null ? seed : {}),
     enabled: version !== null,
   });
   const q = version === null ? latest : pinned;
@@ -700,16 +711,25 @@ export default function RecordView({
   signedIn = false,
   origin = '',
   version = null,
+  initial,
 }: {
   handle: string;
   signedIn?: boolean;
   origin?: string;
   /** A version asked for in the address (`?version=2`); null for the version this reader sees. */
   version?: number | null;
+  /** The record as the page read it (the same answer as the API gives for that version). */
+  initial?: RecordDetail;
 }) {
   return (
     <QueryClientProvider client={queryClient}>
-      <View handle={handle} signedIn={signedIn} origin={origin} version={version} />
+      <View
+        handle={handle}
+        signedIn={signedIn}
+        origin={origin}
+        version={version}
+        initial={initial}
+      />
     </QueryClientProvider>
   );
 }

@@ -268,6 +268,19 @@ export const recordQueries = {
 
 export const rawFileQueries = {
   /** A raw file's text (exports are text; the engine reads it in the browser). */
+  bytes: (id: string) =>
+    queryOptions({
+      queryKey: ['raw-files', id, 'bytes'] as const,
+      queryFn: async ({ signal }) => {
+        const res = await fetch(`/api/v1/raw-files/${encodeURIComponent(id)}`, {
+          credentials: 'same-origin',
+          signal,
+        });
+        if (!res.ok) throw new Error(`the raw file could not be read (HTTP ${res.status})`);
+        return res.arrayBuffer();
+      },
+      staleTime: Infinity,
+    }),
   text: (id: string) =>
     queryOptions({
       queryKey: ['raw-files', id, 'text'] as const,

@@ -36,7 +36,6 @@ import {
   countRecords,
   facetCounts,
   searchAfter,
-  searchGeneration,
   searchRecords,
   searchRowsByHandles,
   type AnalysisRow,
@@ -51,7 +50,7 @@ import { config } from './config.ts';
 import { log } from './log.ts';
 import { indexAnswers, SearchIndex } from './search-index.ts';
 import { resolveTerms } from './vocabulary.ts';
-import { sharedReads } from './shared-reads.ts';
+import { currentGeneration, GenerationCache } from './generation.ts';
 import type { CommonCriterionResult, SearchItem, SearchResult } from '../shared/record-views.ts';
 export type { CommonCriterionResult, SearchItem, SearchResult };
 
@@ -511,51 +510,6 @@ async function decorate(db: Db, rows: SearchRow[], q: RecordQuery): Promise<Sear
     if (q.criterion) item.commonCriterion = recompute(row, analysisById, q.criterion);
     return item;
   });
-}
-
-/**
- * Answers kept per generation of the collection (see `searchGeneration`), for the two generations
- * asked for last: an answer is never served for data or a day it was not computed on. Least
- * recently used entries go first; concurrent misses on one key share one query.
- */
-class GenerationCache<T> {
-  // The two generations asked for last: a replica a moment behind the primary and the primary
-  // itself may both be read while a change replays, and neither should drop the other's answers.
-  private readonly generations = new Map<string, Map<string, Promise<T>>>();
-  constructor(private readonly size: number) {}
-
-  get(generation: string, key: string, compute: () => Promise<T>): Promise<T> {
-    let entries = this.generations.get(generation);
-    if (entries) {
-      this.generations.delete(generation);
-    } else {
-      entries = new Map();
-      if (this.generations.size >= 2)
-        this.generations.delete(this.generations.keys().next().value!);
-    }
-    this.generations.set(generation, entries);
-    let entry = entries.get(key);
-    if (entry) {
-      entries.delete(key); // re-inserted below: the Map's order is least recently used first
-    } else {
-      const fresh = compute();
-      const held = entries;
-      fresh.catch(() => held.get(key) === fresh && held.delete(key));
-      if (entries.size >= this.size) entries.delete(entries.keys().next().value!);
-      entry = fresh;
-    }
-    entries.set(key, entry);
-    return entry;
-  }
-}
-
-const generationReaders = new WeakMap<Db, () => Promise<string>>();
-
-/** The current search generation of this database, read as `sharedReads` describes. */
-function currentGeneration(db: Db): Promise<string> {
-  let reader = generationReaders.get(db);
-  if (!reader) generationReaders.set(db, (reader = sharedReads(() => searchGeneration(db))));
-  return reader();
 }
 
 // Totals and facet counts cost a pass over every matching row and a page sorted on anything but

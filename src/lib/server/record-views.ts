@@ -7,7 +7,9 @@ import type {
   RecordDetail,
   RecordSummary,
 } from '../shared/record-views.ts';
+import type { Db } from './db/index.ts';
 import { NotFoundError } from './errors.ts';
+import { currentGeneration, GenerationCache } from './generation.ts';
 import {
   audienceOf,
   can,
@@ -198,14 +200,25 @@ export async function visibleHead(
   return head;
 }
 
-/** A record with its current version, files, analyses and review history. */
+// Record answers held per generation, per reader: what a record shows (which version, its
+// actions, its reviews, whether it is visible at all) depends on who asks, so the whole principal
+// is part of the key; every table a record answer reads moves the generation when it changes.
+const details = new GenerationCache<RecordDetail>(1_000);
+
+/** A record as this principal reads it (working or published version), files, analyses and reviews. */
 export async function getRecord(
   db: DbOrTrx,
   principal: Principal,
   handle: string,
 ): Promise<RecordDetail> {
-  const head = await visibleHead(db, principal, handle);
-  return detail(db, principal, head, versionFor(principal, head));
+  const read = async () => {
+    const head = await visibleHead(db, principal, handle);
+    return detail(db, principal, head, versionFor(principal, head));
+  };
+  // Inside a transaction the generation has not moved yet for its own changes: read afresh.
+  if (db.isTransaction) return read();
+  const generation = await currentGeneration(db as Db);
+  return details.get(generation, JSON.stringify([handle, principal]), read);
 }
 
 /** The record at `version` as this principal may see it (the caller checked that they may read that version). */
