@@ -185,6 +185,21 @@ describe('a flag resolved by asking for changes', () => {
       });
       expect(r.limits.anodic.valueV).toBe(1.05);
     }
+    // Answers are held per generation and per reader: after the insiders' reads, readers are
+    // still answered with the published version, in the API and in the record the page carries.
+    const again = await ok(await anonymous(`/api/v1/records/${handle}`), 'reader again');
+    expect(again).toMatchObject({ version: 1, revision: { version: null } });
+    const readerAgain = await ok(await as(reader.cookie, `/api/v1/records/${handle}`), 'reader');
+    expect(readerAgain.version).toBe(1);
+    for (const html of [
+      await (await anonymous(`/windows/${handle}`)).text(),
+      await (await as(reader.cookie, `/windows/${handle}`)).text(),
+    ]) {
+      expect(html).toContain(title);
+      expect(html).not.toContain('Anodic limit corrected');
+    }
+    const ownPage = await (await as(owner.cookie, `/windows/${handle}`)).text();
+    expect(ownPage).toContain('Anodic limit corrected');
 
     // Publishing the revision moves readers on.
     await ok(

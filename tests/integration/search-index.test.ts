@@ -138,6 +138,14 @@ beforeAll(async () => {
       over,
     });
   }
+  // Some embargoes still in the future were lifted early by the background job's mark: those
+  // records are open to every reader on both paths.
+  await sql`UPDATE records r SET embargo_lifted_for = v.embargo_until
+              FROM record_versions v
+             WHERE v.record_id = r.id AND v.version = coalesce(r.published_version, r.current_version)
+               AND v.embargo_until > now() AND right(r.handle, 1) IN ('1', '4', '7')`.execute(
+    appDb(),
+  );
   const outsider = await principal({ labs: [[labB, 'member']] });
   scopes = [
     { name: 'anonymous', scope: readScope(ANONYMOUS) },

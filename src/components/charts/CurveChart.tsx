@@ -268,7 +268,7 @@ export default function CurveChart({
         data-testid="curve-plot"
       >
         <ChartFrame
-        height={legend === 'below' ? height + 8 + curves.length * 18 : height}
+          height={legend === 'below' ? height + 8 + curves.length * 18 : height}
           svgRef={svgRef}
           title={`Current against potential: ${curves.map((c) => c.label).join(', ')}`}
         >
@@ -289,9 +289,11 @@ export default function CurveChart({
                   maxAbs = Math.max(maxAbs, Math.abs(v));
                 }
             if (!Number.isFinite(ylo)) [ylo, yhi] = [-1e-6, 1e-6];
-          const u =
-            'label' in quantity ? { factor: 1, unit: '' } : currentUnit(maxAbs, quantity.per ?? '');
-          const yLabel = 'label' in quantity ? quantity.label : `${quantity.symbol} / ${u.unit}`;
+            const u =
+              'label' in quantity
+                ? { factor: 1, unit: '' }
+                : currentUnit(maxAbs, quantity.per ?? '');
+            const yLabel = 'label' in quantity ? quantity.label : `${quantity.symbol} / ${u.unit}`;
             const x = linearScale([x0, x1], [M.left, width - M.right]);
             const [dlo, dhi] = padded(ylo * u.factor, yhi * u.factor, 0.06, 1);
             const yu = linearScale([dlo, dhi], [height - M.bottom, M.top]);
@@ -312,7 +314,7 @@ export default function CurveChart({
                   ticks={niceTicks(dlo, dhi, 6)}
                   x={M.left}
                   right={width - M.right}
-                label={yLabel}
+                  label={yLabel}
                 />
                 <clipPath id={clipId}>
                   <rect
@@ -329,14 +331,14 @@ export default function CurveChart({
                       d={path(rs, x, y)}
                       fill="none"
                       stroke={curves[i]!.colour ?? seriesColour(i)}
-                    strokeDasharray={curves[i]!.dash}
+                      strokeDasharray={curves[i]!.dash}
                       strokeWidth={1.4}
                       strokeLinejoin="round"
                     />
                   ))}
                 </g>
-              {legend === 'inside' &&
-                curves.length > 1 &&
+                {legend === 'inside' &&
+                  curves.length > 1 &&
                   curves.map((c, i) => (
                     <g key={c.label} transform={`translate(${M.left + 10},${M.top + 10 + i * 16})`}>
                       <rect width={14} height={3} y={-2} fill={c.colour ?? seriesColour(i)} />

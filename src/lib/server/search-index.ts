@@ -88,6 +88,7 @@ const SORT_COLUMNS: Record<Exclude<SortKey, 'handle'>, RankedColumn> = {
   width: 'width_key',
   scanRate: 'scan_rate_mv_s',
   temperature: 'temperature_c',
+  // Ranked within its basis (mol/L, mol/kg… are never one scale), as the SQL path sorts it.
   concentration: 'salt_concentration',
 };
 
@@ -151,6 +152,7 @@ class Doubles {
 function rankOf(
   values: Float64Array,
   nullOrdinals: number[],
+  groups?: Uint32Array,
 ): { rank: Uint32Array; nonNull: number } {
   const n = values.length;
   const isNull = new Uint8Array(n);
@@ -183,10 +185,38 @@ function rankOf(
     }
     packed[o] = vr * ORDINAL_BITS + o;
   }
+  if (groups) regroup(packed, groups, d.length + 2);
   packed.sort();
   const rank = new Uint32Array(n);
   for (let p = 0; p < n; p++) rank[packed[p]! % ORDINAL_BITS] = p;
-  return { rank, nonNull: n - nullOrdinals.length };
+  // A grouped key is a row value, (group, value): never NULL as a whole, so no NULL block.
+  return { rank, nonNull: groups ? n : n - nullOrdinals.length };
+}
+
+/**
+ * Turns packed (value rank, ordinal) pairs into (group, value rank, ordinal) ones: the order of
+ * PostgreSQL's row comparison `(group, value)`, where a NULL field sorts after every other. The
+ * composite ranks are made dense again so the packing stays exact.
+ */
+function regroup(packed: Float64Array, groups: Uint32Array, valueRanks: number): void {
+  const composite = new Float64Array(packed.length);
+  for (let i = 0; i < packed.length; i++) {
+    const o = packed[i]! % ORDINAL_BITS;
+    const vr = (packed[i]! - o) / ORDINAL_BITS;
+    composite[i] = groups[o]! * valueRanks + vr;
+  }
+  const distinct = Float64Array.from(new Set(composite)).sort();
+  for (let i = 0; i < packed.length; i++) {
+    const o = packed[i]! % ORDINAL_BITS;
+    let lo = 0;
+    let hi = distinct.length - 1;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (distinct[mid]! < composite[i]!) lo = mid + 1;
+      else hi = mid;
+    }
+    packed[i] = lo * ORDINAL_BITS + o;
+  }
 }
 
 export interface IndexPage {
@@ -233,6 +263,7 @@ export class SearchIndex {
       RankedColumn,
       number[]
     >;
+    const basisOf: (string | null)[] = [];
     let n = 0;
     let handlesOk = true;
     const snapshot = await readIndexSnapshot(db, (rows: IndexRow[]) => {
@@ -248,6 +279,7 @@ export class SearchIndex {
           if (Array.isArray(v)) for (const x of v) columns[c].add(x, o);
           else columns[c].add(v, o);
         }
+        basisOf.push(row.salt_basis);
         if (row.embargoed) embargoed.push(o);
         if (row.raw_backed) rawBacked.push(o);
         for (const c of RANGE_COLUMNS) ranges[c].push(row[c] ?? Number.NaN);
@@ -266,7 +298,20 @@ export class SearchIndex {
     const byHandleNumber = new Uint32Array(max + 1);
     handleNumbers.forEach((h, o) => (byHandleNumber[h] = o + 1));
     const ranks = {} as Record<RankedColumn, { rank: Uint32Array; nonNull: number }>;
-    for (const col of RANKED_COLUMNS) ranks[col] = rankOf(keys[col].done(), nulls[col]);
+    // Concentrations sort grouped by basis (NULL basis last), the bases in the database's order.
+    const basisOrder = new Map(snapshot.bases.map((b, i) => [b, i]));
+    const groups = Uint32Array.from(basisOf, (b) => {
+      if (b === null) return snapshot.bases.length;
+      const g = basisOrder.get(b);
+      if (g === undefined) throw new Error(`concentration basis "${b}" missing from the snapshot`);
+      return g;
+    });
+    for (const col of RANKED_COLUMNS)
+      ranks[col] = rankOf(
+        keys[col].done(),
+        nulls[col],
+        col === 'salt_concentration' ? groups : undefined,
+      );
     const bitmap = (list: number[]) => {
       const b = new RoaringBitmap32(Uint32Array.from(list));
       b.runOptimize();

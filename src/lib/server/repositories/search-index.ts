@@ -49,6 +49,8 @@ export type RankedColumn = (typeof RANKED_COLUMNS)[number];
 export interface IndexSnapshot {
   generation: string;
   labs: { id: string; slug: string }[];
+  /** The concentration bases present, in the database's order of the text. */
+  bases: string[];
 }
 
 /**
@@ -75,7 +77,7 @@ export async function readIndexSnapshot(
       for (;;) {
         const r = await sql<IndexRow>`
           SELECT handle, status, owner_id, lab_id,
-                 (visibility = 'lab' AND embargo_until IS NOT NULL
+                 (visibility = 'lab' AND embargo_until IS NOT NULL AND NOT embargo_lifted
                    AND (embargo_until::timestamp AT TIME ZONE 'UTC') > now()) AS embargoed,
                  salt_basis, we_material_id, method, criterion_kind, cell_type, evidence_level, raw_backed,
                  component_ids, salt_ids, solvent_ids, additive_ids, salt_concentration, scan_rate_mv_s, temperature_c,
@@ -90,7 +92,10 @@ export async function readIndexSnapshot(
         if (r.rows.length < batch) break;
       }
       const labs = await trx.selectFrom('labs').select(['id', 'slug']).execute();
-      return { generation: g.rows[0]!.g, labs };
+      const bases = await sql<{ b: string }>`
+        SELECT salt_basis AS b FROM record_search WHERE salt_basis IS NOT NULL
+         GROUP BY salt_basis ORDER BY salt_basis`.execute(trx);
+      return { generation: g.rows[0]!.g, labs, bases: bases.rows.map((r) => r.b) };
     });
 }
 
