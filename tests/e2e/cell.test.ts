@@ -88,11 +88,15 @@ async function limitsAtS01(electrode: string, salt: string) {
   })) as { anodic: number; cathodic: number }[];
 }
 
+/** The key of the electrolyte with this salt that the published activated-carbon records use
+ * (other tests of the run may add records with the same salt on other electrodes). */
 async function keyOf(salt: string): Promise<string> {
   const res = await fetch(new URL('/api/v1/cell/choices', appUrl()));
   const { electrolytes } = await res.json();
-  return electrolytes.find((e: { electrolyte: { salts: { term: string }[] } }) =>
-    e.electrolyte.salts.some((s) => s.term === salt),
+  return electrolytes.find(
+    (e: { electrolyte: { salts: { term: string }[] }; materials: { term: string }[] }) =>
+      e.electrolyte.salts.some((s) => s.term === salt) &&
+      e.materials.some((m) => m.term === 'activated-carbon'),
   ).key;
 }
 
