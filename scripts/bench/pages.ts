@@ -1,27 +1,36 @@
 // Benchmark (not a test): server render time of the main pages on the built server, the gzip
 // size of the JavaScript each page loads for its islands, a record page and its API answer under
-// 32 connections, and what goes out compressed. Ends with one JSON line of figures.
-// Usage: npm run bench:pages [-- --requests 200 --seconds 10 --path /windows]
-import { readFileSync } from 'node:fs';
+// 32 connections, what goes out compressed, and the longest main-thread task in Chromium at 4×
+// CPU slowdown on a record whose raw file has 10⁶ samples. Ends with one JSON line of figures.
+// Usage: npm run bench:pages [-- --requests 200 --seconds 10 --path /windows --samples 1000000]
+import { createHash, randomBytes } from 'node:crypto';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import autocannon from 'autocannon';
 import http from 'node:http';
+import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { gzipSync } from 'node:zlib';
+import { chromium } from 'playwright-core';
+import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/index.ts';
+import { createDb } from '#lib/server/db/index.ts';
 import { dataDir } from '../lib/paths.ts';
-import { percentile, report, startBenchStack } from './stack.ts';
+import { percentile, report, startBenchStack, type BenchStack } from './stack.ts';
 
 const { values } = parseArgs({
   options: {
     requests: { type: 'string', default: '200' },
     seconds: { type: 'string', default: '10' },
     path: { type: 'string', multiple: true },
+    samples: { type: 'string', default: '1000000' },
   },
 });
 const N = Number(values.requests);
 const RENDER_TARGET_MS = 50;
 const ISLAND_TARGET_KB = 150;
 const RECORD_RPS_TARGET = 1_500;
+const LONG_TASK_TARGET_MS = 200;
+const CPU_SLOWDOWN = 4;
 
 /** autocannon on one path; requests per second and p95 from every response's own time. */
 async function hammer(url: string, connections: number, seconds: number) {
@@ -159,9 +168,205 @@ async function main() {
         report('hashed asset cache-control', cache, 'immutable', cache.includes('immutable'));
       }
     }
+
+    // A record whose raw file has 10⁶ samples, in Chromium with the CPU slowed down.
+    const samples = Number(values.samples);
+    const big = await recordWithBigFile(stack, samples);
+    const m = await mainThreadOnRecord(`${stack.url}/windows/${big}`, CPU_SLOWDOWN);
+    console.log(
+      `\nThe record page of ${big} in Chromium at ${CPU_SLOWDOWN}× CPU slowdown (long tasks: over 50 ms):`,
+    );
+    report('curve drawn after', `${(m.drawnMs / 1000).toFixed(1)} s`, '—', true);
+    report(
+      `longest main-thread task, load and draw (${m.tasksOnLoad} long)`,
+      `${m.longestOnLoad.toFixed(0)} ms`,
+      `≤ ${LONG_TASK_TARGET_MS} ms`,
+      m.longestOnLoad <= LONG_TASK_TARGET_MS,
+    );
+    report(
+      'raw file downloaded to draw',
+      m.rawOnLoad ? `yes (${m.rawOnLoad})` : 'no',
+      'no',
+      m.rawOnLoad === 0,
+    );
+    report('bytes the page fetched (decoded)', `${(m.loadBytes / 1e6).toFixed(2)} MB`, '—', true);
+    report(
+      `longest task drawing every sample (${(m.everyMs / 1000).toFixed(1)} s)`,
+      `${m.longestOnEvery.toFixed(0)} ms`,
+      `≤ ${LONG_TASK_TARGET_MS} ms`,
+      m.longestOnEvery <= LONG_TASK_TARGET_MS,
+    );
+    figures.rawSamples = samples;
+    figures.longestTaskMs = Math.round(m.longestOnLoad);
+    figures.longestTaskEverySampleMs = Math.round(m.longestOnEvery);
+    figures.pageMB = Math.round(m.loadBytes / 1e4) / 100;
     console.log(JSON.stringify(figures));
   } finally {
     await stack.stop();
+  }
+}
+
+/**
+ * A published record with a raw file of `rows` samples, made through the API as a contributor
+ * and a curator do (declare, PUT to the presigned URL, complete, submit, publish); its handle.
+ */
+async function recordWithBigFile(stack: BenchStack, rows: number): Promise<string> {
+  const db = createDb(stack.adminUrl, 2);
+  try {
+    const { createToken } = await import('#lib/server/api-tokens.ts');
+    const person = async (role: 'contributor' | 'curator') => {
+      const u = await db
+        .insertInto('User')
+        .values({
+          email: `bench-${role}-${randomBytes(3).toString('hex')}@bench.test`,
+          name: `Bench ${role}`,
+          role,
+          emailVerified: new Date(),
+        })
+        .returning('id')
+        .executeTakeFirstOrThrow();
+      const principal = {
+        kind: 'user' as const,
+        id: u.id,
+        email: '',
+        name: null,
+        role,
+        labs: [],
+        via: 'session' as const,
+        scopes: ['read', 'write'] as ('read' | 'write')[],
+      };
+      const { token } = await createToken(db, principal, {
+        name: 'bench',
+        scopes: ['read', 'write'],
+        expiresInDays: 1,
+      });
+      return async (p: string, method = 'GET', body?: unknown) => {
+        const res = await fetch(stack.url + p, {
+          method,
+          headers: {
+            authorization: `Bearer ${token}`,
+            ...(body ? { 'content-type': 'application/json' } : {}),
+          },
+          body: body ? JSON.stringify(body) : undefined,
+        });
+        if (!res.ok) throw new Error(`${method} ${p}: ${res.status} ${await res.text()}`);
+        return res.json();
+      };
+    };
+    const contributor = await person('contributor');
+    const curator = await person('curator');
+    // Window opening 0.6…1.2 V, two cycles per vertex, sampled so the file has ≈ `rows` rows.
+    const vertices = [0.6, 0.7, 0.8, 0.9, 1.0, 1.1, 1.2];
+    const sweepV = 2 * 2 * vertices.reduce((a, b) => a + b, 0);
+    const text = formatExport(
+      cvWindowOpeningSamples({
+        verticesV: vertices,
+        cyclesPerVertex: 2,
+        scanRateVPerS: 0.005,
+        sampleIntervalS: sweepV / rows / 0.005,
+        noise: { currentA: 2e-7, seed: 7 },
+      }),
+    );
+    const bytes = Buffer.from(text);
+    const { content } = await import('../../tests/support/record-content.ts');
+    const rec = await contributor('/api/v1/records', 'POST', {
+      content: content({ title: `A record with a ${rows.toLocaleString('en')}-sample file` }),
+    });
+    const ticket = await contributor('/api/v1/uploads', 'POST', {
+      record: rec.handle,
+      name: 'big-cv.csv',
+      size: bytes.byteLength,
+      sha256: createHash('sha256').update(bytes).digest('hex'),
+      mediaType: 'text/csv',
+    });
+    const put = await fetch(ticket.url, { method: 'PUT', body: bytes, headers: ticket.headers });
+    if (!put.ok) throw new Error(`PUT ${put.status}`);
+    const done = await contributor(`/api/v1/uploads/${ticket.id}/complete`, 'POST');
+    await contributor(`/api/v1/records/${rec.handle}/transitions`, 'POST', {
+      action: 'submit',
+      version: done.record.version,
+    });
+    await curator(`/api/v1/review/records/${rec.handle}/decision`, 'POST', {
+      decision: 'publish',
+      version: done.record.version,
+    });
+    console.log(
+      `record ${rec.handle}: raw file of ${(text.split('\n').length - 2).toLocaleString('en')} samples, ${(bytes.byteLength / 1e6).toFixed(1)} MB`,
+    );
+    return rec.handle;
+  } finally {
+    await db.destroy();
+  }
+}
+
+/**
+ * Opens a record page in Debian's Chromium with the CPU slowed `rate` times (CDP
+ * Emulation.setCPUThrottlingRate) and collects the main thread's long tasks (PerformanceObserver,
+ * entry type "longtask": tasks over 50 ms) while the page loads and draws its raw curve, then
+ * while it draws every sample of the file after a click. Also the bytes the page fetched.
+ */
+async function mainThreadOnRecord(url: string, rate: number) {
+  const profile = mkdtempSync(path.join(tmpdir(), 'edgewise-bench-chromium-'));
+  const context = await chromium.launchPersistentContext(profile, {
+    executablePath: '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run'],
+    headless: true,
+    viewport: { width: 1280, height: 900 },
+  });
+  try {
+    const page = await context.newPage();
+    await page.addInitScript(() => {
+      const w = window as unknown as { longTasks: number[] };
+      w.longTasks = [];
+      new PerformanceObserver((list) => {
+        for (const e of list.getEntries()) w.longTasks.push(e.duration);
+      }).observe({ type: 'longtask', buffered: true });
+    });
+    const cdp = await context.newCDPSession(page);
+    await cdp.send('Emulation.setCPUThrottlingRate', { rate });
+    let fetched = 0;
+    const rawDownloads: string[] = [];
+    page.on('response', async (res) => {
+      if (/\/api\/v1\/raw-files\/[0-9a-f-]{36}$/.test(new URL(res.url()).pathname))
+        rawDownloads.push(res.url());
+      const size = await res
+        .body()
+        .then((b) => b.byteLength)
+        .catch(() => 0);
+      fetched += size;
+    });
+    const longTasks = () =>
+      page.evaluate(() => (window as unknown as { longTasks: number[] }).longTasks.splice(0));
+    const t0 = performance.now();
+    await page.goto(url, { waitUntil: 'load' });
+    await page.getByTestId('curve-sampling').waitFor({ timeout: 120_000 });
+    const drawnMs = performance.now() - t0;
+    await page.waitForTimeout(1_000);
+    const onLoad = await longTasks();
+    const loadBytes = fetched;
+    const rawOnLoad = rawDownloads.length;
+    // The whole file, read in the worker and drawn from all its samples.
+    const t1 = performance.now();
+    await page.getByRole('button', { name: /Draw every sample/ }).click();
+    await page
+      .getByTestId('curve-sampling')
+      .filter({ hasText: 'Drawn from all' })
+      .waitFor({ timeout: 300_000 });
+    const everyMs = performance.now() - t1;
+    await page.waitForTimeout(1_000);
+    const onEvery = await longTasks();
+    return {
+      drawnMs,
+      everyMs,
+      longestOnLoad: Math.max(0, ...onLoad),
+      longestOnEvery: Math.max(0, ...onEvery),
+      tasksOnLoad: onLoad.length,
+      loadBytes,
+      rawOnLoad,
+    };
+  } finally {
+    await context.close();
+    rmSync(profile, { recursive: true, force: true });
   }
 }
 

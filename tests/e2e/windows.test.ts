@@ -197,6 +197,11 @@ describe("the formulator's path", () => {
 
   it('opens a record and recomputes it at CE ≥ 99 % in place', async () => {
     const { page, problems } = await watchedPage(browser.context);
+    // What the page asks the server for: the drawing copy of the curve, and the whole raw file
+    // only once a recomputation needs it.
+    const asked: string[] = [];
+    page.on('request', (r) => asked.push(new URL(r.url()).pathname));
+    const rawFiles = () => asked.filter((p) => /^\/api\/v1\/raw-files\/[0-9a-f-]{36}$/.test(p));
     await page.goto(new URL(`/windows?component=litfsi&electrode=glassy-carbon`, appUrl()).href);
     await page.getByRole('link', { name: handles.gc }).click();
     await page.waitForURL(new RegExp(`/windows/${handles.gc}$`));
@@ -230,6 +235,9 @@ describe("the formulator's path", () => {
     await expect
       .poll(() => first('curve-readout'))
       .toMatch(/^E = -?\d+\.\d{4} V, I = -?[\d.e+-]+ \S+$/);
+    expect(await first('curve-sampling')).toMatch(/^Drawn from (all )?[\d,]+ (of [\d,]+ )?samples/);
+    expect(asked.some((p) => /^\/api\/v1\/raw-files\/[0-9a-f-]{36}\/curve$/.test(p))).toBe(true);
+    expect(rawFiles()).toEqual([]);
     await page.getByLabel('Criterion kind').last().selectOption('ce');
     // CE ≥ 99 % is S ≤ 0.0101: crossed between the 0.9 V (S 6.3e-3) and 1.0 V (S 2.6e-2) vertices.
     await expect

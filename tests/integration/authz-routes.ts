@@ -287,6 +287,10 @@ export const ROWS: Row[] = [
     path: '/api/v1/raw-files/{file}',
     prepare: async (_h, v) => ({ file: await labRawFile(v.labA!) }),
   }),
+  row('GET', '/api/v1/raw-files/[id]/curve', '404 404 200 200 404 404 404', {
+    path: '/api/v1/raw-files/{file}/curve',
+    prepare: async (_h, v) => ({ file: await labRawFile(v.labA!) }),
+  }),
   row('GET', '/api/v1/vocabulary', '200'),
   // The matrix sends JSON: past the role gate the import refuses it as not CSV (imports.test.ts imports real files).
   row('POST', '/api/v1/imports', '401 403 400 400 400 400 400', { json: 'title\nnot a template' }),

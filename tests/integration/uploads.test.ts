@@ -12,6 +12,8 @@ import {
 import { content, tag } from '../support/records.ts';
 import {
   analyzeText,
+  curvePreview,
+  curveSamples,
   cvWindowOpeningSamples,
   formatExport,
   lsvSamples,
@@ -148,6 +150,33 @@ describe('the upload flow', () => {
     expect((await as(other, `/api/v1/raw-files/00000000-0000-4000-8000-000000000000`)).status).toBe(
       404,
     );
+  });
+
+  it('keeps a thinned copy of the curve for drawing at verification, and makes one for a file without it', async () => {
+    const url = `/api/v1/raw-files/${rawFileId}/curve`;
+    const res = await as(owner, url);
+    expect(res.status).toBe(200);
+    const c = await res.json();
+    // The file as the analysis reads it (volts, amperes, IUPAC sign), thinned the engine's way.
+    const expected = curvePreview(cvFile, { sign: 'iupac' });
+    expect(c.rawFileId).toBe(rawFileId);
+    expect(c.samples).toBe(curveSamples(cvFile, {}).potential.length);
+    expect(c.potentialV).toEqual(Array.from(expected.potential));
+    expect(c.currentA).toEqual(Array.from(expected.current));
+    const stored = () =>
+      appDb()
+        .selectFrom('raw_file_curves')
+        .select('samples')
+        .where('raw_file_id', '=', rawFileId)
+        .executeTakeFirst();
+    expect(await stored()).toEqual({ samples: c.samples });
+    // A file verified before copies were kept: the copy is made when first asked for, and kept.
+    await appDb().deleteFrom('raw_file_curves').where('raw_file_id', '=', rawFileId).execute();
+    expect(await (await as(owner, url)).json()).toEqual(c);
+    expect(await stored()).toEqual({ samples: c.samples });
+    // Only for those who may read the record, like the file itself.
+    expect((await as(null, url)).status).toBe(404);
+    expect((await as(other, url)).status).toBe(404);
   });
 
   it('recomputes a published raw-backed record at a common criterion from its stored analysis', async () => {

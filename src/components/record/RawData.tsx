@@ -9,7 +9,7 @@ import CriterionPlot, { type CriterionPoint } from '../charts/CriterionPlot.tsx'
 import CurveChart, { type Curve } from '../charts/CurveChart.tsx';
 import { CriterionChooser } from '../explorer/Choosers.tsx';
 import { commonCriterionWords } from '#lib/shared/criteria.ts';
-import { formatVolts } from '#lib/shared/format.ts';
+import { formatBytes, formatVolts } from '#lib/shared/format.ts';
 import { Empty, Failed, Loading, muted, panel } from '../ui.tsx';
 
 /** Points, cutoff and labels of the judged quantity, from an analysis result. */
@@ -69,20 +69,31 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
   const [criterion, setCriterion] = useState('');
   const shiftV = stored.reference?.offsetV ?? 0;
 
-  // The file's bytes are fetched here and read in a Web Worker; the page only draws the curve.
-  const bytes = useQuery({ ...rawFileQueries.bytes(a.rawFileId), enabled: Boolean(file) });
+  // The curve is drawn from the server's thinned copy (a few thousand points, every peak kept).
+  // The file itself is fetched only to draw every sample or to recompute, and is read in a Web
+  // Worker; the page's main thread only draws.
+  const [everySample, setEverySample] = useState(false);
+  const drawing = useQuery({ ...rawFileQueries.drawing(a.rawFileId), enabled: Boolean(file) });
+  const bytes = useQuery({
+    ...rawFileQueries.bytes(a.rawFileId),
+    enabled: Boolean(file) && (everySample || Boolean(criterion)),
+  });
   const raw = useQuery({
     queryKey: ['raw-files', a.rawFileId, 'curve', shiftV, params] as const,
     queryFn: () => rawCurveInWorker(bytes.data!, params, shiftV),
-    enabled: Boolean(bytes.data),
+    enabled: Boolean(bytes.data) && everySample,
     staleTime: Infinity,
     retry: (n, err) => !(err instanceof RawReadError) && n < 2,
   });
   const curves = useMemo<Curve[] | { error: string } | null>(() => {
-    if (raw.error instanceof RawReadError) return { error: raw.error.message };
-    if (!raw.data) return null;
-    return [{ label: file?.name ?? 'curve', x: raw.data.x, y: raw.data.y }];
-  }, [raw.data, raw.error, file?.name]);
+    const label = file?.name ?? 'curve';
+    if (everySample && raw.error instanceof RawReadError) return { error: raw.error.message };
+    if (everySample && raw.data) return [{ label, x: raw.data.x, y: raw.data.y }];
+    if (!drawing.data) return null;
+    const d = drawing.data;
+    return [{ label, x: shiftV ? d.x.map((v) => v + shiftV) : d.x, y: d.y }];
+  }, [everySample, raw.data, raw.error, drawing.data, file?.name, shiftV]);
+  const showsEvery = everySample && Boolean(raw.data);
 
   // Recomputed whenever the criterion changes: the engine runs in the worker, on the raw text.
   const again = useQuery({
@@ -125,7 +136,9 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
       </div>
       <div>
         <h4 className="text-sm font-semibold mb-1">Raw curve</h4>
-        {bytes.isError ? (
+        {drawing.isError ? (
+          <Failed error={drawing.error} retry={() => void drawing.refetch()} what="the raw curve" />
+        ) : everySample && bytes.isError ? (
           <Failed error={bytes.error} retry={() => void bytes.refetch()} what="the raw file" />
         ) : !curves ? (
           <Loading what="the raw curve" />
@@ -137,6 +150,27 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
             xLabel={`E / V vs ${ref}`}
             figureName={`${r.handle}-${a.direction}`}
           />
+        )}
+        {drawing.data && (
+          <p className={`text-xs ${muted} mt-1`} data-testid="curve-sampling">
+            {showsEvery
+              ? `Drawn from all ${drawing.data.samples.toLocaleString('en')} samples of the file.`
+              : drawing.data.x.length < drawing.data.samples
+                ? `Drawn from ${drawing.data.x.length.toLocaleString('en')} of ${drawing.data.samples.toLocaleString('en')} samples: the lowest and highest current of each stretch, so every peak shows. `
+                : `Drawn from all ${drawing.data.samples.toLocaleString('en')} samples of the file.`}
+            {!showsEvery && drawing.data.x.length < drawing.data.samples && file && (
+              <button
+                type="button"
+                className="underline"
+                disabled={everySample}
+                onClick={() => setEverySample(true)}
+              >
+                {everySample
+                  ? 'Reading the file…'
+                  : `Draw every sample (reads the whole file, ${formatBytes(file.bytes)})`}
+              </button>
+            )}
+          </p>
         )}
       </div>
       <div className="grid gap-2">

@@ -29,7 +29,7 @@ import {
 } from '../ui.tsx';
 import RawData from './RawData.tsx';
 import Versions from './Versions.tsx';
-import { formatVolts } from '#lib/shared/format.ts';
+import { formatBytes, formatVolts } from '#lib/shared/format.ts';
 import { criterionWords } from '#lib/shared/criteria.ts';
 
 const h2 = 'text-lg font-semibold';
@@ -350,9 +350,7 @@ function Provenance({ r }: { r: RecordDetail }) {
                     </a>
                   </td>
                   <td className="py-1 pr-3 text-right num whitespace-nowrap">
-                    {f.bytes >= 1e6
-                      ? `${(f.bytes / 1e6).toFixed(1)} MB`
-                      : `${(f.bytes / 1e3).toFixed(1)} kB`}
+                    {formatBytes(f.bytes)}
                   </td>
                   <td className="py-1 pr-3 num text-xs break-all">{f.sha256}</td>
                 </tr>

@@ -13,6 +13,7 @@ export * from './water';
 export * from './energy';
 export * from './cell';
 export * from './decimate';
+export * from './preview';
 export * from './aggregate';
 export * from './baseline';
 export * from './analyze';

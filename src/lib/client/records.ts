@@ -7,6 +7,7 @@ import type {
   RecordContent,
 } from '../shared/record.ts';
 import type { VocabularyKind, VocabularyTerm } from '../shared/vocabulary.ts';
+import type { RawCurve } from '../shared/answers.ts';
 import { apiPath, getJson } from './api.ts';
 import { engineCriterion } from '../shared/criteria.ts';
 import type {
@@ -267,6 +268,23 @@ export const recordQueries = {
 };
 
 export const rawFileQueries = {
+  /** The server's thinned copy of a raw file's curve, for drawing (volts and amperes as read). */
+  drawing: (id: string) =>
+    queryOptions({
+      queryKey: ['raw-files', id, 'drawing'] as const,
+      queryFn: async ({ signal }) => {
+        const c = await getJson<RawCurve>(
+          `/api/v1/raw-files/${encodeURIComponent(id)}/curve`,
+          signal,
+        );
+        return {
+          samples: c.samples,
+          x: Float64Array.from(c.potentialV, (v) => v ?? Number.NaN),
+          y: Float64Array.from(c.currentA, (v) => v ?? Number.NaN),
+        };
+      },
+      staleTime: Infinity,
+    }),
   /** A raw file's text (exports are text; the engine reads it in the browser). */
   bytes: (id: string) =>
     queryOptions({

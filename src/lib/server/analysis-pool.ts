@@ -3,7 +3,12 @@ import { availableParallelism } from 'node:os';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Piscina } from 'piscina';
-import type { AnalysisOptions } from '../analysis/index.ts';
+import type {
+  AnalysisOptions,
+  AnalysisResult,
+  CurvePreview,
+  CurveReading,
+} from '../analysis/index.ts';
 import { AppError, UnavailableError } from './errors.ts';
 import type { AnalysisOutcome, AnalysisTask } from './analysis-worker.ts';
 
@@ -58,16 +63,51 @@ export class AnalysisRefused extends AppError {
   }
 }
 
-/** Runs the engine on a file's bytes in a worker; a bad file is a ValidationError naming line and column. */
-export async function analyzeInWorker(bytes: Uint8Array, options: AnalysisOptions) {
+async function runTask(task: AnalysisTask): Promise<AnalysisOutcome & { ok: true }> {
   let outcome: AnalysisOutcome;
   try {
-    outcome = await analysisPool().run({ bytes, options });
+    outcome = await analysisPool().run(task);
   } catch (err) {
     if ((err as Error).message?.includes('queue is full'))
       throw new UnavailableError('The analysis queue is full; try again shortly.');
     throw err;
   }
-  if (outcome.ok) return outcome.result;
+  if (outcome.ok) return outcome;
   throw new AnalysisRefused(outcome.error);
+}
+
+/** Runs the engine on a file's bytes in a worker; a bad file is a ValidationError naming line and column. */
+export async function analyzeInWorker(
+  bytes: Uint8Array,
+  options: AnalysisOptions,
+): Promise<AnalysisResult> {
+  return (await runTask({ bytes, options })).result!;
+}
+
+/** The columns and sign convention an analysis reads a file with, for its drawing copy. */
+export function readingOf(o: {
+  columns?: AnalysisOptions['columns'];
+  sign?: AnalysisOptions['sign'];
+}): CurveReading {
+  const r: CurveReading = {};
+  if (o.columns) r.columns = o.columns;
+  if (o.sign) r.sign = o.sign;
+  return r;
+}
+
+/** analyzeInWorker, and the file's thinned drawing copy read with the same columns and sign. */
+export async function analyzeWithCurveInWorker(
+  bytes: Uint8Array,
+  options: AnalysisOptions,
+): Promise<{ result: AnalysisResult; curve: CurvePreview }> {
+  const { result, curve } = await runTask({ bytes, options, curve: readingOf(options) });
+  return { result: result!, curve: curve! };
+}
+
+/** A file's thinned drawing copy alone. */
+export async function curveInWorker(
+  bytes: Uint8Array,
+  reading: CurveReading,
+): Promise<CurvePreview> {
+  return (await runTask({ bytes, curve: reading })).curve!;
 }

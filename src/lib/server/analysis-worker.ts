@@ -3,23 +3,32 @@
 import {
   AnalysisError,
   analyzeText,
+  curvePreview,
   decodeText,
   type AnalysisOptions,
   type AnalysisResult,
+  type CurvePreview,
+  type CurveReading,
 } from '../analysis/index.ts';
 
+/** One file: analysed with `options`, and its thinned drawing copy read as `curve` says. */
 export interface AnalysisTask {
   bytes: Uint8Array;
-  options: AnalysisOptions;
+  options?: AnalysisOptions;
+  curve?: CurveReading;
 }
 
 export type AnalysisOutcome =
-  | { ok: true; result: AnalysisResult }
+  | { ok: true; result?: AnalysisResult; curve?: CurvePreview }
   | { ok: false; error: ReturnType<AnalysisError['toJSON']> };
 
-export default function analyze({ bytes, options }: AnalysisTask): AnalysisOutcome {
+export default function analyze({ bytes, options, curve }: AnalysisTask): AnalysisOutcome {
   try {
-    return { ok: true, result: analyzeText(decodeText(bytes), options) };
+    const text = decodeText(bytes);
+    const out: AnalysisOutcome = { ok: true };
+    if (options) out.result = analyzeText(text, options);
+    if (curve) out.curve = curvePreview(text, curve);
+    return out;
   } catch (err) {
     if (err instanceof AnalysisError) return { ok: false, error: err.toJSON() };
     throw err;

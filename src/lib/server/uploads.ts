@@ -1,6 +1,11 @@
 import { createHash, randomUUID } from 'node:crypto';
 import type { CreateUploadBody, RecordContent } from '../shared/record.ts';
-import { AnalysisRefused, analyzeInWorker } from './analysis-pool.ts';
+import {
+  AnalysisRefused,
+  analyzeWithCurveInWorker,
+  curveInWorker,
+  readingOf,
+} from './analysis-pool.ts';
 import { config } from './config.ts';
 import type { Db } from './db/index.ts';
 import { AppError, ConflictError, NotFoundError, PayloadTooLargeError } from './errors.ts';
@@ -18,10 +23,13 @@ import { termRefs } from './record-derive.ts';
 import { insertAuditEvent } from './repositories/audit.ts';
 import {
   getRawFile,
+  getRawFileCurve,
   getRecordHead,
   getRecordHeadById,
   getVersion,
   insertRawFile,
+  insertRawFileCurve,
+  type RawFileRow,
 } from './repositories/records.ts';
 import {
   getUpload,
@@ -37,8 +45,8 @@ import { log } from './log.ts';
 import { readVerifiedRawFile, sealVerifiedBytes, stagingKey } from './raw-objects.ts';
 import { deleteObject, getObjectBytes, presignPut } from './storage.ts';
 import { resolveTerms } from './vocabulary.ts';
-import type { UploadTicket, UploadResult } from '#lib/shared/answers.ts';
-export type { UploadTicket, UploadResult };
+import type { RawCurve, UploadTicket, UploadResult } from '#lib/shared/answers.ts';
+export type { RawCurve, UploadTicket, UploadResult };
 
 // Raw files in two phases: the client declares a file and gets a short-lived URL to PUT it to;
 // on `complete` the server reads the object back, checks size and SHA-256, analyses it and only
@@ -210,9 +218,11 @@ export async function completeUpload(
     terms,
     u.mapping as Parameters<typeof analysisOptions>[2],
   );
+  // The analysis, and the thinned copy of the curve that record pages draw, from one reading.
   let result;
+  let curve;
   try {
-    result = await analyzeInWorker(bytes, options);
+    ({ result, curve } = await analyzeWithCurveInWorker(bytes, options));
   } catch (err) {
     if (err instanceof AnalysisRefused) {
       await markUploadFailed(db, u.id, { detail: err.message, ...err.extra });
@@ -246,6 +256,7 @@ export async function completeUpload(
       },
       uploadedBy: u.owner_id,
     });
+    await insertRawFileCurve(trx, rawFileId, curve);
     await attachRawFile(trx, principal, u.record_id, {
       rawFileId,
       options,
@@ -309,12 +320,8 @@ export async function cleanStaleUploads(
 
 const INLINE_SAFE_TYPES = new Set(['text/csv', 'text/plain', 'text/tab-separated-values']);
 
-/** A raw file's bytes for download, if the principal may read its record. */
-export async function downloadRawFile(
-  db: Db,
-  principal: Principal,
-  id: string,
-): Promise<{ bytes: Uint8Array; fileName: string; mediaType: string; sha256: string }> {
+/** A raw file whose record the principal may read (404 for anyone else, as for a missing id). */
+async function readableRawFile(db: Db, principal: Principal, id: string): Promise<RawFileRow> {
   const f = /^[0-9a-f-]{36}$/.test(id) ? await getRawFile(db, id) : undefined;
   const head = f ? await getRecordHeadById(db, f.record_id) : undefined;
   if (!f || !head) throw new NotFoundError('raw file');
@@ -329,6 +336,16 @@ export async function downloadRawFile(
     const shown = await getVersion(db, head.id, versionFor(principal, head));
     if (!shown?.raw_file_ids.includes(f.id)) throw new NotFoundError('raw file');
   }
+  return f;
+}
+
+/** A raw file's bytes for download, if the principal may read its record. */
+export async function downloadRawFile(
+  db: Db,
+  principal: Principal,
+  id: string,
+): Promise<{ bytes: Uint8Array; fileName: string; mediaType: string; sha256: string }> {
+  const f = await readableRawFile(db, principal, id);
   const bytes = await readVerifiedRawFile(f);
   if (!bytes) throw new NotFoundError('raw file');
   return {
@@ -336,5 +353,28 @@ export async function downloadRawFile(
     fileName: f.safe_name,
     mediaType: INLINE_SAFE_TYPES.has(f.media_type) ? f.media_type : 'application/octet-stream',
     sha256: f.sha256,
+  };
+}
+
+/**
+ * The thinned copy of a raw file's curve that a record page draws, if the principal may read its
+ * record. Made when the file is verified; a file verified before copies were kept gets its copy
+ * now, once, read with the columns and sign convention of its upload.
+ */
+export async function rawFileCurve(db: Db, principal: Principal, id: string): Promise<RawCurve> {
+  const f = await readableRawFile(db, principal, id);
+  let c = await getRawFileCurve(db, f.id);
+  if (!c) {
+    const bytes = await readVerifiedRawFile(f);
+    if (!bytes) throw new NotFoundError('raw file');
+    c = await curveInWorker(bytes, readingOf(f.mapping as Parameters<typeof readingOf>[0]));
+    await insertRawFileCurve(db, f.id, c);
+  }
+  const finite = (a: Float64Array) => Array.from(a, (v) => (Number.isFinite(v) ? v : null));
+  return {
+    rawFileId: f.id,
+    samples: c.samples,
+    potentialV: finite(c.potential),
+    currentA: finite(c.current),
   };
 }

@@ -158,6 +158,21 @@ export const uploadTicketSchema = z.strictObject({
 });
 export type UploadTicket = z.infer<typeof uploadTicketSchema>;
 
+/**
+ * The thinned copy of a raw file's curve a record page draws: the first and last sample and the
+ * lowest and highest current of each of about 2,000 runs of samples, in file order, read as the
+ * analysis reads the file (volts on the file's own scale, amperes, IUPAC sign). A value the file
+ * does not give as a finite number is null.
+ */
+export const rawCurveSchema = z.strictObject({
+  rawFileId: z.string(),
+  /** Samples in the whole file. */
+  samples: z.number().int(),
+  potentialV: z.array(z.number().nullable()),
+  currentA: z.array(z.number().nullable()),
+});
+export type RawCurve = z.infer<typeof rawCurveSchema>;
+
 export const uploadResultSchema = z.strictObject({
   id: z.string(),
   status: z.literal('complete'),

@@ -30,3 +30,8 @@ export function readNumber(text: string): number {
   const t = text.trim().replace(MINUS, '-').replace(',', '.');
   return t === '' ? Number.NaN : Number(t);
 }
+
+/** A file size in kB or MB (decimal units), one decimal. */
+export function formatBytes(bytes: number): string {
+  return bytes >= 1e6 ? `${(bytes / 1e6).toFixed(1)} MB` : `${(bytes / 1e3).toFixed(1)} kB`;
+}

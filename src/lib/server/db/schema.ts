@@ -302,6 +302,14 @@ export interface RawFileTable {
   created_at: Generated<Date>;
 }
 
+export interface RawFileCurveTable {
+  raw_file_id: string;
+  samples: number;
+  potential: Buffer;
+  current: Buffer;
+  created_at: Generated<Date>;
+}
+
 export interface AnalysisTable {
   id: Generated<string>;
   raw_file_id: string;
@@ -483,6 +491,7 @@ export interface Database {
   record_search: RecordSearchTable;
   search_generation: SearchGenerationTable;
   raw_files: RawFileTable;
+  raw_file_curves: RawFileCurveTable;
   analyses: AnalysisTable;
   uploads: UploadTable;
   reviews: ReviewTable;

@@ -36,6 +36,7 @@ export const ANSWERS = {
   UploadTicket: answers.uploadTicketSchema,
   UploadState: answers.uploadStateSchema,
   UploadResult: answers.uploadResultSchema,
+  RawCurve: answers.rawCurveSchema,
   LabList: answers.labRefListSchema,
   LabCreated: answers.labCreatedSchema,
   Lab: answers.labViewSchema,

@@ -71,4 +71,16 @@ export const filesPaths = {
       },
     },
   },
+  '/raw-files/{id}/curve': {
+    parameters: [uuid('The raw file id')],
+    get: {
+      operationId: 'getRawFileCurve',
+      tags: ['Files'],
+      summary: "A thinned copy of a raw file's curve for drawing (every peak kept)",
+      responses: {
+        '200': ok('RawCurve', 'A few thousand samples of the curve and the count in the file'),
+        ...errors(404, 503),
+      },
+    },
+  },
 };

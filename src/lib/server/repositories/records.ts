@@ -397,6 +397,52 @@ export async function getRawFile(db: DbOrTrx, id: string): Promise<RawFileRow | 
   return db.selectFrom('raw_files').selectAll().where('id', '=', id).executeTakeFirst();
 }
 
+/** A raw file's thinned drawing copy: samples in the file, potentials (V) and currents (A). */
+export interface RawCurveRow {
+  samples: number;
+  potential: Float64Array;
+  current: Float64Array;
+}
+
+const toBytes = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
+const toDoubles = (b: Buffer) => {
+  const copy = new Uint8Array(b.byteLength);
+  copy.set(b);
+  return new Float64Array(copy.buffer);
+};
+
+/** Keeps a raw file's drawing copy (once: a copy already there stays). */
+export async function insertRawFileCurve(
+  db: DbOrTrx,
+  rawFileId: string,
+  c: RawCurveRow,
+): Promise<void> {
+  await db
+    .insertInto('raw_file_curves')
+    .values({
+      raw_file_id: rawFileId,
+      samples: c.samples,
+      potential: toBytes(c.potential),
+      current: toBytes(c.current),
+    })
+    .onConflict((oc) => oc.column('raw_file_id').doNothing())
+    .execute();
+}
+
+export async function getRawFileCurve(
+  db: DbOrTrx,
+  rawFileId: string,
+): Promise<RawCurveRow | undefined> {
+  const r = await db
+    .selectFrom('raw_file_curves')
+    .select(['samples', 'potential', 'current'])
+    .where('raw_file_id', '=', rawFileId)
+    .executeTakeFirst();
+  return r
+    ? { samples: r.samples, potential: toDoubles(r.potential), current: toDoubles(r.current) }
+    : undefined;
+}
+
 /** Analyses by id, in the order of `ids`. */
 export async function analysesByIds(db: DbOrTrx, ids: string[]): Promise<AnalysisRow[]> {
   if (ids.length === 0) return [];

@@ -1,0 +1,55 @@
+import { describe, expect, it } from 'vitest';
+import {
+  CURVE_PREVIEW_BUCKETS,
+  curvePreview,
+  curveSamples,
+  cvWindowOpeningSamples,
+  formatExport,
+} from '#lib/analysis/index.ts';
+
+// The drawing copy of a raw file: far fewer points than the file, but its first and last sample
+// and every extreme of the current are in it, as samples of the file in file order.
+
+describe('the thinned drawing copy of a raw curve', () => {
+  // A window-opening CV of about 100,000 samples with one narrow spike the copy must keep.
+  const samples = cvWindowOpeningSamples({ sampleIntervalS: 0.02 });
+  const spikeAt = Math.floor(samples.current.length * 0.37);
+  samples.current[spikeAt] = 5e-2;
+  samples.current[spikeAt + 1] = -4e-2;
+  const text = formatExport(samples);
+  const full = curveSamples(text, {});
+
+  it('keeps a few thousand samples, the first, the last and every peak, in file order', () => {
+    expect(full.potential.length).toBeGreaterThan(50_000);
+    const c = curvePreview(text, {});
+    expect(c.samples).toBe(full.potential.length);
+    expect(c.potential.length).toBe(c.current.length);
+    expect(c.potential.length).toBeLessThanOrEqual(2 * CURVE_PREVIEW_BUCKETS + 2);
+    expect(c.potential.length).toBeGreaterThan(CURVE_PREVIEW_BUCKETS);
+    expect(c.potential[0]).toBe(full.potential[0]);
+    expect(c.potential.at(-1)).toBe(full.potential.at(-1));
+    expect(Math.max(...c.current)).toBe(Math.max(...full.current));
+    expect(Math.min(...c.current)).toBe(Math.min(...full.current));
+    // Each kept point is a sample of the file, met in the file's order.
+    let i = 0;
+    for (let k = 0; k < c.potential.length; k++) {
+      while (
+        i < full.potential.length &&
+        !(full.potential[i] === c.potential[k] && full.current[i] === c.current[k])
+      )
+        i++;
+      expect(i, `point ${k} is a later sample of the file`).toBeLessThan(full.potential.length);
+      i++;
+    }
+  });
+
+  it('keeps every sample of a short file, and reads the sign convention as the analysis does', () => {
+    const short = formatExport(cvWindowOpeningSamples({ sampleIntervalS: 20 }));
+    const s = curveSamples(short, {});
+    const c = curvePreview(short, {});
+    expect(Array.from(c.potential)).toEqual(Array.from(s.potential));
+    const opposite = curvePreview(short, { sign: 'opposite' });
+    expect(opposite.current.length).toBe(c.current.length);
+    for (let k = 0; k < c.current.length; k++) expect(opposite.current[k]! + c.current[k]!).toBe(0);
+  });
+});
