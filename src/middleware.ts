@@ -1,7 +1,7 @@
 import { defineMiddleware } from 'astro:middleware';
 import { config } from './lib/server/config.ts';
 import { applySecurityHeaders } from './lib/server/http/headers.ts';
-import { checkStateChangingRequest } from './lib/server/http/origin.ts';
+import { checkStateChangingRequest, type OriginVerdict } from './lib/server/http/origin.ts';
 import { problem } from './lib/server/http/problem.ts';
 import { apiMethodTable, boundaryRefusal } from './lib/server/http/boundary.ts';
 import { toProblem } from './lib/server/http/route.ts';
@@ -18,6 +18,10 @@ startJobs();
 // Routes that legitimately take form or multipart bodies (same-origin only).
 const FORM_ROUTES = [/^\/api\/auth\//];
 const MULTIPART_ROUTES = [/^\/api\/v1\/analyses$/];
+// Links signed for a one-click stop (RFC 8058): mail programs post them from their own servers,
+// with no Origin and a form body. The signature in the link is the whole authority (the route
+// never reads a session), so the cross-site check has nothing to protect there.
+const SIGNED_LINK_ROUTES = [/^\/api\/v1\/watches\/unsubscribe$/];
 
 // The methods each API route answers, from its page file's exports (loaded when first asked).
 const apiMethods = apiMethodTable(import.meta.glob('./pages/api/**/*.ts'), './pages');
@@ -42,9 +46,13 @@ export const onRequest = defineMiddleware(async (context, next) => {
       allowForm: !isApi || FORM_ROUTES.some((r) => r.test(url.pathname)),
       allowMultipart: MULTIPART_ROUTES.some((r) => r.test(url.pathname)),
     };
-    const verdict = [own, requestOrigin].map((o) =>
-      checkStateChangingRequest(context.request, o, opts),
-    );
+    const signedLink =
+      context.request.method === 'POST' &&
+      url.searchParams.has('token') &&
+      SIGNED_LINK_ROUTES.some((r) => r.test(url.pathname));
+    const verdict: OriginVerdict[] = signedLink
+      ? [{ ok: true }]
+      : [own, requestOrigin].map((o) => checkStateChangingRequest(context.request, o, opts));
     const accepted = verdict.find((v) => v.ok);
     if (!accepted) {
       response = problem({

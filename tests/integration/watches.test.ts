@@ -1,7 +1,7 @@
 import { inject, afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'kysely';
 import { readCapturedMail } from '#lib/server/mail-capture.ts';
-import { api, waitForMail } from '../helpers.ts';
+import { api, appUrl, waitForMail } from '../helpers.ts';
 import { appDb, as, asJson, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { ok } from '../support/api.ts';
 import { content, tag } from '../support/records.ts';
@@ -176,4 +176,52 @@ describe('watching a comparison', () => {
       (await ok(await as(bob.cookie, '/api/v1/watches'), 'list')).watches[0].unsubscribed,
     ).toBe(true);
   }, 120_000);
+
+  it('lets a mail program stop the mail in one click through the List-Unsubscribe header', async () => {
+    // RFC 8058 (Levine & Herkert, "Signaling One-Click Functionality for List Email Headers",
+    // 2017): List-Unsubscribe carries an https address, List-Unsubscribe-Post the form body the
+    // mail program posts to it, from its own servers, with no Origin and no cookie.
+    const [mail] = await mailsTo(alice.email);
+    expect(mail!.headers['list-unsubscribe-post']).toBe('List-Unsubscribe=One-Click');
+    const link = /^<(\S+)>$/.exec(mail!.headers['list-unsubscribe'] ?? '')?.[1];
+    expect(link, mail!.headers['list-unsubscribe']).toBeDefined();
+    const u = new URL(link!);
+    expect(u.pathname).toBe('/api/v1/watches/unsubscribe');
+    expect(u.searchParams.get('watch')).toBe(aliceWatch);
+    const post = (search: string, body: string | FormData, headers: Record<string, string> = {}) =>
+      api(`${u.pathname}${search}`, { method: 'POST', headers, body });
+    const form = { 'content-type': 'application/x-www-form-urlencoded' };
+
+    // Without the one-click body, with a forged token, or a token for another watch: refused,
+    // and the watch still mails.
+    expect((await post(u.search, 'a=1', form)).status).toBe(400);
+    const forged = new URLSearchParams(u.search);
+    forged.set('token', 'A'.repeat(43));
+    expect((await post(`?${forged}`, 'List-Unsubscribe=One-Click', form)).status).toBe(400);
+    const swapped = new URLSearchParams(u.search);
+    swapped.set('watch', bobWatch);
+    expect((await post(`?${swapped}`, 'List-Unsubscribe=One-Click', form)).status).toBe(400);
+    const still = await ok(await as(alice.cookie, '/api/v1/watches'), 'list');
+    expect(still.watches.find((x: { id: string }) => x.id === aliceWatch).unsubscribed).toBe(false);
+
+    // The mail program's post, with no Origin and here as multipart (the RFC allows both
+    // encodings).
+    const body = new FormData();
+    body.set('List-Unsubscribe', 'One-Click');
+    const stop = await fetch(new URL(`${u.pathname}${u.search}`, appUrl()), {
+      method: 'POST',
+      body,
+    });
+    expect(stop.status).toBe(204);
+    const after = await ok(await as(alice.cookie, '/api/v1/watches'), 'list');
+    expect(after.watches.find((x: { id: string }) => x.id === aliceWatch).unsubscribed).toBe(true);
+
+    // The same address with a cookie and no token is still a cross-site form post, refused.
+    const bare = await as(alice.cookie, u.pathname, {
+      method: 'POST',
+      headers: form,
+      body: 'List-Unsubscribe=One-Click',
+    });
+    expect(bare.status).toBe(403);
+  }, 60_000);
 });

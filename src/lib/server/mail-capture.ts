@@ -11,6 +11,8 @@ export interface CapturedMail {
   to: string;
   subject: string;
   text: string;
+  /** Header lines by lower-case name, values as sent (unfolded). */
+  headers: Record<string, string>;
 }
 
 /** Captured messages, newest first, decoded (quoted-printable and all). */
@@ -34,6 +36,15 @@ export async function readCapturedMail(directory: string): Promise<CapturedMail[
         to: addr(parsed.to),
         subject: parsed.subject ?? '',
         text: parsed.text ?? '',
+        headers: Object.fromEntries(
+          parsed.headerLines.map((h) => [
+            h.key,
+            h.line
+              .slice(h.line.indexOf(':') + 1)
+              .replace(/\r?\n\s+/g, ' ')
+              .trim(),
+          ]),
+        ),
       };
     }),
   );

@@ -23,11 +23,22 @@ export interface Message {
   subject: string;
   text: string;
   html?: string;
+  /** Sent as List-Unsubscribe with List-Unsubscribe-Post: One-Click (RFC 8058). */
+  unsubscribeUrl?: string;
 }
 
 /** Sends one message; rejects when the mail server cannot take it. */
-export async function sendMail(message: Message): Promise<void> {
-  await mailer().sendMail({ from: config().MAIL_FROM, ...message });
+export async function sendMail({ unsubscribeUrl, ...message }: Message): Promise<void> {
+  await mailer().sendMail({
+    from: config().MAIL_FROM,
+    ...message,
+    ...(unsubscribeUrl
+      ? {
+          list: { unsubscribe: unsubscribeUrl },
+          headers: { 'List-Unsubscribe-Post': 'List-Unsubscribe=One-Click' },
+        }
+      : {}),
+  });
 }
 
 /** True when the SMTP server answers a handshake. */

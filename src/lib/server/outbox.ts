@@ -14,6 +14,8 @@ export interface OutgoingMail {
   subject: string;
   text: string;
   html?: string;
+  /** A signed link that stops this kind of mail in one click (sent as List-Unsubscribe). */
+  unsubscribeUrl?: string;
 }
 
 /** Queues a message; call inside the transaction of the change it reports, then wakeOutbox(). */
@@ -26,6 +28,7 @@ export async function queueMail(trx: DbOrTrx, m: OutgoingMail): Promise<void> {
       subject: m.subject,
       text_body: m.text,
       html_body: m.html ?? null,
+      unsubscribe_url: m.unsubscribeUrl ?? null,
     })
     .execute();
 }
@@ -51,6 +54,7 @@ export async function deliverDueMail(limit = 20): Promise<DeliveryPass> {
     subject: string;
     text_body: string;
     html_body: string | null;
+    unsubscribe_url: string | null;
     attempts: number;
   }>`
     UPDATE mail_outbox SET status = 'sending', attempts = attempts + 1,
@@ -58,7 +62,9 @@ export async function deliverDueMail(limit = 20): Promise<DeliveryPass> {
      WHERE id IN (SELECT id FROM mail_outbox
                    WHERE status IN ('queued', 'failed', 'sending') AND next_attempt_at <= now()
                    ORDER BY next_attempt_at LIMIT ${limit} FOR UPDATE SKIP LOCKED)
-    RETURNING id, to_address, subject, text_body, html_body, attempts`.execute(db());
+    RETURNING id, to_address, subject, text_body, html_body, unsubscribe_url, attempts`.execute(
+    db(),
+  );
   const pass = { sent: 0, failed: 0 };
   for (const m of claimed.rows) {
     try {
@@ -67,6 +73,7 @@ export async function deliverDueMail(limit = 20): Promise<DeliveryPass> {
         subject: m.subject,
         text: m.text_body,
         html: m.html_body ?? undefined,
+        unsubscribeUrl: m.unsubscribe_url ?? undefined,
       });
       await db()
         .updateTable('mail_outbox')

@@ -10,6 +10,7 @@ import type {
   WatchView,
 } from '../shared/watch.ts';
 import { config } from './config.ts';
+import { log } from './log.ts';
 import { db as appDb, type Db } from './db/index.ts';
 import { NotFoundError, ValidationError } from './errors.ts';
 import { queueMail, wakeOutbox } from './outbox.ts';
@@ -70,8 +71,14 @@ export function unsubscribeToken(watchId: string): string {
     .digest('base64url');
 }
 
+/** The page a mail's stop link opens: its one button stops the mail. */
 export function unsubscribeUrl(watchId: string): string {
   return `${origin()}/watches/unsubscribe?watch=${watchId}&token=${unsubscribeToken(watchId)}`;
+}
+
+/** The address a mail program posts `List-Unsubscribe=One-Click` to (RFC 8058). */
+export function oneClickUnsubscribeUrl(watchId: string): string {
+  return `${origin()}/api/v1/watches/unsubscribe?watch=${watchId}&token=${unsubscribeToken(watchId)}`;
 }
 
 async function view(db: Db, w: WatchRow): Promise<WatchView> {
@@ -222,6 +229,7 @@ export async function runWatchDigests(db: Db, batch = 20): Promise<{ mailed: num
             to: w.email,
             subject: `Edgewise: ${changes.length} change${changes.length === 1 ? '' : 's'} in "${w.name}"`,
             text: digestText(w.name, w.id, w.query, changes),
+            unsubscribeUrl: oneClickUnsubscribeUrl(w.id),
           });
           mailed++;
         }
@@ -243,9 +251,7 @@ function pass(): void {
     .then(async () => {
       if (await hasUnsettledEvents(appDb())) wakeWatches();
     })
-    .catch((err) =>
-      console.error('[edgewise] watch digest failed:', err instanceof Error ? err.message : err),
-    );
+    .catch((err) => log().error({ err }, 'watch digest failed'));
 }
 
 /** Runs a digest pass shortly (once, however many events arrive meanwhile). */

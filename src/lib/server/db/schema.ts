@@ -371,6 +371,8 @@ export interface MailOutboxTable {
   subject: string;
   text_body: string;
   html_body: string | null;
+  /** A signed stop link, sent as the List-Unsubscribe header (one-click, RFC 8058). */
+  unsubscribe_url: string | null;
   status: Generated<'queued' | 'sending' | 'sent' | 'failed'>;
   attempts: Generated<number>;
   last_error: string | null;

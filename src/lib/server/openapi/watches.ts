@@ -1,5 +1,13 @@
 import { body, errors, noContent, ok, signedIn, uuid } from './parts.ts';
 
+const oneClickForm = {
+  schema: {
+    type: 'object',
+    required: ['List-Unsubscribe'],
+    properties: { 'List-Unsubscribe': { const: 'One-Click' } },
+  },
+};
+
 /** Operations of the Watches tag. */
 export const watchesPaths = {
   '/watches': {
@@ -45,7 +53,20 @@ export const watchesPaths = {
       operationId: 'unsubscribeWatch',
       tags: ['Watches'],
       summary: 'Stop a watch’s e-mail with the signed token its e-mails carry (no sign-in needed)',
-      requestBody: body('Unsubscribe'),
+      description:
+        'Either a JSON body `{watch, token}`, or the one-click form of RFC 8058: the e-mail’s List-Unsubscribe address (this path with `watch` and `token` in the query) posted with the form field `List-Unsubscribe=One-Click`, urlencoded or multipart, needing no Origin header.',
+      parameters: [
+        { name: 'watch', in: 'query', required: false, schema: { type: 'string', format: 'uuid' } },
+        { name: 'token', in: 'query', required: false, schema: { type: 'string' } },
+      ],
+      requestBody: {
+        required: true,
+        content: {
+          'application/json': { schema: { $ref: '#/components/schemas/Unsubscribe' } },
+          'application/x-www-form-urlencoded': oneClickForm,
+          'multipart/form-data': oneClickForm,
+        },
+      },
       responses: {
         '204': noContent('The watch sends no more e-mail'),
         ...errors([400, 'Invalid request or token'], 404, 413),
