@@ -115,6 +115,8 @@ describe('water window tool', () => {
   it('draws the HER and OER lines and moves them with temperature (docs/methods.md §8 C)', async () => {
     const { page, problems } = await watchedPage(browser.context);
     await page.goto(new URL('/tools/water', appUrl()).href);
+    // The page is drawn on the server: typing before the island takes over would be lost.
+    await hydrated(page);
     await page.getByRole('img', { name: /Thermodynamic water window/ }).waitFor();
     // Check value C: pH 7, 25 °C — HER −0.41412 V, OER 0.81488 V vs SHE.
     await expect
