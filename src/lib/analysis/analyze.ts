@@ -26,6 +26,7 @@ import {
   holdStepsFromPotential,
   outwardKind,
   stepsFromColumn,
+  trimLeadIns,
   turningPoints,
   turnThresholdV,
   typicalStepV,
@@ -482,6 +483,18 @@ function runCv(s: Samples, o: AnalysisOptions, scanRate: number | undefined, war
     if (!o.direction)
       warnings.push(
         `direction not given and the vertices do not tell it; taken as ${direction} from the first sweep`,
+      );
+  }
+  if (s.cycle) {
+    const trimmed = trimLeadIns(s.potential, segments, direction, turnThresholdV(s.potential));
+    segments = trimmed.segments;
+    for (const c of trimmed.cuts)
+      warnings.push(
+        `cycle ${c.cycle} first sweeps against the window direction (from ${s.potential[c.from]!.toFixed(3)} V to ${s.potential[c.to]!.toFixed(3)} V, samples ${c.from + 1}–${c.to + 1}); that lead-in is left out of its charges`,
+      );
+    if (trimmed.open.length)
+      warnings.push(
+        `cycle${trimmed.open.length === 1 ? '' : 's'} ${trimmed.open.join(', ')} ${trimmed.open.length === 1 ? 'does' : 'do'} not end where ${trimmed.open.length === 1 ? 'it starts' : 'they start'}: the charges of an open loop do not balance, so ${trimmed.open.length === 1 ? 'its' : 'their'} S-value${trimmed.open.length === 1 ? ' is' : 's are'} biased`,
       );
   }
   const cycles = analyzeCycles(s.time, s.potential, s.current, segments, direction, scanRate);

@@ -142,6 +142,52 @@ export function cyclesFromColumn(cycle: Float64Array, potential?: Float64Array):
   return out.filter((s) => s.end > s.start);
 }
 
+/** A stretch cut off the start of a cycle: its samples `from`…`to` (the new start). */
+export interface LeadInCut {
+  cycle: number;
+  from: number;
+  to: number;
+}
+
+/**
+ * Cycles numbered by the instrument whose charges do not pair up. A window-opening cycle's charge
+ * balance holds over a closed loop: it ends where it started. A cycle that starts away from the
+ * return side and first sweeps toward it (the instrument started between the limits) carries a
+ * lead-in whose charge no sweep undoes: it is cut off, up to the first sample before the vertex
+ * at the cycle's end potential. A cycle that still does not close within `thresholdV` (it ends
+ * short of where it started) is named in `open`, so its S-value can be warned about.
+ */
+export function trimLeadIns(
+  potential: Float64Array,
+  segments: Segment[],
+  direction: 'anodic' | 'cathodic',
+  thresholdV: number,
+): { segments: Segment[]; cuts: LeadInCut[]; open: number[] } {
+  const sgn = direction === 'anodic' ? 1 : -1;
+  const cuts: LeadInCut[] = [];
+  const open: number[] = [];
+  const out = segments.map((seg, n) => {
+    // The vertex: the outermost sample in the window direction.
+    let vertex = seg.start;
+    for (let k = seg.start; k <= seg.end; k++)
+      if (sgn * potential[k]! > sgn * potential[vertex]!) vertex = k;
+    const endV = potential[seg.end]!;
+    let start = seg.start;
+    // Started on the vertex side of the end potential and swept back first: a lead-in.
+    if (sgn * (potential[start]! - endV) > thresholdV) {
+      let k = start;
+      while (k < vertex && sgn * (potential[k]! - endV) > 0) k++;
+      if (k > start && k < vertex) {
+        cuts.push({ cycle: n + 1, from: start, to: k });
+        start = k;
+      }
+    }
+    if (Math.abs(potential[start]! - endV) > thresholdV) open.push(n + 1);
+    return { start, end: seg.end };
+  });
+  return { segments: out, cuts, open };
+}
+
 /**
  * Which kind of turning point is the vertex of a window-opening CV: the kind whose potentials
  * spread more (the side being opened); null when both spread alike within `toleranceV`.

@@ -4,12 +4,15 @@ import {
   analyzeText,
   cyclesFromColumn,
   cyclesFromTurningPoints,
+  cvWindowOpeningSamples,
+  analyzeSamples,
   findScale,
   formatExport,
   holdSamples,
   lsvSamples,
   readTable,
   splitHeaderName,
+  trimLeadIns,
   turningPoints,
   vertexTolerance,
 } from '#lib/analysis/index.ts';
@@ -86,6 +89,55 @@ describe('segmentation of real-world CV files', () => {
     ]);
     // Taking the first extreme as the vertex kind pairs them one sweep off.
     expect(cyclesFromTurningPoints(e, tps)[0]).toEqual({ start: 0, end: 80 });
+  });
+
+  it('cuts a lead-in off a numbered first cycle, so its charges still pair up', () => {
+    // The instrument starts at 0.3 V and numbers everything up to the first return as cycle 1:
+    // 0.3 → 0 (lead-in, cathodic current only), then the model's cycles 0 → vertex → 0.
+    const base = cvWindowOpeningSamples({ verticesV: [0.7, 0.8, 0.9, 1.0, 1.1, 1.2] });
+    const c = 0.01; // the model's defaults: 10 mF, 5 mV/s, a sample every 0.2 s
+    const lead = Array.from({ length: 300 }, (_, k) => 0.3 - 0.001 * k);
+    const s = {
+      time: Float64Array.from([...lead.map((_, k) => 0.2 * k), ...base.time!.map((t) => t + 60)]),
+      potential: Float64Array.from([...lead, ...base.potential]),
+      current: Float64Array.from([...lead.map(() => -c * 0.005), ...base.current]),
+      cycle: Float64Array.from([...lead.map(() => 1), ...base.cycle!]),
+      step: null,
+    };
+    const o = { method: 'cv', criterion: 's:0.1', direction: 'anodic' } as const;
+    const clean = analyzeSamples(base, o);
+    const led = analyzeSamples(s, o);
+    // Left in, the lead-in's 3 mC of cathodic charge would put cycle 1 at S ≈ −0.3.
+    expect(led.cycles![0]!.sValue).toBeCloseTo(clean.cycles![0]!.sValue!, 12);
+    expect(led.limit).toEqual(clean.limit);
+    expect(led.warnings.join('\n')).toContain(
+      'cycle 1 first sweeps against the window direction (from 0.300 V to 0.000 V, samples 1–301)',
+    );
+    expect(clean.warnings.join('\n')).not.toContain('against the window direction');
+  });
+
+  it('keeps a numbered cycle that closes where it started, and warns of one that does not', () => {
+    // 0.3 → 0 → 0.7 → 0.3 is a closed loop (its charges pair up whatever the start): kept whole.
+    const pts: number[] = [];
+    const ramp = (a: number, b: number) => {
+      const n = Math.round(Math.abs(b - a) / 0.001);
+      for (let k = pts.length ? 1 : 0; k <= n; k++) pts.push(a + ((b - a) * k) / n);
+    };
+    ramp(0.3, 0);
+    ramp(0, 0.7);
+    ramp(0.7, 0.3);
+    const closedEnd = pts.length;
+    ramp(0.3, 0);
+    ramp(0, 0.8);
+    ramp(0.8, 0.3);
+    const e = Float64Array.from(pts);
+    const cycle = Float64Array.from(pts.map((_, k) => (k < closedEnd ? 1 : 2)));
+    const segs = cyclesFromColumn(cycle, e);
+    expect(trimLeadIns(e, segs, 'anodic', 0.01)).toEqual({ segments: segs, cuts: [], open: [] });
+    // Cut short on the way back (ends at 0.5 V, started at 0.3 V): named as open.
+    const short = { start: segs[0]!.start, end: segs[0]!.start + 300 + 700 + 200 };
+    expect(e[short.end]).toBeCloseTo(0.5, 9);
+    expect(trimLeadIns(e, [short], 'anodic', 0.01).open).toEqual([1]);
   });
 
   it('groups repeats by the spacing of the vertices, not a fixed 2 mV', () => {
