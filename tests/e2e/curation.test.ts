@@ -243,6 +243,9 @@ describe('curation in the browser', () => {
       .first()
       .waitFor();
     await cur.getByTestId('reported-mark').first().waitFor();
+    // No internal slugs or JSON paths on the screen, the duplicates comparison included.
+    const screen = await cur.locator('main').innerText();
+    expect(screen).not.toMatch(/ref-ag-agcl|reportedLimits\.|electrolyte\.|workingElectrode\./);
     // Deciding needs a claim: the buttons wait for it, and claiming is one visible step.
     expect(await cur.getByTestId('publish').isDisabled()).toBe(true);
     await cur.getByRole('button', { name: 'Claim and decide' }).click();

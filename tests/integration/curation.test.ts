@@ -711,6 +711,14 @@ describe('possible duplicates', () => {
     expect(byCond.fields.find((f: { label: string }) => f.label === 'Working electrode').same).toBe(
       true,
     );
+    // In words: vocabulary names, the method and the criterion, never ids or slugs.
+    const field = (label: string) =>
+      byCond.fields.find((f: { label: string }) => f.label === label).mine;
+    expect(field('Components')).toBe('lithium hexafluorophosphate, propylene carbonate');
+    expect(field('Working electrode')).toMatch(/^glassy carbon/);
+    expect(field('Method')).toBe('CV window opening');
+    expect(field('Criterion')).toBe('S ≤ 0.1');
+    expect(field('Anodic limit')).toBe('1 V vs saturated calomel electrode');
     // The review screen carries the same list.
     const detail = await ok(
       await as(curators[0]!.cookie, `/api/v1/review/records/${mine.handle}`),

@@ -10,6 +10,7 @@ import type { VocabularyKind, VocabularyTerm } from '../shared/vocabulary.ts';
 import type { RawCurve } from '../shared/answers.ts';
 import { apiPath, getJson } from './api.ts';
 import { engineCriterion } from '../shared/criteria.ts';
+import { METHOD_NAMES } from '../shared/record-labels.ts';
 import type {
   CommonCriterionResult,
   FacetName,
@@ -70,11 +71,7 @@ export const SORT_KEYS = [
 ] as const;
 export type SortKey = (typeof SORT_KEYS)[number];
 
-export const METHOD_NAMES: Record<MethodKind, string> = {
-  'cv-window-opening': 'CV window opening',
-  lsv: 'linear sweep',
-  'potentiostatic-holds': 'potentiostatic holds',
-};
+export { METHOD_NAMES };
 export const CRITERION_NAMES: Record<CriterionKind, string> = {
   's-value': 'S-value',
   ce: 'coulombic efficiency',

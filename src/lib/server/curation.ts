@@ -69,7 +69,8 @@ import type {
   RecordStatus,
   TransitionAction,
 } from '../shared/record.ts';
-import { pathLabel } from '../shared/record-labels.ts';
+import { METHOD_NAMES, pathLabel } from '../shared/record-labels.ts';
+import { criterionWords } from '../shared/criteria.ts';
 import type { DecisionResult } from '#lib/shared/curation.ts';
 export type { DecisionResult };
 
@@ -216,9 +217,20 @@ export function checklistOf(c: RecordContent, v: VersionRow): ChecklistItem[] {
 const fmt = (x: number | null, unit: string, digits = 3) =>
   x === null ? '—' : `${Number(x.toFixed(digits))} ${unit}`.trim();
 
-function comparable(v: VersionRow) {
+/** Names for the term ids a comparison shows (id itself when a term is unknown). */
+type Names = Map<string, string>;
+const named = (names: Names, id: string | null) => (id === null ? '—' : (names.get(id) ?? id));
+
+function comparable(v: VersionRow, names: Names) {
   return [
-    { label: 'Components', path: 'electrolyte', value: [...v.component_ids].sort().join(', ') },
+    {
+      label: 'Components',
+      path: 'electrolyte',
+      value: v.component_ids
+        .map((id) => named(names, id))
+        .sort()
+        .join(', '),
+    },
     {
       label: 'Salt concentration',
       path: 'electrolyte.salts',
@@ -227,16 +239,22 @@ function comparable(v: VersionRow) {
     {
       label: 'Working electrode',
       path: 'workingElectrode.material',
-      value: `${v.we_material_id}${v.we_form ? ` (${v.we_form})` : ''}`,
+      value: `${named(names, v.we_material_id)}${v.we_form ? ` (${v.we_form})` : ''}`,
     },
     { label: 'Cell', path: 'cellType', value: v.cell_type },
-    { label: 'Method', path: 'method', value: v.method },
+    {
+      label: 'Method',
+      path: 'method',
+      value: METHOD_NAMES[v.method as MethodKind] ?? v.method,
+    },
     { label: 'Scan rate', path: 'method.scanRateMVs', value: fmt(v.scan_rate_mv_s, 'mV/s', 2) },
     { label: 'Temperature', path: 'temperatureC', value: fmt(v.temperature_c, '°C', 1) },
     {
       label: 'Criterion',
       path: 'criterion',
-      value: v.criterion_kind ? `${v.criterion_kind} ${v.criterion_threshold}` : '—',
+      value: v.criterion_kind
+        ? criterionWords((v.content as unknown as RecordContent).criterion)
+        : '—',
     },
     {
       label: 'Cathodic limit',
@@ -244,7 +262,7 @@ function comparable(v: VersionRow) {
       value:
         v.reported_cathodic_v === null
           ? '—'
-          : `${fmt(v.reported_cathodic_v, 'V')} vs ${v.reported_cathodic_ref}`,
+          : `${fmt(v.reported_cathodic_v, 'V')} ${refWords(names, v.reported_cathodic_ref)}`,
     },
     {
       label: 'Anodic limit',
@@ -252,16 +270,19 @@ function comparable(v: VersionRow) {
       value:
         v.reported_anodic_v === null
           ? '—'
-          : `${fmt(v.reported_anodic_v, 'V')} vs ${v.reported_anodic_ref}`,
+          : `${fmt(v.reported_anodic_v, 'V')} ${refWords(names, v.reported_anodic_ref)}`,
     },
     { label: 'Source DOI', path: 'source.doi', value: v.source_doi ?? '—' },
     { label: 'Evidence', path: 'evidenceLevel', value: v.evidence_level },
   ];
 }
 
-function duplicateView(mine: VersionRow, other: CandidateRow): DuplicateView {
-  const a = comparable(mine);
-  const b = comparable(other);
+const refWords = (names: Names, ref: string | null) =>
+  ref === 'cell' ? '(cell voltage)' : `vs ${named(names, ref)}`;
+
+function duplicateView(mine: VersionRow, other: CandidateRow, names: Names): DuplicateView {
+  const a = comparable(mine, names);
+  const b = comparable(other, names);
   const reasons: string[] = [];
   if (other.same_doi) reasons.push(`same source DOI (${other.source_doi})`);
   if (other.same_conditions)
@@ -575,7 +596,14 @@ async function duplicatesOf(
     const h = await getRecordHead(db, r.handle);
     if (h && canSee(principal, policyObject(h))) visible.push(r);
   }
-  return visible.map((r) => duplicateView(v, r));
+  const ids = new Set<string>();
+  for (const x of [v, ...visible]) {
+    for (const id of [...x.component_ids, x.we_material_id]) ids.add(id);
+    for (const ref of [x.reported_cathodic_ref, x.reported_anodic_ref])
+      if (ref && ref !== 'cell') ids.add(ref);
+  }
+  const names: Names = new Map((await getTermsByIds(db, [...ids])).map((t) => [t.id, t.name]));
+  return visible.map((r) => duplicateView(v, r, names));
 }
 
 /** Everything a curator weighs before deciding. */

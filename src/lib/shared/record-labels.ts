@@ -2,6 +2,15 @@
 // versions and the contributor's view of those comments: one list, so every screen names a field
 // the same way and no one reads a JSON path.
 
+import type { MethodKind } from './record.ts';
+
+/** Each method of measuring a window in words. */
+export const METHOD_NAMES: Record<MethodKind, string> = {
+  'cv-window-opening': 'CV window opening',
+  lsv: 'linear sweep',
+  'potentiostatic-holds': 'potentiostatic holds',
+};
+
 const LABELS: Record<string, string> = {
   title: 'Title',
   electrolyte: 'Electrolyte',
