@@ -221,6 +221,18 @@ describe('glassy versus activated carbon, two electrolytes, end to end', () => {
       .evaluate((s) => s.getBoundingClientRect().right);
     expect((await fade.boundingBox())!.x + 36).toBeLessThan(plotRight - 100);
     expect(await text(page, 'ladder-key')).toContain('not reached');
+    // The conversion's uncertainty, as the table states it, drawn as whiskers on both measured
+    // ends, and the spread gives each group its worst conversion.
+    const note = await row(page, h.gcW1!).locator('[data-conversion]').innerText();
+    const mV = Number(/± ?(\d+) mV/.exec(note)?.[1] ?? 0);
+    const whiskers = ladder.locator(`g[data-handle="${h.gcW1}"] [data-uncertainty]`);
+    expect(await whiskers.count(), note).toBe(mV >= 5 ? 2 : 0);
+    if (mV >= 5) {
+      expect(await text(page, 'ladder-key')).toContain('whiskers');
+      expect(await ladder.locator(`g[data-handle="${h.gcW1}"] title`).textContent()).toContain(
+        `conversion ± ${mV} mV`,
+      );
+    }
 
     // One colour per electrode, the same in the ladder, the table and the spread.
     const fill = (sel: import('playwright-core').Locator) =>
@@ -246,6 +258,9 @@ describe('glassy versus activated carbon, two electrolytes, end to end', () => {
     expect(await gcGroup.count()).toBe(1);
     expect(await gcGroup.innerText()).toContain('21 mol/kg');
     expect(await gcGroup.locator('[data-col="n"]').innerText()).toBe('3');
+    expect(await gcGroup.locator('[data-col="conversion"]').innerText()).toContain(
+      note.split(' · ')[0]!,
+    );
     expect(await spread.locator('tr[data-electrode="activated-carbon"]').count()).toBe(2);
     // The direct answer: GC − AC. Anodic pairs 1.0898+{0, 0.05} − (1.0898+{−0.1, −0.05}) →
     // {0.1, 0.05, 0.15, 0.1}, median +0.100 (gcW3's open anodic end left out: n 2/2); cathodic

@@ -24,6 +24,10 @@ export interface LadderRow {
   anodic: LimitEnd;
   /** The record keeps its own criterion (no raw data to apply the common one). */
   ownCriterion?: boolean;
+  /** Bound on the error of the reference conversion (V), drawn as whiskers; null: not judged. */
+  uncertaintyV?: number | null;
+  /** The conversion is approximate (an unknown liquid junction or metal/ion scale). */
+  approximate?: boolean;
 }
 
 interface Props {
@@ -79,6 +83,7 @@ export default function WindowLadder({ rows, axisLabel, water, onPick }: Props) 
   }
   const height = M.top + lines.length * ROW + M.bottom;
   const open = rows.filter((r) => r.cathodic.state !== 'measured' || r.anodic.state !== 'measured');
+  const uncertain = rows.filter((r) => (r.uncertaintyV ?? 0) >= 0.005);
   const summary = `${rows.length} records in ${groups.length} electrode group${groups.length === 1 ? '' : 's'}, ${axisLabel}.${open.length ? ` ${open.length} with an open end (a limit not reached or not measured).` : ''}`;
 
   return (
@@ -178,10 +183,23 @@ export default function WindowLadder({ rows, axisLabel, water, onPick }: Props) 
           );
         }}
       </ChartFrame>
-      {open.length > 0 && (
+      {(open.length > 0 || uncertain.length > 0) && (
         <p className="text-xs text-muted dark:text-night-muted" data-testid="ladder-key">
-          <span aria-hidden="true">▸</span> an arrow: the limit was not reached, the window goes at
-          least that far · a fading end: that limit was not measured (or not found on this scale)
+          {open.length > 0 && (
+            <>
+              <span aria-hidden="true">▸</span> an arrow: the limit was not reached, the window goes
+              at least that far · a fading end: that limit was not measured (or not found on this
+              scale)
+            </>
+          )}
+          {open.length > 0 && uncertain.length > 0 && ' · '}
+          {uncertain.length > 0 && (
+            <>
+              <span aria-hidden="true">├─┤</span> whiskers: how far the conversion to this scale may
+              be off ({uncertain.length} record{uncertain.length === 1 ? '' : 's'}; dashed where it
+              is approximate)
+            </>
+          )}
         </p>
       )}
     </div>
@@ -207,7 +225,16 @@ function Bar({
   const a = value(r.cathodic);
   const b = value(r.anodic);
   const opacity = r.ownCriterion ? 0.5 : 0.9;
-  const title = `${r.handle} · ${r.group}: cathodic ${endWords(r.cathodic, 'cathodic')}, anodic ${endWords(r.anodic, 'anodic')}${r.ownCriterion ? ' (its own criterion)' : ''}`;
+  const u = r.uncertaintyV ?? null;
+  const conversion =
+    r.uncertaintyV === undefined
+      ? ''
+      : u === null
+        ? '; conversion uncertainty not judged'
+        : u > 0
+          ? `; conversion ± ${Math.round(u * 1000)} mV${r.approximate ? ', approximate' : ''}`
+          : '';
+  const title = `${r.handle} · ${r.group}: cathodic ${endWords(r.cathodic, 'cathodic')}, anodic ${endWords(r.anodic, 'anodic')}${r.ownCriterion ? ' (its own criterion)' : ''}${conversion}`;
   const parts: ReactNode[] = [];
   if (a !== null && b !== null) {
     parts.push(
@@ -238,6 +265,23 @@ function Bar({
       />,
     );
   }
+  // The conversion's uncertainty as whiskers either side of an end, when at least 5 mV (smaller
+  // is under a pixel on most axes).
+  const whisker = (e: LimitEnd, side: 'cathodic' | 'anodic') => {
+    if (e.state === 'missing' || u === null || u < 0.005) return null;
+    const [p0, p1] = [x(e.v - u), x(e.v + u)];
+    return (
+      <path
+        key={`${side}-u`}
+        d={`M${p0},${yMid - 4} V${yMid + 4} M${p0},${yMid} H${p1} M${p1},${yMid - 4} V${yMid + 4}`}
+        className="stroke-ink dark:stroke-night-ink"
+        strokeWidth={1}
+        strokeDasharray={r.approximate ? '2 2' : undefined}
+        fill="none"
+        data-uncertainty={`${side}:${u}`}
+      />
+    );
+  };
   const end = (e: LimitEnd, side: 'cathodic' | 'anodic') => {
     if (e.state === 'missing') return null;
     const px = x(e.v);
@@ -287,6 +331,8 @@ function Bar({
         {r.handle}
       </text>
       {parts}
+      {whisker(r.cathodic, 'cathodic')}
+      {whisker(r.anodic, 'anodic')}
       {end(r.cathodic, 'cathodic')}
       {end(r.anodic, 'anodic')}
       {a === null && b === null && (

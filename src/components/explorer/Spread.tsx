@@ -3,6 +3,7 @@ import { pairwiseDifference, summarize, type Summary } from '#lib/analysis/aggre
 import { METHOD_NAMES, type IndexTerm, type SearchItem } from '#lib/client/records.ts';
 import { formatNumber, formatSigned } from '#lib/shared/format.ts';
 import { electrodeColour } from '../charts/palette.tsx';
+import ConversionNote from '../ConversionNote.tsx';
 import { Failed, input, muted, panel } from '../ui.tsx';
 import {
   comparableKey,
@@ -312,6 +313,9 @@ export default function Spread({
               <th scope="col" className={th}>
                 Width
               </th>
+              <th scope="col" className={th}>
+                Conversion
+              </th>
             </tr>
           </thead>
           <tbody>
@@ -344,12 +348,40 @@ export default function Spread({
                   {cell(summarize(g.rows.map((r) => endValue(r.anodic))))}
                 </td>
                 <td className="py-1 pr-3">{cell(summarize(g.rows.map(widthOf)))}</td>
+                <td className="py-1 pr-3" data-col="conversion">
+                  <GroupConversion rows={g.rows} />
+                </td>
               </tr>
             ))}
           </tbody>
         </table>
       </div>
     </section>
+  );
+}
+
+/**
+ * What the group's conversions to the scale are worth: the largest uncertainty among its records
+ * and every reason, so a median is never read finer than its worst conversion.
+ */
+function GroupConversion({ rows }: { rows: Row[] }) {
+  const known = rows.map((r) => r.conversion.uncertaintyV).filter((u): u is number => u !== null);
+  const unjudged = rows.length - known.length;
+  return (
+    <>
+      <ConversionNote
+        uncertaintyV={known.length ? Math.max(...known) : null}
+        flags={[...new Set(rows.flatMap((r) => r.conversion.flags))].sort()}
+        approximate={rows.some((r) => r.conversion.approximate)}
+        compact
+      />
+      {unjudged > 0 && (
+        <span className={`text-xs ${muted}`}>
+          {known.length ? ' · ' : ''}
+          {unjudged} not judged
+        </span>
+      )}
+    </>
   );
 }
 

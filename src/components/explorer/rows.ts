@@ -141,6 +141,8 @@ export function ladderRows(rows: Row[]): LadderRow[] {
       cathodic: r.cathodic,
       anodic: r.anodic,
       ownCriterion: Boolean(r.own),
+      uncertaintyV: r.conversion.uncertaintyV,
+      approximate: r.conversion.approximate,
     }));
 }
 
