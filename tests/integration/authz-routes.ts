@@ -62,6 +62,13 @@ export interface Row {
   prepare?: (h: Helpers, v: Vars) => Promise<Vars>;
   /** The request ends the principal's sessions (sign-out): sign them in again afterwards. */
   endsSession?: boolean;
+  /** The body carries the authority (a mailed token): an empty body is a 400, for anyone. */
+  bodyIsCredential?: boolean;
+  /**
+   * The body names the object acted on (an upload names its record): with an empty body only a
+   * principal refused whatever the object (anonymous, a reader) can be refused.
+   */
+  bodyNamesObject?: boolean;
 }
 
 export function row(
@@ -180,7 +187,10 @@ export const ROWS: Row[] = [
     json: (v) => ({ email: v.email, password: strong }),
     prepare: async (h) => ({ email: h.unique('signup') }),
   }),
-  row('POST', '/api/v1/account/confirm', '404', { json: { token: 'not-a-real-token-at-all' } }),
+  row('POST', '/api/v1/account/confirm', '404', {
+    json: { token: 'not-a-real-token-at-all' },
+    bodyIsCredential: true,
+  }),
   row('POST', '/api/v1/account/password', '401 400 400 400 400 400 400', {
     json: { currentPassword: 'not the current one', newPassword: strong },
   }),
@@ -188,6 +198,7 @@ export const ROWS: Row[] = [
     json: { email: 'nobody-here@example.test' },
   }),
   row('POST', '/api/v1/account/password/reset', '404', {
+    bodyIsCredential: true,
     json: { token: 'not-a-real-token-at-all', password: strong },
   }),
   row('GET', '/api/v1/account/tokens', '401 200 200 200 200 200 200'),
@@ -201,7 +212,7 @@ export const ROWS: Row[] = [
 
   // administration
   row('GET', '/api/v1/admin/users', '401 403 403 403 403 200 403'),
-  row('PATCH', '/api/v1/admin/users/[id]', '401 404 404 404 404 200 404', {
+  row('PATCH', '/api/v1/admin/users/[id]', '401 403 403 403 403 200 403', {
     path: '/api/v1/admin/users/{target}',
     json: { role: 'reader' },
   }),
@@ -264,7 +275,8 @@ export const ROWS: Row[] = [
     path: '/api/v1/records/{pub}/diff?from=1&to=1',
     prepare: async () => ({ pub: await publishedRecord() }),
   }),
-  row('POST', '/api/v1/uploads', '401 404 403 201 404 404 404', {
+  row('POST', '/api/v1/uploads', '401 403 403 201 404 404 404', {
+    bodyNamesObject: true,
     json: (v: Vars) => ({
       record: v.draft,
       name: 'run.csv',
@@ -279,7 +291,7 @@ export const ROWS: Row[] = [
     path: '/api/v1/uploads/{upload}',
     prepare: async (_h, v) => ({ upload: await pendingUpload(v.labA!) }),
   }),
-  row('POST', '/api/v1/uploads/[id]/complete', '401 404 404 404 404 404 404', {
+  row('POST', '/api/v1/uploads/[id]/complete', '401 403 404 404 404 404 404', {
     path: '/api/v1/uploads/{upload}/complete',
     prepare: async (_h, v) => ({ upload: await pendingUpload(v.labA!) }),
   }),
@@ -355,7 +367,7 @@ export const ROWS: Row[] = [
     prepare: async () => ({ sub: await submittedRecord() }),
   }),
   row('GET', '/api/v1/review/flags', '401 403 403 403 200 200 403'),
-  row('POST', '/api/v1/review/flags/[id]/resolution', '401 404 404 404 200 200 404', {
+  row('POST', '/api/v1/review/flags/[id]/resolution', '401 403 403 403 200 200 403', {
     path: '/api/v1/review/flags/{flag}/resolution',
     json: { outcome: 'dismiss', version: 1, reason: 'checked against the raw data' },
     prepare: async () => ({ flag: (await openFlag()).flag }),

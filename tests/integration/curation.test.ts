@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import { randomBytes } from 'node:crypto';
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -827,13 +828,17 @@ describe('flags', () => {
 
   it("withdraws with a tombstone, and refuses readers and the record's owner", async () => {
     const { handle, version, flag } = await flagged('flag to withdraw');
-    // The reporter may see their flag but not resolve it; anyone else does not see it at all.
+    // Only curators resolve flags: the reporter and the record's owner are refused for their
+    // role, before the flag is looked up, as for a flag id that does not exist.
     expect(
       (await resolve(reader, flag, { outcome: 'withdraw', version, reason: 'x' })).status,
     ).toBe(403);
     expect((await resolve(owner, flag, { outcome: 'dismiss', version, reason: 'x' })).status).toBe(
-      404,
+      403,
     );
+    expect(
+      (await resolve(owner, randomUUID(), { outcome: 'dismiss', version, reason: 'x' })).status,
+    ).toBe(403);
     expect(
       (
         await asJson(null, `/api/v1/review/flags/${flag}/resolution`, 'POST', {

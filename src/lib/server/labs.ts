@@ -13,7 +13,7 @@ import {
 } from './repositories/labs.ts';
 import { findUserByEmail, findUserById, isUuid } from './repositories/users.ts';
 import { deliver, mailAccountChange } from './auth/mails.ts';
-import type { LabRole, Principal } from '../shared/principal.ts';
+import type { LabRole, Principal, UserPrincipal } from '../shared/principal.ts';
 import type { LabView, LabMemberView } from '#lib/shared/answers.ts';
 export type { LabView, LabMemberView };
 
@@ -83,15 +83,25 @@ export async function createLab(
 }
 
 /** Adds a member by e-mail, or changes their role when they are one already. */
+/** The lab whose members the principal may manage: 401, 404 for no such lab, 403 otherwise. */
+export async function managedLab(
+  db: Db,
+  principal: Principal,
+  slug: string,
+): Promise<{ actor: UserPrincipal; lab: Lab }> {
+  const actor = requireUser(principal);
+  const lab = await labOr404(db, slug);
+  authorize(actor, 'lab.members.manage', { type: 'lab', labId: lab.id }, { what: 'lab' });
+  return { actor, lab };
+}
+
 export async function addMember(
   db: Db,
   principal: Principal,
   slug: string,
   input: { email: string; role: LabRole },
 ): Promise<LabMemberView> {
-  const actor = requireUser(principal);
-  const lab = await labOr404(db, slug);
-  authorize(actor, 'lab.members.manage', { type: 'lab', labId: lab.id }, { what: 'lab' });
+  const { actor, lab } = await managedLab(db, principal, slug);
   const user = await findUserByEmail(db, input.email);
   if (!user || user.disabledAt)
     throw new ValidationError([{ path: 'email', message: 'no active account has this address' }]);
@@ -105,9 +115,7 @@ export async function changeMember(
   userId: string,
   role: LabRole,
 ): Promise<LabMemberView> {
-  const actor = requireUser(principal);
-  const lab = await labOr404(db, slug);
-  authorize(actor, 'lab.members.manage', { type: 'lab', labId: lab.id }, { what: 'lab' });
+  const { actor, lab } = await managedLab(db, principal, slug);
   const member = isUuid(userId)
     ? (await listLabMembers(db, lab.id)).find((m) => m.userId === userId)
     : undefined;
@@ -159,9 +167,7 @@ export async function removeMember(
   slug: string,
   userId: string,
 ): Promise<void> {
-  const actor = requireUser(principal);
-  const lab = await labOr404(db, slug);
-  authorize(actor, 'lab.members.manage', { type: 'lab', labId: lab.id }, { what: 'lab' });
+  const { actor, lab } = await managedLab(db, principal, slug);
   const user = isUuid(userId) ? await findUserById(db, userId) : null;
   const removed = await db.transaction().execute(async (trx) => {
     const previous = user ? await deleteMembership(trx, lab.id, user.id) : null;

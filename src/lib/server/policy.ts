@@ -418,6 +418,10 @@ const ATTEMPT_FLOOR: Partial<Record<Action, Role>> = {
   'audit.read': 'curator',
   'lab.create': 'admin',
   'user.list': 'admin',
+  'user.setRole': 'admin',
+  'user.disable': 'admin',
+  'flag.resolve': 'curator',
+  'rawFile.upload': 'contributor',
 };
 
 /**

@@ -9,7 +9,7 @@ import { noteRecordEvent } from './watch-events.ts';
 import type { RecordEventKind } from '../shared/watch.ts';
 import { queueMail, wakeOutbox, type OutgoingMail } from './outbox.ts';
 import { authorize, can, type Principal, type RecordObject, type UserPrincipal } from './policy.ts';
-import { TRANSITIONS, nextStatus } from './record-status.ts';
+import { TRANSITIONS, nextStatus, type Transition } from './record-status.ts';
 import { getRecord, policyObject, visibleHead } from './record-views.ts';
 import { insertAuditEvent, type DbOrTrx } from './repositories/audit.ts';
 import {
@@ -24,6 +24,38 @@ import {
 
 // Moving a record along the status machine of record-status.ts: the checks, the decision, flag
 // and audit rows of each move, and the contributor's receipt on submission.
+
+/** May the principal make move `t` on a record in the state `o`? */
+function mayMove(principal: Principal, t: Transition, o: RecordObject): boolean {
+  return t.policy === 'flag.resolve'
+    ? can(principal, 'flag.resolve', { type: 'flag', reporterId: '', record: o })
+    : can(principal, t.policy as 'record.read', o);
+}
+
+function refuse(principal: Principal): never {
+  if (principal.kind === 'anonymous') throw new UnauthorizedError();
+  throw new ForbiddenError();
+}
+
+/**
+ * Before a move's body is read: 404 when the record is not visible, 401/403 when no move is open
+ * to the principal on it (a flag only while the record can be flagged; any other move from any
+ * status it starts from, so a stale retry by someone who could make it still hears 409).
+ */
+export async function authorizeTransitionAttempt(
+  db: DbOrTrx,
+  principal: Principal,
+  handle: string,
+): Promise<void> {
+  const head = await visibleHead(db, principal, handle);
+  const obj = policyObject(head);
+  const open = Object.values(TRANSITIONS).some((t) =>
+    t.policy === 'record.flag'
+      ? t.from.includes(head.status as RecordStatus) && mayMove(principal, t, obj)
+      : t.from.some((status) => mayMove(principal, t, { ...obj, status })),
+  );
+  if (!open) refuse(principal);
+}
 
 /** Moves a record along the status machine; 409 for a stale version or a move the status does not allow. */
 export async function transitionRecord(
@@ -92,14 +124,7 @@ export async function applyTransition(
   const obj = policyObject(head);
   // Who may make this move at all is asked first: a stale version or a wrong status (and the
   // record's current version) is told only to someone who could make it from a status it starts from.
-  const mayMove = (o: RecordObject) =>
-    t.policy === 'flag.resolve'
-      ? can(principal, 'flag.resolve', { type: 'flag', reporterId: '', record: o })
-      : can(principal, t.policy as 'record.read', o);
-  if (!t.from.some((status) => mayMove({ ...obj, status }))) {
-    if (principal.kind === 'anonymous') throw new UnauthorizedError();
-    throw new ForbiddenError();
-  }
+  if (!t.from.some((status) => mayMove(principal, t, { ...obj, status }))) refuse(principal);
   if (body.version !== head.current_version) {
     await refuseIfDecided(trx, principal, head, body);
     throw new ConflictError(

@@ -12,6 +12,7 @@ import { NotFoundError } from './errors.ts';
 import { currentGeneration, GenerationCache } from './generation.ts';
 import {
   audienceOf,
+  authorize,
   can,
   canSee,
   readsWorkingVersion,
@@ -198,6 +199,20 @@ export async function visibleHead(
   const head = await getRecordHead(db, handle);
   if (!head || !canSee(principal, policyObject(head))) throw new NotFoundError('record');
   return head;
+}
+
+/**
+ * Before a request's body is read: 404 when the record is not visible to the principal, 401/403
+ * when it may not `action` it. The service asks again under its lock.
+ */
+export async function authorizeRecordAttempt(
+  db: DbOrTrx,
+  principal: Principal,
+  handle: string,
+  action: 'record.update',
+): Promise<void> {
+  const head = await visibleHead(db, principal, handle);
+  authorize(principal, action, policyObject(head), { what: 'record' });
 }
 
 // Record answers held per generation, per reader: what a record shows (which version, its

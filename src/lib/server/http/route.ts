@@ -18,11 +18,20 @@ import { problem } from './problem.ts';
  */
 export function endpoint(
   fn: (ctx: APIContext) => Promise<Response> | Response,
-  opts: { attempt?: Action; idempotent?: boolean } = {},
+  opts: {
+    attempt?: Action;
+    idempotent?: boolean;
+    /**
+     * Asks about the object the path names before the body is read: 404 when it is not visible,
+     * 401/403 when the principal may not act on it at all. The service asks again, exactly.
+     */
+    guard?: (ctx: APIContext) => Promise<unknown>;
+  } = {},
 ): APIRoute {
   return async (ctx) => {
     try {
       if (opts.attempt) authorizeAttempt(ctx.locals.principal, opts.attempt);
+      if (opts.guard) await opts.guard(ctx);
       const key = opts.idempotent ? ctx.request.headers.get(IDEMPOTENCY_HEADER) : null;
       if (key !== null) {
         return await withIdempotencyKey(ctx.request, ctx.locals.principal, key, async () => {

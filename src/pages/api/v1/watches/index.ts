@@ -10,10 +10,12 @@ export const GET = endpoint(async ({ locals }) =>
 );
 
 /** Saves a comparison (the /windows address) as a watch. */
-export const POST = endpoint(async ({ locals, request }) =>
-  answer(
-    watchViewSchema,
-    await createWatch(db(), locals.principal, await readJson(request, createWatchBody)),
-    201,
-  ),
+export const POST = endpoint(
+  async ({ locals, request }) =>
+    answer(
+      watchViewSchema,
+      await createWatch(db(), locals.principal, await readJson(request, createWatchBody)),
+      201,
+    ),
+  { attempt: 'watch.create' },
 );

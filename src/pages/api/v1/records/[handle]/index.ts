@@ -2,7 +2,7 @@ import { db, readDb } from '#lib/server/db/index.ts';
 import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readJson } from '#lib/server/http/route.ts';
 import { editRecord } from '#lib/server/records.ts';
-import { getRecord } from '#lib/server/record-views.ts';
+import { authorizeRecordAttempt, getRecord } from '#lib/server/record-views.ts';
 import { editRecordBody } from '#lib/shared/record.ts';
 import { recordDetailSchema } from '#lib/shared/record-views.ts';
 
@@ -22,5 +22,9 @@ export const PUT = endpoint(
         await readJson(request, editRecordBody),
       ),
     ),
-  { attempt: 'record.update' },
+  {
+    attempt: 'record.update',
+    guard: ({ locals, params }) =>
+      authorizeRecordAttempt(db(), locals.principal, params.handle!, 'record.update'),
+  },
 );

@@ -1,4 +1,5 @@
 import { decide } from '#lib/server/curation.ts';
+import { authorizeTransitionAttempt } from '#lib/server/record-transitions.ts';
 import { db } from '#lib/server/db/index.ts';
 import { answer } from '#lib/server/http/problem.ts';
 import { endpoint, readJson } from '#lib/server/http/route.ts';
@@ -38,5 +39,10 @@ export const POST = endpoint(
       await transitionRecord(db(), locals.principal, params.handle!, body),
     );
   },
-  { attempt: 'record.submit', idempotent: true },
+  {
+    attempt: 'record.submit',
+    idempotent: true,
+    guard: ({ locals, params }) =>
+      authorizeTransitionAttempt(db(), locals.principal, params.handle!),
+  },
 );

@@ -1,7 +1,7 @@
 import { db } from '#lib/server/db/index.ts';
 import { endpoint, readJson } from '#lib/server/http/route.ts';
 import { answer } from '#lib/server/http/problem.ts';
-import { changeMember, removeMember } from '#lib/server/labs.ts';
+import { changeMember, managedLab, removeMember } from '#lib/server/labs.ts';
 import { memberChangeInput } from '#lib/shared/account.ts';
 import { labMemberViewSchema } from '#lib/shared/answers.ts';
 
@@ -13,7 +13,10 @@ export const PATCH = endpoint(
       await changeMember(db(), locals.principal, params.slug ?? '', params.userId ?? '', role),
     );
   },
-  { attempt: 'lab.members.manage' },
+  {
+    attempt: 'lab.members.manage',
+    guard: ({ locals, params }) => managedLab(db(), locals.principal, params.slug ?? ''),
+  },
 );
 
 export const DELETE = endpoint(

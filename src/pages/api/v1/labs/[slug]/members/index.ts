@@ -1,7 +1,7 @@
 import { db } from '#lib/server/db/index.ts';
 import { endpoint, readJson } from '#lib/server/http/route.ts';
 import { answer } from '#lib/server/http/problem.ts';
-import { addMember, getLabMembers } from '#lib/server/labs.ts';
+import { addMember, getLabMembers, managedLab } from '#lib/server/labs.ts';
 import { memberAddInput } from '#lib/shared/account.ts';
 import { labMemberViewSchema, memberListSchema } from '#lib/shared/answers.ts';
 
@@ -21,5 +21,8 @@ export const POST = endpoint(
       201,
     );
   },
-  { attempt: 'lab.members.manage' },
+  {
+    attempt: 'lab.members.manage',
+    guard: ({ locals, params }) => managedLab(db(), locals.principal, params.slug ?? ''),
+  },
 );
