@@ -243,6 +243,39 @@ describe('the upload flow', () => {
     const j = (await get('j:10uA/cm2')).find((x) => x.handle === handle)!;
     expect(j.commonCriterion.applied).toBe(false);
     expect((await as(null, `/api/v1/records?criterion=bogus`)).status).toBe(400);
+
+    // Sorting follows the numbers shown, not the reported ones. A third record states 1.0 V vs
+    // SHE; the raw-backed one reports 1.09 V but shows 1.0898 V at S ≤ 0.1 and 0.9326 V at
+    // S ≤ 0.01; the first stated one keeps 1.0 V vs SCE = 1.241 V vs SHE (SCE 0.241 V, common
+    // practice). So the raw-backed record moves from second to first.
+    const low = await (
+      await asJson(owner, '/api/v1/records', 'POST', {
+        content: content({
+          title: `Stated low ${token}`,
+          referenceElectrode: 'SHE',
+          reportedLimits: { anodic: { valueV: 1.0, reference: 'SHE' } },
+        }),
+      })
+    ).json();
+    await asJson(owner, `/api/v1/records/${low.handle}/transitions`, 'POST', {
+      action: 'submit',
+      version: 1,
+    });
+    await asJson(curator, `/api/v1/records/${low.handle}/transitions`, 'POST', {
+      action: 'publish',
+      version: 1,
+    });
+    const order = async (criterion: string, sort: string) => {
+      const res = await as(
+        null,
+        `/api/v1/records?q=${token}&criterion=${encodeURIComponent(criterion)}&sort=${sort}&scale=SHE`,
+      );
+      expect(res.status).toBe(200);
+      return ((await res.json()).items as { handle: string }[]).map((x) => x.handle);
+    };
+    expect(await order('s:0.1', 'anodic')).toEqual([low.handle, handle, stated.handle]);
+    expect(await order('s:0.01', 'anodic')).toEqual([handle, low.handle, stated.handle]);
+    expect(await order('s:0.01', '-anodic')).toEqual([stated.handle, low.handle, handle]);
   });
 });
 

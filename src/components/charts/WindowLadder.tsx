@@ -1,17 +1,10 @@
 import { useId, type ReactNode } from 'react';
 import { formatNumber } from '#lib/shared/format.ts';
+import type { LimitEnd } from '#lib/shared/limits-on-scale.ts';
 import { electrodeColour, ElectrodeLegend } from './palette.tsx';
 import { AxisBottom, ChartFrame, linearScale, niceTicks, padded } from './plot.tsx';
 
-/**
- * One end of a window as a chart draws it: a measured limit, a limit not reached (the window lies
- * beyond `v`, the outermost potential that still passed), or no limit at all (not measured, or not
- * found on this scale).
- */
-export type LimitEnd =
-  | { state: 'measured'; v: number }
-  | { state: 'beyond'; v: number }
-  | { state: 'missing'; why: string };
+export type { LimitEnd };
 
 /** One record on the ladder: limits (V) on the chosen scale. */
 export interface LadderRow {

@@ -3,13 +3,13 @@ import { waterWindow } from '#lib/analysis/water.ts';
 import {
   longName,
   METHOD_NAMES,
-  ownToScale,
   shortName,
   type IndexTerm,
   type SearchItem,
 } from '#lib/client/records.ts';
 import { commonCriterionWords, criterionWords } from '#lib/shared/criteria.ts';
-import type { LadderRow, LimitEnd } from '../charts/WindowLadder.tsx';
+import { commonEnd, shownEnds, type LimitEnd } from '#lib/shared/limits-on-scale.ts';
+import type { LadderRow } from '../charts/WindowLadder.tsx';
 
 export type { LimitEnd };
 
@@ -38,29 +38,6 @@ export interface Row {
 const SIDES = ['cathodic', 'anodic'] as const;
 type Side = (typeof SIDES)[number];
 
-function ownEnd(item: SearchItem, side: Side): LimitEnd {
-  const v = item.onScale[side];
-  if (v !== null && Number.isFinite(v)) return { state: 'measured', v };
-  if (!item.limits[side] && item.computed[side === 'cathodic' ? 'cathodicV' : 'anodicV'] === null)
-    return { state: 'missing', why: 'not measured' };
-  return { state: 'missing', why: item.onScale.note ?? 'not on this scale' };
-}
-
-function commonEnd(item: SearchItem, side: Side): LimitEnd | null {
-  const cc = item.commonCriterion;
-  const status = cc?.status[side];
-  if (!cc?.applied || !status) return null;
-  if (status === 'reached') {
-    const v = ownToScale(item, side, cc[side === 'cathodic' ? 'cathodicV' : 'anodicV']);
-    return v === null ? { state: 'missing', why: 'not on this scale' } : { state: 'measured', v };
-  }
-  if (status === 'not-reached') {
-    const v = ownToScale(item, side, cc.beyondV?.[side]);
-    return v === null ? { state: 'missing', why: 'not reached' } : { state: 'beyond', v };
-  }
-  return { state: 'missing', why: 'exceeded already at the first potential tested' };
-}
-
 export function toRow(
   item: SearchItem,
   common: boolean,
@@ -68,17 +45,14 @@ export function toRow(
 ): Row {
   let own: string | null = null;
   const ends = {} as Record<Side, LimitEnd>;
+  const shown = shownEnds(item, common);
   for (const side of SIDES) {
-    const fromCommon = common ? commonEnd(item, side) : null;
-    if (fromCommon) ends[side] = fromCommon;
-    else {
-      ends[side] = ownEnd(item, side);
-      if (common && item.commonCriterion) {
-        if (!item.commonCriterion.applied)
-          own = item.commonCriterion.reason ?? 'keeps its own criterion';
-        else if (ends[side].state !== 'missing')
-          own = `no raw data for the ${side} side: that limit is the reported one, at its own criterion`;
-      }
+    ends[side] = shown[side];
+    if (common && item.commonCriterion && !commonEnd(item, side)) {
+      if (!item.commonCriterion.applied)
+        own = item.commonCriterion.reason ?? 'keeps its own criterion';
+      else if (ends[side].state !== 'missing')
+        own = `no raw data for the ${side} side: that limit is the reported one, at its own criterion`;
     }
   }
   const c = ends.cathodic;

@@ -25,6 +25,7 @@ import {
 } from '../shared/record.ts';
 import type { Principal } from '../shared/principal.ts';
 import { commonCriterionWords } from '../shared/criteria.ts';
+import { shownSortValue } from '../shared/limits-on-scale.ts';
 import { primaryOf, type Db } from './db/index.ts';
 import { ValidationError } from './errors.ts';
 import { zodErrors } from './http/route.ts';
@@ -512,6 +513,50 @@ async function decorate(db: Db, rows: SearchRow[], q: RecordQuery): Promise<Sear
   });
 }
 
+/** At most this many matching records are sorted by limits recomputed at a common criterion. */
+export const RECOMPUTED_SORT_MAX = 2_000;
+
+const isLimitSort = (k: SortKey): k is 'cathodic' | 'anodic' | 'width' =>
+  k === 'cathodic' || k === 'anodic' || k === 'width';
+
+/**
+ * A page sorted by the numbers the comparison shows when a common criterion is chosen: the
+ * recomputed limits where they apply, the record's own elsewhere, on the chosen scale. Those exist
+ * only after recomputing, so every matching record is recomputed and sorted (missing values last,
+ * then by handle); more than RECOMPUTED_SORT_MAX matches are refused rather than sorted by the
+ * reported numbers while showing others.
+ */
+async function sortedByShown(
+  db: Db,
+  q: RecordQuery,
+  page: { sort: SortKey; desc: boolean; limit: number; offset: number },
+  total: number,
+  rowsOf: (p: typeof page) => Promise<SearchRow[]>,
+): Promise<SearchItem[]> {
+  if (total > RECOMPUTED_SORT_MAX)
+    throw new ValidationError(
+      [
+        {
+          path: 'sort',
+          message: `sorting by limits recomputed at a common criterion needs at most ${RECOMPUTED_SORT_MAX} matching records, not ${total}: narrow the comparison, sort by another column, or drop the common criterion`,
+        },
+      ],
+      'Too many records to sort by recomputed limits.',
+    );
+  const key = page.sort as 'cathodic' | 'anodic' | 'width';
+  const all = await decorate(db, await rowsOf({ ...page, limit: total, offset: 0 }), q);
+  const value = new Map(all.map((i) => [i.handle, shownSortValue(i, true, key)]));
+  const sign = page.desc ? -1 : 1;
+  all.sort((a, b) => {
+    const x = value.get(a.handle) ?? null;
+    const y = value.get(b.handle) ?? null;
+    if (x === null || y === null)
+      return x === y ? a.handle.localeCompare(b.handle) : x === null ? 1 : -1;
+    return x === y ? a.handle.localeCompare(b.handle) : sign * (x - y);
+  });
+  return all.slice(page.offset, page.offset + page.limit);
+}
+
 // Totals and facet counts cost a pass over every matching row and a page sorted on anything but
 // a selective index a scan of many, so both are kept per generation. The scope is part of every
 // key: one principal's private records never reach another's pages or counts.
@@ -602,7 +647,7 @@ async function listAt(
   const withFacets = q.facets === 'true';
   const page = { ...parseSort(q.sort), limit: q.limit, offset: q.offset };
   const index = indexAnswers(filter) ? await searchIndexAt(db, generation) : null;
-  let rows: SearchRow[];
+  let rowsOf: (p: typeof page) => Promise<SearchRow[]>;
   let counted: { total: number; facets?: Facets };
   if (index) {
     const text = filter.q
@@ -611,29 +656,33 @@ async function listAt(
         )
       : undefined;
     const set = index.filtered(filter, scope, text);
-    rows = await pages.get(generation, cacheKey(scope, filter, page), () =>
-      searchRowsByHandles(db, index.page(set, page)),
-    );
+    rowsOf = (p) =>
+      pages.get(generation, cacheKey(scope, filter, p), () =>
+        searchRowsByHandles(db, index.page(set, p)),
+      );
     counted = { total: set.size, ...(withFacets ? { facets: index.facets(set) } : {}) };
   } else {
-    [rows, counted] = await Promise.all([
+    rowsOf = (p) =>
       pages.get(
         generation,
-        cacheKey(scope, filter, page),
-        async () => (await searchRecords(db, filter, scope, page)).rows,
-      ),
-      summaries.get(generation, cacheKey(scope, filter, withFacets), () =>
-        withFacets
-          ? facetCounts(db, filter, scope)
-          : countRecords(db, filter, scope).then((total) => ({ total })),
-      ),
-    ]);
+        cacheKey(scope, filter, p),
+        async () => (await searchRecords(db, filter, scope, p)).rows,
+      );
+    counted = await summaries.get(generation, cacheKey(scope, filter, withFacets), () =>
+      withFacets
+        ? facetCounts(db, filter, scope)
+        : countRecords(db, filter, scope).then((total) => ({ total })),
+    );
   }
+  const items =
+    q.criterion && isLimitSort(page.sort)
+      ? await sortedByShown(db, q, page, counted.total, rowsOf)
+      : await decorate(db, await rowsOf(page), q);
   const result: SearchResult = {
     total: counted.total,
     limit: q.limit,
     offset: q.offset,
-    items: await decorate(db, rows, q),
+    items,
   };
   if (counted.facets) result.facets = counted.facets;
   return result;
