@@ -21,7 +21,7 @@ import {
 } from '#lib/analysis/index.ts';
 import { attachRawFile } from '#lib/server/records.ts';
 import { insertRawFile } from '#lib/server/repositories/records.ts';
-import { cleanStaleUploads, safeFileName } from '#lib/server/uploads.ts';
+import { cleanStaleUploads, safeFileName, sweepStagingObjects } from '#lib/server/uploads.ts';
 import { getObjectBytes, putObject } from '#lib/server/storage.ts';
 
 // Raw files in two phases against the built server and the S3 fake: declare, PUT to the
@@ -612,6 +612,31 @@ describe('uploads that go wrong', () => {
         })
       ).status,
     ).toBe(400);
+  });
+
+  it("removes what a late PUT leaves at a finished upload's staging key once its URL has expired", async () => {
+    const rec = await newRecord();
+    const { json: ticket } = await declare(rec.handle, cvFile);
+    expect((await put(ticket, cvFile)).status).toBe(200);
+    const done = await complete(ticket.id);
+    expect(done.status).toBe(200);
+    const { rawFile } = await done.json();
+    // The URL still lives: storage takes other bytes at the staging key after completion.
+    expect((await put(ticket, 'time/s,E/V,I/A\n0,0,0\n')).status).toBe(200);
+    const { json: pending } = await declare(rec.handle, cvFile);
+    expect((await put(pending, cvFile)).status).toBe(200);
+    const expiry = new Date(ticket.expiresAt).getTime();
+    // While the URL lives nothing goes (another PUT could still come).
+    await sweepStagingObjects(appDb(), new Date(expiry - 1000));
+    expect(await getObjectBytes(`uploads/${ticket.id}`)).not.toBeNull();
+    // Once it has expired the orphan goes; a pending upload's object stays for its owner.
+    expect(await sweepStagingObjects(appDb(), new Date(expiry + 1000))).toBeGreaterThanOrEqual(1);
+    expect(await getObjectBytes(`uploads/${ticket.id}`)).toBeNull();
+    expect(await getObjectBytes(`uploads/${pending.id}`)).not.toBeNull();
+    // The record still serves the verified bytes.
+    const served = await as(owner, `/api/v1/raw-files/${rawFile.id}`);
+    expect(served.status).toBe(200);
+    expect(sha(Buffer.from(await served.arrayBuffer()))).toBe(sha(cvFile));
   });
 
   it('cleans pending uploads whose URL expired long ago, and their objects', async () => {

@@ -4,7 +4,7 @@ import { liftDueEmbargoes } from './embargoes.ts';
 import { log } from './log.ts';
 import { forgetOldIdempotencyKeys } from './idempotency.ts';
 import { startOutbox } from './outbox.ts';
-import { cleanStaleUploads } from './uploads.ts';
+import { cleanStaleUploads, sweepStagingObjects } from './uploads.ts';
 import { startWatchDigests } from './watches.ts';
 
 // Background work of a server process: mail delivery, removing uploads that were declared but
@@ -24,7 +24,9 @@ export function startJobs(): void {
   startOutbox();
   startWatchDigests();
   const cleanup = () => {
-    void cleanStaleUploads(db()).catch((err) => log().error({ err }, 'upload cleanup failed'));
+    void cleanStaleUploads(db())
+      .then(() => sweepStagingObjects(db()))
+      .catch((err) => log().error({ err }, 'upload cleanup failed'));
     void forgetOldIdempotencyKeys().catch((err) =>
       log().error({ err }, 'idempotency-key cleanup failed'),
     );

@@ -38,12 +38,19 @@ import {
   markUploadExpired,
   markUploadFailed,
   stalePendingUploads,
+  uploadStates,
   type UploadRow,
 } from './repositories/uploads.ts';
 import { claimIdempotentChange } from './idempotency.ts';
+import { isUuid } from './repositories/users.ts';
 import { log } from './log.ts';
-import { readVerifiedRawFile, sealVerifiedBytes, stagingKey } from './raw-objects.ts';
-import { deleteObject, getObjectBytes, presignPut } from './storage.ts';
+import {
+  readVerifiedRawFile,
+  sealVerifiedBytes,
+  STAGING_PREFIX,
+  stagingKey,
+} from './raw-objects.ts';
+import { deleteObject, getObjectBytes, listObjects, presignPut } from './storage.ts';
 import { resolveTerms } from './vocabulary.ts';
 import type { RawCurve, UploadTicket, UploadResult } from '#lib/shared/answers.ts';
 export type { RawCurve, UploadTicket, UploadResult };
@@ -316,6 +323,28 @@ export async function cleanStaleUploads(
     cleaned++;
   }
   return cleaned;
+}
+
+/**
+ * Staging objects no upload can use any more. A PUT may still reach a staging key after its
+ * upload completed, failed or was cancelled, for as long as the URL lives; once the URL has
+ * expired, whatever sits at a staging key whose upload is no longer pending (or that names no
+ * upload) is removed. Pending uploads are left to `cleanStaleUploads`. Returns how many went.
+ */
+export async function sweepStagingObjects(db: Db, now = new Date()): Promise<number> {
+  const objects = await listObjects(STAGING_PREFIX);
+  const idOf = (key: string) => key.slice(STAGING_PREFIX.length);
+  const ids = objects.map((o) => idOf(o.key)).filter(isUuid);
+  const states = new Map((await uploadStates(db, ids)).map((u) => [u.id, u]));
+  let removed = 0;
+  for (const o of objects) {
+    const u = states.get(idOf(o.key));
+    if (u && (u.status === 'pending' || u.expires_at.getTime() > now.getTime())) continue;
+    await deleteObject(o.key);
+    removed++;
+  }
+  if (removed) log().info({ removed }, 'staging objects no upload can use were removed');
+  return removed;
 }
 
 const INLINE_SAFE_TYPES = new Set(['text/csv', 'text/plain', 'text/tab-separated-values']);

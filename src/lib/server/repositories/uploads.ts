@@ -47,6 +47,19 @@ export async function getUpload(
   return q.executeTakeFirst();
 }
 
+/** Status and URL expiry of the uploads with these ids (the clean-up's view of staging keys). */
+export async function uploadStates(
+  db: DbOrTrx,
+  ids: string[],
+): Promise<{ id: string; status: string; expires_at: Date }[]> {
+  if (ids.length === 0) return [];
+  return db
+    .selectFrom('uploads')
+    .select(['id', 'status', 'expires_at'])
+    .where('id', 'in', ids)
+    .execute();
+}
+
 export async function markUploadComplete(
   db: DbOrTrx,
   id: string,
