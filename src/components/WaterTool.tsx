@@ -210,6 +210,8 @@ function WaterWithRecords({ initialSearch }: { initialSearch: string }) {
               ? ` (the first ${records.data.items.length} of ${records.data.total} records in water)`
               : ''}
             . Hover a bar for its handle.
+            {points.some((p) => p.anodicSheV === null || p.cathodicSheV === null) &&
+              ' A tick with a short fade: only that limit was reported, the other was not measured.'}
           </p>
           <ElectrodeLegend
             className="mt-1"

@@ -16,6 +16,7 @@ import { publishThroughApi } from './publish.ts';
 
 let browser: Browser;
 let aqueous: string;
+let anodicOnly: string;
 
 beforeAll(async () => {
   const contributor = await signIn(await makeUser({ role: 'contributor' }));
@@ -42,6 +43,30 @@ beforeAll(async () => {
       kind: 'published',
       doi: '10.5555/ew.tools.1',
       title: 'An invented aqueous window on gold',
+      authors: [{ family: 'Noor', given: 'Tamsin' }],
+      containerTitle: 'Journal of Made-up Electrochemistry',
+      year: 2025,
+    },
+  });
+  // One that reports only its anodic limit: drawn with an open cathodic end, never as a window.
+  anodicOnly = await publishThroughApi(contributor, curator, {
+    title: 'Li2SO4 in water on gold, anodic side only',
+    electrolyte: {
+      solvents: [{ term: 'water', fraction: 1 }],
+      salts: [{ term: 'Li2SO4', concentration: { value: 0.5, basis: 'mol/L' } }],
+      pH: 6,
+    },
+    temperatureC: 25,
+    workingElectrode: { material: 'gold', form: 'disk', geometricAreaCm2: 0.07 },
+    referenceElectrode: 'Ag/AgCl, sat. KCl',
+    cellType: 'three-electrode',
+    method: { kind: 'lsv', scanRateMVs: 1 },
+    criterion: { kind: 'j-area', threshold: 50 },
+    reportedLimits: { anodic: { valueV: 0.9, reference: 'Ag/AgCl, sat. KCl' } },
+    source: {
+      kind: 'published',
+      doi: '10.5555/ew.tools.2',
+      title: 'An invented anodic study on gold',
       authors: [{ family: 'Noor', given: 'Tamsin' }],
       containerTitle: 'Journal of Made-up Electrochemistry',
       year: 2025,
@@ -142,8 +167,17 @@ describe('water window tool', () => {
     await bar.waitFor({ state: 'attached' });
     // Ag/AgCl (sat. KCl) is 0.197 V vs SHE (Bard & Faulkner): −0.60 → −0.403 V, 0.95 → 1.147 V.
     expect(await bar.locator('title').textContent()).toBe(
-      `${aqueous} (gold) at pH 4: -0.403 to 1.147 V vs SHE`,
+      `${aqueous} (gold) at pH 4: cathodic -0.403 V, anodic 1.147 V vs SHE`,
     );
+    expect(await bar.getAttribute('data-open')).toBeNull();
+    // The record without a cathodic limit: a short fade below its anodic limit (0.9 + 0.197 V).
+    const open = page.locator(`g[data-handle="${anodicOnly}"]`);
+    expect(await open.getAttribute('data-open')).toBe('cathodic');
+    expect(await open.locator('title').textContent()).toBe(
+      `${anodicOnly} (gold) at pH 6: cathodic none (not measured), anodic 1.097 V vs SHE`,
+    );
+    const fade = open.locator('rect[mask]');
+    expect(await fade.getAttribute('height')).toBe('28');
     // As many bars as the API has published records in water alone with a pH.
     const res = await (
       await fetch(

@@ -1,3 +1,4 @@
+import { useId } from 'react';
 import { waterWindow } from '#lib/analysis/water.ts';
 import { electrodeColour } from './palette.tsx';
 import { AxisBottom, AxisLeft, ChartFrame, linearScale, niceTicks } from './plot.tsx';
@@ -23,6 +24,8 @@ interface Props {
 }
 
 const M = { top: 16, right: 16, bottom: 48, left: 64 };
+/** How far (px) a limit not measured fades out from the one that exists. */
+const FADE = 28;
 
 /** HER and OER lines (V vs SHE) against pH at one temperature, with records placed at their pH. */
 export default function WaterChart({
@@ -43,6 +46,7 @@ export default function WaterChart({
     if (p.cathodicSheV !== null) values.push(p.cathodicSheV);
     if (p.anodicSheV !== null) values.push(p.anodicSheV);
   }
+  const uid = useId().replace(/[^a-zA-Z0-9]/g, '');
   const lo = Math.floor((Math.min(...values) - 0.1) * 5) / 5;
   const hi = Math.ceil((Math.max(...values) + 0.1) * 5) / 5;
 
@@ -64,6 +68,23 @@ export default function WaterChart({
         const px = x(pH);
         return (
           <>
+            <defs>
+              {/* Fades for a limit not measured: opaque at the limit that exists, clear beyond. */}
+              <linearGradient id={`${uid}-gu`} x1="0" x2="0" y1="1" y2="0">
+                <stop offset="0" stopColor="white" stopOpacity="1" />
+                <stop offset="1" stopColor="white" stopOpacity="0" />
+              </linearGradient>
+              <linearGradient id={`${uid}-gd`} x1="0" x2="0" y1="0" y2="1">
+                <stop offset="0" stopColor="white" stopOpacity="1" />
+                <stop offset="1" stopColor="white" stopOpacity="0" />
+              </linearGradient>
+              <mask id={`${uid}-up`} maskContentUnits="objectBoundingBox">
+                <rect width="1" height="1" fill={`url(#${uid}-gu)`} />
+              </mask>
+              <mask id={`${uid}-down`} maskContentUnits="objectBoundingBox">
+                <rect width="1" height="1" fill={`url(#${uid}-gd)`} />
+              </mask>
+            </defs>
             <AxisBottom
               scale={x}
               ticks={niceTicks(0, 14, 7)}
@@ -124,21 +145,54 @@ export default function WaterChart({
             </text>
             {points.map((p) => {
               const c = electrodeColour(p.electrode);
-              const top = p.anodicSheV ?? p.cathodicSheV!;
-              const bottom = p.cathodicSheV ?? p.anodicSheV!;
+              const one = p.anodicSheV === null || p.cathodicSheV === null;
+              const known = (p.anodicSheV ?? p.cathodicSheV)!;
+              // A limit not measured is never drawn as a window: from the limit that exists a
+              // short stroke fades toward the missing side (up for a missing anodic limit).
+              const toward = p.anodicSheV === null ? -1 : 1;
+              const y1 = y(p.cathodicSheV ?? known);
+              const y2 = one ? y(known) + toward * FADE : y(p.anodicSheV!);
+              const words = (v: number | null) =>
+                v === null ? 'none (not measured)' : `${v.toFixed(3)} V`;
               return (
-                <g key={p.handle} data-handle={p.handle}>
-                  <title>{`${p.handle} (${p.group}) at pH ${p.pH}: ${p.cathodicSheV?.toFixed(3) ?? '—'} to ${p.anodicSheV?.toFixed(3) ?? '—'} V vs SHE`}</title>
-                  <line
-                    x1={x(p.pH)}
-                    x2={x(p.pH)}
-                    y1={y(bottom)}
-                    y2={y(top)}
-                    stroke={c}
-                    strokeWidth={5}
-                    strokeLinecap="round"
-                    opacity={0.85}
-                  />
+                <g
+                  key={p.handle}
+                  data-handle={p.handle}
+                  data-open={one ? (p.anodicSheV === null ? 'anodic' : 'cathodic') : undefined}
+                >
+                  <title>{`${p.handle} (${p.group}) at pH ${p.pH}: cathodic ${words(p.cathodicSheV)}, anodic ${words(p.anodicSheV)} vs SHE`}</title>
+                  {one ? (
+                    <rect
+                      x={x(p.pH) - 2.5}
+                      y={Math.min(y1, y2)}
+                      width={5}
+                      height={FADE}
+                      fill={c}
+                      opacity={0.85}
+                      mask={`url(#${uid}-${p.anodicSheV === null ? 'up' : 'down'})`}
+                    />
+                  ) : (
+                    <line
+                      x1={x(p.pH)}
+                      x2={x(p.pH)}
+                      y1={y1}
+                      y2={y2}
+                      stroke={c}
+                      strokeWidth={5}
+                      strokeLinecap="round"
+                      opacity={0.85}
+                    />
+                  )}
+                  {one && (
+                    <line
+                      x1={x(p.pH) - 5}
+                      x2={x(p.pH) + 5}
+                      y1={y(known)}
+                      y2={y(known)}
+                      className="stroke-ink dark:stroke-night-ink"
+                      strokeWidth={2}
+                    />
+                  )}
                 </g>
               );
             })}
