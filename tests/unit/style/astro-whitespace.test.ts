@@ -13,6 +13,8 @@ const opensThenBreaks = new RegExp(
   'g',
 );
 const breaksThenCloses = new RegExp(`[^\\s>]\\n\\s*</(${INLINE})>`, 'g');
+// A full stop or comma on the line after an inline element's closing tag renders as " ." .
+const closesThenPunctuation = new RegExp(`</(${INLINE})>\\n\\s*[.,;:!?]`, 'g');
 
 function templates() {
   const files = execFileSync('git', ['ls-files', '*.astro'], { encoding: 'utf8' })
@@ -28,9 +30,11 @@ function templates() {
 describe('Astro templates', () => {
   it('keep text inside inline elements on the tags’ own lines', () => {
     const found = templates().flatMap(({ f, body }) =>
-      [...body.matchAll(opensThenBreaks), ...body.matchAll(breaksThenCloses)].map(
-        (m) => `${f}: ${m[0].replace(/\s+/g, ' ').slice(0, 80)}`,
-      ),
+      [
+        ...body.matchAll(opensThenBreaks),
+        ...body.matchAll(breaksThenCloses),
+        ...body.matchAll(closesThenPunctuation),
+      ].map((m) => `${f}: ${m[0].replace(/\s+/g, ' ').slice(0, 80)}`),
     );
     expect(found).toEqual([]);
   });
@@ -40,5 +44,7 @@ describe('Astro templates', () => {
     expect(bad.match(opensThenBreaks)).not.toBeNull();
     expect(bad.match(breaksThenCloses)).not.toBeNull();
     expect('<a href="/x">Contribute</a>.'.match(opensThenBreaks)).toBeNull();
+    expect('<a href="/x">Contribute</a>\n  .'.match(closesThenPunctuation)).not.toBeNull();
+    expect('<a href="/x">Contribute</a>.'.match(closesThenPunctuation)).toBeNull();
   });
 });
