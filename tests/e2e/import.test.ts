@@ -78,6 +78,8 @@ describe('bulk import in the browser', () => {
     const rows = errors.getByTestId('import-row');
     expect(await rows.count()).toBe(2);
     expect(await rows.nth(0).innerText()).toMatch(/^line 2[\s\S]*reference/);
+    // The refusal offers the look-alike terms, as the form does.
+    expect(await rows.nth(0).innerText()).toMatch(/closest: [^\n]*\(SCE\)/);
     expect(await rows.nth(1).innerText()).toMatch(/^line 3[\s\S]*salt_concentration/);
     expect(await drafts()).toEqual(before);
     expect(await seriousViolations(page)).toEqual([]);

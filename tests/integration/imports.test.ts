@@ -187,15 +187,22 @@ describe('POST /api/v1/imports', () => {
       { path: 'line 3, temperature_c', message: '"warm" is not a number (use a decimal point)' },
       {
         path: 'line 3, solvents',
-        message: '"unobtainium-carbonate" is not a known solvent in the vocabulary',
+        message: expect.stringMatching(
+          /^"unobtainium-carbonate" is not a known solvent in the vocabulary; closest: "propylene carbonate" \(PC\)/,
+        ),
       },
       {
         path: 'line 3, reference',
-        message: '"Ag/AgCl satt" is not a known reference-electrode in the vocabulary',
+        // The look-alikes come closest first (other tests may add terms after them).
+        message: expect.stringMatching(
+          /^"Ag\/AgCl satt" is not a known reference-electrode in the vocabulary; closest: "Ag\/AgCl, sat\. KCl"/,
+        ),
       },
       {
         path: 'line 4, reference',
-        message: '"Hg/HgO wobbly" is not a known reference-electrode in the vocabulary',
+        message: expect.stringMatching(
+          /^"Hg\/HgO wobbly" is not a known reference-electrode in the vocabulary; closest: "Hg\/HgO, filling not stated" \(Hg\/HgO\)/,
+        ),
       },
     ]);
     expect(body.detail).toBe(

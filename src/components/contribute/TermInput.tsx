@@ -1,10 +1,15 @@
 import { useQuery } from '@tanstack/react-query';
-import Fuse from 'fuse.js';
 import { useEffect, useId, useMemo, useRef, useState } from 'react';
 import { useController, useFormContext } from 'react-hook-form';
 import { ApiError, errorMessage, sendJson } from '#lib/client/api.ts';
 import { vocabularyQueries, type IndexTerm } from '#lib/client/records.ts';
-import { lookupKey, looseKey, matchName, type VocabularyKind } from '#lib/shared/vocabulary.ts';
+import {
+  lookAlikes,
+  lookupKey,
+  looseKey,
+  matchName,
+  type VocabularyKind,
+} from '#lib/shared/vocabulary.ts';
 import { buttonQuiet, input, muted } from '../ui.tsx';
 import { FieldFoot } from './fields.tsx';
 import type { FormValues } from './form-model.ts';
@@ -100,22 +105,13 @@ export default function TermInput({
     field.onBlur();
   };
   const unknown = Boolean(q) && vocab.isSuccess && !terms.some((t) => t.id === value);
-  const fuse = useMemo(
-    () =>
-      new Fuse(terms, {
-        keys: ['name', 'abbreviations', 'synonyms', 'id'],
-        threshold: 0.5,
-        ignoreLocation: true,
-      }),
-    [terms],
-  );
   // The closest terms to a name that is not one: the ambiguous ones first, then look-alikes.
   const closest = useMemo(() => {
     if (!unknown) return [];
     const hits = matchName(terms, text, kinds);
     if (hits.length) return hits;
-    return fuse.search(text.trim(), { limit: 3 }).map((r) => r.item);
-  }, [unknown, terms, text, kinds, fuse]);
+    return lookAlikes(terms, text, kinds);
+  }, [unknown, terms, text, kinds]);
 
   const propose = async () => {
     try {

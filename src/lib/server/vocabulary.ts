@@ -12,6 +12,7 @@ import {
 } from './repositories/vocabulary.ts';
 import {
   VOCABULARY_KINDS,
+  lookAlikes,
   lookupKey,
   looseKey,
   termKeys,
@@ -120,12 +121,17 @@ export async function resolveTerms(
     }
     const resolved = [...new Set(hits.map((h) => follow(h, byId)))];
     if (resolved.length === 1) out.set(ref.path, resolved[0]!);
-    else if (resolved.length === 0)
+    else if (resolved.length === 0) {
+      const near = lookAlikes(
+        (all ?? []).filter((r) => !r.merged_into),
+        ref.name,
+        ref.kinds,
+      ).map((t) => `"${t.name}"${t.abbreviations[0] ? ` (${t.abbreviations[0]})` : ''}`);
       errors.push({
         path: ref.path,
-        message: `"${ref.name}" is not a known ${ref.kinds.join(' or ')} in the vocabulary`,
+        message: `"${ref.name}" is not a known ${ref.kinds.join(' or ')} in the vocabulary${near.length ? `; closest: ${near.join(', ')}` : ''}`,
       });
-    else
+    } else
       errors.push({
         path: ref.path,
         message: `"${ref.name}" is ambiguous: ${resolved.map((r) => r.id).join(', ')}; give the term id`,

@@ -1,3 +1,4 @@
+import Fuse from 'fuse.js';
 import { z } from 'zod';
 
 // Vocabulary terms: solvents, salts, additives, electrode materials, reference electrodes,
@@ -95,6 +96,29 @@ export function matchName<
   if (exact.length) return exact;
   const loose = looseKey(name);
   return of.filter((t) => termKeys(t).some((k) => looseKey(k) === loose));
+}
+
+/**
+ * Terms of `kinds` that look like a name that is none of them (a misspelling, a near synonym),
+ * closest first: what the form offers beside an unknown name and what the API's refusal names.
+ */
+export function lookAlikes<
+  T extends {
+    id: string;
+    name: string;
+    kind: string;
+    abbreviations?: readonly string[] | null;
+    synonyms?: readonly string[] | null;
+  },
+>(terms: readonly T[], name: string, kinds: readonly string[], limit = 3): T[] {
+  const of = terms.filter((t) => kinds.includes(t.kind));
+  return new Fuse(of, {
+    keys: ['name', 'abbreviations', 'synonyms', 'id'],
+    threshold: 0.5,
+    ignoreLocation: true,
+  })
+    .search(name.trim(), { limit })
+    .map((r) => r.item);
 }
 
 /** Every key a term can be found by. */
