@@ -12,7 +12,7 @@ import { holdDirection, holdLimit, holdSteps } from './hold';
 import { limitAt, parseCriterion, sCutoff, type Criterion, type Limit } from './limits';
 import { lsvLimit, type LsvEnvelope } from './lsv';
 import { normalise, type CurrentBasis, type Samples, type SignConvention } from './normalise';
-import { readTable, rowLine, type ColumnMap, type RawTable } from './read';
+import { CELL_VOLTAGE_NAME, readTable, rowLine, type ColumnMap, type RawTable } from './read';
 import {
   findScale,
   referenceConversion,
@@ -201,8 +201,6 @@ function checkTarget(o: AnalysisOptions): void {
 }
 
 /** Header names of a potential column that hold a cell voltage (two-electrode), not an electrode potential. */
-const CELL_VOLTAGE_NAME =
-  /^(?:e|u|v)[ _]?cell$|^cell[ _](?:voltage|potential)$|^ewe[ _-]+ece$|^voltage[ _]cell$/i;
 
 /** Same scale, or a header that names only the family ("Ag/AgCl") of a filled electrode ("Ag/AgCl, 3 M KCl"). */
 function sameScale(header: string, headerId: string, recordId: string): boolean {
@@ -300,6 +298,7 @@ export function analyzeText(
   }
   const table = readTable(text, {
     ...(options.columns ? { columns: options.columns } : {}),
+    ...(options.cell ? { cell: options.cell } : {}),
     ...(storage ? { storage } : {}),
   });
   const early: string[] = [...table.warnings];

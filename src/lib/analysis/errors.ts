@@ -6,6 +6,7 @@ export type AnalysisErrorCode =
   | 'bad-number'
   | 'bad-row'
   | 'missing-column'
+  | 'ambiguous-column'
   | 'bad-option'
   | 'bad-unit'
   | 'bad-criterion'

@@ -52,6 +52,11 @@ export interface RawTable {
 export interface ReadOptions {
   columns?: ColumnMap;
   /**
+   * The cell the file comes from: with both a working-electrode potential and a cell voltage in
+   * the file, a three-electrode cell (the default) takes the first, a two-electrode cell the second.
+   */
+  cell?: 'three-electrode' | 'two-electrode';
+  /**
    * Memory the reader may overwrite to hold its columns instead of allocating them, e.g. the
    * bytes of the file once they have been decoded to text (the command line passes them, which
    * keeps its peak memory near the file's size plus its text). Used only when large enough.
@@ -64,8 +69,16 @@ const CR = 13;
 const TAB = 9;
 const SPACE = 32;
 
-/** Decode file bytes: UTF-8 when valid, else Windows-1252 (older exports write µ as one byte). */
+/**
+ * Decode file bytes: UTF-16 when the file starts with its byte-order mark (some instrument
+ * software saves "Unicode text" so), else UTF-8 when valid, else Windows-1252 (older exports
+ * write µ as one byte).
+ */
 export function decodeText(bytes: Uint8Array): string {
+  if (bytes.length >= 2 && bytes[0] === 0xff && bytes[1] === 0xfe)
+    return new TextDecoder('utf-16le').decode(bytes.subarray(2));
+  if (bytes.length >= 2 && bytes[0] === 0xfe && bytes[1] === 0xff)
+    return new TextDecoder('utf-16be').decode(bytes.subarray(2));
   try {
     return new TextDecoder('utf-8', { fatal: true }).decode(bytes);
   } catch {
@@ -446,15 +459,36 @@ export function unitFits(q: 'time' | 'potential' | 'current', dim: Dimension): b
   return dim === q;
 }
 
-function scoreColumn(q: Quantity, label: string, unit: string): number {
+/** A column name (without its unit) that says the column holds a cell voltage. */
+export const CELL_VOLTAGE_NAME =
+  /^(?:e|u|v)[ _]?cell$|^cell[ _](?:voltage|potential)$|^ewe[ _-]+ece$|^voltage[ _]cell$/i;
+
+/**
+ * A column of what the instrument was told to do rather than what it measured ("Potential
+ * applied", "control/V", "E set", "I program"): it loses to a measured column of the same kind.
+ */
+export function isSetpointLabel(label: string): boolean {
+  return /\b(applied|set|setpoint|control|programm?e?d?|command(ed)?|nominal|target|demand)\b/i.test(
+    label,
+  );
+}
+
+function scoreColumn(
+  q: Quantity,
+  label: string,
+  unit: string,
+  cell: ReadOptions['cell'] = 'three-electrode',
+): number {
   const l = label.toLowerCase().replace(/\s+/g, ' ').trim();
-  const name = NAME_WORDS[q](l);
+  let name = NAME_WORDS[q](l);
+  // Beside a working-electrode potential, a cell voltage is the potential of a two-electrode cell only.
+  if (q === 'potential' && CELL_VOLTAGE_NAME.test(l)) name += cell === 'two-electrode' ? 0.5 : -0.5;
   const dim = UNIT_DIM[q];
   if (dim) {
     const u = unit === '' ? null : describeUnit(unit);
     if (unit !== '' && (!u || !unitFits(dim, u.dim))) return 0; // a unit of another kind rules the column out
-    if (u) return 2 + name; // unit agrees
-    return name > 0 ? name - 0.5 : 0; // name only, no unit
+    const base = u ? 2 + name : name > 0 ? name - 0.5 : 0; // unit agrees, or name only
+    return q !== 'time' && base > 0 && isSetpointLabel(l) ? Math.max(0.25, base - 1.5) : base;
   }
   if (unit !== '') return 0;
   return name;
@@ -468,6 +502,7 @@ function resolveColumns(
   map: ColumnMap,
   headerLine: number | null,
   warnings: string[],
+  cell: ReadOptions['cell'],
 ): ColumnInfo[] {
   const used = new Set<number>();
   const out: ColumnInfo[] = [];
@@ -518,15 +553,30 @@ function resolveColumns(
       if (map[q]) continue;
       let best = -1;
       let bestScore = 0;
+      const tied: number[] = [];
       for (let i = 0; i < parsed.length; i++) {
         if (used.has(i)) continue;
-        const sc = scoreColumn(q, parsed[i]!.label, parsed[i]!.unit);
+        const sc = scoreColumn(q, parsed[i]!.label, parsed[i]!.unit, cell);
         if (sc > bestScore) {
           bestScore = sc;
           best = i;
-        }
+          tied.length = 0;
+        } else if (sc === bestScore && sc > 0) tied.push(i);
+      }
+      // Two columns equally likely to be the potential or the current: which one was measured is
+      // not for the reader to guess.
+      if (best >= 0 && tied.length > 0 && (q === 'potential' || q === 'current')) {
+        throw new AnalysisError(
+          'ambiguous-column',
+          `${[best, ...tied].map((i) => `"${display(i)}"`).join(' and ')} could each be the ${q} column${headerLine ? ` (header on line ${headerLine})` : ''}; name the measured one with a column mapping (e.g. ${q}=${JSON.stringify(display(best))})`,
+          headerLine ? { line: headerLine } : {},
+        );
       }
       if (best >= 0 && (bestScore >= 1 || q === 'time' || q === 'potential' || q === 'current')) {
+        if (q !== 'time' && isSetpointLabel(parsed[best]!.label))
+          warnings.push(
+            `column "${display(best)}" is the ${q} the instrument was set to, not one it measured (no measured ${q} column was found): the limits rest on it`,
+          );
         used.add(best);
         const { unit, reference } = parsed[best]!;
         out.push({
@@ -567,6 +617,67 @@ function resolveColumns(
 // The reader
 
 /** Read a delimited text export into typed arrays of the needed columns (units as written). */
+/** A cell that is only a unit, bare or in brackets: "s", "(V)", "[mA]", "µA/cm²". */
+function isUnitCell(cell: string): boolean {
+  const c = cell
+    .trim()
+    .replace(/^[([]\s*(.*?)\s*[)\]]$/, '$1')
+    .trim();
+  return c !== '' && describeUnit(c) !== null;
+}
+
+/**
+ * When the header found is a row of units, the row of names above it (same number of cells, none
+ * a unit or a number): names and units joined as "name (unit)". Null otherwise.
+ */
+function unitsRowAbove(
+  text: string,
+  lines: LineRef[],
+  k: number,
+  cells: string[],
+  dialect: Dialect,
+): { names: string[]; line: number } | null {
+  if (!cells.every((c) => c.trim() === '' || isUnitCell(c)) || !cells.some(isUnitCell)) return null;
+  const l = lines[k - 1];
+  if (!l || isBlank(text, l.start, l.end)) return null;
+  const names = splitCells(text.slice(l.start, l.end), dialect);
+  if (names.length !== cells.length) return null;
+  if (
+    names.some(
+      (n) => n.trim() === '' || isUnitCell(n) || isNumberCell(n, dialect.decimal.charCodeAt(0)),
+    )
+  )
+    return null;
+  return {
+    names: names.map((n, i) => {
+      const u = cells[i]!.trim()
+        .replace(/^[([]\s*(.*?)\s*[)\]]$/, '$1')
+        .trim();
+      return u ? `${n.trim()} (${u})` : n.trim();
+    }),
+    line: l.no,
+  };
+}
+
+/**
+ * Text after the data that holds no number at all ("End of data", a summary line): a footer,
+ * left unread with a warning naming where it starts. Null when any later line holds a number
+ * (then the data itself is broken, and the caller refuses the line).
+ */
+function footerFrom(text: string, from: number, lineNo: number, d: Dialect): string | null {
+  const rest = text.slice(from).split(/\r\n|\r|\n/);
+  const shown = rest[0]!.trim();
+  let last = lineNo;
+  for (let k = 0; k < rest.length; k++) {
+    const line = rest[k]!;
+    if (line.trim() === '') continue;
+    if (shape(line, d).numeric > 0) return null;
+    last = lineNo + k;
+  }
+  const where = last > lineNo ? `lines ${lineNo}–${last}` : `line ${lineNo}`;
+  return `${where} after the data ${last > lineNo ? 'hold' : 'holds'} no numbers ("${shown.length > 40 ? `${shown.slice(0, 40)}…` : shown}"): read as a footer, not as data`;
+}
+
 export function readTable(input: string, options: ReadOptions = {}): RawTable {
   let text = input;
   if (typeof text !== 'string')
@@ -610,6 +721,14 @@ export function readTable(input: string, options: ReadOptions = {}): RawTable {
     if (cells.length === fields) {
       names = cells;
       headerLine = l.no;
+      // A row of units under a row of names ("time,Ewe,I" then "s,V,mA"): one header of both.
+      const above = unitsRowAbove(text, lines, k, cells, dialect);
+      if (above) {
+        names = above.names;
+        warnings.push(
+          `line ${l.no} holds the units of the names on line ${above.line}; read together as ${names.map((c) => `"${c}"`).join(', ')}`,
+        );
+      }
     } else if (!options.columns || Object.keys(options.columns).length === 0) {
       throw new AnalysisError(
         'no-header',
@@ -620,7 +739,14 @@ export function readTable(input: string, options: ReadOptions = {}): RawTable {
     break;
   }
 
-  const columns = resolveColumns(names, fields, options.columns ?? {}, headerLine, warnings);
+  const columns = resolveColumns(
+    names,
+    fields,
+    options.columns ?? {},
+    headerLine,
+    warnings,
+    options.cell,
+  );
 
   // Where each field goes: slot index or -1.
   const slotOf = new Int32Array(fields).fill(-1);
@@ -720,6 +846,11 @@ export function readTable(input: string, options: ReadOptions = {}): RawTable {
         pos = skipEol(text, e);
         lineNo++;
         continue;
+      }
+      const footer = rows > 0 ? footerFrom(text, lineStart, lineNo, dialect) : null;
+      if (footer) {
+        warnings.push(footer);
+        break;
       }
       throw rowError(text.slice(lineStart, e), lineNo, dialect, fields, slotOf, columns);
     }

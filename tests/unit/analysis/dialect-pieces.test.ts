@@ -5,6 +5,7 @@ import {
   cyclesFromColumn,
   cyclesFromTurningPoints,
   cvWindowOpeningSamples,
+  decodeText,
   analyzeSamples,
   findScale,
   formatExport,
@@ -150,6 +151,106 @@ describe('segmentation of real-world CV files', () => {
     expect(vertexTolerance([0.5, 0.55, 0.75])).toBeCloseTo(0.015, 12);
     // Only scatter: one vertex.
     expect(vertexTolerance([1.0, 1.003, 0.998])).toBeGreaterThanOrEqual(1.003 - 1.0);
+  });
+});
+
+describe('encodings and header layouts', () => {
+  const samples = cvWindowOpeningSamples();
+  const rows = (f: (i: number) => string) =>
+    Array.from({ length: samples.potential.length }, (_, i) => f(i)).join('\n') + '\n';
+  const plain = analyzeText(formatExport(samples), { method: 'cv', criterion: 's:0.1' });
+
+  it('reads a row of units under a row of names as one header, and says so', () => {
+    const text =
+      'time,Ewe,I\ns,V,mA\n' +
+      rows((i) => `${samples.time![i]},${samples.potential[i]},${samples.current[i]! * 1000}`);
+    const r = analyzeText(text, { method: 'cv', criterion: 's:0.1' });
+    expect(r.limit.interpolatedV).toBeCloseTo(plain.limit.interpolatedV!, 9);
+    expect(r.warnings.join('\n')).toContain(
+      'line 2 holds the units of the names on line 1; read together as "time (s)", "Ewe (V)", "I (mA)"',
+    );
+    // A row of names that are themselves units is not a row of names: nothing is merged, and the
+    // file is refused for want of named columns rather than read by guess.
+    expect(() => readTable('s,V,A\n(s),(V),(mA)\n0,0,0\n1,0.1,0.1\n')).toThrow(
+      /no potential column found among "\(s\)", "\(V\)", "\(mA\)"/,
+    );
+  });
+
+  it('leaves a footer without numbers unread, with a warning, but refuses text inside the data', () => {
+    const body = formatExport(samples).replace(/\n$/, '');
+    const r = analyzeText(`${body}\r\n\r\nEnd of data\r\nOperator: invented\r\n`, {
+      method: 'cv',
+      criterion: 's:0.1',
+    });
+    expect(r.limit).toEqual(plain.limit);
+    expect(r.warnings.join('\n')).toMatch(
+      /^lines \d+–\d+ after the data hold no numbers \("End of data"\): read as a footer, not as data$/m,
+    );
+    // Text with data after it is a broken file, not a footer.
+    const lines = body.split('\n');
+    lines.splice(lines.length - 5, 0, 'pause');
+    expect(() => analyzeText(lines.join('\n'), { method: 'cv', criterion: 's:0.1' })).toThrow(
+      /line \d+/,
+    );
+  });
+
+  it('takes the measured potential over the one the instrument was set to, wherever it stands', () => {
+    const header = (names: string) => `${names}\n`;
+    const body = (first: (i: number) => number, second: (i: number) => number) =>
+      rows((i) => `${samples.time![i]},${first(i)},${second(i)},${samples.current[i]}`);
+    const measured = (i: number) => samples.potential[i]!;
+    const applied = (i: number) => samples.potential[i]! + 0.03; // 30 mV of uncompensated drop
+    for (const text of [
+      header('Time (s),Potential applied (V),WE(1).Potential (V),WE(1).Current (A)') +
+        body(applied, measured),
+      header('Time (s),WE(1).Potential (V),Potential applied (V),WE(1).Current (A)') +
+        body(measured, applied),
+      header('time/s,control/V,Ewe/V,<I>/A') + body(applied, measured),
+    ]) {
+      const r = analyzeText(text, { method: 'cv', criterion: 's:0.1' });
+      expect(r.limit.interpolatedV).toBeCloseTo(plain.limit.interpolatedV!, 9);
+      expect(r.warnings.join('\n')).not.toContain('set to');
+    }
+    // Only the set potential: used, and said so.
+    const only = analyzeText(
+      'Time (s),Potential applied (V),Current (A)\n' +
+        rows((i) => `${samples.time![i]},${samples.potential[i]},${samples.current[i]}`),
+      { method: 'cv', criterion: 's:0.1' },
+    );
+    expect(only.warnings.join('\n')).toContain(
+      'column "Potential applied (V)" is the potential the instrument was set to, not one it measured',
+    );
+  });
+
+  it('refuses two columns that could each be the potential, unless the cell type tells them apart', () => {
+    const text = (names: string, second: number) =>
+      `${names}\n` +
+      rows(
+        (i) =>
+          `${samples.time![i]},${samples.potential[i]},${second * samples.potential[i]!},${samples.current[i]}`,
+      );
+    expect(() =>
+      analyzeText(text('Time (s),E1 (V),E2 (V),I (A)', 1), { method: 'cv', criterion: 's:0.1' }),
+    ).toThrow('"E1 (V)" and "E2 (V)" could each be the potential column');
+    // Working-electrode potential and cell voltage: the cell type says which is the window's.
+    const both = text('time/s,Ewe/V,Ecell/V,I/A', 2);
+    const three = analyzeText(both, { method: 'cv', criterion: 's:0.1' });
+    expect(three.limit.interpolatedV).toBeCloseTo(plain.limit.interpolatedV!, 9);
+    const two = analyzeText(both, { method: 'cv', criterion: 's:0.1', cell: 'two-electrode' });
+    expect(two.limit.interpolatedV).toBeCloseTo(2 * plain.limit.interpolatedV!, 9);
+  });
+
+  it('decodes UTF-16 files by their byte-order mark, and one-byte µ as Windows-1252', () => {
+    const text =
+      'time/s\tEwe/V\t<I>/µA\n' +
+      rows((i) => `${samples.time![i]}\t${samples.potential[i]}\t${samples.current[i]! * 1e6}`);
+    const le = new Uint8Array([0xff, 0xfe, ...Buffer.from(text, 'utf16le')]);
+    const be = Buffer.from(text, 'utf16le').swap16();
+    const r = analyzeText(decodeText(le), { method: 'cv', criterion: 's:0.1' });
+    expect(r.limit.interpolatedV).toBeCloseTo(plain.limit.interpolatedV!, 9);
+    expect(decodeText(new Uint8Array([0xfe, 0xff, ...be]))).toBe(text);
+    // "µ" as the single byte 0xB5 (Windows-1252), as older exports write it.
+    expect(decodeText(new Uint8Array([0x49, 0x2f, 0xb5, 0x41]))).toBe('I/µA');
   });
 });
 
