@@ -18,10 +18,42 @@ export type Dimension =
 
 const PREFIX: Record<string, number> = { '': 1, p: 1e-12, n: 1e-9, u: 1e-6, m: 1e-3, k: 1e3 };
 
+/** Units written as words in some exports ("Voltage (Volts)", "Current (Amps)", "Time (sec)"). */
+const WORD_UNITS: Record<string, string> = {
+  second: 's',
+  seconds: 's',
+  secs: 's',
+  minute: 'min',
+  minutes: 'min',
+  mins: 'min',
+  hour: 'h',
+  hours: 'h',
+  hrs: 'h',
+  volt: 'V',
+  volts: 'V',
+  millivolt: 'mV',
+  millivolts: 'mV',
+  amp: 'A',
+  amps: 'A',
+  ampere: 'A',
+  amperes: 'A',
+  milliamp: 'mA',
+  milliamps: 'mA',
+  milliampere: 'mA',
+  milliamperes: 'mA',
+  microamp: 'uA',
+  microamps: 'uA',
+  microampere: 'uA',
+  microamperes: 'uA',
+  nanoamp: 'nA',
+  nanoamps: 'nA',
+};
+
 /** Factor of a simple unit (no '/') to the internal unit of its dimension, or null. */
 function simpleFactor(
-  unit: string,
+  written: string,
 ): { dim: 'time' | 'potential' | 'current' | 'mass' | 'area'; factor: number } | null {
+  const unit = WORD_UNITS[written.toLowerCase()] ?? written;
   switch (unit) {
     case 's':
     case 'sec':

@@ -240,6 +240,17 @@ describe('encodings and header layouts', () => {
     expect(two.limit.interpolatedV).toBeCloseTo(2 * plain.limit.interpolatedV!, 9);
   });
 
+  it('reads units written as words', () => {
+    const text =
+      'Time (seconds),Voltage (millivolts),Current (Microamps)\n' +
+      rows(
+        (i) => `${samples.time![i]},${samples.potential[i]! * 1000},${samples.current[i]! * 1e6}`,
+      );
+    const r = analyzeText(text, { method: 'cv', criterion: 's:0.1' });
+    expect(r.limit.interpolatedV).toBeCloseTo(plain.limit.interpolatedV!, 9);
+    expect(r.warnings).toEqual([]);
+  });
+
   it('decodes UTF-16 files by their byte-order mark, and one-byte µ as Windows-1252', () => {
     const text =
       'time/s\tEwe/V\t<I>/µA\n' +
