@@ -350,6 +350,13 @@ function sanity(table: RawTable, s: Samples, text: string): string[] {
         back++;
       }
     }
+    // Backwards in most steps: the rows are in reverse order (newest first), not a restart.
+    if (back > (s.time.length - 1) / 2)
+      throw new AnalysisError(
+        'bad-row',
+        `time runs backwards in ${back} of ${s.time.length - 1} steps from line ${rowLine(text, table, first)}: the rows seem to be newest first; sort them by time (oldest first) and upload again`,
+        { line: rowLine(text, table, first) },
+      );
     if (first >= 0) {
       out.push(
         `time runs backwards at line ${rowLine(text, table, first)} (${s.time[first - 1]} s to ${s.time[first]} s)${back > 1 ? `, ${back} times in all` : ''}: charges over those intervals are wrong; check the time column (a step time that restarts?) or map the total time`,

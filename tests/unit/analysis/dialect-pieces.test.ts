@@ -240,6 +240,14 @@ describe('encodings and header layouts', () => {
     expect(two.limit.interpolatedV).toBeCloseTo(2 * plain.limit.interpolatedV!, 9);
   });
 
+  it('refuses rows written newest first rather than reading them backwards', () => {
+    const lines = formatExport(samples).trimEnd().split('\n');
+    const reversed = [lines[0], ...lines.slice(1).reverse()].join('\n') + '\n';
+    expect(() => analyzeText(reversed, { method: 'cv', criterion: 's:0.1' })).toThrow(
+      /the rows seem to be newest first; sort them by time/,
+    );
+  });
+
   it('reads units written as words', () => {
     const text =
       'Time (seconds),Voltage (millivolts),Current (Microamps)\n' +
