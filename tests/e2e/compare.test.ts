@@ -296,6 +296,8 @@ describe('glassy versus activated carbon, two electrolytes, end to end', () => {
     // GC − AC in acetonitrile: +0.300 anodic, −0.300 cathodic, +0.600 width, one record each.
     await expect.poll(() => page.getByTestId('difference-table').innerText()).toContain('TEABF4');
     const acn = page.getByTestId('difference-table').locator('tbody tr');
+    // The water comparison's row gives way to the acetonitrile one (the table follows the search).
+    await expect.poll(() => acn.count()).toBe(1);
     expect(await acn.locator('[data-col="anodic"]').innerText()).toMatch(/^\+0\.300\s*n 1\/1$/);
     expect(await acn.locator('[data-col="cathodic"]').innerText()).toMatch(/^−0\.300\s*n 1\/1$/);
     expect(await acn.locator('[data-col="width"]').innerText()).toMatch(/^\+0\.600\s*n 1\/1$/);

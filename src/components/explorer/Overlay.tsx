@@ -18,7 +18,7 @@ import { MAX_OVERLAY, pickedHandles } from '#lib/client/overlay.ts';
 import { useSearchState } from '#lib/client/url-state.ts';
 import { commonCriterionWords, parseCommon } from '#lib/shared/criteria.ts';
 import CurveChart, { type Curve, type YQuantity } from '../charts/CurveChart.tsx';
-import SeriesLogPlot, { type LogSeries } from '../charts/SeriesLogPlot.tsx';
+import LogPlot, { type LogSeries } from '../charts/LogPlot.tsx';
 import { DASHES, electrodeColour } from '../charts/palette.tsx';
 import { currentUnit } from '../charts/plot.tsx';
 import { rawSamples } from '../record/RawData.tsx';
@@ -470,23 +470,25 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
           </div>
           {criterionSeries.s.length > 0 && (
             <div data-testid="s-value-overlay">
-              <SeriesLogPlot
+              <LogPlot
                 series={criterionSeries.s}
                 xLabel={xLabel}
                 yLabel="S-value"
                 cutoff={cutoff ?? undefined}
-                title="S-value against vertex potential"
+                title={`S-value against vertex potential: ${criterionSeries.s.map((c) => c.label).join(', ')}`}
+                height={320}
               />
               <CurveLegend curves={criterionSeries.s} />
             </div>
           )}
           {[...criterionSeries.leak].map(([unit, series]) => (
             <div key={unit} data-testid="leakage-overlay">
-              <SeriesLogPlot
+              <LogPlot
                 series={series}
                 xLabel={xLabel}
                 yLabel={`end-of-hold leakage / ${unit}`}
-                title={`End-of-hold leakage (${unit}) against hold potential`}
+                title={`End-of-hold leakage (${unit}) against hold potential: ${series.map((c) => c.label).join(', ')}`}
+                height={320}
               />
               <CurveLegend curves={series} />
             </div>
