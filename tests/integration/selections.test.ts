@@ -8,6 +8,8 @@ import { appDb, asJson, closeAppDb, makeUser, signIn } from '../auth-helpers.ts'
 import { appUrl } from '../helpers.ts';
 import { ok } from '../support/api.ts';
 import { content, curator, makeRecord, tag } from '../support/records.ts';
+import { publishThroughApi } from '../e2e/publish.ts';
+import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/index.ts';
 import { recordContentSchema } from '#lib/shared/record.ts';
 
 // A comparison frozen as a citable selection: its own ES- handle, the numbers as shown, citations
@@ -156,6 +158,37 @@ describe('citable selections', () => {
     expect(page.text).not.toContain('0.800 V');
     expect(page.text).toContain(`newer version v${r.version}`);
     expect(page.text).toContain('1 of these records changed since');
+  });
+
+  it('freezes a limit not reached at the common criterion as "at least", as the comparison shows it', async () => {
+    // The synthetic window-opening CV (docs/methods.md §8 A, vertices up to 1.1 V) never reaches
+    // S = 1: at s:1 its anodic limit is not reached, and the comparison shows "≥ 1.1 V" vs SHE.
+    const contributor = await signIn(await makeUser({ role: 'contributor' }));
+    const cur = await signIn(await makeUser({ role: 'curator' }));
+    const rawWord = tag('frozenraw');
+    const raw = await publishThroughApi(
+      contributor,
+      cur,
+      content({
+        title: `${rawWord} raw`,
+        referenceElectrode: 'SHE',
+        reportedLimits: { anodic: { valueV: 1.09, reference: 'SHE' } },
+      }),
+      formatExport(cvWindowOpeningSamples()),
+    );
+    const query = `q=${rawWord}&scale=SHE&criterion=s:1`;
+    const shown = await (await fetch(new URL(`/api/v1/records?${query}`, appUrl()))).json();
+    expect(shown.items[0].commonCriterion.status.anodic).toBe('not-reached');
+    const s = await ok(
+      await asJson(cookie, '/api/v1/selections', 'POST', { title: 'Open end', query }),
+      'create selection',
+      201,
+    );
+    expect(s.items).toHaveLength(1);
+    expect(s.items[0]).toMatchObject({ handle: raw, notReached: ['anodic'] });
+    expect(s.items[0].anodicV).toBeCloseTo(1.1, 9);
+    const page = await get(`/selections/${s.handle}`);
+    expect(page.text).toContain('≥ 1.100 V');
   });
 
   it('cites itself as BibTeX, CSL-JSON, text and DataCite-style metadata', async () => {

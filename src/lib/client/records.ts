@@ -380,4 +380,3 @@ export function electrolyteText(
   return [salts, solvents].filter(Boolean).join(' in ') + additives;
 }
 
-export { commonOnScale, ownToScale } from '../shared/limits-on-scale.ts';

@@ -6,7 +6,7 @@ import {
   sourceCitationText,
   type Dataset,
 } from '../shared/citation.ts';
-import { commonOnScale } from '../shared/limits-on-scale.ts';
+import { shownEnds, type LimitEnd } from '../shared/limits-on-scale.ts';
 import type { Principal } from '../shared/principal.ts';
 import type { RecordStatus } from '../shared/record.ts';
 import {
@@ -38,18 +38,24 @@ import {
 const ANONYMOUS: Principal = { kind: 'anonymous' };
 const origin = () => config().PUBLIC_ORIGIN.replace(/\/$/, '');
 
-/** The numbers a comparison shows for a record: on its scale, at the common criterion where applied. */
+/**
+ * The numbers a comparison shows for a record, as its table shows them (shownEnds): on its scale,
+ * at the common criterion where applied, a limit not reached kept as "at least".
+ */
 function snapshotOf(item: SearchItem, criterion: string | undefined): SelectionItemSnapshot {
-  let cathodic = item.onScale.cathodic;
-  let anodic = item.onScale.anodic;
+  const ends = shownEnds(item, Boolean(criterion));
+  const value = (e: LimitEnd) => (e.state === 'missing' ? null : e.v);
+  const cathodic = value(ends.cathodic);
+  const anodic = value(ends.anodic);
+  const notReached = (['cathodic', 'anodic'] as const).filter((s) => ends[s].state === 'beyond');
   let own: string | null = null;
   const cc = item.commonCriterion;
   if (criterion && cc) {
     if (cc.applied) {
-      if (cc.status.cathodic) cathodic = commonOnScale(item, 'cathodic');
-      else if (cathodic !== null) own = 'no raw data for the cathodic side: its own criterion';
-      if (cc.status.anodic) anodic = commonOnScale(item, 'anodic');
-      else if (anodic !== null) own = 'no raw data for the anodic side: its own criterion';
+      if (!cc.status.cathodic && cathodic !== null)
+        own = 'no raw data for the cathodic side: its own criterion';
+      if (!cc.status.anodic && anodic !== null)
+        own = 'no raw data for the anodic side: its own criterion';
     } else own = cc.reason ?? 'keeps its own criterion';
   }
   const c = item.content;
@@ -65,6 +71,7 @@ function snapshotOf(item: SearchItem, criterion: string | undefined): SelectionI
     method: c.method.kind,
     cathodicV: cathodic,
     anodicV: anodic,
+    ...(notReached.length ? { notReached } : {}),
     ownCriterion: own,
     licence: c.licence,
     source: c.source ?? null,

@@ -39,6 +39,11 @@ export const selectionItemSnapshotSchema = z.strictObject({
   /** Limits on the selection's scale, at its common criterion where it applied (V). */
   cathodicV: z.number().nullable(),
   anodicV: z.number().nullable(),
+  /**
+   * Ends shown as not reached at the common criterion: the number is the last potential that
+   * passed, the limit lies at least that far out. Absent in selections frozen before this was kept.
+   */
+  notReached: z.array(z.enum(['cathodic', 'anodic'])).optional(),
   /** Why a limit keeps the record's own criterion (a common criterion was chosen but did not apply). */
   ownCriterion: z.string().nullable(),
   licence: z.string(),
