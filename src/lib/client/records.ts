@@ -379,4 +379,3 @@ export function electrolyteText(
     : '';
   return [salts, solvents].filter(Boolean).join(' in ') + additives;
 }
-
