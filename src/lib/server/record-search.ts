@@ -184,7 +184,10 @@ export function readScope(p: Principal): ReadScope {
   };
 }
 
-async function toFilter(db: Db, q: RecordQuery): Promise<RecordFilter> {
+// Names resolved to vocabulary terms, per generation (a vocabulary edit moves it).
+const resolved = new GenerationCache<Awaited<ReturnType<typeof resolveTerms>>>(500);
+
+async function toFilter(db: Db, q: RecordQuery, generation?: string): Promise<RecordFilter> {
   const refs = [
     ...(q.component ?? []).map((name, i) => ({
       path: `component.${i}`,
@@ -202,7 +205,11 @@ async function toFilter(db: Db, q: RecordQuery): Promise<RecordFilter> {
       kinds: ['reference-electrode'] as const,
     })),
   ].map((r) => ({ ...r, kinds: [...r.kinds] }));
-  const terms = refs.length ? await resolveTerms(db, refs) : new Map();
+  const terms = !refs.length
+    ? new Map()
+    : generation === undefined
+      ? await resolveTerms(db, refs)
+      : await resolved.get(generation, JSON.stringify(refs), () => resolveTerms(db, refs));
   const f: RecordFilter = { statuses: q.status ?? [...LISTED] };
   if (q.component) f.componentIds = q.component.map((_, i) => terms.get(`component.${i}`)!.id);
   if (q.electrode) f.electrodeIds = q.electrode.map((_, i) => terms.get(`electrode.${i}`)!.id);
@@ -563,6 +570,32 @@ async function sortedByShown(
 const pages = new GenerationCache<SearchRow[]>(200);
 const summaries = new GenerationCache<{ total: number; facets?: Facets }>(500);
 
+// Search rows by handle, per generation: a row is a record's public face, the same for every
+// reader (the index has already kept the reader's scope), so pages of different searches share
+// them. Only the rows not held are read, in one statement.
+const rowsByHandle = new GenerationCache<SearchRow | null>(5_000);
+
+/** The search rows of `handles` in their order (a record gone meanwhile is left out). */
+async function heldRows(db: Db, generation: string, handles: string[]): Promise<SearchRow[]> {
+  const missing: string[] = [];
+  let read: Promise<Map<string, SearchRow>> | undefined;
+  // Every handle not held joins `missing` before the one statement for them starts.
+  const load = () =>
+    (read ??= Promise.resolve().then(async () => {
+      const rows = await searchRowsByHandles(db, missing);
+      return new Map(rows.map((r) => [r.handle, r]));
+    }));
+  const rows = await Promise.all(
+    handles.map((h) =>
+      rowsByHandle.get(generation, h, () => {
+        missing.push(h);
+        return load().then((m) => m.get(h) ?? null);
+      }),
+    ),
+  );
+  return rows.filter((r): r is SearchRow => r !== null);
+}
+
 /** A key naming the reader's scope and an object's entries in a fixed order, with any further parts. */
 function cacheKey(scope: ReadScope, entries: object, ...rest: unknown[]): string {
   const sorted = Object.entries(entries).sort(([a], [b]) => (a < b ? -1 : 1));
@@ -643,7 +676,7 @@ async function listAt(
   q: RecordQuery,
   generation: string,
 ): Promise<SearchResult> {
-  const filter = await toFilter(db, q);
+  const filter = await toFilter(db, q, generation);
   const withFacets = q.facets === 'true';
   const page = { ...parseSort(q.sort), limit: q.limit, offset: q.offset };
   const index = indexAnswers(filter) ? await searchIndexAt(db, generation) : null;
@@ -656,10 +689,7 @@ async function listAt(
         )
       : undefined;
     const set = index.filtered(filter, scope, text);
-    rowsOf = (p) =>
-      pages.get(generation, cacheKey(scope, filter, p), () =>
-        searchRowsByHandles(db, index.page(set, p)),
-      );
+    rowsOf = (p) => heldRows(db, generation, index.page(set, p));
     counted = { total: set.size, ...(withFacets ? { facets: index.facets(set) } : {}) };
   } else {
     rowsOf = (p) =>
@@ -688,10 +718,10 @@ async function listAt(
   return result;
 }
 
-/** An answer serialised once: its JSON bytes, the same gzipped, and an entity tag naming them. */
+/** An answer serialised once: its JSON bytes, the same gzipped (made once, when first asked for), and an entity tag naming them. */
 export interface SerialisedAnswer {
   body: Uint8Array<ArrayBuffer>;
-  gzip: Uint8Array<ArrayBuffer>;
+  gzip: () => Uint8Array<ArrayBuffer>;
   etag: string;
 }
 
@@ -711,9 +741,10 @@ export async function searchRecordAnswer(
   const generation = await currentGeneration(db);
   return answers.get(generation, cacheKey(scope, q), async () => {
     const body = new TextEncoder().encode(JSON.stringify(await listAt(db, scope, q, generation)));
+    let gzipped: Uint8Array<ArrayBuffer> | undefined;
     return {
       body,
-      gzip: new Uint8Array(gzipSync(body)),
+      gzip: () => (gzipped ??= new Uint8Array(gzipSync(body))),
       etag: `"${createHash('sha256').update(body).digest('base64url').slice(0, 32)}"`,
     };
   });

@@ -77,7 +77,7 @@ export function jsonText(
  */
 export function cachedJson(
   request: Request,
-  answer: { body: Uint8Array<ArrayBuffer>; gzip: Uint8Array<ArrayBuffer>; etag: string },
+  answer: { body: Uint8Array<ArrayBuffer>; gzip: () => Uint8Array<ArrayBuffer>; etag: string },
 ): Response {
   const gzip = /\bgzip\b/i.test(request.headers.get('accept-encoding') ?? '');
   const etag = gzip ? `${answer.etag.slice(0, -1)}-gz"` : answer.etag;
@@ -91,7 +91,7 @@ export function cachedJson(
     .map((t) => t.trim().replace(/^W\//, ''));
   if (held.includes(etag) || held.includes('*'))
     return new Response(null, { status: 304, headers });
-  const bytes = gzip ? answer.gzip : answer.body;
+  const bytes = gzip ? answer.gzip() : answer.body;
   // A stream over the held bytes: a byte-array body would be copied for every response.
   const body = new ReadableStream<Uint8Array>({
     start(controller) {
