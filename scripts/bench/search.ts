@@ -74,8 +74,9 @@ async function grow(adminUrl: string, want: number) {
                      SELECT gen_random_uuid() AS new_id, next_record_handle() AS handle, r.id AS src_id
                        FROM (SELECT r.id FROM records r CROSS JOIN generate_series(1, ${copies}) g
                               WHERE r.status = 'published' LIMIT ${want - have}) r`);
-    await c.query(`INSERT INTO records (id, handle, status, owner_id, lab_id, current_version, created_at, updated_at, published_at)
-                   SELECT c.new_id, c.handle, r.status, r.owner_id, r.lab_id, 1, r.created_at, r.updated_at, r.published_at
+    await c.query(`INSERT INTO records (id, handle, status, owner_id, lab_id, current_version, published_version, created_at, updated_at, published_at)
+                   SELECT c.new_id, c.handle, r.status, r.owner_id, r.lab_id, 1,
+                          CASE WHEN r.published_version IS NOT NULL THEN 1 END, r.created_at, r.updated_at, r.published_at
                      FROM clone c JOIN records r ON r.id = c.src_id`);
     await c.query(`INSERT INTO record_versions (record_id, version, ${versionCols.join(', ')})
                    SELECT c.new_id, 1, ${versionCols.map((x) => `v.${x}`).join(', ')}
