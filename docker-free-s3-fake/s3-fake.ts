@@ -27,6 +27,8 @@ export async function startS3Fake(opts: {
   port: number;
   directory: string;
   bucket: string;
+  /** Prefixes (ending in "/") whose folder must never vanish under concurrent PUTs. */
+  keepPrefixes?: string[];
 }): Promise<S3Fake> {
   mkdirSync(opts.directory, { recursive: true });
   const server = new S3rver({
@@ -37,6 +39,16 @@ export async function startS3Fake(opts: {
     configureBuckets: [{ name: opts.bucket, configs: [cors] }],
   });
   const address = (await server.run()) as { port: number };
+  // s3rver removes a folder when its last object is deleted, and a PUT into that folder at the
+  // same moment then fails with a 500. Real S3 has no folders; a placeholder in each prefix
+  // the app deletes from keeps the fake's folder in place.
+  for (const prefix of opts.keepPrefixes ?? []) {
+    const res = await fetch(`http://127.0.0.1:${address.port}/${opts.bucket}/${prefix}.keep`, {
+      method: 'PUT',
+      body: '',
+    });
+    if (!res.ok) throw new Error(`s3 fake: placeholder in ${prefix} not stored (${res.status})`);
+  }
   return {
     port: address.port,
     endpoint: `http://127.0.0.1:${address.port}`,

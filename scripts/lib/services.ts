@@ -4,6 +4,9 @@ import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { appendFileSync } from 'node:fs';
 import path from 'node:path';
 import { startS3Fake, type S3Fake } from '../../docker-free-s3-fake/s3-fake.ts';
+
+/** Where browsers PUT raw files before they are verified (STAGING_PREFIX in src/lib/server/raw-objects.ts). */
+const STAGING_FOLDER = 'uploads/';
 import { createDb } from '#lib/server/db/index.ts';
 import { migrateToLatest } from '#lib/server/db/migrate.ts';
 import { startMailFake, type MailFake } from './mail-fake.ts';
@@ -46,7 +49,12 @@ export async function startFakes(opts: {
   mailDir: string;
   bucket: string;
 }): Promise<Fakes> {
-  const s3 = await startS3Fake({ port: opts.s3Port, directory: opts.s3Dir, bucket: opts.bucket });
+  const s3 = await startS3Fake({
+    port: opts.s3Port,
+    directory: opts.s3Dir,
+    bucket: opts.bucket,
+    keepPrefixes: [STAGING_FOLDER],
+  });
   const mail = await startMailFake({ port: opts.smtpPort, directory: opts.mailDir });
   return { s3, mail, close: async () => void (await Promise.all([s3.close(), mail.close()])) };
 }
@@ -179,6 +187,7 @@ export async function useLocalStorage(defaultPort = 4580): Promise<() => Promise
     port: 0,
     directory: path.join(dataDir, 's3'),
     bucket: 'edgewise-raw',
+    keepPrefixes: [STAGING_FOLDER],
   });
   process.env.S3_ENDPOINT = s3.endpoint;
   return () => s3.close();

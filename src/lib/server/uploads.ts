@@ -329,7 +329,7 @@ export async function cleanStaleUploads(
  * Staging objects no upload can use any more. A PUT may still reach a staging key after its
  * upload completed, failed or was cancelled, for as long as the URL lives; once the URL has
  * expired, whatever sits at a staging key whose upload is no longer pending (or that names no
- * upload) is removed. Pending uploads are left to `cleanStaleUploads`. Returns how many went.
+ * upload any more) is removed. Pending uploads are left to `cleanStaleUploads`. Returns how many went.
  */
 export async function sweepStagingObjects(db: Db, now = new Date()): Promise<number> {
   const objects = await listObjects(STAGING_PREFIX);
@@ -338,6 +338,8 @@ export async function sweepStagingObjects(db: Db, now = new Date()): Promise<num
   const states = new Map((await uploadStates(db, ids)).map((u) => [u.id, u]));
   let removed = 0;
   for (const o of objects) {
+    // Only keys the server made (upload ids); anything else under the prefix is not ours to judge.
+    if (!isUuid(idOf(o.key))) continue;
     const u = states.get(idOf(o.key));
     if (u && (u.status === 'pending' || u.expires_at.getTime() > now.getTime())) continue;
     await deleteObject(o.key);
