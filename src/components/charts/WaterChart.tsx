@@ -1,7 +1,15 @@
 import { useId } from 'react';
 import { waterWindow } from '#lib/analysis/water.ts';
 import { electrodeColour } from './palette.tsx';
-import { AxisBottom, AxisLeft, ChartFrame, linearScale, niceTicks } from './plot.tsx';
+import {
+  AxisBottom,
+  AxisLeft,
+  ChartFrame,
+  FadeMasks,
+  fadeMask,
+  linearScale,
+  niceTicks,
+} from './plot.tsx';
 
 /** A published aqueous window placed on the chart: limits on SHE at the record's pH. */
 export interface WaterPoint {
@@ -69,21 +77,7 @@ export default function WaterChart({
         return (
           <>
             <defs>
-              {/* Fades for a limit not measured: opaque at the limit that exists, clear beyond. */}
-              <linearGradient id={`${uid}-gu`} x1="0" x2="0" y1="1" y2="0">
-                <stop offset="0" stopColor="white" stopOpacity="1" />
-                <stop offset="1" stopColor="white" stopOpacity="0" />
-              </linearGradient>
-              <linearGradient id={`${uid}-gd`} x1="0" x2="0" y1="0" y2="1">
-                <stop offset="0" stopColor="white" stopOpacity="1" />
-                <stop offset="1" stopColor="white" stopOpacity="0" />
-              </linearGradient>
-              <mask id={`${uid}-up`} maskContentUnits="objectBoundingBox">
-                <rect width="1" height="1" fill={`url(#${uid}-gu)`} />
-              </mask>
-              <mask id={`${uid}-down`} maskContentUnits="objectBoundingBox">
-                <rect width="1" height="1" fill={`url(#${uid}-gd)`} />
-              </mask>
+              <FadeMasks uid={uid} />
             </defs>
             <AxisBottom
               scale={x}
@@ -169,7 +163,7 @@ export default function WaterChart({
                       height={FADE}
                       fill={c}
                       opacity={0.85}
-                      mask={`url(#${uid}-${p.anodicSheV === null ? 'up' : 'down'})`}
+                      mask={fadeMask(uid, p.anodicSheV === null ? 'up' : 'down')}
                     />
                   ) : (
                     <line

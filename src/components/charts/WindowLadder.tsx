@@ -2,7 +2,15 @@ import { useId, type ReactNode } from 'react';
 import { formatNumber } from '#lib/shared/format.ts';
 import type { LimitEnd } from '#lib/shared/limits-on-scale.ts';
 import { electrodeColour, ElectrodeLegend } from './palette.tsx';
-import { AxisBottom, ChartFrame, linearScale, niceTicks, padded } from './plot.tsx';
+import {
+  AxisBottom,
+  ChartFrame,
+  FadeMasks,
+  fadeMask,
+  linearScale,
+  niceTicks,
+  padded,
+} from './plot.tsx';
 
 export type { LimitEnd };
 
@@ -97,21 +105,7 @@ export default function WindowLadder({ rows, axisLabel, water, onPick }: Props) 
           return (
             <>
               <defs>
-                {/* Fades for ends that were not measured: opaque at the known end, clear at the other. */}
-                <linearGradient id={`${uid}-fl`} x1="1" x2="0" y1="0" y2="0">
-                  <stop offset="0" stopColor="white" stopOpacity="1" />
-                  <stop offset="1" stopColor="white" stopOpacity="0" />
-                </linearGradient>
-                <linearGradient id={`${uid}-fr`} x1="0" x2="1" y1="0" y2="0">
-                  <stop offset="0" stopColor="white" stopOpacity="1" />
-                  <stop offset="1" stopColor="white" stopOpacity="0" />
-                </linearGradient>
-                <mask id={`${uid}-ml`} maskContentUnits="objectBoundingBox">
-                  <rect width="1" height="1" fill={`url(#${uid}-fl)`} />
-                </mask>
-                <mask id={`${uid}-mr`} maskContentUnits="objectBoundingBox">
-                  <rect width="1" height="1" fill={`url(#${uid}-fr)`} />
-                </mask>
+                <FadeMasks uid={uid} />
               </defs>
               {water && (
                 <g>
@@ -253,7 +247,7 @@ function Bar({
         height={12}
         fill={c}
         opacity={opacity}
-        mask={`url(#${uid}-${a !== null ? 'mr' : 'ml'})`}
+        mask={fadeMask(uid, a !== null ? 'right' : 'left')}
         data-open={a !== null ? 'anodic' : 'cathodic'}
       />,
     );

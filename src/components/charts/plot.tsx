@@ -1,4 +1,4 @@
-import { useEffect, useRef, useState, type ReactNode } from 'react';
+import { Fragment, useEffect, useRef, useState, type ReactNode } from 'react';
 
 // Small SVG plotting pieces shared by the charts: scales, tick choice, axes and a frame that
 // follows its container's width (so text stays readable on a phone instead of shrinking).
@@ -241,6 +241,41 @@ export function ChartFrame({
     </div>
   );
 }
+
+/** Which way a fade runs: from the opaque side toward the clear one. */
+export type FadeToward = 'left' | 'right' | 'up' | 'down';
+
+const FADE_VECTORS: Record<FadeToward, { x1: string; x2: string; y1: string; y2: string }> = {
+  left: { x1: '1', x2: '0', y1: '0', y2: '0' },
+  right: { x1: '0', x2: '1', y1: '0', y2: '0' },
+  up: { x1: '0', x2: '0', y1: '1', y2: '0' },
+  down: { x1: '0', x2: '0', y1: '0', y2: '1' },
+};
+
+/**
+ * Masks that fade a shape out toward one side, for a limit that was not measured: opaque at the
+ * limit that exists, clear beyond. Put once in a chart's <defs>; shapes take `fadeMask(uid, …)`.
+ */
+export function FadeMasks({ uid }: { uid: string }) {
+  return (
+    <>
+      {(Object.keys(FADE_VECTORS) as FadeToward[]).map((toward) => (
+        <Fragment key={toward}>
+          <linearGradient id={`${uid}-fade-${toward}-g`} {...FADE_VECTORS[toward]}>
+            <stop offset="0" stopColor="white" stopOpacity="1" />
+            <stop offset="1" stopColor="white" stopOpacity="0" />
+          </linearGradient>
+          <mask id={`${uid}-fade-${toward}`} maskContentUnits="objectBoundingBox">
+            <rect width="1" height="1" fill={`url(#${uid}-fade-${toward}-g)`} />
+          </mask>
+        </Fragment>
+      ))}
+    </>
+  );
+}
+
+/** The mask attribute for a shape fading out toward one side (see FadeMasks). */
+export const fadeMask = (uid: string, toward: FadeToward) => `url(#${uid}-fade-${toward})`;
 
 /** Colours for up to eight groups (electrodes, records), defined for light and dark in global.css. */
 export function seriesColour(i: number): string {

@@ -467,7 +467,7 @@ export const CELL_VOLTAGE_NAME =
  * A column of what the instrument was told to do rather than what it measured ("Potential
  * applied", "control/V", "E set", "I program"): it loses to a measured column of the same kind.
  */
-export function isSetpointLabel(label: string): boolean {
+function isSetpointLabel(label: string): boolean {
   return /\b(applied|set|setpoint|control|programm?e?d?|command(ed)?|nominal|target|demand)\b/i.test(
     label,
   );
@@ -617,12 +617,16 @@ function resolveColumns(
 // The reader
 
 /** Read a delimited text export into typed arrays of the needed columns (units as written). */
-/** A cell that is only a unit, bare or in brackets: "s", "(V)", "[mA]", "µA/cm²". */
-function isUnitCell(cell: string): boolean {
-  const c = cell
+/** A unit cell without its brackets: "(V)" and "[mA]" → "V", "mA". */
+const unbracketed = (cell: string) =>
+  cell
     .trim()
     .replace(/^[([]\s*(.*?)\s*[)\]]$/, '$1')
     .trim();
+
+/** A cell that is only a unit, bare or in brackets: "s", "(V)", "[mA]", "µA/cm²". */
+function isUnitCell(cell: string): boolean {
+  const c = unbracketed(cell);
   return c !== '' && describeUnit(c) !== null;
 }
 
@@ -650,9 +654,7 @@ function unitsRowAbove(
     return null;
   return {
     names: names.map((n, i) => {
-      const u = cells[i]!.trim()
-        .replace(/^[([]\s*(.*?)\s*[)\]]$/, '$1')
-        .trim();
+      const u = unbracketed(cells[i]!);
       return u ? `${n.trim()} (${u})` : n.trim();
     }),
     line: l.no,
