@@ -8,7 +8,6 @@ import { queryClient } from '#lib/client/query.ts';
 import {
   electrolyteText,
   longName,
-  METHOD_NAMES,
   recordQueries,
   vocabularyQueries,
   type IndexTerm,
@@ -31,6 +30,7 @@ import RawData from './RawData.tsx';
 import Versions from './Versions.tsx';
 import { formatBytes, formatVolts } from '#lib/shared/format.ts';
 import { criterionWords } from '#lib/shared/criteria.ts';
+import { methodWords } from '#lib/shared/record-labels.ts';
 
 const h2 = 'text-lg font-semibold';
 
@@ -65,24 +65,7 @@ function Conditions({ r, terms }: { r: RecordDetail; terms: Map<string, IndexTer
       ? [['Reference electrode', longName(terms, c.referenceElectrode)] as [string, string]]
       : []),
     ['Cell', c.cellType],
-    [
-      'Method',
-      [
-        METHOD_NAMES[m.kind],
-        m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined
-          ? `${m.scanRateMVs} mV s⁻¹`
-          : '',
-        m.kind === 'cv-window-opening' && m.vertexStepMV !== undefined
-          ? `vertex step ${m.vertexStepMV} mV`
-          : '',
-        m.kind === 'potentiostatic-holds' && m.stepMV !== undefined ? `step ${m.stepMV} mV` : '',
-        m.kind === 'potentiostatic-holds' && m.holdTimeS !== undefined
-          ? `hold ${m.holdTimeS} s`
-          : '',
-      ]
-        .filter(Boolean)
-        .join(', '),
-    ],
+    ['Method', methodWords(m)],
     ['Criterion', criterionWords(c.criterion)],
   ];
   return (

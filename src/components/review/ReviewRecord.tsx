@@ -3,15 +3,9 @@ import { useMemo, useRef, useState } from 'react';
 import { errorMessage, queryClient } from '#lib/client/query.ts';
 import { reviewActions, reviewQueries } from '#lib/client/review.ts';
 import type { Decision, FieldComment, ReviewDetail } from '#lib/shared/curation.ts';
-import {
-  longName,
-  METHOD_NAMES,
-  recordQueries,
-  vocabularyQueries,
-  type IndexTerm,
-} from '#lib/client/records.ts';
+import { longName, recordQueries, vocabularyQueries, type IndexTerm } from '#lib/client/records.ts';
 import { CELL_VOLTAGE, statusLabel, type RecordContent } from '#lib/shared/record.ts';
-import { pathLabel } from '#lib/shared/record-labels.ts';
+import { methodWords, pathLabel } from '#lib/shared/record-labels.ts';
 import RawData from '../record/RawData.tsx';
 import {
   buttonPrimary,
@@ -128,21 +122,7 @@ function conditionRows(
     {
       path: 'method',
       label: 'Method',
-      value: [
-        METHOD_NAMES[m.kind],
-        m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined
-          ? `${m.scanRateMVs} mV s⁻¹`
-          : '',
-        m.kind === 'cv-window-opening' && m.vertexStepMV !== undefined
-          ? `vertex step ${m.vertexStepMV} mV`
-          : '',
-        m.kind === 'potentiostatic-holds' && m.stepMV !== undefined ? `step ${m.stepMV} mV` : '',
-        m.kind === 'potentiostatic-holds' && m.holdTimeS !== undefined
-          ? `hold ${m.holdTimeS} s`
-          : '',
-      ]
-        .filter(Boolean)
-        .join(', '),
+      value: methodWords(m),
     },
     { path: 'criterion', label: 'Criterion', value: criterionWords(c.criterion) },
     { path: 'reportedLimits.cathodic', label: 'Reported cathodic limit', value: limit('cathodic') },

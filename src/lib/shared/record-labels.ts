@@ -2,7 +2,7 @@
 // versions and the contributor's view of those comments: one list, so every screen names a field
 // the same way and no one reads a JSON path.
 
-import type { MethodKind } from './record.ts';
+import type { MethodKind, RecordContent } from './record.ts';
 
 /** Each method of measuring a window in words. */
 export const METHOD_NAMES: Record<MethodKind, string> = {
@@ -10,6 +10,23 @@ export const METHOD_NAMES: Record<MethodKind, string> = {
   lsv: 'linear sweep',
   'potentiostatic-holds': 'potentiostatic holds',
 };
+
+/** A method with its settings in words: "CV window opening, 5 mV s⁻¹, vertex step 100 mV". */
+export function methodWords(m: RecordContent['method']): string {
+  return [
+    METHOD_NAMES[m.kind],
+    m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined
+      ? `${m.scanRateMVs} mV s⁻¹`
+      : '',
+    m.kind === 'cv-window-opening' && m.vertexStepMV !== undefined
+      ? `vertex step ${m.vertexStepMV} mV`
+      : '',
+    m.kind === 'potentiostatic-holds' && m.stepMV !== undefined ? `step ${m.stepMV} mV` : '',
+    m.kind === 'potentiostatic-holds' && m.holdTimeS !== undefined ? `hold ${m.holdTimeS} s` : '',
+  ]
+    .filter(Boolean)
+    .join(', ');
+}
 
 const LABELS: Record<string, string> = {
   title: 'Title',
