@@ -5,7 +5,7 @@ import type { RecordDetail } from '../shared/record-views.ts';
 import type { Db } from './db/index.ts';
 import { NotFoundError } from './errors.ts';
 import { authorize, type Principal } from './policy.ts';
-import { detail, policyObject, versionFor, visibleHead } from './record-views.ts';
+import { detail, policyObject, versionFor, visibleHead, visibleRead } from './record-views.ts';
 import { getVersion, listVersions } from './repositories/records.ts';
 
 // A record's history: its versions, one version, and the differences between two.
@@ -43,16 +43,16 @@ export async function getRecordVersion(
   handle: string,
   version: number,
 ): Promise<RecordDetail> {
-  const head = await visibleHead(db, principal, handle);
+  const r = await visibleRead(db, principal, handle, version);
   authorize(
     principal,
     'recordVersion.read',
-    { type: 'recordVersion', record: policyObject(head) },
+    { type: 'recordVersion', record: policyObject(r.head) },
     { what: 'record' },
   );
   // Readers see versions up to the published one; a revision under way is not theirs to read.
-  if (version > versionFor(principal, head)) throw new NotFoundError('version');
-  return detail(db, principal, head, version);
+  if (version > versionFor(principal, r.head)) throw new NotFoundError('version');
+  return detail(principal, r, version);
 }
 
 /** Query parameters of GET /api/v1/records/{handle}/diff. */

@@ -22,15 +22,13 @@ import {
 import { TRANSITIONS, actionsFrom } from './record-status.ts';
 import type { DbOrTrx } from './repositories/audit.ts';
 import {
-  analysesByIds,
   getRecordHead,
-  getVersion,
-  listReviews,
   lockRecord,
-  rawFilesByIds,
+  readRecord,
   type AnalysisRow,
   type RawFileRow,
   type RecordHead,
+  type RecordRead,
   type VersionRow,
 } from './repositories/records.ts';
 
@@ -227,8 +225,8 @@ export async function getRecord(
   handle: string,
 ): Promise<RecordDetail> {
   const read = async () => {
-    const head = await visibleHead(db, principal, handle);
-    return detail(db, principal, head, versionFor(principal, head));
+    const r = await visibleRead(db, principal, handle);
+    return detail(principal, r, versionFor(principal, r.head));
   };
   // Inside a transaction the generation has not moved yet for its own changes: read afresh.
   if (db.isTransaction) return read();
@@ -236,21 +234,33 @@ export async function getRecord(
   return details.get(generation, JSON.stringify([handle, principal]), read);
 }
 
-/** The record at `version` as this principal may see it (the caller checked that they may read that version). */
-export async function detail(
+/**
+ * The record read in one statement (its versions a reader may be shown, and `alsoVersion`) if the
+ * principal may see it, else 404 (missing and hidden alike).
+ */
+export async function visibleRead(
   db: DbOrTrx,
   principal: Principal,
-  head: RecordHead,
-  version: number,
-): Promise<RecordDetail> {
-  const v = await getVersion(db, head.id, version);
+  handle: string,
+  alsoVersion?: number,
+): Promise<RecordRead> {
+  const r = await readRecord(db, handle, alsoVersion);
+  if (!r || !canSee(principal, policyObject(r.head))) throw new NotFoundError('record');
+  return r;
+}
+
+/** The record at `version` as this principal may see it (the caller checked that they may read that version, and `r` holds it). */
+export function detail(principal: Principal, r: RecordRead, version: number): RecordDetail {
+  const { head, reviews } = r;
+  const v = r.versions.find((x) => x.version === version);
   if (!v) throw new NotFoundError('version');
+  const fileIds = new Set(v.raw_file_ids);
+  const files = r.rawFiles.filter((f) => fileIds.has(f.id));
+  const analysisById = new Map(r.analyses.map((a) => [a.id, a]));
+  const analyses = v.analysis_ids
+    .map((id) => analysisById.get(id))
+    .filter((a): a is AnalysisRow => a !== undefined);
   const obj = policyObject(head);
-  const [files, analyses, reviews] = await Promise.all([
-    rawFilesByIds(db, v.raw_file_ids),
-    analysesByIds(db, v.analysis_ids),
-    listReviews(db, head.id),
-  ]);
   const allowed = actionsFrom(head.status as RecordStatus).filter((a) => {
     const t = TRANSITIONS[a];
     return t.policy === 'flag.resolve'

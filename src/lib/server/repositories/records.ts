@@ -4,9 +4,17 @@ import {
   type Insertable,
   type RawBuilder,
   type Selectable,
+  type QueryCreator,
   type SqlBool,
 } from 'kysely';
-import type { AnalysisTable, RawFileTable, RecordVersionTable, ReviewTable } from '../db/schema.ts';
+import { jsonArrayFrom } from 'kysely/helpers/postgres';
+import type {
+  AnalysisTable,
+  Database,
+  RawFileTable,
+  RecordVersionTable,
+  ReviewTable,
+} from '../db/schema.ts';
 import type { DbOrTrx } from './audit.ts';
 import type { FacetName } from '#lib/shared/record-views.ts';
 
@@ -44,7 +52,7 @@ export type RawFileRow = Selectable<RawFileTable>;
 export type AnalysisRow = Selectable<AnalysisTable>;
 export type ReviewRow = Selectable<ReviewTable>;
 
-function headQuery(db: DbOrTrx) {
+function headQuery(db: DbOrTrx | QueryCreator<Database>) {
   return db
     .selectFrom('records as r')
     .innerJoin('record_versions as v', (j) =>
@@ -75,6 +83,111 @@ function headQuery(db: DbOrTrx) {
 /** A record's head (status, owner, lab, current version and its visibility). */
 export async function getRecordHead(db: DbOrTrx, handle: string): Promise<RecordHead | undefined> {
   return headQuery(db).where('r.handle', '=', handle).executeTakeFirst();
+}
+
+/**
+ * A record's head with the versions a reader may be shown (the current and the published one,
+ * and `alsoVersion` when given) and everything a record answer shows of them: their raw files
+ * (by upload time), their analyses and the record's reviews (by decision time).
+ */
+export interface RecordRead {
+  head: RecordHead;
+  versions: VersionRow[];
+  rawFiles: RawFileRow[];
+  analyses: AnalysisRow[];
+  reviews: ReviewRow[];
+}
+
+// Rows inside a JSON aggregate arrive as JSON: timestamps as text, bigint as a number.
+type AsJson<T> = {
+  [K in keyof T]: T[K] extends Date ? string : T[K] extends Date | null ? string | null : T[K];
+};
+const toDate = (t: string) => new Date(t);
+
+/** A record read in one statement (see RecordRead); undefined when the handle names none. */
+export async function readRecord(
+  db: DbOrTrx,
+  handle: string,
+  alsoVersion?: number,
+): Promise<RecordRead | undefined> {
+  const row = await db
+    .with('h', (qc) => headQuery(qc).where('r.handle', '=', handle))
+    .with('vs', (qc) =>
+      qc
+        .selectFrom('record_versions as v')
+        .innerJoin('h', 'h.id', 'v.record_id')
+        .selectAll('v')
+        .where((eb) =>
+          eb('v.version', 'in', [
+            eb.ref('h.current_version'),
+            eb.fn.coalesce('h.published_version', 'h.current_version'),
+            eb.val(alsoVersion ?? 0),
+          ]),
+        ),
+    )
+    .selectFrom('h')
+    .selectAll('h')
+    .select((eb) => [
+      // The version rows whole, less their search vector.
+      sql<
+        AsJson<VersionRow>[]
+      >`(SELECT coalesce(json_agg(to_jsonb(vs) - 'search' ORDER BY vs.version), '[]') FROM vs)`.as(
+        'versions',
+      ),
+      jsonArrayFrom(
+        eb
+          .selectFrom('raw_files as f')
+          .selectAll('f')
+          .where(
+            'f.id',
+            'in',
+            eb.selectFrom('vs').select(sql<string>`unnest(vs.raw_file_ids)`.as('id')),
+          )
+          .orderBy('f.created_at')
+          .orderBy('f.id'),
+      ).as('raw_files'),
+      jsonArrayFrom(
+        eb
+          .selectFrom('analyses as a')
+          .selectAll('a')
+          .where(
+            'a.id',
+            'in',
+            eb.selectFrom('vs').select(sql<string>`unnest(vs.analysis_ids)`.as('id')),
+          ),
+      ).as('analyses'),
+      jsonArrayFrom(
+        eb
+          .selectFrom('reviews as rv')
+          .selectAll('rv')
+          .whereRef('rv.record_id', '=', 'h.id')
+          .orderBy('rv.created_at')
+          .orderBy('rv.id'),
+      ).as('reviews'),
+    ])
+    .executeTakeFirst();
+  if (!row) return undefined;
+  const { versions, raw_files, analyses, reviews, ...head } = row;
+  return {
+    head,
+    versions: (versions as AsJson<VersionRow>[]).map((v) => ({
+      ...v,
+      created_at: toDate(v.created_at),
+    })),
+    rawFiles: (raw_files as unknown as AsJson<RawFileRow>[]).map((f) => ({
+      ...f,
+      bytes: String(f.bytes),
+      created_at: toDate(f.created_at),
+    })),
+    analyses: (analyses as unknown as AsJson<AnalysisRow>[]).map((a) => ({
+      ...a,
+      created_at: toDate(a.created_at),
+    })),
+    reviews: (reviews as unknown as AsJson<ReviewRow>[]).map((r) => ({
+      ...r,
+      created_at: toDate(r.created_at),
+    })),
+  };
 }
 
 /**
@@ -251,6 +364,7 @@ export async function listReviews(db: DbOrTrx, recordId: string): Promise<Review
     .selectAll()
     .where('record_id', '=', recordId)
     .orderBy('created_at')
+    .orderBy('id')
     .execute();
 }
 
@@ -390,6 +504,7 @@ export async function rawFilesByIds(db: DbOrTrx, ids: string[]): Promise<RawFile
     .selectAll()
     .where('id', 'in', ids)
     .orderBy('created_at')
+    .orderBy('id')
     .execute();
 }
 
