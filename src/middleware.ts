@@ -1,6 +1,7 @@
 import { defineMiddleware } from 'astro:middleware';
 import { config } from './lib/server/config.ts';
 import { applySecurityHeaders } from './lib/server/http/headers.ts';
+import { renderOrHeld } from './lib/server/http/held-pages.ts';
 import { checkStateChangingRequest, type OriginVerdict } from './lib/server/http/origin.ts';
 import { problem } from './lib/server/http/problem.ts';
 import { apiMethodTable, boundaryRefusal } from './lib/server/http/boundary.ts';
@@ -69,7 +70,8 @@ export const onRequest = defineMiddleware(async (context, next) => {
       } catch (err) {
         refused = toProblem(err, url.pathname, reqId);
       }
-      response = refused ?? (await next());
+      // Held routes answer anonymous readers from bytes held per generation (held-pages.ts).
+      response = refused ?? (await renderOrHeld(context, next));
     }
   }
   // An API path with no route (or a method it does not answer) gets problem+json, not a page.

@@ -1,6 +1,5 @@
 import { useEffect, useState } from 'react';
-
-type Theme = 'light' | 'dark';
+import { THEME_COOKIE, type Theme } from '#lib/shared/theme.ts';
 
 /** Switches between light and dark, remembered in this browser. */
 export default function ThemeSwitch() {
@@ -19,7 +18,7 @@ export default function ThemeSwitch() {
       type="button"
       onClick={() => {
         document.documentElement.dataset.theme = next;
-        document.cookie = `edgewise-theme=${next}; path=/; max-age=31536000; samesite=lax`;
+        document.cookie = `${THEME_COOKIE}=${next}; path=/; max-age=31536000; samesite=lax`;
         setTheme(next);
       }}
       className="rounded border border-rule dark:border-night-rule px-2 py-1 text-sm hover:bg-paper dark:hover:bg-night"

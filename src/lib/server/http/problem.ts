@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import type { z } from 'zod';
 import { config } from '../config.ts';
 
@@ -70,28 +71,77 @@ export function jsonText(
   });
 }
 
+/** Encodings a held answer may keep beside its plain bytes, in the order this server prefers them. */
+const ENCODINGS = ['br', 'gzip'] as const;
+export type Encoding = (typeof ENCODINGS)[number];
+
 /**
- * A serialised JSON answer that may be revalidated: 304 when the client holds the same entity
- * tag, gzip when the client takes it. Stored by the client only privately and always
- * revalidated, since what a search shows depends on who asks.
+ * The encoding to send among those `offered`, from the request's Accept-Encoding (a quality of 0
+ * refuses; `*` stands for every encoding not named); undefined for the plain bytes.
  */
-export function cachedJson(
+export function acceptedEncoding(
   request: Request,
-  answer: { body: Uint8Array<ArrayBuffer>; gzip: () => Uint8Array<ArrayBuffer>; etag: string },
+  offered: readonly Encoding[],
+): Encoding | undefined {
+  const q = new Map<string, number>();
+  for (const part of (request.headers.get('accept-encoding') ?? '').split(',')) {
+    const [token = '', ...params] = part.toLowerCase().split(';');
+    const name = token.trim();
+    if (!name) continue;
+    const quality = params.map((p) => /^\s*q\s*=\s*([\d.]+)\s*$/.exec(p)).find(Boolean);
+    q.set(name, quality ? Number(quality[1]) : 1);
+  }
+  return ENCODINGS.find((e) => offered.includes(e) && (q.get(e) ?? q.get('*') ?? 0) > 0);
+}
+
+/**
+ * Bytes held for answers that repeat: the plain body, its encoded forms (each made once, when
+ * first asked for) and an entity tag naming the plain body.
+ */
+export interface HeldBytes {
+  body: Uint8Array<ArrayBuffer>;
+  encoded: Partial<Record<Encoding, () => Uint8Array<ArrayBuffer>>>;
+  etag: string;
+}
+
+/** An entity tag for `body` (a strong one: the same bytes, the same tag). */
+export function entityTag(body: Uint8Array): string {
+  return `"${createHash('sha256').update(body).digest('base64url').slice(0, 32)}"`;
+}
+
+/**
+ * A held answer that may be revalidated: 304 when the client holds the same entity tag (for a
+ * 200), the encoded bytes when the client takes them. Stored by the client only privately and
+ * always revalidated, since what an answer shows depends on who asks.
+ */
+export function heldAnswer(
+  request: Request,
+  held: HeldBytes,
+  init: { status?: number; headers: [string, string][] | Record<string, string> },
 ): Response {
-  const gzip = /\bgzip\b/i.test(request.headers.get('accept-encoding') ?? '');
-  const etag = gzip ? `${answer.etag.slice(0, -1)}-gz"` : answer.etag;
-  const headers: Record<string, string> = {
-    etag,
-    'cache-control': 'private, no-cache',
-    vary: 'Accept-Encoding, Cookie, Authorization',
-  };
-  const held = (request.headers.get('if-none-match') ?? '')
+  const status = init.status ?? 200;
+  const encoding = acceptedEncoding(
+    request,
+    ENCODINGS.filter((e) => held.encoded[e]),
+  );
+  const etag = encoding
+    ? `${held.etag.slice(0, -1)}-${encoding === 'gzip' ? 'gz' : encoding}"`
+    : held.etag;
+  const headers = new Headers(init.headers);
+  headers.set('etag', etag);
+  headers.set('cache-control', 'private, no-cache');
+  headers.set('vary', 'Accept-Encoding, Cookie, Authorization');
+  const asked = (request.headers.get('if-none-match') ?? '')
     .split(',')
     .map((t) => t.trim().replace(/^W\//, ''));
-  if (held.includes(etag) || held.includes('*'))
+  if (status === 200 && (asked.includes(etag) || asked.includes('*'))) {
+    for (const name of ['content-type', 'content-length', 'content-encoding']) headers.delete(name);
     return new Response(null, { status: 304, headers });
-  const bytes = gzip ? answer.gzip() : answer.body;
+  }
+  const bytes = encoding ? held.encoded[encoding]!() : held.body;
+  headers.set('content-length', String(bytes.byteLength));
+  if (encoding) headers.set('content-encoding', encoding);
+  else headers.delete('content-encoding');
   // A stream over the held bytes: a byte-array body would be copied for every response.
   const body = new ReadableStream<Uint8Array>({
     start(controller) {
@@ -99,13 +149,17 @@ export function cachedJson(
       controller.close();
     },
   });
-  return new Response(body, {
-    status: 200,
-    headers: {
-      ...headers,
-      'content-type': 'application/json; charset=utf-8',
-      'content-length': String(bytes.byteLength),
-      ...(gzip ? { 'content-encoding': 'gzip' } : {}),
-    },
-  });
+  return new Response(body, { status, headers });
+}
+
+/** A serialised JSON answer held between changes (see heldAnswer), gzipped when the client takes it. */
+export function cachedJson(
+  request: Request,
+  answer: { body: Uint8Array<ArrayBuffer>; gzip: () => Uint8Array<ArrayBuffer>; etag: string },
+): Response {
+  return heldAnswer(
+    request,
+    { body: answer.body, encoded: { gzip: answer.gzip }, etag: answer.etag },
+    { headers: { 'content-type': 'application/json; charset=utf-8' } },
+  );
 }
