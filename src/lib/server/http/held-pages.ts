@@ -9,11 +9,12 @@ import { entityTag, heldAnswer, type HeldBytes } from './problem.ts';
 // (see generation.ts): a repeated view costs the generation read and no rendering, serialising
 // or compressing. What else changes a page's bytes is in its key: the origin it was asked at,
 // the path, the theme cookie the layout reads, and the query parameters the page reads (listed
-// here per route pattern). Astro's policy for the page carries hashes of the scripts and styles
-// it emitted (no nonce), so the same bytes keep the same policy, held beside them. Signed-in
-// readers (and API tokens) are rendered every time; their pages are `private, no-store`.
-const HELD_ROUTES: Record<string, (url: URL) => (string | null)[]> = {
-  '/windows/[handle]': (url) => [url.searchParams.get('version')],
+// here per route pattern, with the page file; a unit test holds the list to what the files
+// read). Astro's policy for the page carries hashes of the scripts and styles it emitted (no
+// nonce), so the same bytes keep the same policy, held beside them. Signed-in readers (and API
+// tokens) are rendered every time; their pages are `private, no-store`.
+export const HELD_ROUTES: Record<string, { file: string; params: string[] }> = {
+  '/windows/[handle]': { file: 'src/pages/windows/[handle].astro', params: ['version'] },
 };
 
 interface HeldPage extends HeldBytes {
@@ -31,15 +32,15 @@ class NotHeld extends Error {}
  * 200 or a 404 (a missing or hidden record) without cookies set and without `no-store`.
  */
 export async function renderOrHeld(context: APIContext, next: MiddlewareNext): Promise<Response> {
-  const parts = HELD_ROUTES[context.routePattern];
-  if (!parts || context.request.method !== 'GET' || context.locals.principal.kind !== 'anonymous')
+  const route = HELD_ROUTES[context.routePattern];
+  if (!route || context.request.method !== 'GET' || context.locals.principal.kind !== 'anonymous')
     return next();
   const url = context.url;
   const key = JSON.stringify([
     url.origin,
     url.pathname,
     themeOf(context.cookies.get(THEME_COOKIE)?.value) ?? null,
-    ...parts(url),
+    ...route.params.map((name) => url.searchParams.get(name)),
   ]);
   let rendered: Response | undefined;
   let page: HeldPage;
