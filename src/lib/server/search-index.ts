@@ -219,6 +219,132 @@ function regroup(packed: Float64Array, groups: Uint32Array, valueRanks: number):
   }
 }
 
+/**
+ * Bitmaps of consecutive stretches of a sort order: stretch k holds the ordinals at positions
+ * [k·width, (k+1)·width) of `order` (or of the rank array, for a ranked column), and a boundary
+ * is forced at `split` so a descending order can walk the non-NULL stretches and the NULL block
+ * separately. Counting a set's members per stretch is then one native AND-count per stretch.
+ */
+interface Stretch {
+  start: number;
+  end: number;
+  members: Bitmap;
+}
+
+function stretches(
+  ordinalsAt: (p: number) => number,
+  n: number,
+  width: number,
+  split: number,
+): Stretch[] {
+  const out: Stretch[] = [];
+  const add = (from: number, to: number) => {
+    for (let start = from; start < to; start += width) {
+      const end = Math.min(to, start + width);
+      const ords = new Uint32Array(end - start);
+      for (let p = start; p < end; p++) ords[p - start] = ordinalsAt(p);
+      const members = new RoaringBitmap32(ords.sort());
+      members.runOptimize();
+      members.shrinkToFit();
+      out.push({ start, end, members });
+    }
+  };
+  add(0, split);
+  add(split, n);
+  return out;
+}
+
+/** A sort order of one column: each record's rank, and the order cut into stretches. */
+interface Ranked {
+  rank: Uint32Array;
+  nonNull: number;
+  stretches: Stretch[];
+}
+
+/**
+ * A numeric filter column in value order: the ordinals of its non-NULL values sorted by value
+ * (`order`), cut into stretches. A range [lo, hi] is one run of consecutive positions, found by
+ * binary search, so its records are the whole stretches inside the run and two partial ends.
+ */
+interface RangeOrder {
+  values: Float64Array;
+  order: Uint32Array;
+  stretches: Stretch[];
+  /** The records without a value. */
+  nulls: Bitmap;
+}
+
+export interface IndexOptions {
+  /** Records per stretch of a sort or value order (small in tests, to cross many boundaries). */
+  stretch?: number;
+}
+
+/** Default records per stretch: a few hundred native AND-counts cover 10⁶ records. */
+const STRETCH = 4096;
+
+/** A range column's value order, its NULLs (NaN) left out, ties in ordinal order. */
+function rangeOrder(values: Float64Array, width: number): RangeOrder {
+  // The ascending rank puts the NULLs (NaN) last, so the first m positions are the values.
+  const { rank } = rankOf(values, []);
+  const order = new Uint32Array(values.length);
+  let m = 0;
+  for (let o = 0; o < values.length; o++) {
+    order[rank[o]!] = o;
+    if (!Number.isNaN(values[o]!)) m++;
+  }
+  const nulls: number[] = [];
+  for (let p = m; p < values.length; p++) nulls.push(order[p]!);
+  return {
+    values,
+    order: order.slice(0, m),
+    stretches: stretches((p) => order[p]!, m, width, m),
+    nulls: new RoaringBitmap32(Uint32Array.from(nulls).sort()),
+  };
+}
+
+/** First position in `order` whose value is not below `bound` (`after`: above it). */
+function firstPosition(r: RangeOrder, bound: number, after: boolean): number {
+  let lo = 0;
+  let hi = r.order.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    const v = r.values[r.order[mid]!]!;
+    if (after ? v <= bound : v < bound) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/** The records at positions [a, b) of an order: whole stretches as they are, the ends read. */
+function positions(r: RangeOrder, a: number, b: number): Bitmap[] {
+  const parts: Bitmap[] = [];
+  for (const s of r.stretches) {
+    if (s.end <= a || s.start >= b) continue;
+    if (s.start >= a && s.end <= b) parts.push(s.members);
+    else
+      parts.push(new RoaringBitmap32(r.order.subarray(Math.max(a, s.start), Math.min(b, s.end))));
+  }
+  return parts;
+}
+
+/**
+ * Narrows `set` to the records whose value lies in [lo, hi] (either side open when absent); NULL
+ * matches no bound, as in SQL. The run of positions is found by binary search; when it is most of
+ * the order, the records outside it (and the NULLs) are taken away instead, so the work is never
+ * more than half the records.
+ */
+function keepWithin(set: Bitmap, r: RangeOrder, lo?: number, hi?: number): void {
+  const m = r.order.length;
+  const a = lo === undefined ? 0 : firstPosition(r, lo, false);
+  const b = hi === undefined ? m : firstPosition(r, hi, true);
+  if (a >= b) set.clear();
+  else if (b - a <= m / 2) set.andInPlace(RoaringBitmap32.orMany(positions(r, a, b)));
+  else
+    set.andNotInPlace(
+      RoaringBitmap32.orMany([r.nulls, ...positions(r, 0, a), ...positions(r, b, m)]),
+    );
+}
+
 export interface IndexPage {
   total: number;
   handles: string[];
@@ -236,14 +362,15 @@ export class SearchIndex {
     private readonly sets: Record<SetColumn, Map<string, Bitmap>>,
     private readonly embargoed: Bitmap,
     private readonly rawBacked: Bitmap,
-    private readonly ranges: Record<RangeColumn, Float64Array>,
-    private readonly ranks: Record<RankedColumn, { rank: Uint32Array; nonNull: number }>,
+    private readonly ranges: Record<RangeColumn, RangeOrder>,
+    private readonly ranks: Record<RankedColumn, Ranked>,
     private readonly labSlugs: Map<string, string>,
     private readonly labIdsBySlug: Map<string, string>,
   ) {}
 
   /** Reads the collection (one consistent snapshot) and builds its index. */
-  static async build(db: Kysely<Database>): Promise<SearchIndex> {
+  static async build(db: Kysely<Database>, options: IndexOptions = {}): Promise<SearchIndex> {
+    const width = options.stretch ?? STRETCH;
     const columns = Object.fromEntries(SET_COLUMNS.map((c) => [c, new ColumnBuilder()])) as Record<
       SetColumn,
       ColumnBuilder
@@ -297,7 +424,7 @@ export class SearchIndex {
     for (const h of handleNumbers) if (h > max) max = h;
     const byHandleNumber = new Uint32Array(max + 1);
     handleNumbers.forEach((h, o) => (byHandleNumber[h] = o + 1));
-    const ranks = {} as Record<RankedColumn, { rank: Uint32Array; nonNull: number }>;
+    const ranks = {} as Record<RankedColumn, Ranked>;
     // Concentrations sort grouped by basis (NULL basis last), the bases in the database's order.
     const basisOrder = new Map(snapshot.bases.map((b, i) => [b, i]));
     const groups = Uint32Array.from(basisOf, (b) => {
@@ -306,12 +433,16 @@ export class SearchIndex {
       if (g === undefined) throw new Error(`concentration basis "${b}" missing from the snapshot`);
       return g;
     });
-    for (const col of RANKED_COLUMNS)
-      ranks[col] = rankOf(
+    const at = new Uint32Array(n);
+    for (const col of RANKED_COLUMNS) {
+      const { rank, nonNull } = rankOf(
         keys[col].done(),
         nulls[col],
         col === 'salt_concentration' ? groups : undefined,
       );
+      for (let o = 0; o < n; o++) at[rank[o]!] = o;
+      ranks[col] = { rank, nonNull, stretches: stretches((p) => at[p]!, n, width, nonNull) };
+    }
     const bitmap = (list: number[]) => {
       const b = new RoaringBitmap32(Uint32Array.from(list));
       b.runOptimize();
@@ -328,10 +459,9 @@ export class SearchIndex {
       >,
       bitmap(embargoed),
       bitmap(rawBacked),
-      Object.fromEntries(RANGE_COLUMNS.map((c) => [c, ranges[c].done()])) as Record<
-        RangeColumn,
-        Float64Array
-      >,
+      Object.fromEntries(
+        RANGE_COLUMNS.map((c) => [c, rangeOrder(ranges[c].done(), width)]),
+      ) as Record<RangeColumn, RangeOrder>,
       ranks,
       new Map(snapshot.labs.map((l) => [l.id, l.slug])),
       new Map(snapshot.labs.map((l) => [l.slug, l.id])),
@@ -345,8 +475,15 @@ export class SearchIndex {
       for (const [k, bm] of m) b += bm.getSerializationSizeInBytes('croaring') + 2 * k.length + 64;
     b += this.embargoed.getSerializationSizeInBytes('croaring');
     b += this.rawBacked.getSerializationSizeInBytes('croaring');
-    for (const a of Object.values(this.ranges)) b += a.byteLength;
-    for (const r of Object.values(this.ranks)) b += r.rank.byteLength;
+    const held = (list: Stretch[]) =>
+      list.reduce((sum, s) => sum + s.members.getSerializationSizeInBytes('croaring') + 24, 0);
+    for (const r of Object.values(this.ranges))
+      b +=
+        r.values.byteLength +
+        r.order.byteLength +
+        held(r.stretches) +
+        r.nulls.getSerializationSizeInBytes('croaring');
+    for (const r of Object.values(this.ranks)) b += r.rank.byteLength + held(r.stretches);
     return b;
   }
 
@@ -412,28 +549,20 @@ export class SearchIndex {
       if (!text) throw new Error('a text query needs its matches');
       set.andInPlace(text);
     }
-    const tests: { values: Float64Array; bound: number; min: boolean }[] = [];
+    const bounds = new Map<RangeColumn, { lo?: number; hi?: number }>();
     for (const [key, how] of Object.entries(RANGE_FILTERS)) {
       const bound = f[key as keyof typeof RANGE_FILTERS];
-      if (bound !== undefined) tests.push({ values: this.ranges[how.column], bound, min: how.min });
+      if (bound === undefined) continue;
+      const b = bounds.get(how.column) ?? {};
+      if (how.min) b.lo = bound;
+      else b.hi = bound;
+      bounds.set(how.column, b);
     }
-    if (tests.length === 0 || set.size === 0) return set;
-    const ords = set.toUint32Array();
-    let kept = 0;
-    for (let i = 0; i < ords.length; i++) {
-      const o = ords[i]!;
-      let ok = true;
-      for (const t of tests) {
-        const v = t.values[o]!;
-        // NaN (NULL) fails both comparisons, as NULL does in SQL.
-        if (!(t.min ? v >= t.bound : v <= t.bound)) {
-          ok = false;
-          break;
-        }
-      }
-      if (ok) ords[kept++] = o;
+    for (const [column, b] of bounds) {
+      if (set.size === 0) break;
+      keepWithin(set, this.ranges[column], b.lo, b.hi);
     }
-    return new RoaringBitmap32(ords.subarray(0, kept));
+    return set;
   }
 
   /** Counts per value of every facet over a matching set (values with none left out). */
@@ -463,14 +592,15 @@ export class SearchIndex {
     const n = set.size;
     const want = p.offset + p.limit;
     if (p.offset >= n) return [];
-    const ords = set.toUint32Array();
     let picked: ArrayLike<number>;
     if (p.sort === 'handle') {
-      picked = p.desc
-        ? ords.slice(Math.max(0, n - want), n - p.offset).reverse()
-        : ords.subarray(p.offset, Math.min(n, want));
+      // Ordinals are in handle order: the page is the members at its positions.
+      const out: number[] = [];
+      for (let i = p.offset; i < Math.min(n, want); i++)
+        out.push(set.select(p.desc ? n - 1 - i : i)!);
+      picked = out;
     } else {
-      const { rank, nonNull } = this.ranks[SORT_COLUMNS[p.sort]];
+      const { rank, nonNull, stretches } = this.ranks[SORT_COLUMNS[p.sort]];
       const size = this.size;
       // Descending keeps NULLs last: the non-NULL ranks reverse, the NULL block reverses in place.
       const r = p.desc
@@ -479,26 +609,31 @@ export class SearchIndex {
             return a < nonNull ? nonNull - 1 - a : nonNull + (size - 1 - a);
           }
         : (o: number) => rank[o]!;
-      // A threshold on the rank from a histogram of the set's ranks, then only the candidates
-      // below it are sorted.
-      const buckets = Math.min(65_536, size);
-      const width = Math.ceil(size / buckets);
-      const hist = new Uint32Array(buckets);
-      for (let i = 0; i < n; i++) hist[Math.floor(r(ords[i]!) / width)]!++;
+      // The stretches in the asked order: how many of the set each holds is one AND-count, so
+      // only the members of the stretches that overlap the page are read and sorted.
+      const walk = p.desc
+        ? [
+            ...stretches.filter((s) => s.end <= nonNull).reverse(),
+            ...stretches.filter((s) => s.start >= nonNull).reverse(),
+          ]
+        : stretches;
+      const out: number[] = [];
       let seen = 0;
-      let cut = 0;
-      while (cut < buckets && seen + hist[cut]! < want) seen += hist[cut++]!;
-      const limitRank = (cut + 1) * width;
-      const cand = new Float64Array(seen + (hist[cut] ?? 0));
-      let k = 0;
-      for (let i = 0; i < n; i++) {
-        const o = ords[i]!;
-        const x = r(o);
-        if (x < limitRank) cand[k++] = x * ORDINAL_BITS + o;
+      for (const s of walk) {
+        if (seen >= want) break;
+        const count = s.members.andCardinality(set);
+        if (seen + count <= p.offset) {
+          seen += count;
+          continue;
+        }
+        const members = RoaringBitmap32.and(s.members, set).toUint32Array();
+        const keys = Float64Array.from(members, (o) => r(o) * ORDINAL_BITS + o).sort();
+        for (const x of keys) {
+          if (seen >= want) break;
+          if (seen++ >= p.offset) out.push(x % ORDINAL_BITS);
+        }
       }
-      cand.sort();
-      const slice = cand.subarray(p.offset, Math.min(k, want));
-      picked = Array.from(slice, (x) => x % ORDINAL_BITS);
+      picked = out;
     }
     return Array.from(picked, (o) => handleText(this.handleNumbers[o]!));
   }
