@@ -17,12 +17,14 @@ import {
 } from './repositories/records.ts';
 
 // The searchable collection of one generation in memory: one compressed bitmap (roaring) per value
-// of every filter and facet column, the numeric filter columns as typed arrays, and each sort
-// key's order as the database sorts it. Totals and facet counts are then ANDs and popcounts, and
-// a sorted page is the smallest ranks of the filtered set; only the page's rows are read from
-// PostgreSQL. Text queries (`q`) are matched by PostgreSQL's full-text search and joined in as one
-// more bitmap. Every answer equals what the SQL path (repositories/records.ts) gives for the same
-// generation, which a test holds on generated data.
+// of every filter and facet column, the numeric filter columns in value order, and each sort
+// key's order as the database sorts it, both orders cut into stretches held as bitmaps. Totals
+// and facet counts are then ANDs and popcounts; a range filter is a run of positions in value
+// order; a sorted page is found by counting the filtered set stretch by stretch and sorting only
+// the stretches the page overlaps. Only the page's rows are read from PostgreSQL. Text queries
+// (`q`) are matched by PostgreSQL's full-text search and joined in as one more bitmap. Every
+// answer equals what the SQL path (repositories/records.ts) gives for the same generation, which
+// a test holds on generated data.
 
 const { RoaringBitmap32 } = roaring;
 type Bitmap = InstanceType<typeof RoaringBitmap32>;
