@@ -8,7 +8,7 @@ import { ensureCluster, pgBinDir } from '../../scripts/lib/postgres.ts';
 import { freePort } from '../../scripts/lib/services.ts';
 import { appDb, closeAppDb } from '../auth-helpers.ts';
 import { makeRecord, tag } from '../support/records.ts';
-import { createDb, createReadDb, type Db } from '#lib/server/db/index.ts';
+import { createDb, createReplicaReads, type Db, type ReplicaReads } from '#lib/server/db/index.ts';
 import { recordQuerySchema, searchRecordList } from '#lib/server/record-search.ts';
 import { ANONYMOUS } from '#lib/shared/principal.ts';
 
@@ -40,8 +40,11 @@ function pgRun(bin: string, args: string[], env: Record<string, string> = {}) {
   return r.stdout;
 }
 
-let reads: Db;
+let reads: ReplicaReads;
 let direct: Db;
+let replicaAdmin: string;
+let primaryUrl: string;
+let replicaUrl: string;
 let handle: string;
 
 beforeAll(async () => {
@@ -83,10 +86,11 @@ beforeAll(async () => {
     '-o',
     `-c listen_addresses=127.0.0.1 -p ${port} -c unix_socket_directories=${dir} -c hot_standby=on -c max_connections=200`,
   ]);
-  const primaryUrl = process.env.DATABASE_URL!;
-  const replicaUrl = Object.assign(new URL(primaryUrl), { port: String(port) }).toString();
+  primaryUrl = process.env.DATABASE_URL!;
+  replicaUrl = Object.assign(new URL(primaryUrl), { port: String(port) }).toString();
+  replicaAdmin = Object.assign(new URL(admin), { port: String(port) }).toString();
   direct = createDb(replicaUrl, 2);
-  reads = createReadDb(appDb(), primaryUrl, [replicaUrl], 4);
+  reads = createReplicaReads(appDb(), primaryUrl, [replicaUrl], 4);
   handle = (await makeRecord({ status: 'published', over: { title: `replicated ${token}` } }))
     .record.handle;
   // The replica replays the primary's changes: wait until the new record is there.
@@ -125,16 +129,81 @@ afterAll(async () => {
   await closeAppDb();
 });
 
+/** Pauses or resumes the replica's replay of the primary's changes (a superuser's function). */
+async function replay(action: 'pause' | 'resume') {
+  const c = createDb(replicaAdmin, 1);
+  try {
+    await sql.raw(`SELECT pg_wal_replay_${action}()`).execute(c);
+  } finally {
+    await c.destroy();
+  }
+}
+
+const statusOf = async (d: Db) =>
+  (await sql<{ status: string }>`SELECT status FROM records WHERE handle = ${handle}`.execute(d))
+    .rows[0]!.status;
+
 const inRecovery = async (d: Db) =>
   (await sql<{ r: boolean }>`SELECT pg_is_in_recovery() AS r`.execute(d)).rows[0]!.r;
 
 describe('reads on a streaming replica', () => {
+  it('never holds what a replica further behind read under a newer generation', async () => {
+    // Two replicas a change apart: the streaming one with its replay paused, and the primary
+    // standing for one that keeps up. Each request reads one of them; answers are held per
+    // generation, so rows read on the one behind must never be held under the newer generation.
+    const pair = createReplicaReads(appDb(), primaryUrl, [replicaUrl, primaryUrl], 4);
+    const search = (d: Db, limit: number) =>
+      searchRecordList(d, ANONYMOUS, recordQuerySchema.parse({ q: token, limit: String(limit) }));
+    // Every statement of one read instance (one request) goes to the same server, and the
+    // instances take turns.
+    const seen = new Set<boolean>();
+    for (let i = 0; i < 4; i++) {
+      const d = pair.next();
+      const answers = await Promise.all([1, 2, 3, 4].map(() => inRecovery(d)));
+      expect(new Set(answers).size).toBe(1);
+      seen.add(answers[0]!);
+    }
+    expect([...seen].sort()).toEqual([false, true]);
+    const before = await statusOf(direct);
+    const after = 'flagged';
+    expect(before).toBe('published');
+    await replay('pause');
+    try {
+      // The record flagged, its search row with it, in one transaction as the service writes
+      // them: the collection's generation moves.
+      await appDb()
+        .transaction()
+        .execute(async (trx) => {
+          await sql`UPDATE records SET status = ${after} WHERE handle = ${handle}`.execute(trx);
+          await sql`UPDATE record_search SET status = ${after} WHERE handle = ${handle}`.execute(
+            trx,
+          );
+        });
+      for (let i = 0; i < 16; i++) {
+        const r = await search(pair.next(), 20 + i);
+        expect([before, after]).toContain(r.items[0]?.status);
+      }
+    } finally {
+      await replay('resume');
+    }
+    const deadline = Date.now() + 60_000;
+    while ((await statusOf(direct)) !== after) {
+      if (Date.now() > deadline) throw new Error('the replica did not replay the change in 60 s');
+      await new Promise((r) => setTimeout(r, 200));
+    }
+    // Both sides are at the newer generation now: every answer shows the change, the same
+    // searches as above included (what they held under the newer generation is served again).
+    for (let i = 0; i < 16; i++)
+      expect((await search(pair.next(), 20 + i)).items.map((x) => x.status)).toEqual([after]);
+    await pair.destroy();
+  });
+
   it('searches through the replica, then through the primary once the replica is killed', async () => {
     expect(await inRecovery(direct)).toBe(true);
-    expect(await inRecovery(reads)).toBe(true);
+    expect(await inRecovery(reads.next())).toBe(true);
     const search = (limit: number) =>
       searchRecordList(
-        reads,
+        reads.next(),
         ANONYMOUS,
         recordQuerySchema.parse({ q: token, limit: String(limit) }),
       );
@@ -149,6 +218,6 @@ describe('reads on a streaming replica', () => {
       expect(r.total).toBe(1);
       expect(r.items.map((x) => x.handle)).toEqual([handle]);
     }
-    expect(await inRecovery(reads)).toBe(false);
+    expect(await inRecovery(reads.next())).toBe(false);
   });
 });

@@ -75,21 +75,20 @@ const DOWN_MS = 5_000;
 const listening = new WeakSet<pg.PoolClient>();
 
 /**
- * A pool for Kysely that hands out connections to the replicas in turn, skipping one that failed
- * in the last few seconds, and to the primary when none answers. A statement that fails because
- * its replica went away is sent again to the primary, unless it was part of a transaction.
+ * A pool for Kysely over one replica that falls back to the primary: a connection to the replica
+ * unless it failed in the last few seconds, else one to the primary. A statement that fails
+ * because its replica went away is sent again to the primary, unless it was part of a
+ * transaction.
  */
 class ReadPool {
-  private turn = 0;
   constructor(
-    readonly replicas: Replica[],
+    private readonly replica: Replica,
     private readonly primary: () => pg.Pool,
   ) {}
 
   async connect(): Promise<pg.PoolClient> {
-    for (let i = 0; i < this.replicas.length; i++) {
-      const r = this.replicas[this.turn++ % this.replicas.length]!;
-      if (r.downUntil > Date.now()) continue;
+    const r = this.replica;
+    if (r.downUntil <= Date.now()) {
       try {
         return this.guarded(await r.pool.connect(), r);
       } catch (err) {
@@ -139,11 +138,10 @@ class ReadPool {
   }
 
   async end(): Promise<void> {
-    await Promise.all(this.replicas.map((r) => r.pool.end()));
+    await this.replica.pool.end();
   }
 }
 
-let reads: Db | null | undefined;
 const readPools = new WeakMap<Db, Db>();
 
 /** The primary a read instance falls back to (itself when there are no replicas). */
@@ -151,19 +149,59 @@ export function primaryOf(d: Db): Db {
   return readPools.get(d) ?? d;
 }
 
-/** A Kysely instance over replicas, falling back to `primary`'s pool; for tests and scripts too. */
-export function createReadDb(primary: Db, primaryUrl: string, replicaUrls: string[], max = 10): Db {
-  let primaryPool: pg.Pool | undefined;
-  const pool = new ReadPool(
-    replicaUrls.map((url) => ({ url, pool: newPool(url, max, 2_000), downUntil: 0 })),
-    () => (primaryPool ??= newPool(primaryUrl, Math.max(2, Math.floor(max / 2)))),
-  );
-  const d = new Kysely<Database>({
-    dialect: new PostgresDialect({ pool: pool as unknown as pg.Pool }),
-  });
-  readPools.set(d, primary);
-  return d;
+/**
+ * Read instances over the replicas, one per replica, handed out in turn, one per request (a
+ * replica down for the moment is skipped). Every statement of a request reads the same replica,
+ * which only moves forward: rows read after the collection's generation are at least that
+ * generation, so nothing read from a replica further behind is ever held under a newer
+ * generation than its own. A replica that fails falls back to the primary, which is ahead.
+ */
+export interface ReplicaReads {
+  next(): Db;
+  destroy(): Promise<void>;
 }
+
+/** ReplicaReads over `replicaUrls`, falling back to `primaryUrl`; for tests and scripts too. */
+export function createReplicaReads(
+  primary: Db,
+  primaryUrl: string,
+  replicaUrls: string[],
+  max = 10,
+): ReplicaReads {
+  let primaryPool: pg.Pool | undefined;
+  const primaryPoolOf = () =>
+    (primaryPool ??= newPool(primaryUrl, Math.max(2, Math.floor(max / 2))));
+  const replicas: Replica[] = replicaUrls.map((url) => ({
+    url,
+    pool: newPool(url, max, 2_000),
+    downUntil: 0,
+  }));
+  const dbs = replicas.map((r) => {
+    const d = new Kysely<Database>({
+      dialect: new PostgresDialect({ pool: new ReadPool(r, primaryPoolOf) as unknown as pg.Pool }),
+    });
+    readPools.set(d, primary);
+    return d;
+  });
+  let turn = 0;
+  return {
+    next() {
+      const now = Date.now();
+      for (let i = 0; i < dbs.length; i++) {
+        const k = turn++ % dbs.length;
+        if (replicas[k]!.downUntil <= now) return dbs[k]!;
+      }
+      // Every replica failed a moment ago: any of them sends its reads to the primary.
+      return dbs[turn++ % dbs.length]!;
+    },
+    async destroy() {
+      await Promise.all(dbs.map((d) => d.destroy()));
+      await primaryPool?.end();
+    },
+  };
+}
+
+let reads: ReplicaReads | undefined;
 
 // A person who has just written reads from the primary for this long (the answer to their next
 // page must show their change, however far a replica lags).
@@ -179,6 +217,6 @@ export function readDb(request?: Request): Db {
   if (urls.length === 0) return db();
   const cookie = request?.headers.get('cookie') ?? '';
   if (new RegExp(`(?:^|;\\s*)${OWN_WRITES_COOKIE}=`).test(cookie)) return db();
-  reads ??= createReadDb(db(), config().DATABASE_URL, urls, config().DATABASE_POOL_SIZE);
-  return reads;
+  reads ??= createReplicaReads(db(), config().DATABASE_URL, urls, config().DATABASE_POOL_SIZE);
+  return reads.next();
 }
