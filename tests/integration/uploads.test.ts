@@ -394,6 +394,36 @@ describe('a linear sweep at a common criterion', () => {
     expect(s.reason).toMatch(/applies to window-opening CV; a linear sweep needs a current cutoff/);
   });
 
+  it('keeps the analyses an edit leaves alone and runs again those whose options it changes', async () => {
+    const body = lsvContent(`Kept LSV ${token}`);
+    const rec = await (await asJson(owner, '/api/v1/records', 'POST', { content: body })).json();
+    await uploadLsv(rec.handle);
+    const first = await (await as(owner, `/api/v1/records/${rec.handle}`)).json();
+    const ids = first.analyses.map((a: { id: string }) => a.id);
+    expect(ids).toHaveLength(1);
+    // A new title changes nothing the engine reads: the stored analysis is kept as it is.
+    const retitled = await asJson(owner, `/api/v1/records/${rec.handle}`, 'PUT', {
+      version: first.version,
+      content: { ...body, title: `Kept LSV, renamed ${token}` },
+      changeNote: 'title only',
+    });
+    expect(retitled.status).toBe(200);
+    const second = await retitled.json();
+    expect(second.version).toBe(first.version + 1);
+    expect(second.analyses.map((a: { id: string }) => a.id)).toEqual(ids);
+    // Another cutoff does: the file is analysed again at it.
+    const recut = await asJson(owner, `/api/v1/records/${rec.handle}`, 'PUT', {
+      version: second.version,
+      content: { ...body, criterion: { kind: 'j-area', threshold: 20 } },
+      changeNote: 'judged at 20 µA/cm²',
+    });
+    expect(recut.status).toBe(200);
+    const third = await recut.json();
+    expect(third.analyses).toHaveLength(1);
+    expect(third.analyses[0].id).not.toBe(ids[0]);
+    expect(third.analyses[0].parameters.criterion).toBe('j:20uA/cm2');
+  });
+
   it('asks for a re-run where the analysis was stored without its envelope, and an edit brings it up to date', async () => {
     const body = lsvContent(`Old LSV ${token}`);
     const rec = await (await asJson(owner, '/api/v1/records', 'POST', { content: body })).json();

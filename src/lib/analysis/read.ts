@@ -349,7 +349,7 @@ const VERSUS = /\s*\b(?:vs\.?|versus|against)\s*/i;
 /**
  * Split a header cell into a name, a unit and the reference it names, wherever the reference
  * stands: "E/V vs. SCE", "Potential vs. Ag/AgCl (mV)", "Ewe vs. Li+/Li (V)", "E (V vs. SHE)",
- * "E vs Li+/Li / V". The reference is returned as written (empty when none is named).
+ * "E vs Li+/Li / V", "E vs Li+/Li/mV". The reference is returned as written (empty when none is named).
  */
 export function splitHeaderName(cell: string): { label: string; unit: string; reference?: string } {
   const text = cell
@@ -381,8 +381,16 @@ export function splitHeaderName(cell: string): { label: string; unit: string; re
     const head = splitLabelUnit(before);
     return { label: head.label, unit: spaced[2]!, reference: spaced[1]!.trim() };
   }
-  // "E/V vs. SCE": unit before the reference.
   const head = splitLabelUnit(before);
+  // "E vs Li+/Li/mV": no unit before the reference, and the part after its last slash is one.
+  const slash = after.lastIndexOf('/');
+  if (head.unit === '' && slash > 0 && describeUnit(after.slice(slash + 1).trim()))
+    return {
+      ...head,
+      unit: after.slice(slash + 1).trim(),
+      reference: after.slice(0, slash).trim(),
+    };
+  // "E/V vs. SCE": unit before the reference.
   return after === '' ? head : { ...head, reference: after };
 }
 
@@ -866,7 +874,7 @@ export function readTable(input: string, options: ReadOptions = {}): RawTable {
     const k = slotName.indexOf(q);
     return k < 0 ? null : cols[k]!.subarray(0, rows);
   };
-  return {
+  const table: RawTable = {
     rows,
     time: get('time'),
     potential: get('potential')!,
@@ -879,7 +887,36 @@ export function readTable(input: string, options: ReadOptions = {}): RawTable {
     firstDataLine: dataLine.no,
     warnings,
   };
+  refuseOutOfRangeMarkers(text, table, slotName);
+  return table;
 }
+
+/**
+ * Instruments write 9.9E37 (and 9.91E37) where a reading was out of range or missing: a marker,
+ * not a measurement (common practice in instrument command languages; the values are from
+ * memory). Read as a number it would be a current or potential spike of 10³⁷, so such a file is
+ * refused at the first marker, naming its line and column.
+ */
+function refuseOutOfRangeMarkers(text: string, table: RawTable, slots: Quantity[]): void {
+  for (const q of slots) {
+    const values = table[q];
+    if (!values) continue;
+    for (let k = 0; k < values.length; k++) {
+      const a = Math.abs(values[k]!);
+      if (a < OUT_OF_RANGE[0] || a > OUT_OF_RANGE[1]) continue;
+      const col = table.columns.find((c) => c.quantity === q);
+      const line = rowLine(text, table, k);
+      throw new AnalysisError(
+        'bad-number',
+        `line ${line}${col ? `, column ${col.index + 1} (${col.name})` : ''}: ${values[k]} is an instrument's out-of-range marker, not a measurement; remove the rows with it (or the points the instrument could not read) and upload again`,
+        col ? { line, column: col.index + 1 } : { line },
+      );
+    }
+  }
+}
+
+/** Magnitudes taken as out-of-range markers rather than readings: 9.9E37 to 9.91E37. */
+const OUT_OF_RANGE = [9.9e37, 9.91e37] as const;
 
 const QUOTE = '"';
 

@@ -1,7 +1,8 @@
 import type { AnalysisOptions } from '../analysis/analyze.ts';
 import type { RecordContent, RecordContentInput } from '../shared/record.ts';
 import { ApiError, sendJson } from './api.ts';
-import { engineCriterion, type RecordDetail } from './records.ts';
+import { engineOptions } from '../shared/engine-options.ts';
+import type { RecordDetail } from './records.ts';
 
 // The contributing side of the API as the browser uses it: drafts, submission, raw-file uploads
 // straight to storage (with progress and cancel), bulk import.
@@ -124,30 +125,9 @@ export function putWithProgress(
   });
 }
 
-const ENGINE_METHOD = {
-  'cv-window-opening': 'cv',
-  lsv: 'lsv',
-  'potentiostatic-holds': 'hold',
-} as const;
-
 /** Engine options for previewing a file of this record in the browser (limits stay on the file's own scale). */
 export function previewOptions(content: RecordContent, mapping: Mapping): AnalysisOptions {
-  const m = content.method;
-  const o: AnalysisOptions = { method: ENGINE_METHOD[m.kind], sign: mapping.sign };
-  const criterion = engineCriterion(content.criterion);
-  if (criterion) o.criterion = criterion;
-  if (m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined)
-    o.scanRate = m.scanRateMVs / 1000;
-  if (content.workingElectrode.geometricAreaCm2 !== undefined)
-    o.area = content.workingElectrode.geometricAreaCm2;
-  if (content.workingElectrode.activeMassMg !== undefined)
-    o.mass = content.workingElectrode.activeMassMg / 1000;
-  if (mapping.columns && Object.keys(mapping.columns).length) o.columns = mapping.columns;
-  if (mapping.direction) o.direction = mapping.direction;
-  if (mapping.vertexToleranceV !== undefined && o.method === 'cv')
-    o.vertexToleranceV = mapping.vertexToleranceV;
-  if (content.cellType === 'two-electrode') o.cell = 'two-electrode';
-  return o;
+  return engineOptions(content, mapping);
 }
 
 export interface ImportAnswer {

@@ -132,12 +132,6 @@ export function termOffsetToShe(
   return offsetToShe(scale, { ...ctx, values: { ...ctx.values, [scale]: curated } });
 }
 
-export const ENGINE_METHOD = {
-  'cv-window-opening': 'cv',
-  lsv: 'lsv',
-  'potentiostatic-holds': 'hold',
-} as const;
-
 /** An analysis attached to a version, as far as the derived columns need it. */
 export interface AttachedAnalysis {
   id: string;

@@ -2,11 +2,11 @@ import type { AnalysisOptions } from '../analysis/index.ts';
 import { recordContentSchema, type RecordContent } from '../shared/record.ts';
 import { AnalysisRefused, analyzeInWorker } from './analysis-pool.ts';
 import { ConflictError, UnavailableError } from './errors.ts';
+import { isDeepStrictEqual } from 'node:util';
+import { engineOptions, type FileMapping } from '../shared/engine-options.ts';
 import {
-  ENGINE_METHOD,
   canonicalContent,
   deriveLimits,
-  engineCriterion,
   evidenceLevel,
   scaleContext,
   termRefs,
@@ -156,29 +156,16 @@ export async function termsOf(db: DbOrTrx, content: RecordContent) {
   return resolveTerms(db, termRefs(content));
 }
 
-/** The engine options for a raw file of a record: method, criterion, scan rate, area, mass, reference. */
+/**
+ * The engine options for a raw file of a record: those the browser's preview uses too
+ * (`engineOptions`), and the conversion from the record's reference electrode to SHE.
+ */
 export function analysisOptions(
   content: RecordContent,
   terms: Map<string, VocabularyTermRow>,
-  mapping: {
-    columns?: AnalysisOptions['columns'];
-    sign?: 'iupac' | 'opposite';
-    direction?: 'anodic' | 'cathodic';
-    vertexToleranceV?: number;
-  },
+  mapping: FileMapping,
 ): AnalysisOptions {
-  const m = content.method;
-  const o: AnalysisOptions = { method: ENGINE_METHOD[m.kind] };
-  // A two-electrode cell's voltages are never converted; the engine refuses it and says so.
-  if (content.cellType === 'two-electrode') o.cell = 'two-electrode';
-  const criterion = engineCriterion(content.criterion);
-  if (criterion) o.criterion = criterion;
-  if (m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined)
-    o.scanRate = m.scanRateMVs / 1000;
-  if (content.workingElectrode.geometricAreaCm2 !== undefined)
-    o.area = content.workingElectrode.geometricAreaCm2;
-  if (content.workingElectrode.activeMassMg !== undefined)
-    o.mass = content.workingElectrode.activeMassMg / 1000;
+  const o = engineOptions(content, mapping);
   const scale =
     content.cellType === 'three-electrode'
       ? terms.get('content.referenceElectrode')?.scale
@@ -190,11 +177,6 @@ export function analysisOptions(
     if (ctx.pH !== undefined) o.pH = ctx.pH;
     if (ctx.temperatureK !== undefined) o.temperatureK = ctx.temperatureK;
   }
-  if (mapping.columns) o.columns = mapping.columns;
-  if (mapping.sign) o.sign = mapping.sign;
-  if (mapping.direction) o.direction = mapping.direction;
-  if (mapping.vertexToleranceV !== undefined && o.method === 'cv')
-    o.vertexToleranceV = mapping.vertexToleranceV;
   return o;
 }
 
@@ -234,13 +216,10 @@ export async function reanalyse(
     result: Awaited<ReturnType<typeof analyzeInWorker>>;
   }[] = [];
   for (const f of files) {
-    const options = analysisOptions(
-      content,
-      terms,
-      f.mapping as Parameters<typeof analysisOptions>[2],
-    );
+    const options = analysisOptions(content, terms, f.mapping as FileMapping);
     const last = [...previous].reverse().find((a) => a.raw_file_id === f.id);
-    const same = last !== undefined && JSON.stringify(last.parameters) === JSON.stringify(options);
+    // Stored options come back from jsonb with their keys in another order: compared as values.
+    const same = last !== undefined && isDeepStrictEqual(last.parameters, options);
     if (same && !lacksEnvelope(last)) {
       keep.push(last);
       continue;

@@ -1,5 +1,6 @@
 import { createHash, randomUUID } from 'node:crypto';
 import type { CreateUploadBody, RecordContent } from '../shared/record.ts';
+import type { FileMapping } from '../shared/engine-options.ts';
 import {
   AnalysisRefused,
   analyzeWithCurveInWorker,
@@ -220,11 +221,7 @@ export async function completeUpload(
   const version = (await getVersion(db, headBefore.id, headBefore.current_version))!;
   const content = version.content as unknown as RecordContent;
   const terms = await resolveTerms(db, termRefs(content));
-  const options = analysisOptions(
-    content,
-    terms,
-    u.mapping as Parameters<typeof analysisOptions>[2],
-  );
+  const options = analysisOptions(content, terms, u.mapping as FileMapping);
   // The analysis, and the thinned copy of the curve that record pages draw, from one reading.
   let result;
   let curve;

@@ -11,6 +11,7 @@ import {
   formatExport,
   holdSamples,
   lsvSamples,
+  normalise,
   readTable,
   splitHeaderName,
   trimLeadIns,
@@ -34,6 +35,8 @@ describe('header cells: name, unit and reference in any order', () => {
     ['Ewe vs. Li+/Li (V)', { label: 'Ewe', unit: 'V', reference: 'Li+/Li' }],
     ['E (V vs. SHE)', { label: 'E', unit: 'V', reference: 'SHE' }],
     ['E vs Li+/Li / V', { label: 'E', unit: 'V', reference: 'Li+/Li' }],
+    ['E vs Li+/Li/mV', { label: 'E', unit: 'mV', reference: 'Li+/Li' }],
+    ['E vs Ag/AgCl', { label: 'E', unit: '', reference: 'Ag/AgCl' }],
     ['"E/V vs. SCE"', { label: 'E', unit: 'V', reference: 'SCE' }],
     [
       'Potential vs. Ag/AgCl (3 M KCl) (V)',
@@ -43,6 +46,24 @@ describe('header cells: name, unit and reference in any order', () => {
     ['Current density (mA/cm²)', { label: 'Current density', unit: 'mA/cm²' }],
   ])('%s', (cell, want) => {
     expect(splitHeaderName(cell)).toEqual(want);
+  });
+
+  it('reads millivolts written after a reference with a slash in it, not volts', () => {
+    const t = readTable('t/s,E vs Li+/Li/mV,I/mA\n0,3000,1\n1,3100,2\n');
+    expect(normalise(t).potential[1]).toBeCloseTo(3.1, 12);
+    expect(t.warnings).toEqual([]);
+  });
+
+  it("refuses an instrument's out-of-range marker (9.9E37) and names its line and column", () => {
+    for (const marker of ['9.9E+37', '9.91E37', '-9.9e37']) {
+      const e = err(() => readTable(`t,E/V,I/A\n0,0.1,1e-6\n1,0.2,${marker}\n2,0.3,4e-6\n`));
+      expect(e.code).toBe('bad-number');
+      expect([e.line, e.column]).toEqual([3, 3]);
+      expect(e.message).toMatch(/out-of-range marker/);
+    }
+    // Other large numbers are read as they are (the analysis warns about their size).
+    for (const big of ['9.8e37', '9.92e37', '1e300'])
+      expect(readTable(`t,E/V,I/A\n0,0.1,1e-6\n1,0.2,${big}\n`).current[1]).toBe(Number(big));
   });
 
   it('finds current-density columns by their unit (mA cm^-2, A/g, mA/g, µA/cm²)', () => {
