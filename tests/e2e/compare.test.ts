@@ -127,6 +127,17 @@ beforeAll(async () => {
     { dir: 'anodic', text: run('anodic', 0, 1e-3, false) },
     { dir: 'cathodic', text: run('cathodic', 0, 1e-3) },
   ]);
+  // The same glassy carbon in the same water, swept four times faster (20 mV/s), its limits
+  // 0.2 V further out: another condition, so never pooled with the 5 mV/s records.
+  h.gcW4 = await publish(
+    content('gcW4', electrolytes.water, GC, {
+      method: { kind: 'cv-window-opening', scanRateMVs: 20, vertexStepMV: 100 },
+      reportedLimits: {
+        cathodic: { valueV: -1.2898, reference: 'Ag/AgCl, sat. KCl' },
+        anodic: { valueV: 1.2898, reference: 'Ag/AgCl, sat. KCl' },
+      },
+    }),
+  );
   h.acW3 = await publish(
     content('acW3', electrolytes.water, AC, {
       criterion: { kind: 'ce', threshold: 99 },
@@ -182,12 +193,12 @@ describe('glassy versus activated carbon, two electrolytes, end to end', () => {
     ]).toEqual(['mol/kg', '21', '21']);
     expect(p.get('q')).toBe(token);
     await hydrated(page);
-    await expect.poll(() => text(page, 'result-count')).toMatch(/^3 matching/);
+    await expect.poll(() => text(page, 'result-count')).toMatch(/^4 matching/);
 
     // Both carbons, one criterion (S ≤ 0.1) and one scale (Li⁺/Li: −3.040 V vs SHE, CRC Handbook;
     // Ag/AgCl sat. KCl 0.197 V vs SHE, Bard & Faulkner).
     await page.getByRole('checkbox', { name: /activated carbon/ }).check();
-    await expect.poll(() => text(page, 'result-count')).toMatch(/^6 matching/);
+    await expect.poll(() => text(page, 'result-count')).toMatch(/^7 matching/);
     await page.getByLabel('Criterion kind').selectOption('s');
     await expect.poll(() => text(page, 'result-count')).toContain('common criterion S ≤ 0.1');
     await page.getByLabel('Reference scale').selectOption('Li+/Li');
@@ -252,12 +263,18 @@ describe('glassy versus activated carbon, two electrolytes, end to end', () => {
       /glassy carbon[\s\S]*activated carbon/,
     );
 
-    // The spread groups like with like: glassy carbon in water at 21 mol/kg, S ≤ 0.1, n = 3; the
-    // CE ≥ 99 % record is a group of its own.
-    const gcGroup = spread.locator('tr[data-electrode="glassy-carbon"]');
-    expect(await gcGroup.count()).toBe(1);
+    // The spread groups like with like: glassy carbon in water at 21 mol/kg, 5 mV/s, pH 7, 25 °C,
+    // S ≤ 0.1, n = 3; the 20 mV/s record and the CE ≥ 99 % record are groups of their own.
+    const gcGroups = spread.locator('tr[data-electrode="glassy-carbon"]');
+    expect(await gcGroups.count()).toBe(2);
+    const gcGroup = gcGroups.filter({ hasText: ' 5 mV s⁻¹' });
     expect(await gcGroup.innerText()).toContain('21 mol/kg');
+    expect(await gcGroup.innerText()).toContain('pH 7, 25 °C');
     expect(await gcGroup.locator('[data-col="n"]').innerText()).toBe('3');
+    const fast = gcGroups.filter({ hasText: '20 mV s⁻¹' });
+    expect(await fast.locator('[data-col="n"]').innerText()).toBe('1');
+    // 1.2898 + 0.197 + 3.040 = 4.527 V: its own median, not pooled into the 5 mV/s one.
+    expect(await fast.innerText()).toContain('4.527');
     expect(await gcGroup.locator('[data-col="conversion"]').innerText()).toContain(
       note.split(' · ')[0]!,
     );

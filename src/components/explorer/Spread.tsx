@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { pairwiseDifference, summarize, type Summary } from '#lib/analysis/aggregate.ts';
-import { METHOD_NAMES, type IndexTerm, type SearchItem } from '#lib/client/records.ts';
+import { methodWords, type IndexTerm, type SearchItem } from '#lib/client/records.ts';
 import { formatNumber, formatSigned } from '#lib/shared/format.ts';
 import { electrodeColour } from '../charts/palette.tsx';
 import ConversionNote from '../ConversionNote.tsx';
@@ -8,6 +8,7 @@ import { Failed, input, muted, panel } from '../ui.tsx';
 import {
   comparableKey,
   concentrationText,
+  conditionsText,
   electrolyteKind,
   endValue,
   toRow,
@@ -15,7 +16,8 @@ import {
 } from './rows.ts';
 
 // How far the numbers spread, only within groups whose numbers can be compared (same electrode,
-// electrolyte, concentration and basis, method and criterion), and the direct answer to "how much
+// electrolyte, concentration and basis, method with its scan rate or steps, additive amounts, pH,
+// temperature and criterion), and the direct answer to "how much
 // wider is the window on one electrode than on another" for each comparable set.
 
 const widthOf = (r: Row) => (r.width && !r.width.atLeast ? r.width.v : null);
@@ -26,6 +28,7 @@ interface Group {
   electrolyte: string;
   concentration: string;
   method: string;
+  conditions: string;
   criterion: string;
   electrodeId: string;
   electrode: string;
@@ -45,7 +48,8 @@ function groupRows(rows: Row[], terms: Map<string, IndexTerm> | undefined): Grou
           comparable,
           electrolyte: electrolyteKind(r, terms),
           concentration: concentrationText(r),
-          method: METHOD_NAMES[r.item.content.method.kind],
+          method: methodWords(r.item.content.method),
+          conditions: conditionsText(r, terms),
           criterion: r.criterion,
           electrodeId: r.electrodeId,
           electrode: r.electrode,
@@ -174,7 +178,9 @@ export default function Spread({
         </h2>
         <p className={`text-sm ${muted} mt-1`}>
           Only like with like: one group per electrode, electrolyte, concentration (in its own
-          basis), method and criterion. Median [first quartile, third quartile] in V vs {scale}
+          basis), method with its scan rate or steps, conditions (additive amounts, pH, temperature)
+          and criterion; a condition not given is a group of its own. Median [first quartile, third
+          quartile] in V vs {scale}
           {total > items.length ? `, over the first ${items.length} of ${total} matches` : ''}.
           {openRows > 0 &&
             ` ${openRows} record${openRows === 1 ? '' : 's'} with a limit not reached or not measured count only for the limits they have.`}
@@ -202,8 +208,8 @@ export default function Spread({
           {differences.length === 0 ? (
             <p className={`text-sm ${muted}`}>
               No electrolyte here was measured on both {nameOf(chosen[0])} and {nameOf(chosen[1])}{' '}
-              at the same concentration, method and criterion, so there is no like-with-like
-              difference to give.
+              at the same concentration, method and scan rate, conditions and criterion, so there is
+              no like-with-like difference to give.
             </p>
           ) : (
             <>
@@ -232,6 +238,9 @@ export default function Spread({
                         Method
                       </th>
                       <th scope="col" className={th}>
+                        Conditions
+                      </th>
+                      <th scope="col" className={th}>
                         Criterion
                       </th>
                       <th scope="col" className={th}>
@@ -257,6 +266,7 @@ export default function Spread({
                         </th>
                         <td className="py-1 pr-3 num">{d.group.concentration}</td>
                         <td className="py-1 pr-3">{d.group.method}</td>
+                        <td className="py-1 pr-3">{d.group.conditions}</td>
                         <td className="py-1 pr-3 whitespace-nowrap">{d.group.criterion}</td>
                         <td className="py-1 pr-3" data-col="cathodic">
                           {diffCell(d.cathodic)}
@@ -299,6 +309,9 @@ export default function Spread({
                 Method
               </th>
               <th scope="col" className={th}>
+                Conditions
+              </th>
+              <th scope="col" className={th}>
                 Criterion
               </th>
               <th scope="col" className={`${th} text-right`}>
@@ -337,6 +350,7 @@ export default function Spread({
                 <td className="py-1 pr-3">{g.electrolyte}</td>
                 <td className="py-1 pr-3 num">{g.concentration}</td>
                 <td className="py-1 pr-3">{g.method}</td>
+                <td className="py-1 pr-3">{g.conditions}</td>
                 <td className="py-1 pr-3 whitespace-nowrap">{g.criterion}</td>
                 <td className="py-1 pr-3 text-right num" data-col="n">
                   {g.rows.length}

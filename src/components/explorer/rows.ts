@@ -2,7 +2,7 @@ import { referenceConversion } from '#lib/analysis/references.ts';
 import { waterWindow } from '#lib/analysis/water.ts';
 import {
   longName,
-  METHOD_NAMES,
+  methodWords,
   shortName,
   type IndexTerm,
   type SearchItem,
@@ -175,12 +175,34 @@ export function concentrationText(r: Row): string {
     .join(' + ');
 }
 
-/** What must be equal for two limits to be compared: electrolyte, concentration, method, criterion. */
+/**
+ * The conditions besides the electrolyte's makeup that move a limit: additive amounts, pH,
+ * temperature. One not given is said so, and is never taken for a stated one.
+ */
+export function conditionsText(r: Row, terms: Map<string, IndexTerm> | undefined): string {
+  const c = r.item.content;
+  const e = c.electrolyte;
+  return [
+    ...e.additives.map(
+      (a) =>
+        `${shortName(terms, a.term)} ${a.amount ? `${+a.amount.value.toPrecision(4)} ${a.amount.basis}` : 'amount not given'}`,
+    ),
+    ...(e.pH !== undefined ? [`pH ${e.pH}`] : []),
+    c.temperatureC !== undefined ? `${c.temperatureC} °C` : 'temperature not given',
+  ].join(', ');
+}
+
+/**
+ * What must be equal for two limits to be compared: electrolyte, concentration, the method with
+ * its settings (scan rate, step, hold time), the other conditions (additive amounts, pH,
+ * temperature) and the criterion.
+ */
 export function comparableKey(r: Row, terms: Map<string, IndexTerm> | undefined): string {
   return [
     electrolyteKind(r, terms),
     concentrationText(r),
-    METHOD_NAMES[r.item.content.method.kind],
+    methodWords(r.item.content.method),
+    conditionsText(r, terms),
     r.criterion,
   ].join(' · ');
 }

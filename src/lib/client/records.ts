@@ -10,7 +10,7 @@ import type { VocabularyKind, VocabularyTerm } from '../shared/vocabulary.ts';
 import type { RawCurve } from '../shared/answers.ts';
 import { apiPath, getJson } from './api.ts';
 import { engineCriterion } from '../shared/criteria.ts';
-import { METHOD_NAMES } from '../shared/record-labels.ts';
+import { METHOD_NAMES, methodWords } from '../shared/record-labels.ts';
 import type {
   CommonCriterionResult,
   FacetName,
@@ -71,7 +71,7 @@ export const SORT_KEYS = [
 ] as const;
 export type SortKey = (typeof SORT_KEYS)[number];
 
-export { METHOD_NAMES };
+export { METHOD_NAMES, methodWords };
 export const CRITERION_NAMES: Record<CriterionKind, string> = {
   's-value': 'S-value',
   ce: 'coulombic efficiency',
