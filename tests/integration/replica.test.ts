@@ -164,6 +164,13 @@ describe('reads on a streaming replica', () => {
       seen.add(answers[0]!);
     }
     expect([...seen].sort()).toEqual([false, true]);
+    // Asked again for the same request (a held page reads the generation, then the page reads
+    // the record), the same instance; another request takes the next.
+    const request = new Request('http://localhost/windows');
+    expect(pair.forRequest(request)).toBe(pair.forRequest(request));
+    expect(pair.forRequest(new Request('http://localhost/windows'))).not.toBe(
+      pair.forRequest(request),
+    );
     const before = await statusOf(direct);
     const after = 'flagged';
     expect(before).toBe('published');

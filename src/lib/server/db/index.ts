@@ -158,6 +158,8 @@ export function primaryOf(d: Db): Db {
  */
 export interface ReplicaReads {
   next(): Db;
+  /** The read instance of one request: the same for every call with that request. */
+  forRequest(request: Request): Db;
   destroy(): Promise<void>;
 }
 
@@ -184,15 +186,22 @@ export function createReplicaReads(
     return d;
   });
   let turn = 0;
+  const pinned = new WeakMap<Request, Db>();
+  const next = () => {
+    const now = Date.now();
+    for (let i = 0; i < dbs.length; i++) {
+      const k = turn++ % dbs.length;
+      if (replicas[k]!.downUntil <= now) return dbs[k]!;
+    }
+    // Every replica failed a moment ago: any of them sends its reads to the primary.
+    return dbs[turn++ % dbs.length]!;
+  };
   return {
-    next() {
-      const now = Date.now();
-      for (let i = 0; i < dbs.length; i++) {
-        const k = turn++ % dbs.length;
-        if (replicas[k]!.downUntil <= now) return dbs[k]!;
-      }
-      // Every replica failed a moment ago: any of them sends its reads to the primary.
-      return dbs[turn++ % dbs.length]!;
+    next,
+    forRequest(request) {
+      let d = pinned.get(request);
+      if (!d) pinned.set(request, (d = next()));
+      return d;
     },
     async destroy() {
       await Promise.all(dbs.map((d) => d.destroy()));
@@ -218,5 +227,7 @@ export function readDb(request?: Request): Db {
   const cookie = request?.headers.get('cookie') ?? '';
   if (new RegExp(`(?:^|;\\s*)${OWN_WRITES_COOKIE}=`).test(cookie)) return db();
   reads ??= createReplicaReads(db(), config().DATABASE_URL, urls, config().DATABASE_POOL_SIZE);
-  return reads.next();
+  // Every read of one request (a held page's generation, then the page's own reads) goes to the
+  // same replica.
+  return request ? reads.forRequest(request) : reads.next();
 }
