@@ -603,6 +603,21 @@ function resolveColumns(
     }
   }
 
+  // A column named as the time whose unit the reader does not know is left out, and said so:
+  // without it the analysis takes dt from the scan rate.
+  if (parsed && !out.some((c) => c.quantity === 'time')) {
+    const i = parsed.findIndex(
+      (p, k) =>
+        !used.has(k) && p.unit !== '' && NAME_WORDS.time(p.label.toLowerCase().trim()) === 2,
+    );
+    if (i >= 0)
+      warnings.push(
+        parsed[i]!.unit.includes(':')
+          ? `column "${display(i)}" holds clock times (${parsed[i]!.unit}), which the reader does not read: it is left out; export the time in seconds to use it`
+          : `column "${display(i)}" looks like the time, but "${parsed[i]!.unit}" is not a time unit the reader knows (s, ms, µs, min, h, d): it is left out; give its unit in a column mapping to use it`,
+      );
+  }
+
   for (const q of ['potential', 'current'] as const) {
     if (!out.some((c) => c.quantity === q)) {
       if (!names) {

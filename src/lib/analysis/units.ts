@@ -26,19 +26,34 @@ const WORD_UNITS: Record<string, string> = {
   minute: 'min',
   minutes: 'min',
   mins: 'min',
+  msec: 'ms',
+  msecs: 'ms',
+  millisecond: 'ms',
+  milliseconds: 'ms',
+  usec: 'us',
+  microsecond: 'us',
+  microseconds: 'us',
   hour: 'h',
   hours: 'h',
   hrs: 'h',
+  day: 'd',
+  days: 'd',
   volt: 'V',
   volts: 'V',
   millivolt: 'mV',
   millivolts: 'mV',
+  mvolt: 'mV',
+  mvolts: 'mV',
   amp: 'A',
   amps: 'A',
   ampere: 'A',
   amperes: 'A',
   milliamp: 'mA',
   milliamps: 'mA',
+  mamp: 'mA',
+  mamps: 'mA',
+  uamp: 'uA',
+  uamps: 'uA',
   milliampere: 'mA',
   milliamperes: 'mA',
   microamp: 'uA',
@@ -67,6 +82,8 @@ function simpleFactor(
     case 'h':
     case 'hr':
       return { dim: 'time', factor: 3600 };
+    case 'd':
+      return { dim: 'time', factor: 86_400 };
     case 'm2':
       return { dim: 'area', factor: 1e4 };
     case 'cm2':

@@ -54,6 +54,20 @@ describe('header cells: name, unit and reference in any order', () => {
     expect(t.warnings).toEqual([]);
   });
 
+  it('reads time, potential and current units written as words, and says when a time column is left out', () => {
+    const read = (t: string, e: string, i: string) =>
+      readTable(`Time/${t},E/${e},I/${i}\n0,100,1\n1,200,2\n2,300,4\n`);
+    const words = normalise(read('msec', 'mVolt', 'mAmps'));
+    expect([words.time![1], words.potential[1], words.current[1]]).toEqual([1e-3, 0.2, 2e-3]);
+    expect(normalise(read('days', 'V', 'A')).time![1]).toBe(86_400);
+    for (const unit of ['ks', 'hh:mm:ss']) {
+      const t = read(unit, 'V', 'A');
+      expect(t.time).toBeNull();
+      expect(t.warnings.join(' ')).toContain(`"Time/${unit}"`);
+      expect(t.warnings.join(' ')).toMatch(/left out/);
+    }
+  });
+
   it("refuses an instrument's out-of-range marker (9.9E37) and names its line and column", () => {
     for (const marker of ['9.9E+37', '9.91E37', '-9.9e37']) {
       const e = err(() => readTable(`t,E/V,I/A\n0,0.1,1e-6\n1,0.2,${marker}\n2,0.3,4e-6\n`));
