@@ -472,6 +472,15 @@ export const CELL_VOLTAGE_NAME =
   /^(?:e|u|v)[ _]?cell$|^cell[ _](?:voltage|potential)$|^ewe[ _-]+ece$|^voltage[ _]cell$/i;
 
 /**
+ * The counter electrode's potential ("Ece", "CE potential", "E counter"): never the working
+ * electrode's, whatever else the file holds.
+ */
+const COUNTER_ELECTRODE = /^e[ _-]?ce$|^ce[ _-](?:potential|voltage)$|\bcounter\b/i;
+
+/** A potential with the ohmic drop taken out ("Ewe-iR", "E iR-corrected", "E (iR comp)"). */
+const IR_CORRECTED = /\bir\b|ir[ _-]?(?:corr|comp|free)|ohmic/i;
+
+/**
  * A column of what the instrument was told to do rather than what it measured ("Potential
  * applied", "control/V", "E set", "I program"): it loses to a measured column of the same kind.
  */
@@ -488,9 +497,14 @@ function scoreColumn(
   cell: ReadOptions['cell'] = 'three-electrode',
 ): number {
   const l = label.toLowerCase().replace(/\s+/g, ' ').trim();
+  if (q === 'potential' && COUNTER_ELECTRODE.test(l)) return 0;
   let name = NAME_WORDS[q](l);
-  // Beside a working-electrode potential, a cell voltage is the potential of a two-electrode cell only.
-  if (q === 'potential' && CELL_VOLTAGE_NAME.test(l)) name += cell === 'two-electrode' ? 0.5 : -0.5;
+  // The potential as measured wins over one corrected for the ohmic drop (said in a warning).
+  if (q === 'potential' && IR_CORRECTED.test(l)) name -= 0.75;
+  // Beside a working-electrode potential, a cell voltage is the potential of a two-electrode cell
+  // only: any name for it ("Ecell", "Ewe-Ece") counts as a usual one, then leans on the cell.
+  if (q === 'potential' && CELL_VOLTAGE_NAME.test(l))
+    name = Math.max(name, 2) + (cell === 'two-electrode' ? 0.5 : -0.5);
   const dim = UNIT_DIM[q];
   if (dim) {
     const u = unit === '' ? null : describeUnit(unit);
@@ -601,6 +615,38 @@ function resolveColumns(
         }
       }
     }
+  }
+
+  const potential = out.find((c) => c.quantity === 'potential');
+  if (parsed && potential && !IR_CORRECTED.test(parsed[potential.index]!.label)) {
+    const corrected = parsed.findIndex(
+      (p, k) =>
+        !used.has(k) &&
+        IR_CORRECTED.test(p.label) &&
+        scoreColumn('potential', p.label, p.unit, cell) > 0,
+    );
+    if (corrected >= 0)
+      warnings.push(
+        `the potentials are read from "${potential.name}" as measured; the file also has "${display(corrected)}", corrected for the ohmic drop: map it as the potential if the limits should rest on it`,
+      );
+  }
+  if (
+    parsed &&
+    potential &&
+    cell !== 'two-electrode' &&
+    CELL_VOLTAGE_NAME.test(parsed[potential.index]!.label.toLowerCase().trim())
+  )
+    warnings.push(
+      `the potentials are read from "${potential.name}", a cell voltage: no working-electrode potential was found; for a three-electrode cell the limits need the working electrode against the reference (for a two-electrode cell, say so and they stay cell voltages)`,
+    );
+  if (parsed && !potential) {
+    const counter = parsed.findIndex((p) => COUNTER_ELECTRODE.test(p.label.toLowerCase().trim()));
+    if (counter >= 0)
+      throw new AnalysisError(
+        'missing-column',
+        `"${display(counter)}" is the counter electrode's potential, not the working electrode's, and no other potential column was found; export the working-electrode potential (or map it)`,
+        headerLine === null ? {} : { line: headerLine },
+      );
   }
 
   // A column named as the time whose unit the reader does not know is left out, and said so:

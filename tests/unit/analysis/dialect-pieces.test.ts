@@ -68,6 +68,37 @@ describe('header cells: name, unit and reference in any order', () => {
     }
   });
 
+  it("never reads the counter electrode's potential as the working electrode's", () => {
+    const both = readTable('t/s\tEce/V\tEwe/V\tI/mA\n0\t-0.5\t0.1\t1\n1\t-0.6\t0.2\t2\n');
+    expect(both.columns.find((c) => c.quantity === 'potential')?.name).toBe('Ewe/V');
+    const named = readTable(
+      'Time (s),CE Potential (V),WE Potential (V),Current (A)\n0,-0.5,0.1,1\n1,-0.6,0.2,2\n',
+    );
+    expect(named.columns.find((c) => c.quantity === 'potential')?.name).toBe('WE Potential (V)');
+    const alone = err(() => readTable('t/s\tEce/V\tI/mA\n0\t-0.5\t1\n1\t-0.6\t2\n'));
+    expect(alone.code).toBe('missing-column');
+    expect(alone.message).toMatch(/"Ece\/V" is the counter electrode's potential/);
+  });
+
+  it('reads the measured potential before an iR-corrected one, and says the other is there', () => {
+    const t = readTable('t/s\tEwe-iR/V\tEwe/V\tI/mA\n0\t0.09\t0.1\t1\n1\t0.19\t0.2\t2\n');
+    expect(t.columns.find((c) => c.quantity === 'potential')?.name).toBe('Ewe/V');
+    expect(t.warnings.join(' ')).toMatch(/"Ewe-iR\/V", corrected for the ohmic drop/);
+  });
+
+  it('takes a cell voltage written as Ewe-Ece for a two-electrode cell only, and warns when it is all there is', () => {
+    const text = 't/s\tEwe/V\tEce/V\tEwe-Ece/V\tI/mA\n0\t0.1\t-0.5\t0.6\t1\n1\t0.2\t-0.6\t0.8\t2\n';
+    const pick = (cell: 'two-electrode' | 'three-electrode') =>
+      readTable(text, { cell }).columns.find((c) => c.quantity === 'potential')?.name;
+    expect(pick('three-electrode')).toBe('Ewe/V');
+    expect(pick('two-electrode')).toBe('Ewe-Ece/V');
+    const only = readTable('t/s\tEcell/V\tI/mA\n0\t0.6\t1\n1\t0.8\t2\n');
+    expect(only.warnings.join(' ')).toMatch(/"Ecell\/V", a cell voltage/);
+    expect(
+      readTable('t/s\tEcell/V\tI/mA\n0\t0.6\t1\n1\t0.8\t2\n', { cell: 'two-electrode' }).warnings,
+    ).toEqual([]);
+  });
+
   it("refuses an instrument's out-of-range marker (9.9E37) and names its line and column", () => {
     for (const marker of ['9.9E+37', '9.91E37', '-9.9e37']) {
       const e = err(() => readTable(`t,E/V,I/A\n0,0.1,1e-6\n1,0.2,${marker}\n2,0.3,4e-6\n`));
