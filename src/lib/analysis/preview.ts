@@ -2,10 +2,12 @@ import { decimateMinMax } from './decimate';
 import { normalise, type SignConvention } from './normalise';
 import { readTable, type ColumnMap } from './read';
 
-/** How a raw file's columns are read for drawing: the analysis's column choice and sign convention. */
+/** How a raw file's columns are read for drawing: the analysis's column choice, sign convention and cell. */
 export interface CurveReading {
   columns?: ColumnMap;
   sign?: SignConvention;
+  /** A two-electrode cell's file is drawn from its cell voltage, as its analysis reads it. */
+  cell?: 'three-electrode' | 'two-electrode';
 }
 
 /** A raw file's samples as the engine reads them for its analysis: volts and amperes, IUPAC sign, on the file's own scale. */
@@ -14,7 +16,10 @@ export function curveSamples(
   reading: CurveReading,
 ): { potential: Float64Array; current: Float64Array } {
   const s = normalise(
-    readTable(text, reading.columns ? { columns: reading.columns } : {}),
+    readTable(text, {
+      ...(reading.columns ? { columns: reading.columns } : {}),
+      ...(reading.cell ? { cell: reading.cell } : {}),
+    }),
     reading.sign ?? 'iupac',
   );
   return { potential: s.potential, current: s.current };

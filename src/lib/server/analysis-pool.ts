@@ -88,10 +88,12 @@ export async function analyzeInWorker(
 export function readingOf(o: {
   columns?: AnalysisOptions['columns'];
   sign?: AnalysisOptions['sign'];
+  cell?: AnalysisOptions['cell'];
 }): CurveReading {
   const r: CurveReading = {};
   if (o.columns) r.columns = o.columns;
   if (o.sign) r.sign = o.sign;
+  if (o.cell) r.cell = o.cell;
   return r;
 }
 

@@ -30,6 +30,7 @@ import {
   getVersion,
   insertRawFile,
   insertRawFileCurve,
+  latestAnalysisParameters,
   type RawFileRow,
 } from './repositories/records.ts';
 import {
@@ -387,7 +388,7 @@ export async function downloadRawFile(
 /**
  * The thinned copy of a raw file's curve that a record page draws, if the principal may read its
  * record. Made when the file is verified; a file verified before copies were kept gets its copy
- * now, once, read with the columns and sign convention of its upload.
+ * now, once, read as its analysis read it (or with its upload's mapping when it has none).
  */
 export async function rawFileCurve(db: Db, principal: Principal, id: string): Promise<RawCurve> {
   const f = await readableRawFile(db, principal, id);
@@ -395,7 +396,12 @@ export async function rawFileCurve(db: Db, principal: Principal, id: string): Pr
   if (!c) {
     const bytes = await readVerifiedRawFile(f);
     if (!bytes) throw new NotFoundError('raw file');
-    c = await curveInWorker(bytes, readingOf(f.mapping as Parameters<typeof readingOf>[0]));
+    // Read as its analysis read it (columns, sign and, for a two-electrode cell, the cell voltage).
+    const analysed = await latestAnalysisParameters(db, f.id);
+    c = await curveInWorker(
+      bytes,
+      readingOf((analysed ?? f.mapping) as Parameters<typeof readingOf>[0]),
+    );
     await insertRawFileCurve(db, f.id, c);
   }
   const finite = (a: Float64Array) => Array.from(a, (v) => (Number.isFinite(v) ? v : null));

@@ -5,6 +5,7 @@ import {
   curveSamples,
   cvWindowOpeningSamples,
   formatExport,
+  type AnalysisOptions,
 } from '#lib/analysis/index.ts';
 
 // The drawing copy of a raw file: far fewer points than the file, but its first and last sample
@@ -51,5 +52,18 @@ describe('the thinned drawing copy of a raw curve', () => {
     const opposite = curvePreview(short, { sign: 'opposite' });
     expect(opposite.current.length).toBe(c.current.length);
     for (let k = 0; k < c.current.length; k++) expect(opposite.current[k]! + c.current[k]!).toBe(0);
+  });
+});
+
+describe('the drawing copy reads the column its analysis reads', () => {
+  it('draws a two-electrode cell from its cell voltage, a three-electrode one from the working electrode', () => {
+    const text = 't/s\tEwe/V\tEcell/V\tI/mA\n0\t0.1\t0.6\t1\n1\t0.2\t0.8\t2\n2\t0.3\t1.0\t4\n';
+    expect(Array.from(curveSamples(text, { cell: 'two-electrode' }).potential)).toEqual([
+      0.6, 0.8, 1.0,
+    ]);
+    expect(Array.from(curveSamples(text, {}).potential)).toEqual([0.1, 0.2, 0.3]);
+    // The stored analysis options, passed as they are (the browser draws every sample so).
+    const opts: AnalysisOptions = { method: 'cv', cell: 'two-electrode', sign: 'iupac' };
+    expect(curveSamples(text, opts).potential[0]).toBe(0.6);
   });
 });

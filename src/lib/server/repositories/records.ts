@@ -558,6 +558,21 @@ export async function getRawFileCurve(
     : undefined;
 }
 
+/** The engine options of a raw file's latest analysis (how it was read), if it has one. */
+export async function latestAnalysisParameters(
+  db: DbOrTrx,
+  rawFileId: string,
+): Promise<unknown | undefined> {
+  const r = await db
+    .selectFrom('analyses')
+    .select('parameters')
+    .where('raw_file_id', '=', rawFileId)
+    .orderBy('created_at', 'desc')
+    .limit(1)
+    .executeTakeFirst();
+  return r?.parameters;
+}
+
 /** Analyses by id, in the order of `ids`. */
 export async function analysesByIds(db: DbOrTrx, ids: string[]): Promise<AnalysisRow[]> {
   if (ids.length === 0) return [];
