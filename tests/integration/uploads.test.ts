@@ -1,3 +1,4 @@
+import { parse as parseCsv } from 'csv-parse/sync';
 import { createHash, randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
@@ -392,6 +393,43 @@ describe('a linear sweep at a common criterion', () => {
     const s = await find(null, rec.handle, 's:0.1');
     expect(s.applied).toBe(false);
     expect(s.reason).toMatch(/applies to window-opening CV; a linear sweep needs a current cutoff/);
+  });
+
+  it('exports the recomputed limits on the chosen scale, and which were not reached', async () => {
+    const rec = await (
+      await asJson(owner, '/api/v1/records', 'POST', {
+        content: lsvContent(`Exported LSV ${token}`),
+      })
+    ).json();
+    await uploadLsv(rec.handle);
+    const params = (await (await as(owner, `/api/v1/records/${rec.handle}`)).json()).analyses[0]
+      .parameters as AnalysisOptions;
+    const row = async (criterion: string) => {
+      const res = await as(
+        owner,
+        `/api/v1/exports?format=csv&q=${token}&status=draft&scale=Li%2B%2FLi&criterion=${encodeURIComponent(criterion)}`,
+      );
+      expect(res.status).toBe(200);
+      const rows = parseCsv(await res.text(), { columns: true }) as Record<string, string>[];
+      return rows.find((r) => r.handle === rec.handle)!;
+    };
+    // Reached: the number on the record's own reference (SHE) and on Li⁺/Li, 3.040 V apart
+    // (Li⁺/Li −3.040 V vs SHE, CRC Handbook of Chemistry and Physics; common practice).
+    const reached = await row('j:50uA/cm2');
+    expect(reached.common_anodic_status).toBe('reached');
+    expect(Number(reached.common_anodic_v)).toBeCloseTo(
+      engineAt(params, 'j:50uA/cm2').interpolatedV!,
+      9,
+    );
+    expect(Number(reached.common_anodic_on_scale_v) - Number(reached.common_anodic_v)).toBeCloseTo(
+      3.04,
+      6,
+    );
+    // Not reached at 1 A/cm²: no limit, but the outermost potential that passed, on the scale.
+    const beyond = await row('j:1A/cm2');
+    expect(beyond.common_anodic_status).toBe('not-reached');
+    expect(beyond.common_anodic_v).toBe('');
+    expect(Number(beyond.common_anodic_on_scale_v)).toBeCloseTo(1.5 + 3.04, 2);
   });
 
   it('keeps the analyses an edit leaves alone and runs again those whose options it changes', async () => {

@@ -1,5 +1,6 @@
 import type { Principal } from '../shared/principal.ts';
 import { criterionWords } from '../shared/criteria.ts';
+import { commonEnd, type LimitEnd } from '../shared/limits-on-scale.ts';
 import type { Db } from './db/index.ts';
 import {
   eachRecord,
@@ -64,6 +65,10 @@ const CSV_COLUMNS = [
   'common_applied',
   'common_cathodic_v',
   'common_anodic_v',
+  'common_cathodic_status',
+  'common_anodic_status',
+  'common_cathodic_on_scale_v',
+  'common_anodic_on_scale_v',
   'licence',
   'doi',
   'citation',
@@ -104,7 +109,9 @@ function csvRow(r: SearchItem, origin: string): string {
     salts: e.salts
       .map((s) => `${s.term}:${s.concentration.value} ${s.concentration.basis}`)
       .join(' '),
-    additives: e.additives.map((s) => s.term).join(' '),
+    additives: e.additives
+      .map((s) => (s.amount ? `${s.term}:${s.amount.value} ${s.amount.basis}` : s.term))
+      .join(' '),
     salt_concentration: e.salts[0]?.concentration.value,
     salt_basis: e.salts[0]?.concentration.basis,
     water_ppm: e.waterContentPpm,
@@ -131,13 +138,27 @@ function csvRow(r: SearchItem, origin: string): string {
     anodic_computed_v: r.computed.anodicV,
     common_criterion: r.commonCriterion?.criterion,
     common_applied: r.commonCriterion ? String(r.commonCriterion.applied) : undefined,
+    // On the record's own reference, like the reported limits; the same on the export's scale
+    // below, where a limit not reached gives the outermost potential that passed (its status
+    // says so: the limit lies at least that far out).
     common_cathodic_v: r.commonCriterion?.cathodicV,
     common_anodic_v: r.commonCriterion?.anodicV,
+    common_cathodic_status: r.commonCriterion?.applied
+      ? r.commonCriterion.status.cathodic
+      : undefined,
+    common_anodic_status: r.commonCriterion?.applied ? r.commonCriterion.status.anodic : undefined,
+    common_cathodic_on_scale_v: onScaleValue(commonEnd(r, 'cathodic')),
+    common_anodic_on_scale_v: onScaleValue(commonEnd(r, 'anodic')),
     licence: r.content.licence,
     doi: r.content.source?.kind === 'published' ? r.content.source.doi : undefined,
     citation: sourceCitationText(r.content),
   };
   return CSV_COLUMNS.map((c) => csvCell(vals[c])).join(',') + '\r\n';
+}
+
+/** A recomputed end's number on the export's scale: the limit, or the bound of one not reached. */
+function onScaleValue(end: LimitEnd | null): number | undefined {
+  return end && end.state !== 'missing' ? end.v : undefined;
 }
 
 function uncertaintyNote(o: SearchItem['onScale']): string {
