@@ -440,12 +440,15 @@ const NAME_WORDS: Record<Quantity, (label: string) => number> = {
       : l.includes('current')
         ? 1
         : 0,
+  // A half-cycle counter numbers each sweep direction: never the cycles an S-value pairs.
   cycle: (l) =>
-    ['cycle', 'cycle number', 'cycle no', 'cycle no.', 'cycle index', 'cycles'].includes(l)
-      ? 2
-      : l.includes('cycle')
-        ? 1
-        : 0,
+    HALF_CYCLE.test(l)
+      ? 0
+      : ['cycle', 'cycle number', 'cycle no', 'cycle no.', 'cycle index', 'cycles'].includes(l)
+        ? 2
+        : l.includes('cycle')
+          ? 1
+          : 0,
   step: (l) =>
     ['step', 'step number', 'step no', 'step no.', 'step index'].includes(l)
       ? 2
@@ -453,6 +456,8 @@ const NAME_WORDS: Record<Quantity, (label: string) => number> = {
         ? 1
         : 0,
 };
+
+const HALF_CYCLE = /\bhalf[ _-]?cycle/;
 
 const UNIT_DIM: Partial<Record<Quantity, 'time' | 'potential' | 'current'>> = {
   time: 'time',
@@ -646,6 +651,14 @@ function resolveColumns(
         'missing-column',
         `"${display(counter)}" is the counter electrode's potential, not the working electrode's, and no other potential column was found; export the working-electrode potential (or map it)`,
         headerLine === null ? {} : { line: headerLine },
+      );
+  }
+
+  if (parsed && !out.some((c) => c.quantity === 'cycle')) {
+    const half = parsed.findIndex((p) => HALF_CYCLE.test(p.label.toLowerCase()));
+    if (half >= 0)
+      warnings.push(
+        `column "${display(half)}" counts half cycles (one per sweep direction), not cycles: it is left out, and the cycles are found from the potential's turning points`,
       );
   }
 

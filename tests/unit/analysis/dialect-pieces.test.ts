@@ -99,6 +99,18 @@ describe('header cells: name, unit and reference in any order', () => {
     ).toEqual([]);
   });
 
+  it('never takes a half-cycle counter for the cycle column', () => {
+    const alone = readTable(
+      't/s\tEwe/V\tI/mA\thalf cycle\n0\t0.1\t1\t0\n1\t0.2\t2\t0\n2\t0.1\t4\t1\n',
+    );
+    expect(alone.cycle).toBeNull();
+    expect(alone.warnings.join(' ')).toMatch(/"half cycle" counts half cycles/);
+    const both = readTable(
+      't/s\tEwe/V\tI/mA\thalf cycle\tcycle number\n0\t0.1\t1\t0\t1\n1\t0.2\t2\t0\t1\n2\t0.1\t4\t1\t1\n',
+    );
+    expect(both.columns.find((c) => c.quantity === 'cycle')?.name).toBe('cycle number');
+  });
+
   it("refuses an instrument's out-of-range marker (9.9E37) and names its line and column", () => {
     for (const marker of ['9.9E+37', '9.91E37', '-9.9e37']) {
       const e = err(() => readTable(`t,E/V,I/A\n0,0.1,1e-6\n1,0.2,${marker}\n2,0.3,4e-6\n`));
