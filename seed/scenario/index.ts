@@ -4,6 +4,7 @@
 import { seededRandom, type AnalysisOptions, type ColumnMap } from '#lib/analysis/index.ts';
 import type {
   EvidenceLevel,
+  RecordContent,
   RecordContentInput,
   RecordStatus,
   TransitionAction,
@@ -21,7 +22,7 @@ import {
 } from './people.ts';
 import { modelLimit, runSamples, type Cell, type ModelCriterion, type Side } from './physics.ts';
 import { SYSTEMS } from './systems.ts';
-import { engineCriterion } from '#lib/shared/criteria.ts';
+import { engineOptions as sharedEngineOptions } from '#lib/shared/engine-options.ts';
 
 export { CATALOGUE, LABS, PEOPLE, REFERENCES, SHAPES, SYSTEMS };
 export type { RecordSpec, ScenarioLab, ScenarioPerson };
@@ -135,28 +136,18 @@ export function modelCriterion(spec: RecordSpec, c: Criterion = spec.criterion):
   }
 }
 
-/** Engine options for a scenario file of a record: what a server analysing the upload should use. */
+/**
+ * Engine options for a scenario file of a record: those the server uses (`engineOptions`, shared
+ * with the browser's preview), and the conversion from the record's reference electrode to SHE.
+ */
 export function engineOptions(rec: ScenarioRecord, file: ScenarioFile): AnalysisOptions {
   const c = rec.content;
-  const m = c.method;
-  const o: AnalysisOptions = {
-    method: m.kind === 'cv-window-opening' ? 'cv' : m.kind === 'lsv' ? 'lsv' : 'hold',
-  };
-  if (c.criterion) o.criterion = engineCriterion(c.criterion as Criterion);
-  if (m.kind !== 'potentiostatic-holds' && m.scanRateMVs !== undefined)
-    o.scanRate = m.scanRateMVs / 1000;
-  if (c.workingElectrode.geometricAreaCm2 !== undefined)
-    o.area = c.workingElectrode.geometricAreaCm2;
-  if (c.workingElectrode.activeMassMg !== undefined)
-    o.mass = c.workingElectrode.activeMassMg / 1000;
+  const o = sharedEngineOptions(c as unknown as RecordContent, file.mapping);
   if (c.cellType === 'three-electrode' && c.referenceElectrode) {
     o.fromRef = REFERENCES[c.referenceElectrode as keyof typeof REFERENCES];
     if (c.electrolyte.pH !== undefined) o.pH = c.electrolyte.pH;
     if (c.temperatureC !== undefined) o.temperatureK = c.temperatureC + 273.15;
   }
-  if (file.mapping.columns) o.columns = file.mapping.columns;
-  o.sign = file.mapping.sign;
-  o.direction = file.mapping.direction;
   return o;
 }
 
