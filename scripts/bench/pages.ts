@@ -1,8 +1,10 @@
 // Benchmark (not a test): server render time of the main pages on the built server, the gzip
 // size of the JavaScript each page loads for its islands, a record page and its API answer under
 // 32 connections, what goes out compressed, and the longest main-thread task in Chromium at 4×
-// CPU slowdown on a record whose raw file has 10⁶ samples. Ends with one JSON line of figures.
-// Usage: npm run bench:pages [-- --requests 200 --seconds 10 --path /windows --samples 1000000]
+// CPU slowdown on a record whose raw file has 10⁶ samples, and what the overlay of several such
+// records fetches. Ends with one JSON line of figures.
+// Usage: npm run bench:pages [-- --requests 200 --seconds 10 --path /windows --samples 1000000
+//   --overlay-records 2 --overlay-only]
 import { createHash, randomBytes } from 'node:crypto';
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import autocannon from 'autocannon';
@@ -23,6 +25,8 @@ const { values } = parseArgs({
     seconds: { type: 'string', default: '10' },
     path: { type: 'string', multiple: true },
     samples: { type: 'string', default: '1000000' },
+    'overlay-records': { type: 'string', default: '2' },
+    'overlay-only': { type: 'boolean', default: false },
   },
 });
 const N = Number(values.requests);
@@ -86,133 +90,167 @@ async function main() {
     // with a big raw file made for the browser measurement below, made first.
     const samples = Number(values.samples);
     let big: string | undefined;
-    if (!values.path) {
-      const list = await fetch(`${stack.url}/api/v1/records?limit=1`)
-        .then((r) => (r.ok ? r.json() : null))
-        .catch(() => null);
-      const handle: string | undefined =
-        list?.items?.[0]?.handle ?? (big = await recordWithBigFile(stack, samples));
-      pages.push(`/windows/${handle}`);
-    }
-    console.log(
-      `Pages on the built server, ${N} sequential requests each (time to the full body):`,
-    );
-    for (const p of pages) {
-      const first = await fetch(stack.url + p);
-      if (!first.ok) {
-        console.log(`  ${p}: ${first.status}, skipped`);
-        continue;
-      }
-      const html = await first.text();
-      for (let i = 0; i < 20; i++) await (await fetch(stack.url + p)).text();
-      const times: number[] = [];
-      for (let i = 0; i < N; i++) {
-        const t0 = performance.now();
-        await (await fetch(stack.url + p)).text();
-        times.push(performance.now() - t0);
-      }
-      const p50 = percentile(times, 50);
-      report(
-        `render ${p} (p50; p95 ${percentile(times, 95).toFixed(1)} ms)`,
-        `${p50.toFixed(1)} ms`,
-        `≤ ${RENDER_TARGET_MS} ms`,
-        p50 <= RENDER_TARGET_MS,
-      );
-      const js = gzipClosure(pageScripts(html), clientDir);
-      report(
-        `island JavaScript of ${p} (${js.files} files)`,
-        `${(js.bytes / 1024).toFixed(1)} kB gzip`,
-        p === '/windows' ? `≤ ${ISLAND_TARGET_KB} kB` : 'none',
-        p !== '/windows' || js.bytes / 1024 <= ISLAND_TARGET_KB,
-      );
-    }
-
     const figures: Record<string, number | string> = {};
-    const recordPage = pages.find((p) => p.startsWith('/windows/'));
-    if (recordPage) {
-      const seconds = Number(values.seconds);
-      const handle = recordPage.slice('/windows/'.length);
-      console.log(`\nA record, 32 connections, ${seconds} s each (anonymous reader):`);
-      // Plain, as before; and the page as browsers ask for it (brotli accepted).
-      const runs = [
-        ['record page', recordPage, 'recordPage', {}],
-        ['record page, br', recordPage, 'recordPageBr', { 'accept-encoding': 'br, gzip' }],
-        ['record API', `/api/v1/records/${handle}`, 'recordApi', {}],
-      ] as const;
-      for (const [what, p, name, headers] of runs) {
-        const r = await hammer(stack.url + p, 32, seconds, headers);
-        report(
-          `${what} ${p} (p95 ${r.p95.toFixed(1)} ms, ${r.failed} failed)`,
-          `${r.rps.toFixed(0)} req/s`,
-          `≥ ${RECORD_RPS_TARGET} req/s`,
-          r.rps >= RECORD_RPS_TARGET && r.failed === 0,
-        );
-        figures[`${name}Rps`] = Math.round(r.rps);
-        figures[`${name}P95Ms`] = Math.round(r.p95 * 10) / 10;
+    if (!values['overlay-only']) {
+      if (!values.path) {
+        const list = await fetch(`${stack.url}/api/v1/records?limit=1`)
+          .then((r) => (r.ok ? r.json() : null))
+          .catch(() => null);
+        const handle: string | undefined =
+          list?.items?.[0]?.handle ?? (big = await recordWithBigFile(stack, samples));
+        pages.push(`/windows/${handle}`);
       }
-    }
-
-    // What goes out compressed when the client accepts it, and how assets are cached.
-    console.log('\nCompression (accept-encoding: br, gzip) and caching:');
-    const home = await (await fetch(stack.url + '/')).text();
-    // The largest script the home page loads (one under 1 kB is sent as it is).
-    const script = pageScripts(home)
-      .map((u) => ({ u, bytes: readFileSync(path.join(clientDir, u)).byteLength }))
-      .sort((a, b) => b.bytes - a.bytes)[0]?.u;
-    const probes = [
-      ['home page', '/'],
-      ['explorer page', '/windows'],
-      ...(recordPage ? [['record page', recordPage]] : []),
-      ['search API', '/api/v1/records?limit=50'],
-      ...(script ? [['script', script]] : []),
-    ];
-    for (const [what, p] of probes) {
-      const plain = await fetch(stack.url + p!, { headers: { 'accept-encoding': 'identity' } });
-      const plainBytes = (await plain.arrayBuffer()).byteLength;
-      // Node's fetch decodes bodies: the encoded size comes from a raw request.
-      const enc = await rawSize(stack.url + p!, 'br, gzip');
-      report(
-        `${what} ${p!.length > 40 ? p!.slice(0, 40) + '…' : p}`,
-        `${enc.encoding || 'none'}, ${(enc.bytes / 1024).toFixed(1)} of ${(plainBytes / 1024).toFixed(1)} kB`,
-        'br or gzip',
-        enc.encoding === 'br' || enc.encoding === 'gzip',
+      console.log(
+        `Pages on the built server, ${N} sequential requests each (time to the full body):`,
       );
-      if (what === 'script') {
-        const cache = plain.headers.get('cache-control') ?? '';
-        report('hashed asset cache-control', cache, 'immutable', cache.includes('immutable'));
+      for (const p of pages) {
+        const first = await fetch(stack.url + p);
+        if (!first.ok) {
+          console.log(`  ${p}: ${first.status}, skipped`);
+          continue;
+        }
+        const html = await first.text();
+        for (let i = 0; i < 20; i++) await (await fetch(stack.url + p)).text();
+        const times: number[] = [];
+        for (let i = 0; i < N; i++) {
+          const t0 = performance.now();
+          await (await fetch(stack.url + p)).text();
+          times.push(performance.now() - t0);
+        }
+        const p50 = percentile(times, 50);
+        report(
+          `render ${p} (p50; p95 ${percentile(times, 95).toFixed(1)} ms)`,
+          `${p50.toFixed(1)} ms`,
+          `≤ ${RENDER_TARGET_MS} ms`,
+          p50 <= RENDER_TARGET_MS,
+        );
+        const js = gzipClosure(pageScripts(html), clientDir);
+        report(
+          `island JavaScript of ${p} (${js.files} files)`,
+          `${(js.bytes / 1024).toFixed(1)} kB gzip`,
+          p === '/windows' ? `≤ ${ISLAND_TARGET_KB} kB` : 'none',
+          p !== '/windows' || js.bytes / 1024 <= ISLAND_TARGET_KB,
+        );
       }
+
+      const recordPage = pages.find((p) => p.startsWith('/windows/'));
+      if (recordPage) {
+        const seconds = Number(values.seconds);
+        const handle = recordPage.slice('/windows/'.length);
+        console.log(`\nA record, 32 connections, ${seconds} s each (anonymous reader):`);
+        // Plain, as before; and the page as browsers ask for it (brotli accepted).
+        const runs = [
+          ['record page', recordPage, 'recordPage', {}],
+          ['record page, br', recordPage, 'recordPageBr', { 'accept-encoding': 'br, gzip' }],
+          ['record API', `/api/v1/records/${handle}`, 'recordApi', {}],
+        ] as const;
+        for (const [what, p, name, headers] of runs) {
+          const r = await hammer(stack.url + p, 32, seconds, headers);
+          report(
+            `${what} ${p} (p95 ${r.p95.toFixed(1)} ms, ${r.failed} failed)`,
+            `${r.rps.toFixed(0)} req/s`,
+            `≥ ${RECORD_RPS_TARGET} req/s`,
+            r.rps >= RECORD_RPS_TARGET && r.failed === 0,
+          );
+          figures[`${name}Rps`] = Math.round(r.rps);
+          figures[`${name}P95Ms`] = Math.round(r.p95 * 10) / 10;
+        }
+      }
+
+      // What goes out compressed when the client accepts it, and how assets are cached.
+      console.log('\nCompression (accept-encoding: br, gzip) and caching:');
+      const home = await (await fetch(stack.url + '/')).text();
+      // The largest script the home page loads (one under 1 kB is sent as it is).
+      const script = pageScripts(home)
+        .map((u) => ({ u, bytes: readFileSync(path.join(clientDir, u)).byteLength }))
+        .sort((a, b) => b.bytes - a.bytes)[0]?.u;
+      const probes = [
+        ['home page', '/'],
+        ['explorer page', '/windows'],
+        ...(recordPage ? [['record page', recordPage]] : []),
+        ['search API', '/api/v1/records?limit=50'],
+        ...(script ? [['script', script]] : []),
+      ];
+      for (const [what, p] of probes) {
+        const plain = await fetch(stack.url + p!, { headers: { 'accept-encoding': 'identity' } });
+        const plainBytes = (await plain.arrayBuffer()).byteLength;
+        // Node's fetch decodes bodies: the encoded size comes from a raw request.
+        const enc = await rawSize(stack.url + p!, 'br, gzip');
+        report(
+          `${what} ${p!.length > 40 ? p!.slice(0, 40) + '…' : p}`,
+          `${enc.encoding || 'none'}, ${(enc.bytes / 1024).toFixed(1)} of ${(plainBytes / 1024).toFixed(1)} kB`,
+          'br or gzip',
+          enc.encoding === 'br' || enc.encoding === 'gzip',
+        );
+        if (what === 'script') {
+          const cache = plain.headers.get('cache-control') ?? '';
+          report('hashed asset cache-control', cache, 'immutable', cache.includes('immutable'));
+        }
+      }
+
+      // A record whose raw file has 10⁶ samples, in Chromium with the CPU slowed down.
+      big ??= await recordWithBigFile(stack, samples);
+      const m = await mainThreadOnRecord(`${stack.url}/windows/${big}`, CPU_SLOWDOWN);
+      console.log(
+        `\nThe record page of ${big} in Chromium at ${CPU_SLOWDOWN}× CPU slowdown (long tasks: over 50 ms):`,
+      );
+      report('curve drawn after', `${(m.drawnMs / 1000).toFixed(1)} s`, '—', true);
+      report(
+        `longest main-thread task, load and draw (${m.tasksOnLoad} long)`,
+        `${m.longestOnLoad.toFixed(0)} ms`,
+        `≤ ${LONG_TASK_TARGET_MS} ms`,
+        m.longestOnLoad <= LONG_TASK_TARGET_MS,
+      );
+      report(
+        'raw file downloaded to draw',
+        m.rawOnLoad ? `yes (${m.rawOnLoad})` : 'no',
+        'no',
+        m.rawOnLoad === 0,
+      );
+      report('bytes the page fetched (decoded)', `${(m.loadBytes / 1e6).toFixed(2)} MB`, '—', true);
+      report(
+        `longest task drawing every sample (${(m.everyMs / 1000).toFixed(1)} s)`,
+        `${m.longestOnEvery.toFixed(0)} ms`,
+        `≤ ${LONG_TASK_TARGET_MS} ms`,
+        m.longestOnEvery <= LONG_TASK_TARGET_MS,
+      );
+      figures.rawSamples = samples;
+      figures.longestTaskMs = Math.round(m.longestOnLoad);
+      figures.longestTaskEverySampleMs = Math.round(m.longestOnEvery);
+      figures.pageMB = Math.round(m.loadBytes / 1e4) / 100;
     }
 
-    // A record whose raw file has 10⁶ samples, in Chromium with the CPU slowed down.
-    big ??= await recordWithBigFile(stack, samples);
-    const m = await mainThreadOnRecord(`${stack.url}/windows/${big}`, CPU_SLOWDOWN);
+    // The overlay of several records whose raw files have `samples` samples each.
+    const overlaid = [big ?? (await recordWithBigFile(stack, samples))];
+    while (overlaid.length < Number(values['overlay-records']))
+      overlaid.push(await recordWithBigFile(stack, samples));
+    const o = await overlayInBrowser(
+      `${stack.url}/windows/overlay?records=${overlaid.join(',')}`,
+      CPU_SLOWDOWN,
+    );
     console.log(
-      `\nThe record page of ${big} in Chromium at ${CPU_SLOWDOWN}× CPU slowdown (long tasks: over 50 ms):`,
+      `\nThe overlay of ${overlaid.join(', ')} in Chromium at ${CPU_SLOWDOWN}× CPU slowdown:`,
     );
-    report('curve drawn after', `${(m.drawnMs / 1000).toFixed(1)} s`, '—', true);
+    report('curves drawn after', `${(o.drawnMs / 1000).toFixed(1)} s`, '—', true);
+    report('bytes the page fetched (decoded)', `${(o.bytes / 1e6).toFixed(2)} MB`, '—', true);
     report(
-      `longest main-thread task, load and draw (${m.tasksOnLoad} long)`,
-      `${m.longestOnLoad.toFixed(0)} ms`,
-      `≤ ${LONG_TASK_TARGET_MS} ms`,
-      m.longestOnLoad <= LONG_TASK_TARGET_MS,
-    );
-    report(
-      'raw file downloaded to draw',
-      m.rawOnLoad ? `yes (${m.rawOnLoad})` : 'no',
+      'raw files downloaded to draw',
+      o.rawDownloads ? `yes (${o.rawDownloads})` : 'no',
       'no',
-      m.rawOnLoad === 0,
+      o.rawDownloads === 0,
     );
-    report('bytes the page fetched (decoded)', `${(m.loadBytes / 1e6).toFixed(2)} MB`, '—', true);
     report(
-      `longest task drawing every sample (${(m.everyMs / 1000).toFixed(1)} s)`,
-      `${m.longestOnEvery.toFixed(0)} ms`,
+      `longest main-thread task (${o.longTasks} long)`,
+      `${o.longest.toFixed(0)} ms`,
       `≤ ${LONG_TASK_TARGET_MS} ms`,
-      m.longestOnEvery <= LONG_TASK_TARGET_MS,
+      o.longest <= LONG_TASK_TARGET_MS,
     );
     figures.rawSamples = samples;
-    figures.longestTaskMs = Math.round(m.longestOnLoad);
-    figures.longestTaskEverySampleMs = Math.round(m.longestOnEvery);
-    figures.pageMB = Math.round(m.loadBytes / 1e4) / 100;
+    figures.overlayRecords = overlaid.length;
+    figures.overlayMB = Math.round(o.bytes / 1e4) / 100;
+    figures.overlayRawDownloads = o.rawDownloads;
+    figures.overlayLongestTaskMs = Math.round(o.longest);
+    figures.overlayDrawnS = Math.round(o.drawnMs / 100) / 10;
     console.log(JSON.stringify(figures));
   } finally {
     await stack.stop();
@@ -376,6 +414,63 @@ async function mainThreadOnRecord(url: string, rate: number) {
       tasksOnLoad: onLoad.length,
       loadBytes,
       rawOnLoad,
+    };
+  } finally {
+    await context.close();
+    rmSync(profile, { recursive: true, force: true });
+  }
+}
+
+/**
+ * Opens the overlay page in Debian's Chromium with the CPU slowed `rate` times, waits until its
+ * curves are drawn, and counts the bytes it fetched (decoded), the whole raw files among them and
+ * the main thread's long tasks.
+ */
+async function overlayInBrowser(url: string, rate: number) {
+  const profile = mkdtempSync(path.join(tmpdir(), 'edgewise-bench-chromium-'));
+  const context = await chromium.launchPersistentContext(profile, {
+    executablePath: '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run'],
+    headless: true,
+    viewport: { width: 1280, height: 900 },
+  });
+  try {
+    const page = await context.newPage();
+    await page.addInitScript(() => {
+      const w = window as unknown as { longTasks: number[] };
+      w.longTasks = [];
+      new PerformanceObserver((list) => {
+        for (const e of list.getEntries()) w.longTasks.push(e.duration);
+      }).observe({ type: 'longtask', buffered: true });
+    });
+    const cdp = await context.newCDPSession(page);
+    await cdp.send('Emulation.setCPUThrottlingRate', { rate });
+    let bytes = 0;
+    let rawDownloads = 0;
+    page.on('response', async (res) => {
+      if (/\/api\/v1\/raw-files\/[0-9a-f-]{36}$/.test(new URL(res.url()).pathname)) rawDownloads++;
+      bytes += await res
+        .body()
+        .then((b) => b.byteLength)
+        .catch(() => 0);
+    });
+    const t0 = performance.now();
+    await page.goto(url, { waitUntil: 'load' });
+    await page
+      .locator('[data-testid="overlay-chart"] svg[role="img"]')
+      .first()
+      .waitFor({ timeout: 600_000 });
+    const drawnMs = performance.now() - t0;
+    await page.waitForTimeout(1_000);
+    const tasks = await page.evaluate(
+      () => (window as unknown as { longTasks: number[] }).longTasks,
+    );
+    return {
+      drawnMs,
+      bytes,
+      rawDownloads,
+      longest: Math.max(0, ...tasks),
+      longTasks: tasks.length,
     };
   } finally {
     await context.close();
