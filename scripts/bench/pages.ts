@@ -232,7 +232,12 @@ async function main() {
       `\nThe overlay of ${overlaid.join(', ')} in Chromium at ${CPU_SLOWDOWN}× CPU slowdown:`,
     );
     report('curves drawn after', `${(o.drawnMs / 1000).toFixed(1)} s`, '—', true);
-    report('bytes the page fetched (decoded)', `${(o.bytes / 1e6).toFixed(2)} MB`, '—', true);
+    report(
+      'bytes the page fetched: decoded (over the wire)',
+      `${(o.bytes / 1e6).toFixed(2)} MB (${(o.wire / 1e6).toFixed(2)} MB)`,
+      '—',
+      true,
+    );
     report(
       'raw files downloaded to draw',
       o.rawDownloads ? `yes (${o.rawDownloads})` : 'no',
@@ -248,6 +253,7 @@ async function main() {
     figures.rawSamples = samples;
     figures.overlayRecords = overlaid.length;
     figures.overlayMB = Math.round(o.bytes / 1e4) / 100;
+    figures.overlayWireMB = Math.round(o.wire / 1e4) / 100;
     figures.overlayRawDownloads = o.rawDownloads;
     figures.overlayLongestTaskMs = Math.round(o.longest);
     figures.overlayDrawnS = Math.round(o.drawnMs / 100) / 10;
@@ -423,7 +429,7 @@ async function mainThreadOnRecord(url: string, rate: number) {
 
 /**
  * Opens the overlay page in Debian's Chromium with the CPU slowed `rate` times, waits until its
- * curves are drawn, and counts the bytes it fetched (decoded), the whole raw files among them and
+ * curves are drawn, and counts the bytes it fetched (decoded and as sent), the whole raw files among them and
  * the main thread's long tasks.
  */
 async function overlayInBrowser(url: string, rate: number) {
@@ -445,14 +451,9 @@ async function overlayInBrowser(url: string, rate: number) {
     });
     const cdp = await context.newCDPSession(page);
     await cdp.send('Emulation.setCPUThrottlingRate', { rate });
-    let bytes = 0;
     let rawDownloads = 0;
-    page.on('response', async (res) => {
+    page.on('response', (res) => {
       if (/\/api\/v1\/raw-files\/[0-9a-f-]{36}$/.test(new URL(res.url()).pathname)) rawDownloads++;
-      bytes += await res
-        .body()
-        .then((b) => b.byteLength)
-        .catch(() => 0);
     });
     const t0 = performance.now();
     await page.goto(url, { waitUntil: 'load' });
@@ -465,9 +466,22 @@ async function overlayInBrowser(url: string, rate: number) {
     const tasks = await page.evaluate(
       () => (window as unknown as { longTasks: number[] }).longTasks,
     );
+    // What the page and its requests carried, from the browser's own resource timing (the
+    // protocol's copy of a response body is dropped past a few MB, so it cannot be summed).
+    const { bytes, wire } = await page.evaluate(() => {
+      const entries = [
+        ...performance.getEntriesByType('navigation'),
+        ...performance.getEntriesByType('resource'),
+      ] as PerformanceResourceTiming[];
+      return {
+        bytes: entries.reduce((a, e) => a + e.decodedBodySize, 0),
+        wire: entries.reduce((a, e) => a + e.transferSize, 0),
+      };
+    });
     return {
       drawnMs,
       bytes,
+      wire,
       rawDownloads,
       longest: Math.max(0, ...tasks),
       longTasks: tasks.length,
