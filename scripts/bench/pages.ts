@@ -214,7 +214,6 @@ async function main() {
         `≤ ${LONG_TASK_TARGET_MS} ms`,
         m.longestOnEvery <= LONG_TASK_TARGET_MS,
       );
-      figures.rawSamples = samples;
       figures.longestTaskMs = Math.round(m.longestOnLoad);
       figures.longestTaskEverySampleMs = Math.round(m.longestOnEvery);
       figures.pageMB = Math.round(m.loadBytes / 1e4) / 100;

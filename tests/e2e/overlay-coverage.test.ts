@@ -1,6 +1,12 @@
 import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/index.ts';
+import {
+  capacitiveCurrentA,
+  curvePreview,
+  curveSamples,
+  cvWindowOpeningSamples,
+  formatExport,
+} from '#lib/analysis/index.ts';
 import { clearSignInFailures, closeAppDb, makeUser, signIn } from '../auth-helpers.ts';
 import { appUrl } from '../helpers.ts';
 import {
@@ -20,7 +26,17 @@ import { publishThroughApi, publishedTotal } from './publish.ts';
 // come from the API for the same filters).
 
 let browser: Browser;
-const h: Record<'gc' | 'pt' | 'ac', string> = { gc: '', pt: '', ac: '' };
+const h: Record<'gc' | 'pt' | 'ac' | 'noisy', string> = { gc: '', pt: '', ac: '', noisy: '' };
+const cols = { columns: ['time', 'potential', 'current', 'cycle'] as const };
+// docs/methods.md §8 A with 2 µA and 0.2 mV of noise, 36,010 samples: more than the drawing copy
+// keeps, so a capacitive current or potential range taken from the copy would read differently.
+const noisyFile = formatExport(
+  cvWindowOpeningSamples({
+    sampleIntervalS: 0.05,
+    noise: { currentA: 2e-6, potentialV: 2e-4, seed: 3 },
+  }),
+  { columns: [...cols.columns] },
+);
 
 const content = (electrode: string) => ({
   title: `NaClO4 in water on ${electrode}`,
@@ -52,7 +68,6 @@ const content = (electrode: string) => ({
 beforeAll(async () => {
   const contributor = await signIn(await makeUser({ role: 'contributor' }));
   const curator = await signIn(await makeUser({ role: 'curator' }));
-  const cols = { columns: ['time', 'potential', 'current', 'cycle'] as const };
   // docs/methods.md §8 A model on glassy carbon; an earlier, steeper onset on platinum; no raw file on activated carbon.
   h.gc = await publishThroughApi(
     contributor,
@@ -70,6 +85,7 @@ beforeAll(async () => {
     ),
   );
   h.ac = await publishThroughApi(contributor, curator, content('activated carbon'));
+  h.noisy = await publishThroughApi(contributor, curator, content('GC'), noisyFile);
   browser = await openBrowser();
 }, 120_000);
 
@@ -151,6 +167,49 @@ describe('overlay of raw curves', () => {
     await expect
       .poll(() => text(page, 'result-count'))
       .toMatch(new RegExp(`^${await publishedTotal(FILTER)} matching`));
+    expect(problems).toEqual([]);
+    await page.close();
+  });
+
+  it('draws from the thinned copies, never the whole files, and shows the numbers of every sample', async () => {
+    const { page, problems } = await watchedPage(browser.context);
+    const asked: string[] = [];
+    page.on('request', (r) => {
+      const p = new URL(r.url()).pathname;
+      if (p.startsWith('/api/v1/raw-files/')) asked.push(p);
+    });
+    await page.goto(new URL(`/windows/overlay?records=${h.noisy}`, appUrl()).href);
+    const chart = page.getByTestId('overlay-chart');
+    await chart.locator('svg[role="img"]').first().waitFor();
+    // Only the drawing copy was fetched, not the file.
+    expect(asked).toHaveLength(1);
+    expect(asked[0]).toMatch(/^\/api\/v1\/raw-files\/[0-9a-f-]{36}\/curve$/);
+
+    const full = curveSamples(noisyFile, {});
+    const copy = curvePreview(noisyFile, {});
+    expect(copy.current.length).toBeLessThan(full.current.length / 8);
+
+    // The level each curve is divided by, as shown (three digits), is the whole file's.
+    const shown = await page
+      .locator(`li[data-handle="${h.noisy}"] [data-testid="capacitive-level"]`)
+      .innerText();
+    const m = /= ([\d.]+) ([pnµm]?)A$/.exec(shown);
+    expect(m, shown).not.toBeNull();
+    const prefix = { p: 1e-12, n: 1e-9, µ: 1e-6, m: 1e-3, '': 1 }[m![2]!]!;
+    const level = capacitiveCurrentA(full.current);
+    expect((Number(m![1]) * prefix).toPrecision(3)).toBe(level.toPrecision(3));
+    // Taken from the copy's first tenth it would read otherwise (min/max thinning pulls it up).
+    expect(capacitiveCurrentA(copy.current).toPrecision(3)).not.toBe(level.toPrecision(3));
+
+    // The potential range shown is the file's, moved to SHE with the record's reference value
+    // (the copy's highest potential lies a sample below the file's).
+    const r = await (await fetch(new URL(`/api/v1/records/${h.noisy}`, appUrl()))).json();
+    const shift: number = r.analyses[0].result.reference.fromVsSheV;
+    const rangeText = (lo: number, hi: number) =>
+      `${(lo + shift).toFixed(3)} … ${(hi + shift).toFixed(3)} V`;
+    const fileRange = rangeText(Math.min(...full.potential), Math.max(...full.potential));
+    expect(await chart.getByTestId('curve-range').locator('.num').innerText()).toBe(fileRange);
+    expect(rangeText(Math.min(...copy.potential), Math.max(...copy.potential))).not.toBe(fileRange);
     expect(problems).toEqual([]);
     await page.close();
   });

@@ -13,6 +13,7 @@ import {
 import { content, tag } from '../support/records.ts';
 import {
   analyzeText,
+  capacitiveCurrentA,
   curvePreview,
   curveSamples,
   cvWindowOpeningSamples,
@@ -178,6 +179,85 @@ describe('the upload flow', () => {
     // Only for those who may read the record, like the file itself.
     expect((await as(null, url)).status).toBe(404);
     expect((await as(other, url)).status).toBe(404);
+  });
+
+  it('serves with the copy the capacitive current and potential range of every sample, also for a copy kept without them', async () => {
+    // A noisy run of 36,010 samples (docs/methods.md §8 A with 2 µA and 0.2 mV of noise): its
+    // copy keeps the lowest and highest current of each stretch, so a level taken from the copy's
+    // first tenth is pulled up, and its highest potential lies a sample below the file's.
+    const noisy = formatExport(
+      cvWindowOpeningSamples({
+        sampleIntervalS: 0.05,
+        noise: { currentA: 2e-6, potentialV: 2e-4, seed: 3 },
+      }),
+    );
+    const { handle: h } = await newRecord();
+    const { json: ticket } = await declare(h, noisy);
+    expect((await put(ticket, noisy)).status).toBe(200);
+    const done = await complete(ticket.id);
+    expect(done.status).toBe(200);
+    const id: string = (await done.json()).rawFile.id;
+
+    const full = curveSamples(noisy, {});
+    const level = capacitiveCurrentA(full.current);
+    const range = [Math.min(...full.potential), Math.max(...full.potential)];
+    const url = `/api/v1/raw-files/${id}/curve`;
+    const c = await (await as(owner, url)).json();
+    expect(c.samples).toBe(full.potential.length);
+    expect(c.currentA.length).toBeLessThan(full.current.length / 8);
+    // Exactly the numbers of the whole file, to the last bit.
+    expect(c.capacitive).toEqual({ currentA: level, refusal: null });
+    expect(c.potentialRangeV).toEqual(range);
+    // What the copy alone would give differs at the three digits a page shows (so this test tells
+    // the two apart).
+    const fromCopy = capacitiveCurrentA(c.currentA);
+    expect(fromCopy.toPrecision(3)).not.toBe(level.toPrecision(3));
+    expect(Math.max(...c.potentialV).toFixed(3)).not.toBe(range[1]!.toFixed(3));
+
+    // A copy kept before these figures were: they are read from the whole file when next served,
+    // and kept beside the copy, which stays as it was.
+    const figures = () =>
+      appDb()
+        .selectFrom('raw_file_curves')
+        .select([
+          'potential_min_v',
+          'potential_max_v',
+          'capacitive_current_a',
+          'capacitive_refusal',
+        ])
+        .where('raw_file_id', '=', id)
+        .executeTakeFirstOrThrow();
+    expect(await figures()).toEqual({
+      potential_min_v: range[0],
+      potential_max_v: range[1],
+      capacitive_current_a: level,
+      capacitive_refusal: null,
+    });
+    await appDb()
+      .updateTable('raw_file_curves')
+      .set({
+        potential_min_v: null,
+        potential_max_v: null,
+        capacitive_current_a: null,
+        capacitive_refusal: null,
+      })
+      .where('raw_file_id', '=', id)
+      .execute();
+    expect(await (await as(owner, url)).json()).toEqual(c);
+    expect(await figures()).toEqual({
+      potential_min_v: range[0],
+      potential_max_v: range[1],
+      capacitive_current_a: level,
+      capacitive_refusal: null,
+    });
+    // Half the figures is refused by the table: a copy has all of them or none.
+    await expect(
+      appDb()
+        .updateTable('raw_file_curves')
+        .set({ capacitive_current_a: null })
+        .where('raw_file_id', '=', id)
+        .execute(),
+    ).rejects.toThrow(/raw_file_curves_figures_whole/);
   });
 
   it('recomputes a published raw-backed record at a common criterion from its stored analysis', async () => {

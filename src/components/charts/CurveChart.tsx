@@ -22,6 +22,11 @@ export interface Curve {
   colour?: string;
   /** Dash pattern, to tell apart curves that share a colour. */
   dash?: string;
+  /**
+   * Lowest and highest potential of the whole curve when x is a thinned copy, whose ends of the
+   * potential axis may lie a sample inside the file's (the copy keeps the current's extremes).
+   */
+  xRange?: readonly [number, number];
 }
 
 /**
@@ -131,7 +136,7 @@ export default function CurveChart({
     let lo = Infinity;
     let hi = -Infinity;
     for (const c of curves)
-      for (const v of c.x) {
+      for (const v of c.xRange ?? c.x) {
         if (!Number.isFinite(v)) continue;
         lo = Math.min(lo, v);
         hi = Math.max(hi, v);

@@ -1,7 +1,6 @@
 import { QueryClientProvider, useQueries, useQuery } from '@tanstack/react-query';
 import { useMemo } from 'react';
-import type { AnalysisOptions, AnalysisResult } from '#lib/analysis/analyze.ts';
-import { capacitiveCurrentA } from '#lib/analysis/baseline.ts';
+import type { AnalysisResult } from '#lib/analysis/analyze.ts';
 import { sFromCe } from '#lib/analysis/cv.ts';
 import { referenceConversion } from '#lib/analysis/references.ts';
 import { errorMessage } from '#lib/client/api.ts';
@@ -21,7 +20,6 @@ import CurveChart, { type Curve, type YQuantity } from '../charts/CurveChart.tsx
 import LogPlot, { type LogSeries } from '../charts/LogPlot.tsx';
 import { DASHES, electrodeColour } from '../charts/palette.tsx';
 import { currentUnit } from '../charts/plot.tsx';
-import { rawSamples } from '../record/RawData.tsx';
 import {
   buttonPrimary,
   buttonQuiet,
@@ -51,7 +49,6 @@ interface FileJob {
   fileId: string;
   name: string;
   direction: 'anodic' | 'cathodic';
-  params: AnalysisOptions;
   result: AnalysisResult;
   /** Added to the file's potentials to put them on SHE; null when the file's scale has no SHE value. */
   fileToSheV: number | null;
@@ -80,7 +77,6 @@ function jobsOf(r: RecordDetail, dash: string | undefined): FileJob[] {
       fileId: file.id,
       name: file.name,
       direction: a.direction,
-      params: a.parameters as AnalysisOptions,
       result: stored,
       fileToSheV: cell ? null : (stored.reference?.fromVsSheV ?? null),
       resultToSheV: cell ? null : (stored.reference?.toVsSheV ?? null),
@@ -147,8 +143,12 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
       dashes.set(d.data.handle, DASHES[k % DASHES.length]);
     }
   const jobs = details.flatMap((d) => (d.data ? jobsOf(d.data, dashes.get(d.data.handle)) : []));
-  const texts = useQueries({ queries: jobs.map((j) => rawFileQueries.text(j.fileId)) });
-  const textKey = texts.map((t) => t.dataUpdatedAt).join(',');
+  // Each file is drawn from the server's thinned copy (a few thousand points, every peak kept): six
+  // records with files of a million samples are not downloaded and read whole. What the page shows
+  // as a number — the capacitive current each curve is divided by, the potential range — comes
+  // with the copy, taken by the server from every sample of the file.
+  const drawings = useQueries({ queries: jobs.map((j) => rawFileQueries.drawing(j.fileId)) });
+  const drawingKey = drawings.map((t) => t.dataUpdatedAt).join(',');
 
   const electrode = (r: RecordDetail) => longName(terms, r.content.workingElectrode.material);
 
@@ -169,11 +169,12 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
     const levels = new Map<string, number>();
     const note = (h: string, n: string) => notes.set(h, [...(notes.get(h) ?? []), n]);
     jobs.forEach((j, i) => {
-      const t = texts[i];
+      const t = drawings[i];
       if (!t?.data) {
         if (t?.isError) note(j.handle, `${j.name} could not be read: ${errorMessage(t.error)}`);
         return;
       }
+      const c = t.data;
       if (j.fileToSheV === null) {
         note(
           j.handle,
@@ -186,49 +187,49 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
         note(j.handle, `${j.name} cannot be put on ${scaleText}: ${toScale}`);
         return;
       }
-      try {
-        const s = rawSamples(t.data, j.params);
-        let divisor = 1;
-        if (mode === 'area') {
-          if (!j.areaCm2) {
-            note(
-              j.handle,
-              `${j.name} (${j.direction}): the record gives no electrode area, so no current per area`,
-            );
-            return;
-          }
-          divisor = j.areaCm2;
-        } else if (mode === 'mass') {
-          if (!j.massG) {
-            note(
-              j.handle,
-              `${j.name} (${j.direction}): the record gives no active mass, so no current per mass`,
-            );
-            return;
-          }
-          divisor = j.massG;
-        } else if (mode === 'norm') {
-          divisor = capacitiveCurrentA(s.current);
-          levels.set(`${j.handle} ${j.direction}`, divisor);
+      let divisor = 1;
+      if (mode === 'area') {
+        if (!j.areaCm2) {
+          note(
+            j.handle,
+            `${j.name} (${j.direction}): the record gives no electrode area, so no current per area`,
+          );
+          return;
         }
-        const d = details.find((x) => x.data?.handle === j.handle)?.data;
-        const several = jobs.filter((x) => x.handle === j.handle).length > 1;
-        const shift = j.fileToSheV + toScale;
-        curves.push({
-          label: `${j.handle} · ${d ? electrode(d) : ''}${several ? ` (${j.direction})` : ''}`,
-          x: s.potential.map((v) => v + shift),
-          y: divisor === 1 ? s.current : s.current.map((v) => v / divisor),
-          colour: j.colour,
-          ...(j.dash ? { dash: j.dash } : {}),
-        });
-      } catch (e) {
-        note(j.handle, `${j.name}: ${errorMessage(e)}`);
+        divisor = j.areaCm2;
+      } else if (mode === 'mass') {
+        if (!j.massG) {
+          note(
+            j.handle,
+            `${j.name} (${j.direction}): the record gives no active mass, so no current per mass`,
+          );
+          return;
+        }
+        divisor = j.massG;
+      } else if (mode === 'norm') {
+        if (c.capacitive.currentA === null) {
+          note(j.handle, `${j.name}: ${c.capacitive.refusal}`);
+          return;
+        }
+        divisor = c.capacitive.currentA;
+        levels.set(`${j.handle} ${j.direction}`, divisor);
       }
+      const d = details.find((x) => x.data?.handle === j.handle)?.data;
+      const several = jobs.filter((x) => x.handle === j.handle).length > 1;
+      const shift = j.fileToSheV + toScale;
+      curves.push({
+        label: `${j.handle} · ${d ? electrode(d) : ''}${several ? ` (${j.direction})` : ''}`,
+        x: c.x.map((v) => v + shift),
+        y: divisor === 1 ? c.y : c.y.map((v) => v / divisor),
+        xRange: [c.potentialRangeV[0] + shift, c.potentialRangeV[1] + shift],
+        colour: j.colour,
+        ...(j.dash ? { dash: j.dash } : {}),
+      });
     });
     return { curves, notes, levels };
-    // The texts array is new on every render; its update times say when its data changed.
+    // The drawings array is new on every render; its update times say when its data changed.
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [textKey, jobs.length, terms, mode, scale]);
+  }, [drawingKey, jobs.length, terms, mode, scale]);
 
   // The judged quantity of each stored analysis against potential: S-value for window-opening CV,
   // end-of-hold leakage for holds (each on its own axis: they are different quantities).
@@ -300,7 +301,7 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
       </Empty>
     );
 
-  const loadingFiles = texts.some((t) => t.isPending);
+  const loadingFiles = drawings.some((t) => t.isPending);
   const loadingRecords = details.some((d) => d.isPending);
   const cutoff = sCutoffOf(search);
   const xLabel = `E / V vs ${scaleText}`;
@@ -423,14 +424,16 @@ function OverlayView({ initialSearch }: { initialSearch: string }) {
         </h2>
         <p className={`text-sm ${muted} mb-2`}>
           {mode === 'norm'
-            ? 'Each curve divided by its own capacitive current (the median |I| of its first tenth, where the narrowest cycles are mostly double-layer charging): a glassy-carbon disk and an activated-carbon electrode read on one axis, and decomposition shows as a rise well above 1.'
+            ? 'Each curve divided by its own capacitive current (the median |I| of the first tenth of all its samples, where the narrowest cycles are mostly double-layer charging): a glassy-carbon disk and an activated-carbon electrode read on one axis, and decomposition shows as a rise well above 1.'
             : mode === 'area'
               ? 'Current per geometric electrode area.'
               : mode === 'mass'
                 ? 'Current per active mass.'
                 : 'Current as recorded: electrodes of very different size differ by orders of magnitude.'}{' '}
           Potentials on {scaleText}, each file moved with its record’s reference value. One colour
-          per electrode; line patterns tell records on one electrode apart.
+          per electrode; line patterns tell records on one electrode apart. Each curve is drawn from
+          a copy of its file thinned to the lowest and highest current of each of 2,000 stretches of
+          samples, so every peak and onset shows; the record’s own page draws every sample.
         </p>
         {details.find((d) => d.isError) && curves.length === 0 ? (
           <Failed

@@ -50,9 +50,6 @@ export function criterionSeries(res: AnalysisResult): {
   };
 }
 
-// Read where the overlay reads it too; kept importable from here.
-export { rawSamples } from '#lib/client/raw-samples.ts';
-
 function limitLine(res: AnalysisResult, ref: string): string {
   const l = res.limit;
   if (l.status === 'not-reached')
@@ -91,7 +88,15 @@ function AnalysisBlock({ a, r }: { a: AnalysisView; r: RecordDetail }) {
     if (everySample && raw.data) return [{ label, x: raw.data.x, y: raw.data.y }];
     if (!drawing.data) return null;
     const d = drawing.data;
-    return [{ label, x: shiftV ? d.x.map((v) => v + shiftV) : d.x, y: d.y }];
+    const [lo, hi] = d.potentialRangeV;
+    return [
+      {
+        label,
+        x: shiftV ? d.x.map((v) => v + shiftV) : d.x,
+        y: d.y,
+        xRange: [lo + shiftV, hi + shiftV],
+      },
+    ];
   }, [everySample, raw.data, raw.error, drawing.data, file?.name, shiftV]);
   const showsEvery = everySample && Boolean(raw.data);
 

@@ -1,2 +1,2 @@
-// The engine's reading of a raw file's samples, for the browser's worker and the overlay.
+// The engine's reading of a raw file's samples, for the browser's worker.
 export { curveSamples as rawSamples } from '#lib/analysis/preview.ts';

@@ -265,7 +265,10 @@ export const recordQueries = {
 };
 
 export const rawFileQueries = {
-  /** The server's thinned copy of a raw file's curve, for drawing (volts and amperes as read). */
+  /**
+   * The server's thinned copy of a raw file's curve, for drawing (volts and amperes as read), with
+   * the figures of the whole file a page shows beside it (never to be taken from the copy).
+   */
   drawing: (id: string) =>
     queryOptions({
       queryKey: ['raw-files', id, 'drawing'] as const,
@@ -278,6 +281,8 @@ export const rawFileQueries = {
           samples: c.samples,
           x: Float64Array.from(c.potentialV, (v) => v ?? Number.NaN),
           y: Float64Array.from(c.currentA, (v) => v ?? Number.NaN),
+          potentialRangeV: c.potentialRangeV,
+          capacitive: c.capacitive,
         };
       },
       staleTime: Infinity,
@@ -293,19 +298,6 @@ export const rawFileQueries = {
         });
         if (!res.ok) throw new Error(`the raw file could not be read (HTTP ${res.status})`);
         return res.arrayBuffer();
-      },
-      staleTime: Infinity,
-    }),
-  text: (id: string) =>
-    queryOptions({
-      queryKey: ['raw-files', id, 'text'] as const,
-      queryFn: async ({ signal }) => {
-        const res = await fetch(`/api/v1/raw-files/${encodeURIComponent(id)}`, {
-          credentials: 'same-origin',
-          signal,
-        });
-        if (!res.ok) throw new Error(`the raw file could not be read (HTTP ${res.status})`);
-        return res.text();
       },
       staleTime: Infinity,
     }),

@@ -31,8 +31,11 @@ import {
   insertRawFile,
   insertRawFileCurve,
   latestAnalysisParameters,
+  setRawFileCurveFigures,
+  type RawCurveRow,
   type RawFileRow,
 } from './repositories/records.ts';
+import type { CurveFigures } from '#lib/analysis/preview.ts';
 import {
   getUpload,
   insertUpload,
@@ -386,29 +389,45 @@ export async function downloadRawFile(
 }
 
 /**
- * The thinned copy of a raw file's curve that a record page draws, if the principal may read its
- * record. Made when the file is verified; a file verified before copies were kept gets its copy
- * now, once, read as its analysis read it (or with its upload's mapping when it has none).
+ * The thinned copy of a raw file's curve that record pages and the overlay draw, with the figures
+ * of the whole curve they show beside it, if the principal may read its record. Made when the file
+ * is verified; a file verified before copies (or their figures) were kept gets them now, once, read
+ * from the whole file as its analysis read it (or with its upload's mapping when it has none) — a
+ * figure is never taken from the thinned copy.
  */
 export async function rawFileCurve(db: Db, principal: Principal, id: string): Promise<RawCurve> {
   const f = await readableRawFile(db, principal, id);
-  let c = await getRawFileCurve(db, f.id);
-  if (!c) {
+  const stored = await getRawFileCurve(db, f.id);
+  let c: Omit<RawCurveRow, 'figures'> & { figures: CurveFigures };
+  if (stored?.figures) c = { ...stored, figures: stored.figures };
+  else {
     const bytes = await readVerifiedRawFile(f);
     if (!bytes) throw new NotFoundError('raw file');
     // Read as its analysis read it (columns, sign and, for a two-electrode cell, the cell voltage).
     const analysed = await latestAnalysisParameters(db, f.id);
-    c = await curveInWorker(
+    const read = await curveInWorker(
       bytes,
       readingOf((analysed ?? f.mapping) as Parameters<typeof readingOf>[0]),
     );
-    await insertRawFileCurve(db, f.id, c);
+    const figures = { potentialRangeV: read.potentialRangeV, capacitive: read.capacitive };
+    if (stored) {
+      // The copy already drawn stays as it is; only its figures are added.
+      await setRawFileCurveFigures(db, f.id, figures);
+      c = { ...stored, figures };
+    } else {
+      await insertRawFileCurve(db, f.id, read);
+      c = { ...read, figures };
+    }
   }
   const finite = (a: Float64Array) => Array.from(a, (v) => (Number.isFinite(v) ? v : null));
+  const cap = c.figures.capacitive;
   return {
     rawFileId: f.id,
     samples: c.samples,
     potentialV: finite(c.potential),
     currentA: finite(c.current),
+    potentialRangeV: c.figures.potentialRangeV,
+    capacitive:
+      'currentA' in cap ? { currentA: cap.currentA, refusal: null } : { currentA: null, ...cap },
   };
 }

@@ -159,10 +159,11 @@ export const uploadTicketSchema = z.strictObject({
 export type UploadTicket = z.infer<typeof uploadTicketSchema>;
 
 /**
- * The thinned copy of a raw file's curve a record page draws: the first and last sample and the
- * lowest and highest current of each of about 2,000 runs of samples, in file order, read as the
- * analysis reads the file (volts on the file's own scale, amperes, IUPAC sign). A value the file
- * does not give as a finite number is null.
+ * The thinned copy of a raw file's curve that record pages and the overlay draw: the first and
+ * last sample and the lowest and highest current of each of about 2,000 runs of samples, in file
+ * order, read as the analysis reads the file (volts on the file's own scale, amperes, IUPAC sign).
+ * A value the file does not give as a finite number is null. Beside it, figures of the whole file
+ * that the thinning would change, taken from every sample.
  */
 export const rawCurveSchema = z.strictObject({
   rawFileId: z.string(),
@@ -170,6 +171,17 @@ export const rawCurveSchema = z.strictObject({
   samples: z.number().int(),
   potentialV: z.array(z.number().nullable()),
   currentA: z.array(z.number().nullable()),
+  /** Lowest and highest finite potential of all samples (V, the file's own scale). */
+  potentialRangeV: z.tuple([z.number(), z.number()]),
+  /**
+   * The curve's own capacitive current from all samples: the median |I| of the first tenth in
+   * recording order (A); null with the reason when there is none (e.g. that stretch carries no
+   * current).
+   */
+  capacitive: z.strictObject({
+    currentA: z.number().positive().nullable(),
+    refusal: z.string().nullable(),
+  }),
 });
 export type RawCurve = z.infer<typeof rawCurveSchema>;
 

@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import {
+  capacitiveCurrentA,
   CURVE_PREVIEW_BUCKETS,
+  curveFigures,
   curvePreview,
   curveSamples,
   cvWindowOpeningSamples,
@@ -52,6 +54,41 @@ describe('the thinned drawing copy of a raw curve', () => {
     const opposite = curvePreview(short, { sign: 'opposite' });
     expect(opposite.current.length).toBe(c.current.length);
     for (let k = 0; k < c.current.length; k++) expect(opposite.current[k]! + c.current[k]!).toBe(0);
+  });
+
+  it('carries the figures of every sample, not of the copy: potential range and capacitive current', () => {
+    const c = curvePreview(text, {});
+    expect(c.capacitive).toEqual({ currentA: capacitiveCurrentA(full.current) });
+    expect(c.potentialRangeV).toEqual([Math.min(...full.potential), Math.max(...full.potential)]);
+  });
+});
+
+describe('the figures of a whole curve', () => {
+  it('gives the range of the finite potentials and the median |I| of the first tenth', () => {
+    // Ten samples: the first tenth is the first sample alone, so the level is its |I|.
+    const potential = Float64Array.from([0.1, 0.3, Number.NaN, -0.2, 0.5, 0.4, 0, 0, 0, 0.2]);
+    const current = Float64Array.from([-2e-6, 5, 5, 5, 5, 5, 5, 5, 5, 5]);
+    expect(curveFigures(potential, current)).toEqual({
+      potentialRangeV: [-0.2, 0.5],
+      capacitive: { currentA: 2e-6 },
+    });
+  });
+
+  it('gives the reason, not a number, when the first tenth carries no current', () => {
+    const potential = Float64Array.from({ length: 20 }, (_, i) => i / 10);
+    const current = Float64Array.from({ length: 20 }, (_, i) => (i < 2 ? 0 : 1e-3));
+    expect(curveFigures(potential, current)).toEqual({
+      potentialRangeV: [0, 1.9],
+      capacitive: {
+        refusal: 'the capacitive current is zero, so the curve cannot be normalised by it',
+      },
+    });
+  });
+
+  it('refuses a curve with no finite potential', () => {
+    expect(() => curveFigures(Float64Array.from([Number.NaN]), Float64Array.from([1]))).toThrow(
+      'the curve has no finite potential',
+    );
   });
 });
 

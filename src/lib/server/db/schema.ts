@@ -308,6 +308,11 @@ export interface RawFileCurveTable {
   potential: Buffer;
   current: Buffer;
   created_at: Generated<Date>;
+  /** From every sample of the file; all null on a copy kept before they were (filled when next served). */
+  potential_min_v: number | null;
+  potential_max_v: number | null;
+  capacitive_current_a: number | null;
+  capacitive_refusal: string | null;
 }
 
 export interface AnalysisTable {

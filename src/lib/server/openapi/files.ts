@@ -78,7 +78,10 @@ export const filesPaths = {
       tags: ['Files'],
       summary: "A thinned copy of a raw file's curve for drawing (every peak kept)",
       responses: {
-        '200': ok('RawCurve', 'A few thousand samples of the curve and the count in the file'),
+        '200': ok(
+          'RawCurve',
+          'A few thousand samples of the curve, the count in the file, and the potential range and capacitive current of all samples',
+        ),
         ...errors(404, 503),
       },
     },

@@ -17,6 +17,7 @@ import type {
 } from '../db/schema.ts';
 import type { DbOrTrx } from './audit.ts';
 import type { FacetName } from '#lib/shared/record-views.ts';
+import type { CurveFigures } from '#lib/analysis/preview.ts';
 
 // All SQL about window records, their versions, raw files, analyses, reviews and flags.
 
@@ -512,12 +513,23 @@ export async function getRawFile(db: DbOrTrx, id: string): Promise<RawFileRow | 
   return db.selectFrom('raw_files').selectAll().where('id', '=', id).executeTakeFirst();
 }
 
-/** A raw file's thinned drawing copy: samples in the file, potentials (V) and currents (A). */
+/**
+ * A raw file's thinned drawing copy: samples in the file, potentials (V) and currents (A), and the
+ * figures of the whole curve (null on a copy kept before they were).
+ */
 export interface RawCurveRow {
   samples: number;
   potential: Float64Array;
   current: Float64Array;
+  figures: CurveFigures | null;
 }
+
+const figureColumns = (f: CurveFigures) => ({
+  potential_min_v: f.potentialRangeV[0],
+  potential_max_v: f.potentialRangeV[1],
+  capacitive_current_a: 'currentA' in f.capacitive ? f.capacitive.currentA : null,
+  capacitive_refusal: 'refusal' in f.capacitive ? f.capacitive.refusal : null,
+});
 
 const toBytes = (a: Float64Array) => Buffer.from(a.buffer, a.byteOffset, a.byteLength);
 const toDoubles = (b: Buffer) => {
@@ -526,11 +538,11 @@ const toDoubles = (b: Buffer) => {
   return new Float64Array(copy.buffer);
 };
 
-/** Keeps a raw file's drawing copy (once: a copy already there stays). */
+/** Keeps a raw file's drawing copy and its figures (once: a copy already there stays). */
 export async function insertRawFileCurve(
   db: DbOrTrx,
   rawFileId: string,
-  c: RawCurveRow,
+  c: Omit<RawCurveRow, 'figures'> & CurveFigures,
 ): Promise<void> {
   await db
     .insertInto('raw_file_curves')
@@ -539,8 +551,23 @@ export async function insertRawFileCurve(
       samples: c.samples,
       potential: toBytes(c.potential),
       current: toBytes(c.current),
+      ...figureColumns(c),
     })
     .onConflict((oc) => oc.column('raw_file_id').doNothing())
+    .execute();
+}
+
+/** Gives a copy kept before its figures were the figures read from the whole file. */
+export async function setRawFileCurveFigures(
+  db: DbOrTrx,
+  rawFileId: string,
+  f: CurveFigures,
+): Promise<void> {
+  await db
+    .updateTable('raw_file_curves')
+    .set(figureColumns(f))
+    .where('raw_file_id', '=', rawFileId)
+    .where('potential_min_v', 'is', null)
     .execute();
 }
 
@@ -550,12 +577,26 @@ export async function getRawFileCurve(
 ): Promise<RawCurveRow | undefined> {
   const r = await db
     .selectFrom('raw_file_curves')
-    .select(['samples', 'potential', 'current'])
+    .selectAll()
     .where('raw_file_id', '=', rawFileId)
     .executeTakeFirst();
-  return r
-    ? { samples: r.samples, potential: toDoubles(r.potential), current: toDoubles(r.current) }
-    : undefined;
+  if (!r) return undefined;
+  const figures: CurveFigures | null =
+    r.potential_min_v === null || r.potential_max_v === null
+      ? null
+      : {
+          potentialRangeV: [r.potential_min_v, r.potential_max_v],
+          capacitive:
+            r.capacitive_current_a !== null
+              ? { currentA: r.capacitive_current_a }
+              : { refusal: r.capacitive_refusal ?? '' },
+        };
+  return {
+    samples: r.samples,
+    potential: toDoubles(r.potential),
+    current: toDoubles(r.current),
+    figures,
+  };
 }
 
 /** The engine options of a raw file's latest analysis (how it was read), if it has one. */
