@@ -13,7 +13,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { gzipSync } from 'node:zlib';
-import { chromium } from 'playwright-core';
+import { chromium, type Page } from 'playwright-core';
 import { cvWindowOpeningSamples, formatExport } from '#lib/analysis/index.ts';
 import { createDb } from '#lib/server/db/index.ts';
 import { dataDir } from '../lib/paths.ts';
@@ -355,13 +355,15 @@ async function recordWithBigFile(stack: BenchStack, rows: number): Promise<strin
   }
 }
 
+/** The path of a whole raw file's download (not its thinned drawing copy). */
+const WHOLE_RAW_FILE = /\/api\/v1\/raw-files\/[0-9a-f-]{36}$/;
+
 /**
- * Opens a record page in Debian's Chromium with the CPU slowed `rate` times (CDP
- * Emulation.setCPUThrottlingRate) and collects the main thread's long tasks (PerformanceObserver,
- * entry type "longtask": tasks over 50 ms) while the page loads and draws its raw curve, then
- * while it draws every sample of the file after a click. Also the bytes the page fetched.
+ * Runs `use` on a page of Debian's Chromium (a profile of its own, removed after) with the CPU
+ * slowed `rate` times (CDP Emulation.setCPUThrottlingRate) and the main thread's long tasks
+ * (PerformanceObserver "longtask": over 50 ms) collected in `window.longTasks`.
  */
-async function mainThreadOnRecord(url: string, rate: number) {
+async function inThrottledChromium<T>(rate: number, use: (page: Page) => Promise<T>): Promise<T> {
   const profile = mkdtempSync(path.join(tmpdir(), 'edgewise-bench-chromium-'));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: '/usr/bin/chromium',
@@ -380,11 +382,24 @@ async function mainThreadOnRecord(url: string, rate: number) {
     });
     const cdp = await context.newCDPSession(page);
     await cdp.send('Emulation.setCPUThrottlingRate', { rate });
+    return await use(page);
+  } finally {
+    await context.close();
+    rmSync(profile, { recursive: true, force: true });
+  }
+}
+
+/**
+ * Opens a record page (inThrottledChromium) and collects the main thread's long tasks while the
+ * page loads and draws its raw curve, then while it draws every sample of the file after a click.
+ * Also the bytes the page fetched.
+ */
+async function mainThreadOnRecord(url: string, rate: number) {
+  return inThrottledChromium(rate, async (page) => {
     let fetched = 0;
     const rawDownloads: string[] = [];
     page.on('response', async (res) => {
-      if (/\/api\/v1\/raw-files\/[0-9a-f-]{36}$/.test(new URL(res.url()).pathname))
-        rawDownloads.push(res.url());
+      if (WHOLE_RAW_FILE.test(new URL(res.url()).pathname)) rawDownloads.push(res.url());
       const size = await res
         .body()
         .then((b) => b.byteLength)
@@ -420,39 +435,18 @@ async function mainThreadOnRecord(url: string, rate: number) {
       loadBytes,
       rawOnLoad,
     };
-  } finally {
-    await context.close();
-    rmSync(profile, { recursive: true, force: true });
-  }
+  });
 }
 
 /**
- * Opens the overlay page in Debian's Chromium with the CPU slowed `rate` times, waits until its
- * curves are drawn, and counts the bytes it fetched (decoded and as sent), the whole raw files among them and
- * the main thread's long tasks.
+ * Opens the overlay page (inThrottledChromium), waits until its curves are drawn, and counts the
+ * bytes it fetched (decoded and as sent), the whole raw files among them and the long tasks.
  */
 async function overlayInBrowser(url: string, rate: number) {
-  const profile = mkdtempSync(path.join(tmpdir(), 'edgewise-bench-chromium-'));
-  const context = await chromium.launchPersistentContext(profile, {
-    executablePath: '/usr/bin/chromium',
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run'],
-    headless: true,
-    viewport: { width: 1280, height: 900 },
-  });
-  try {
-    const page = await context.newPage();
-    await page.addInitScript(() => {
-      const w = window as unknown as { longTasks: number[] };
-      w.longTasks = [];
-      new PerformanceObserver((list) => {
-        for (const e of list.getEntries()) w.longTasks.push(e.duration);
-      }).observe({ type: 'longtask', buffered: true });
-    });
-    const cdp = await context.newCDPSession(page);
-    await cdp.send('Emulation.setCPUThrottlingRate', { rate });
+  return inThrottledChromium(rate, async (page) => {
     let rawDownloads = 0;
     page.on('response', (res) => {
-      if (/\/api\/v1\/raw-files\/[0-9a-f-]{36}$/.test(new URL(res.url()).pathname)) rawDownloads++;
+      if (WHOLE_RAW_FILE.test(new URL(res.url()).pathname)) rawDownloads++;
     });
     const t0 = performance.now();
     await page.goto(url, { waitUntil: 'load' });
@@ -485,10 +479,7 @@ async function overlayInBrowser(url: string, rate: number) {
       longest: Math.max(0, ...tasks),
       longTasks: tasks.length,
     };
-  } finally {
-    await context.close();
-    rmSync(profile, { recursive: true, force: true });
-  }
+  });
 }
 
 /** Status, content-encoding and byte count of an answer as it travels (not decoded). */
