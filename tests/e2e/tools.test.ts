@@ -21,57 +21,57 @@ let anodicOnly: string;
 beforeAll(async () => {
   const contributor = await signIn(await makeUser({ role: 'contributor' }));
   const curator = await signIn(await makeUser({ role: 'curator' }));
+  /** An invented LSV study of 0.5 mol/L Li2SO4 in water on a gold disk, at its own pH and limits. */
+  const onGold = (n: number, title: string, pH: number, limits: object, paper: string) => ({
+    title,
+    electrolyte: {
+      solvents: [{ term: 'water', fraction: 1 }],
+      salts: [{ term: 'Li2SO4', concentration: { value: 0.5, basis: 'mol/L' } }],
+      pH,
+    },
+    temperatureC: 25,
+    workingElectrode: { material: 'gold', form: 'disk', geometricAreaCm2: 0.07 },
+    referenceElectrode: 'Ag/AgCl, sat. KCl',
+    cellType: 'three-electrode',
+    method: { kind: 'lsv', scanRateMVs: 1 },
+    criterion: { kind: 'j-area', threshold: 50 },
+    reportedLimits: limits,
+    source: {
+      kind: 'published',
+      doi: `10.5555/ew.tools.${n}`,
+      title: paper,
+      authors: [{ family: 'Noor', given: 'Tamsin' }],
+      containerTitle: 'Journal of Made-up Electrochemistry',
+      year: 2025,
+    },
+  });
   // A published aqueous record at pH 4 for the water chart: limits −0.60 and 0.95 V vs Ag/AgCl (sat. KCl).
-  aqueous = await publishThroughApi(contributor, curator, {
-    title: 'Li2SO4 in water on gold',
-    electrolyte: {
-      solvents: [{ term: 'water', fraction: 1 }],
-      salts: [{ term: 'Li2SO4', concentration: { value: 0.5, basis: 'mol/L' } }],
-      pH: 4,
-    },
-    temperatureC: 25,
-    workingElectrode: { material: 'gold', form: 'disk', geometricAreaCm2: 0.07 },
-    referenceElectrode: 'Ag/AgCl, sat. KCl',
-    cellType: 'three-electrode',
-    method: { kind: 'lsv', scanRateMVs: 1 },
-    criterion: { kind: 'j-area', threshold: 50 },
-    reportedLimits: {
-      cathodic: { valueV: -0.6, reference: 'Ag/AgCl, sat. KCl' },
-      anodic: { valueV: 0.95, reference: 'Ag/AgCl, sat. KCl' },
-    },
-    source: {
-      kind: 'published',
-      doi: '10.5555/ew.tools.1',
-      title: 'An invented aqueous window on gold',
-      authors: [{ family: 'Noor', given: 'Tamsin' }],
-      containerTitle: 'Journal of Made-up Electrochemistry',
-      year: 2025,
-    },
-  });
+  aqueous = await publishThroughApi(
+    contributor,
+    curator,
+    onGold(
+      1,
+      'Li2SO4 in water on gold',
+      4,
+      {
+        cathodic: { valueV: -0.6, reference: 'Ag/AgCl, sat. KCl' },
+        anodic: { valueV: 0.95, reference: 'Ag/AgCl, sat. KCl' },
+      },
+      'An invented aqueous window on gold',
+    ),
+  );
   // One that reports only its anodic limit: drawn with an open cathodic end, never as a window.
-  anodicOnly = await publishThroughApi(contributor, curator, {
-    title: 'Li2SO4 in water on gold, anodic side only',
-    electrolyte: {
-      solvents: [{ term: 'water', fraction: 1 }],
-      salts: [{ term: 'Li2SO4', concentration: { value: 0.5, basis: 'mol/L' } }],
-      pH: 6,
-    },
-    temperatureC: 25,
-    workingElectrode: { material: 'gold', form: 'disk', geometricAreaCm2: 0.07 },
-    referenceElectrode: 'Ag/AgCl, sat. KCl',
-    cellType: 'three-electrode',
-    method: { kind: 'lsv', scanRateMVs: 1 },
-    criterion: { kind: 'j-area', threshold: 50 },
-    reportedLimits: { anodic: { valueV: 0.9, reference: 'Ag/AgCl, sat. KCl' } },
-    source: {
-      kind: 'published',
-      doi: '10.5555/ew.tools.2',
-      title: 'An invented anodic study on gold',
-      authors: [{ family: 'Noor', given: 'Tamsin' }],
-      containerTitle: 'Journal of Made-up Electrochemistry',
-      year: 2025,
-    },
-  });
+  anodicOnly = await publishThroughApi(
+    contributor,
+    curator,
+    onGold(
+      2,
+      'Li2SO4 in water on gold, anodic side only',
+      6,
+      { anodic: { valueV: 0.9, reference: 'Ag/AgCl, sat. KCl' } },
+      'An invented anodic study on gold',
+    ),
+  );
   browser = await openBrowser();
 }, 120_000);
 

@@ -166,13 +166,14 @@ export function electrolyteKind(r: Row, terms: Map<string, IndexTerm> | undefine
   return [salts, solvents].filter(Boolean).join(' in ') + additives;
 }
 
+/** An amount to four significant figures with its basis ("21 mol/kg"). */
+const amountText = (c: { value: number; basis: string }) => `${+c.value.toPrecision(4)} ${c.basis}`;
+
 /** The salt concentrations with their bases ("21 mol/kg"); a different basis is a different number. */
 export function concentrationText(r: Row): string {
   const salts = r.item.content.electrolyte.salts;
   if (salts.length === 0) return 'no salt';
-  return salts
-    .map((s) => `${+s.concentration.value.toPrecision(4)} ${s.concentration.basis}`)
-    .join(' + ');
+  return salts.map((s) => amountText(s.concentration)).join(' + ');
 }
 
 /**
@@ -184,8 +185,7 @@ export function conditionsText(r: Row, terms: Map<string, IndexTerm> | undefined
   const e = c.electrolyte;
   return [
     ...e.additives.map(
-      (a) =>
-        `${shortName(terms, a.term)} ${a.amount ? `${+a.amount.value.toPrecision(4)} ${a.amount.basis}` : 'amount not given'}`,
+      (a) => `${shortName(terms, a.term)} ${a.amount ? amountText(a.amount) : 'amount not given'}`,
     ),
     ...(e.pH !== undefined ? [`pH ${e.pH}`] : []),
     c.temperatureC !== undefined ? `${c.temperatureC} °C` : 'temperature not given',

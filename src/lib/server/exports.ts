@@ -106,12 +106,8 @@ function csvRow(r: SearchItem, origin: string): string {
     evidence_level: r.evidenceLevel,
     limit_kind: r.limitKind,
     solvents: e.solvents.map((s) => `${s.term}:${s.fraction}`).join(' '),
-    salts: e.salts
-      .map((s) => `${s.term}:${s.concentration.value} ${s.concentration.basis}`)
-      .join(' '),
-    additives: e.additives
-      .map((s) => (s.amount ? `${s.term}:${s.amount.value} ${s.amount.basis}` : s.term))
-      .join(' '),
+    salts: e.salts.map((s) => termAmount(s.term, s.concentration)).join(' '),
+    additives: e.additives.map((s) => termAmount(s.term, s.amount)).join(' '),
     salt_concentration: e.salts[0]?.concentration.value,
     salt_basis: e.salts[0]?.concentration.basis,
     water_ppm: e.waterContentPpm,
@@ -154,6 +150,11 @@ function csvRow(r: SearchItem, origin: string): string {
     citation: sourceCitationText(r.content),
   };
   return CSV_COLUMNS.map((c) => csvCell(vals[c])).join(',') + '\r\n';
+}
+
+/** A component and its amount as the CSV writes them ("lipf6:1 mol/L"), the term alone without one. */
+function termAmount(term: string, amount?: { value: number; basis: string }): string {
+  return amount ? `${term}:${amount.value} ${amount.basis}` : term;
 }
 
 /** A recomputed end's number on the export's scale: the limit, or the bound of one not reached. */
