@@ -495,13 +495,18 @@ function isSetpointLabel(label: string): boolean {
   );
 }
 
+/** A column name as the reader compares it: lower case, runs of spaces as one, trimmed. */
+function labelKey(label: string): string {
+  return label.toLowerCase().replace(/\s+/g, ' ').trim();
+}
+
 function scoreColumn(
   q: Quantity,
   label: string,
   unit: string,
   cell: ReadOptions['cell'] = 'three-electrode',
 ): number {
-  const l = label.toLowerCase().replace(/\s+/g, ' ').trim();
+  const l = labelKey(label);
   if (q === 'potential' && COUNTER_ELECTRODE.test(l)) return 0;
   let name = NAME_WORDS[q](l);
   // The potential as measured wins over one corrected for the ohmic drop (said in a warning).
@@ -639,13 +644,13 @@ function resolveColumns(
     parsed &&
     potential &&
     cell !== 'two-electrode' &&
-    CELL_VOLTAGE_NAME.test(parsed[potential.index]!.label.toLowerCase().trim())
+    CELL_VOLTAGE_NAME.test(labelKey(parsed[potential.index]!.label))
   )
     warnings.push(
       `the potentials are read from "${potential.name}", a cell voltage: no working-electrode potential was found; for a three-electrode cell the limits need the working electrode against the reference (for a two-electrode cell, say so and they stay cell voltages)`,
     );
   if (parsed && !potential) {
-    const counter = parsed.findIndex((p) => COUNTER_ELECTRODE.test(p.label.toLowerCase().trim()));
+    const counter = parsed.findIndex((p) => COUNTER_ELECTRODE.test(labelKey(p.label)));
     if (counter >= 0)
       throw new AnalysisError(
         'missing-column',
@@ -655,7 +660,7 @@ function resolveColumns(
   }
 
   if (parsed && !out.some((c) => c.quantity === 'cycle')) {
-    const half = parsed.findIndex((p) => HALF_CYCLE.test(p.label.toLowerCase()));
+    const half = parsed.findIndex((p) => HALF_CYCLE.test(labelKey(p.label)));
     if (half >= 0)
       warnings.push(
         `column "${display(half)}" counts half cycles (one per sweep direction), not cycles: it is left out, and the cycles are found from the potential's turning points`,
@@ -666,8 +671,7 @@ function resolveColumns(
   // without it the analysis takes dt from the scan rate.
   if (parsed && !out.some((c) => c.quantity === 'time')) {
     const i = parsed.findIndex(
-      (p, k) =>
-        !used.has(k) && p.unit !== '' && NAME_WORDS.time(p.label.toLowerCase().trim()) === 2,
+      (p, k) => !used.has(k) && p.unit !== '' && NAME_WORDS.time(labelKey(p.label)) === 2,
     );
     if (i >= 0)
       warnings.push(
